@@ -1,0 +1,129 @@
+// Package analysis turns a canal surface into a measured canal (centerline, frames, radius
+// map, curvature measures) and runs file sequences through it. It is pure computation: no
+// files, no screens. Canal and Result are immutable once built and safe to share.
+package analysis
+
+import (
+	"context"
+	"fmt"
+	"math"
+
+	"github.com/go-gl/mathgl/mgl64"
+
+	"tapersweep/mesh"
+	"tapersweep/models"
+)
+
+// DefaultAngles is the number of directions around each station in the radius map.
+const DefaultAngles = 128
+
+// Canal is one measured canal. Everything the sweep needs is precomputed here once.
+type Canal struct {
+	Name          string
+	Mesh          *mesh.Mesh
+	Wall          *mesh.BVH
+	Line          *Centerline
+	Measures      Measures
+	WorkingLength float64
+	Angles        int
+	// Rho[i*Angles+j] is the distance from station i along direction j (theta = 2 pi j/Angles)
+	// to the wall, mm.
+	Rho []float32
+	// Each wall vertex's own place: arc length and angle (radians, 0..2 pi).
+	VertexS, VertexTheta []float32
+	Voxel                float64  // voxel edge used for the centerline, mm
+	Warnings             []string // about the mesh and the extraction, in plain words
+	// Exact is the known centerline of a parametric canal, sampled every StationSpacing from
+	// the orifice (nil for scans). Kept for checks, never used by the analysis.
+	Exact []mgl64.Vec3
+}
+
+// CanalOptions tune how a canal is measured.
+type CanalOptions struct {
+	Extract       ExtractOptions
+	Angles        int     // 0 = DefaultAngles
+	WorkingLength float64 // mm; 0 = the spec's or the centerline's length
+}
+
+// NewCanal measures a closed canal mesh (in mm).
+func NewCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions) (*Canal, error) {
+	if len(m.Triangles) == 0 {
+		return nil, fmt.Errorf("%s: the mesh has no triangles", name)
+	}
+	c := &Canal{Name: name, Mesh: m, Angles: opt.Angles}
+	if c.Angles <= 0 {
+		c.Angles = DefaultAngles
+	}
+	c.Warnings = append(c.Warnings, mesh.Validate(m).Warnings()...)
+	c.Wall = mesh.NewBVH(m)
+	pts, info, err := extractCenterline(ctx, m, c.Wall, opt.Extract)
+	if err != nil {
+		return nil, fmt.Errorf("%s: centerline: %w", name, err)
+	}
+	c.Voxel = info.voxel
+	c.Warnings = append(c.Warnings, info.warnings...)
+	if len(pts) < 4 {
+		return nil, fmt.Errorf("%s: the canal is shorter than %.2f mm", name, 3*StationSpacing)
+	}
+	c.Line = NewCenterline(pts, StationSpacing, curvatureWindow(info.noise), info.measuredFrom, info.measuredTo)
+	c.Measures = Measure(c.Line)
+	c.WorkingLength = c.Line.Length()
+	if opt.WorkingLength > 0 {
+		c.WorkingLength = opt.WorkingLength
+	}
+	if c.WorkingLength > c.Line.Length()+1e-9 {
+		c.Warnings = append(c.Warnings, fmt.Sprintf(
+			"working length %.2f mm is longer than the canal's centerline (%.2f mm)", c.WorkingLength, c.Line.Length()))
+	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	c.buildRadiusMap()
+	c.placeVertices()
+	return c, nil
+}
+
+// CanalFromSpec builds the mesh of a parametric canal and measures it exactly as a scan would
+// be measured; the exact centerline is kept alongside for checks.
+func CanalFromSpec(ctx context.Context, name string, spec *models.CanalSpec, opt CanalOptions) (*Canal, error) {
+	m := spec.Mesh(StationSpacing, 96)
+	if opt.WorkingLength == 0 {
+		opt.WorkingLength = spec.WorkingLength()
+	}
+	c, err := NewCanal(ctx, name, m, opt)
+	if err != nil {
+		return nil, err
+	}
+	if spec.Name != "" {
+		c.Name = spec.Name
+	}
+	c.Exact, _, _ = spec.Centerline(StationSpacing)
+	return c, nil
+}
+
+// RhoAt is the wall distance at arc length s and angle theta (radians), interpolated
+// bilinearly in the radius map.
+func (c *Canal) RhoAt(s, theta float64) float64 {
+	n := c.Line.Len()
+	fs := math.Max(0, math.Min(s/c.Line.DS, float64(n-1)))
+	i := min(int(fs), n-2)
+	a := fs - float64(i)
+	ft := math.Mod(theta/(2*math.Pi)*float64(c.Angles), float64(c.Angles))
+	if ft < 0 {
+		ft += float64(c.Angles)
+	}
+	j := int(ft) % c.Angles
+	b := ft - math.Floor(ft)
+	j1 := (j + 1) % c.Angles
+	r := func(i, j int) float64 { return float64(c.Rho[i*c.Angles+j]) }
+	return (1-a)*((1-b)*r(i, j)+b*r(i, j1)) + a*((1-b)*r(i+1, j)+b*r(i+1, j1))
+}
+
+// MeanRadius is the mean wall distance at station i.
+func (c *Canal) MeanRadius(i int) float64 {
+	sum := 0.0
+	for _, r := range c.Rho[i*c.Angles : (i+1)*c.Angles] {
+		sum += float64(r)
+	}
+	return sum / float64(c.Angles)
+}

@@ -1,0 +1,112 @@
+package analysis
+
+import (
+	"math"
+	"runtime"
+	"sync"
+
+	"tapersweep/mesh"
+)
+
+// squaredDistance returns, for every voxel of g, the squared Euclidean distance in voxel
+// units from its centre to the centre of the nearest outside voxel (0 outside). It is the
+// exact transform of Felzenszwalb and Huttenlocher, one axis at a time, lines in parallel.
+func squaredDistance(g *mesh.Grid) []float32 {
+	n := g.NX * g.NY * g.NZ
+	d := make([]float32, n)
+	const far = 1e20
+	for i, in := range g.Inside {
+		if in {
+			d[i] = far
+		}
+	}
+	// Axis x: lines indexed by (j,k); stride 1.
+	parallelLines(g.NY*g.NZ, g.NX, func(line int, f, out []float64, v []int, z []float64) {
+		base := line * g.NX
+		edt1D(d, base, 1, g.NX, f, out, v, z)
+	})
+	parallelLines(g.NX*g.NZ, g.NY, func(line int, f, out []float64, v []int, z []float64) {
+		i, k := line%g.NX, line/g.NX
+		edt1D(d, i+g.NX*g.NY*k, g.NX, g.NY, f, out, v, z)
+	})
+	parallelLines(g.NX*g.NY, g.NZ, func(line int, f, out []float64, v []int, z []float64) {
+		edt1D(d, line, g.NX*g.NY, g.NZ, f, out, v, z)
+	})
+	return d
+}
+
+// parallelLines runs fn over lines 0..lines-1 on all cores, giving each worker its own scratch.
+func parallelLines(lines, length int, fn func(line int, f, out []float64, v []int, z []float64)) {
+	workers := runtime.GOMAXPROCS(0)
+	var wg sync.WaitGroup
+	chunk := (lines + workers - 1) / workers
+	for w := 0; w < workers; w++ {
+		lo, hi := w*chunk, min((w+1)*chunk, lines)
+		if lo >= hi {
+			break
+		}
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			f := make([]float64, length)
+			out := make([]float64, length)
+			v := make([]int, length)
+			z := make([]float64, length+1)
+			for line := lo; line < hi; line++ {
+				fn(line, f, out, v, z)
+			}
+		}()
+	}
+	wg.Wait()
+}
+
+// edt1D is the lower envelope of parabolas along one line of d (start, stride, n).
+func edt1D(d []float32, start, stride, n int, f, out []float64, v []int, z []float64) {
+	any := false
+	for q := 0; q < n; q++ {
+		f[q] = float64(d[start+q*stride])
+		if f[q] != 0 {
+			any = true
+		}
+	}
+	if !any {
+		return
+	}
+	k := 0
+	v[0] = 0
+	z[0] = math.Inf(-1)
+	z[1] = math.Inf(1)
+	for q := 1; q < n; q++ {
+		var s float64
+		for {
+			p := v[k]
+			s = ((f[q] + float64(q*q)) - (f[p] + float64(p*p))) / float64(2*(q-p))
+			if s <= z[k] && k > 0 {
+				k--
+				continue
+			}
+			break
+		}
+		if s <= z[k] { // k == 0 and the new parabola dominates everywhere
+			v[0] = q
+			z[0] = math.Inf(-1)
+			z[1] = math.Inf(1)
+			continue
+		}
+		k++
+		v[k] = q
+		z[k] = s
+		z[k+1] = math.Inf(1)
+	}
+	k = 0
+	for q := 0; q < n; q++ {
+		for z[k+1] < float64(q) {
+			k++
+		}
+		dq := float64(q - v[k])
+		out[q] = dq*dq + f[v[k]]
+	}
+	for q := 0; q < n; q++ {
+		d[start+q*stride] = float32(math.Min(out[q], 1e20))
+	}
+}

@@ -1,0 +1,69 @@
+package analysis
+
+import (
+	"bytes"
+	"context"
+	"fmt"
+	"os"
+
+	"tapersweep/mesh"
+	"tapersweep/models"
+)
+
+// LoadOptions say how to read a canal file.
+type LoadOptions struct {
+	Canal    CanalOptions
+	Scale    float64 // multiply STL coordinates (0.001 for micrometres); 0 = 1
+	Progress func(stage string, done, total int64)
+}
+
+// LoadCanal reads a canal from an STL surface or a canal spec (told apart by content) and
+// measures it. Errors name the file.
+func LoadCanal(ctx context.Context, path string, opt LoadOptions) (*Canal, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, err
+	}
+	return LoadCanalBytes(ctx, path, data, opt)
+}
+
+// LoadCanalBytes is LoadCanal for content already in memory (a dropped file, a URI reader).
+func LoadCanalBytes(ctx context.Context, name string, data []byte, opt LoadOptions) (*Canal, error) {
+	if models.IsCanalSpec(data) {
+		spec, err := models.ParseCanalSpec(name, data)
+		if err != nil {
+			return nil, err
+		}
+		if opt.Scale != 0 && opt.Scale != 1 {
+			return nil, fmt.Errorf("%s: --scale applies to STL surfaces; a canal spec is already in mm", name)
+		}
+		return CanalFromSpec(ctx, name, spec, opt.Canal)
+	}
+	lo := mesh.LoadOptions{Scale: opt.Scale}
+	if opt.Progress != nil {
+		lo.Progress = func(done, total int64) { opt.Progress("reading", done, total) }
+	}
+	m, rep, err := mesh.Load(ctx, name, bytes.NewReader(data), int64(len(data)), lo)
+	if err != nil {
+		return nil, err
+	}
+	c, err := NewCanal(ctx, name, m, opt.Canal)
+	if err != nil {
+		return nil, err
+	}
+	c.Warnings = mergeWarnings(rep.Warnings, c.Warnings)
+	return c, nil
+}
+
+// mergeWarnings joins two lists and drops repeats, keeping first-seen order.
+func mergeWarnings(a, b []string) []string {
+	seen := map[string]bool{}
+	var out []string
+	for _, w := range append(append([]string{}, a...), b...) {
+		if !seen[w] {
+			seen[w] = true
+			out = append(out, w)
+		}
+	}
+	return out
+}

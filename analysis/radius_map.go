@@ -1,0 +1,158 @@
+package analysis
+
+import (
+	"math"
+
+	"github.com/go-gl/mathgl/mgl64"
+)
+
+// buildRadiusMap casts, from every station, one ray per angle in the normal plane and keeps the
+// distance to the first wall hit. A ray that finds no wall (a hole, or the very end of the
+// canal) takes the value of the nearest station that found one.
+func (c *Canal) buildRadiusMap() {
+	n, na := c.Line.Len(), c.Angles
+	c.Rho = make([]float32, n*na)
+	cs, sn := make([]float64, na), make([]float64, na)
+	for j := 0; j < na; j++ {
+		th := 2 * math.Pi * float64(j) / float64(na)
+		cs[j], sn[j] = math.Cos(th), math.Sin(th)
+	}
+	reach := 4 * c.Measures.Length
+	parallelFor(n, func(i int) {
+		p, n1, n2 := c.Line.Points[i], c.Line.N1[i], c.Line.N2[i]
+		for j := 0; j < na; j++ {
+			dir := n1.Mul(cs[j]).Add(n2.Mul(sn[j]))
+			if hit, ok := c.Wall.Ray(p, dir, reach); ok {
+				c.Rho[i*na+j] = float32(hit.T)
+			} else {
+				c.Rho[i*na+j] = -1
+			}
+		}
+	})
+	missing := 0
+	for j := 0; j < na; j++ {
+		for i := 0; i < n; i++ {
+			if c.Rho[i*na+j] >= 0 {
+				continue
+			}
+			missing++
+			for d := 1; d < n; d++ {
+				if i-d >= 0 && c.Rho[(i-d)*na+j] >= 0 {
+					c.Rho[i*na+j] = c.Rho[(i-d)*na+j]
+					break
+				}
+				if i+d < n && c.Rho[(i+d)*na+j] >= 0 {
+					c.Rho[i*na+j] = c.Rho[(i+d)*na+j]
+					break
+				}
+			}
+			if c.Rho[i*na+j] < 0 {
+				c.Rho[i*na+j] = 0
+			}
+		}
+	}
+	// The end stations sit on the caps, where grazing rays may miss; only misses inside
+	// the canal mean the wall has a hole.
+	if inner := missing - 2*na; inner > na/4 {
+		c.Warnings = append(c.Warnings, "some rays from the centerline found no wall: the surface may have holes")
+	}
+}
+
+// placeVertices gives every wall vertex its own (s, theta): the nearest point of the
+// centerline, refined onto the neighbouring segment, and the angle in that station's frame.
+func (c *Canal) placeVertices() {
+	line := c.Line
+	nv := len(c.Mesh.Vertices)
+	c.VertexS = make([]float32, nv)
+	c.VertexTheta = make([]float32, nv)
+	maxR := 0.0
+	for _, r := range c.Rho {
+		maxR = math.Max(maxR, float64(r))
+	}
+	cell := math.Max(maxR, 4*line.DS)
+	grid := newPointGrid(line.Points, cell)
+	parallelFor(nv, func(v int) {
+		p := c.Mesh.Vertices[v]
+		i := grid.nearest(p)
+		s := line.S[i]
+		// Refine onto the segment on either side.
+		best := math.Inf(1)
+		for _, k := range []int{i - 1, i} {
+			if k < 0 || k+1 >= line.Len() {
+				continue
+			}
+			a, b := line.Points[k], line.Points[k+1]
+			ab := b.Sub(a)
+			t := math.Max(0, math.Min(1, p.Sub(a).Dot(ab)/ab.Dot(ab)))
+			if d := p.Sub(a.Add(ab.Mul(t))).Len(); d < best {
+				best = d
+				s = line.S[k] + t*(line.S[k+1]-line.S[k])
+			}
+		}
+		q, _, n1, n2 := line.At(s)
+		d := p.Sub(q)
+		th := math.Atan2(d.Dot(n2), d.Dot(n1))
+		if th < 0 {
+			th += 2 * math.Pi
+		}
+		c.VertexS[v] = float32(s)
+		c.VertexTheta[v] = float32(th)
+	})
+}
+
+// pointGrid finds the nearest of a set of points by looking in nearby cells first.
+type pointGrid struct {
+	cell  float64
+	lo    mgl64.Vec3
+	cells map[[3]int][]int32
+	pts   []mgl64.Vec3
+}
+
+func newPointGrid(pts []mgl64.Vec3, cell float64) *pointGrid {
+	g := &pointGrid{cell: cell, lo: pts[0], cells: map[[3]int][]int32{}, pts: pts}
+	for i, p := range pts {
+		k := g.key(p)
+		g.cells[k] = append(g.cells[k], int32(i))
+	}
+	return g
+}
+
+func (g *pointGrid) key(p mgl64.Vec3) [3]int {
+	d := p.Sub(g.lo).Mul(1 / g.cell)
+	return [3]int{int(math.Floor(d[0])), int(math.Floor(d[1])), int(math.Floor(d[2]))}
+}
+
+// nearest searches rings of cells outward until a ring cannot hold anything closer.
+func (g *pointGrid) nearest(p mgl64.Vec3) int {
+	k := g.key(p)
+	best, bd := 0, math.Inf(1)
+	for r := 0; r < 1<<20; r++ {
+		if float64(r-1)*g.cell > bd {
+			break
+		}
+		for dx := -r; dx <= r; dx++ {
+			for dy := -r; dy <= r; dy++ {
+				for dz := -r; dz <= r; dz++ {
+					if max(abs(dx), abs(dy), abs(dz)) != r {
+						continue
+					}
+					for _, i := range g.cells[[3]int{k[0] + dx, k[1] + dy, k[2] + dz}] {
+						if d := g.pts[i].Sub(p).Len(); d < bd || (d == bd && int(i) < best) {
+							best, bd = int(i), d
+						}
+					}
+				}
+			}
+		}
+		if r > 64 && math.IsInf(bd, 1) {
+			// Far from every station: fall back to a full scan.
+			for i, q := range g.pts {
+				if d := q.Sub(p).Len(); d < bd {
+					best, bd = i, d
+				}
+			}
+			break
+		}
+	}
+	return best
+}

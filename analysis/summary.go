@@ -1,0 +1,76 @@
+package analysis
+
+import "math"
+
+// CanalSummary is the canal as every output states it (CLI JSON, CSV, report, window).
+// Values that do not exist (the radius of a straight canal) are null, never Inf.
+type CanalSummary struct {
+	Name            string      `json:"name"`
+	LengthMM        float64     `json:"length_mm"`
+	WorkingLengthMM float64     `json:"working_length_mm"`
+	MaxCurvature    PlaceRadius `json:"max_curvature"`
+	SchneiderDeg    float64     `json:"schneider_angle_deg"`
+	Arc             Arc         `json:"arc"`
+	VoxelMM         float64     `json:"voxel_mm"`
+	Orifice         [3]float64  `json:"orifice"`
+	ApicalEnd       [3]float64  `json:"apical_end"`
+	Warnings        []string    `json:"warnings"`
+	// Points run from the orifice to the apical end: x, y, z in the file's own coordinates and s.
+	Points [][4]float64 `json:"points,omitempty"`
+}
+
+// PlaceRadius is where the canal bends most and how tightly.
+type PlaceRadius struct {
+	SMM        float64  `json:"s_mm"`
+	FromApexMM float64  `json:"from_apex_mm"`
+	RadiusMM   *float64 `json:"radius_mm"`
+}
+
+// Arc is the circle fitted to the curved part.
+type Arc struct {
+	RadiusMM *float64 `json:"radius_mm"`
+	AngleDeg float64  `json:"angle_deg"`
+}
+
+// finite returns nil for values that do not exist (Inf or NaN), so JSON shows null.
+func finite(v float64) *float64 {
+	if math.IsInf(v, 0) || math.IsNaN(v) {
+		return nil
+	}
+	return &v
+}
+
+// Summary states the canal's measures; points are included on request.
+func (c *Canal) Summary(withPoints bool) CanalSummary {
+	m := c.Measures
+	n := c.Line.Len()
+	s := CanalSummary{
+		Name:            c.Name,
+		LengthMM:        round(m.Length, 3),
+		WorkingLengthMM: round(c.WorkingLength, 3),
+		MaxCurvature: PlaceRadius{SMM: round(m.MaxCurvatureS, 3), FromApexMM: round(m.Length-m.MaxCurvatureS, 3),
+			RadiusMM: finite(round(m.MaxCurvatureR, 3))},
+		SchneiderDeg: round(m.SchneiderDeg, 2),
+		Arc:          Arc{RadiusMM: finite(round(m.ArcRadius, 3)), AngleDeg: round(m.ArcAngleDeg, 2)},
+		VoxelMM:      round(c.Voxel, 4),
+		Orifice:      [3]float64(c.Line.Points[0]),
+		ApicalEnd:    [3]float64(c.Line.Points[n-1]),
+		Warnings:     append([]string{}, c.Warnings...),
+	}
+	if withPoints {
+		s.Points = make([][4]float64, n)
+		for i, p := range c.Line.Points {
+			s.Points[i] = [4]float64{round(p[0], 4), round(p[1], 4), round(p[2], 4), round(c.Line.S[i], 4)}
+		}
+	}
+	return s
+}
+
+// round keeps outputs readable and stable across machines; Inf and NaN pass through.
+func round(v float64, digits int) float64 {
+	if math.IsInf(v, 0) || math.IsNaN(v) {
+		return v
+	}
+	p := math.Pow(10, float64(digits))
+	return math.Round(v*p) / p
+}

@@ -1,0 +1,64 @@
+package main
+
+import (
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"strings"
+)
+
+// command is one headless subcommand. Every command parses its flags the same way, prints
+// help with an example on --help, and exits 0 (fine), 1 (bad input) or 2 (usage).
+type command struct {
+	name    string
+	summary string
+	usage   string // the synopsis after "tapersweep NAME"
+	example string
+	flags   func(fs *flag.FlagSet) func(stdout, stderr io.Writer) int
+}
+
+func commands() []command {
+	return []command{centerlineCommand()}
+}
+
+// run parses args and calls the command's body.
+func (c command) run(args []string, stdout, stderr io.Writer) int {
+	fs := flag.NewFlagSet(c.name, flag.ContinueOnError)
+	fs.SetOutput(io.Discard)
+	body := c.flags(fs)
+	help := func(w io.Writer) {
+		fmt.Fprintf(w, "Usage: tapersweep %s %s\n\n%s\n\nFlags:\n", c.name, c.usage, c.summary)
+		fs.SetOutput(w)
+		fs.PrintDefaults()
+		fs.SetOutput(io.Discard)
+		fmt.Fprintf(w, "\nExample:\n  %s\n", c.example)
+	}
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			help(stdout)
+			return exitOK
+		}
+		fmt.Fprintf(stderr, "tapersweep %s: %v\n\n", c.name, err)
+		help(stderr)
+		return exitUsage
+	}
+	if fs.NArg() > 0 {
+		fmt.Fprintf(stderr, "tapersweep %s: unexpected argument %q\n\n", c.name, strings.Join(fs.Args(), " "))
+		help(stderr)
+		return exitUsage
+	}
+	return body(stdout, stderr)
+}
+
+// usageError reports a missing or wrong flag value.
+func usageError(stderr io.Writer, cmd, format string, a ...any) int {
+	fmt.Fprintf(stderr, "tapersweep %s: %s (see tapersweep %s --help)\n", cmd, fmt.Sprintf(format, a...), cmd)
+	return exitUsage
+}
+
+// inputError reports bad input (a file that cannot be read or understood).
+func inputError(stderr io.Writer, cmd string, err error) int {
+	fmt.Fprintf(stderr, "tapersweep %s: %v\n", cmd, err)
+	return exitBadInput
+}

@@ -1,0 +1,57 @@
+// Command tapersweep opens the window by default; subcommands do the same work headless.
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"strings"
+)
+
+func main() {
+	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+}
+
+// Exit codes shared by every subcommand.
+const (
+	exitOK       = 0
+	exitBadInput = 1
+	exitUsage    = 2
+)
+
+// run dispatches to a subcommand, or opens the window when the first word is not one.
+func run(args []string, stdout, stderr io.Writer) int {
+	if len(args) == 0 || strings.HasPrefix(args[0], "-") && args[0] != "-h" && args[0] != "--help" && args[0] != "-help" {
+		return runWindow(args, stderr)
+	}
+	name := args[0]
+	if name == "-h" || name == "--help" || name == "-help" || name == "help" {
+		printOverview(stdout)
+		return exitOK
+	}
+	for _, c := range commands() {
+		if c.name == name {
+			return c.run(args[1:], stdout, stderr)
+		}
+	}
+	fmt.Fprintf(stderr, "tapersweep: unknown command %q\n\n", name)
+	printOverview(stderr)
+	return exitUsage
+}
+
+func printOverview(w io.Writer) {
+	fmt.Fprintln(w, "tapersweep: how tapered files meet the wall of a root canal.")
+	fmt.Fprintln(w, "\nUsage:\n  tapersweep [--canal PATH] [--sequence PATH]   open the window (the demo canal when no canal is given)")
+	fmt.Fprintln(w, "  tapersweep COMMAND [flags]                      work headless")
+	fmt.Fprintln(w, "\nCommands:")
+	for _, c := range commands() {
+		fmt.Fprintf(w, "  %-11s %s\n", c.name, c.summary)
+	}
+	fmt.Fprintln(w, "\nRun 'tapersweep COMMAND --help' for the flags of one command.")
+	fmt.Fprintln(w, "\n"+cautionText)
+}
+
+// cautionText is the safety wording every report and the About box carry.
+const cautionText = "The figures are model estimates from a surface scan and stated material parameters, " +
+	"not a guarantee against file separation, ledging or perforation; clinical decisions follow the " +
+	"clinician's judgement, the maker's directions for use and local regulations and licensed practice."
