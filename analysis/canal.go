@@ -32,6 +32,9 @@ type Canal struct {
 	// Each wall vertex's own place: arc length and angle (radians, 0..2 pi).
 	VertexS, VertexTheta []float32
 	Voxel                float64  // voxel edge used for the centerline, mm
+	// SurfaceDetail is the median edge of the wall's triangles, mm: for a segmented scan about
+	// its voxel size. 0 for parametric canals, whose mesh detail is ours.
+	SurfaceDetail float64
 	Warnings             []string // about the mesh and the extraction, in plain words
 	// Exact is the known centerline of a parametric canal, sampled every StationSpacing from
 	// the orifice (nil for scans). Kept for checks, never used by the analysis.
@@ -61,6 +64,7 @@ func NewCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions) 
 		return nil, fmt.Errorf("%s: centerline: %w", name, err)
 	}
 	c.Voxel = info.voxel
+	c.SurfaceDetail = info.noise
 	c.Warnings = append(c.Warnings, info.warnings...)
 	if len(pts) < 4 {
 		return nil, fmt.Errorf("%s: the canal is shorter than %.2f mm", name, 3*StationSpacing)
@@ -70,6 +74,11 @@ func NewCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions) 
 	c.WorkingLength = c.Line.Length()
 	if opt.WorkingLength > 0 {
 		c.WorkingLength = opt.WorkingLength
+	}
+	// A working length a hair beyond the measured centerline (a spec's exact length against the
+	// extracted one) is the apical end.
+	if over := c.WorkingLength - c.Line.Length(); over > 0 && over < 0.1 {
+		c.WorkingLength = c.Line.Length()
 	}
 	if c.WorkingLength > c.Line.Length()+1e-9 {
 		c.Warnings = append(c.Warnings, fmt.Sprintf(
@@ -98,6 +107,7 @@ func CanalFromSpec(ctx context.Context, name string, spec *models.CanalSpec, opt
 		c.Name = spec.Name
 	}
 	c.Exact, _, _ = spec.Centerline(StationSpacing)
+	c.SurfaceDetail = 0
 	return c, nil
 }
 

@@ -19,6 +19,9 @@ type Centerline struct {
 	T      []mgl64.Vec3
 	N1, N2 []mgl64.Vec3
 	K      []float64 // curvature, 1/mm
+	// KN1, KN2 are the curvature vector dT/ds in the frame: the wall at angle theta lies on the
+	// inner side of the local bend where KN1 cos(theta) + KN2 sin(theta) > 0.
+	KN1, KN2 []float64
 	DS     float64
 	window int // half-width of the curvature fit, in stations
 }
@@ -118,8 +121,15 @@ func (c *Centerline) frames(d2 []mgl64.Vec3) {
 	for i := peak - 1; i >= 0; i-- {
 		c.N1[i] = transport(c.N1[i+1], c.T[i+1], c.T[i])
 	}
+	c.KN1 = make([]float64, n)
+	c.KN2 = make([]float64, n)
 	for i := range c.N1 {
 		c.N2[i] = c.T[i].Cross(c.N1[i])
+		kv := d2[i].Sub(c.T[i].Mul(d2[i].Dot(c.T[i])))
+		if l := kv.Len(); l > 0 {
+			kv = kv.Mul(c.K[i] / l)
+		}
+		c.KN1[i], c.KN2[i] = kv.Dot(c.N1[i]), kv.Dot(c.N2[i])
 	}
 }
 

@@ -29,6 +29,22 @@ func (c *Canal) buildRadiusMap() {
 			}
 		}
 	})
+	// The end stations lie on the end caps, where rays graze the cap itself: they take the
+	// wall of their inner neighbours.
+	L, zone := c.Line.Length(), 0.6*c.Line.DS
+	first, last := 0, n-1
+	for first < n-1 && c.Line.S[first] < zone {
+		first++
+	}
+	for last > first && c.Line.S[last] > L-zone {
+		last--
+	}
+	for i := 0; i < first; i++ {
+		copy(c.Rho[i*na:(i+1)*na], c.Rho[first*na:(first+1)*na])
+	}
+	for i := last + 1; i < n; i++ {
+		copy(c.Rho[i*na:(i+1)*na], c.Rho[last*na:(last+1)*na])
+	}
 	missing := 0
 	for j := 0; j < na; j++ {
 		for i := 0; i < n; i++ {
@@ -51,9 +67,8 @@ func (c *Canal) buildRadiusMap() {
 			}
 		}
 	}
-	// The end stations sit on the caps, where grazing rays may miss; only misses inside
-	// the canal mean the wall has a hole.
-	if inner := missing - 2*na; inner > na/4 {
+	// Misses inside the canal mean the wall has a hole.
+	if missing > na/4 {
 		c.Warnings = append(c.Warnings, "some rays from the centerline found no wall: the surface may have holes")
 	}
 }

@@ -19,7 +19,7 @@ type command struct {
 }
 
 func commands() []command {
-	return []command{centerlineCommand()}
+	return []command{centerlineCommand(), analyzeCommand()}
 }
 
 // run parses args and calls the command's body.

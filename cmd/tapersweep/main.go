@@ -2,6 +2,7 @@
 package main
 
 import (
+	"tapersweep/analysis"
 	"fmt"
 	"io"
 	"os"
@@ -52,6 +53,4 @@ func printOverview(w io.Writer) {
 }
 
 // cautionText is the safety wording every report and the About box carry.
-const cautionText = "The figures are model estimates from a surface scan and stated material parameters, " +
-	"not a guarantee against file separation, ledging or perforation; clinical decisions follow the " +
-	"clinician's judgement, the maker's directions for use and local regulations and licensed practice."
+var cautionText = analysis.Caution

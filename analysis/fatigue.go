@@ -1,0 +1,96 @@
+package analysis
+
+import (
+	"math"
+
+	"tapersweep/models"
+)
+
+// fatigueResult is Miner's damage along the file after its insertion schedule.
+type fatigueResult struct {
+	damage      []float64 // per material point u = k*ds from the tip
+	peak        float64
+	peakU       float64
+	fractured   bool
+	fractureU   float64 // material point that reached damage 1 first, mm from the tip
+	fractureT   float64 // time into the schedule, s
+	fractureTip float64 // tip depth then, mm from the orifice
+	revolutions float64
+	time        float64
+}
+
+// fatigue sums damage = revolutions / N(strain) over the schedule for every material point
+// (Miner, J Appl Mech 1945). The strain of a point is d(u) k(s) / 2 where it sits in the canal.
+// Below the recoverable strain N follows eps = C N^-b, so 1/N = (d/(2C))^(1/b) k^(1/b) splits
+// into a factor of the file and a factor of the canal; above it, N is the alloy's few cycles.
+// Cycles to failure do not depend on rpm (Pruett et al. 1997); rpm only sets revolutions.
+func fatigue(line *Centerline, in models.Instrument, alloy models.Alloy, moves []move, rpm float64) fatigueResult {
+	ds := line.DS
+	n := line.Len()
+	var far float64
+	for _, m := range moves {
+		far = math.Max(far, math.Max(m.from, m.to))
+	}
+	kmax := min(n-1, int(math.Ceil(far/ds)))
+	res := fatigueResult{damage: make([]float64, kmax+1)}
+	inv := 1 / alloy.StrainLifeB
+	fileF := make([]float64, kmax+1) // (d/(2C))^(1/b)
+	limitK := make([]float64, kmax+1)
+	for k := range fileF {
+		d := in.Diameter(float64(k) * ds)
+		fileF[k] = math.Pow(d/(2*alloy.StrainLifeC), inv)
+		limitK[k] = math.Inf(1)
+		if d > 0 {
+			limitK[k] = 2 * alloy.RecoverableStrain / d
+		}
+	}
+	canalF := make([]float64, n) // k^(1/b)
+	for i, k := range line.K {
+		canalF[i] = math.Pow(k, inv)
+	}
+	above := 1 / math.Max(alloy.CyclesAboveLimit, 1e-9)
+	revsPerSecond := rpm / 60
+	t := 0.0
+	// The tip visits stations one by one; each visit spends ds/speed seconds.
+	for _, m := range moves {
+		steps := int(math.Round(math.Abs(m.to-m.from) / ds))
+		if steps == 0 {
+			continue
+		}
+		dir := 1
+		if m.to < m.from {
+			dir = -1
+		}
+		start := int(math.Round(m.from / ds))
+		dt := math.Abs(m.to-m.from) / float64(steps) / m.speed
+		revs := revsPerSecond * dt
+		for st := 1; st <= steps; st++ {
+			tip := min(start+dir*st, kmax)
+			t += dt
+			res.revolutions += revs
+			for k := 0; k <= tip; k++ {
+				i := tip - k
+				var dmg float64
+				if line.K[i] >= limitK[k] {
+					dmg = revs * above
+				} else {
+					dmg = revs * fileF[k] * canalF[i]
+				}
+				res.damage[k] += dmg
+				if !res.fractured && res.damage[k] >= 1 {
+					res.fractured = true
+					res.fractureU = float64(k) * ds
+					res.fractureT = t
+					res.fractureTip = float64(tip) * ds
+				}
+			}
+		}
+	}
+	res.time = t
+	for k, d := range res.damage {
+		if d > res.peak {
+			res.peak, res.peakU = d, float64(k)*ds
+		}
+	}
+	return res
+}

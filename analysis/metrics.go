@@ -1,0 +1,123 @@
+package analysis
+
+// StepMetrics is one step as every output states it (CLI JSON and CSV, report, window).
+// Values that do not exist are null: no torsional margin without engagement, no diameter at
+// the point of greatest curvature when the file does not reach it, no fracture point when no
+// material point reaches a damage of 1.
+type StepMetrics struct {
+	Step          int     `json:"step"` // from 1
+	Label         string  `json:"label"`
+	Alloy         string  `json:"alloy"`
+	TipDepthMM    float64 `json:"tip_depth_mm"`
+	TipFromApexMM float64 `json:"tip_from_apex_mm"`
+
+	EngagedLengthMM  float64    `json:"engaged_length_mm"`
+	EngagedFromTipMM [2]float64 `json:"engaged_from_tip_mm"` // the engaged zone, mm from the tip
+	EngagedAreaMM2   float64    `json:"engaged_area_mm2"`
+	RemovedVolumeMM3 float64    `json:"removed_volume_mm3"`
+	MaxDepthOfCutMM  float64    `json:"max_depth_of_cut_mm"`
+	UntouchedWallPct float64    `json:"untouched_wall_pct"`
+
+	DiameterAtMaxCurvatureMM *float64 `json:"diameter_at_max_curvature_mm"`
+	StrainAtMaxCurvaturePct  *float64 `json:"strain_at_max_curvature_pct"`
+	PeakStrainPct            float64  `json:"peak_strain_pct"`
+	PeakStrainFromTipMM      float64  `json:"peak_strain_from_tip_mm"`
+
+	FatigueDamage       float64  `json:"fatigue_damage"` // Miner's sum at the most used point; 1 = fracture
+	PeakDamageFromTipMM float64  `json:"peak_damage_from_tip_mm"`
+	FractureFromTipMM   *float64 `json:"fracture_from_tip_mm"`
+	FractureTimeS       *float64 `json:"fracture_time_s"`
+	FractureTipDepthMM  *float64 `json:"fracture_tip_depth_mm"`
+	ScheduleTimeS       float64  `json:"schedule_time_s"`
+	Revolutions         float64  `json:"revolutions"`
+
+	TorsionMargin          *float64 `json:"torsion_margin"` // capacity over load at the weakest section
+	TorsionMarginFromTipMM *float64 `json:"torsion_margin_from_tip_mm"`
+	PeakTorqueIndex        float64  `json:"peak_torque_index"` // N*cm at the illustrative cutting coefficient
+	CapacityAt3mmNcm       float64  `json:"capacity_at_3mm_ncm"`
+	TorqueLimitNcm         *float64 `json:"torque_limit_ncm"`
+
+	Advice []Advice `json:"advice"`
+}
+
+// Advice is common practice shown as advice, never as a verdict.
+type Advice struct {
+	Code string `json:"code"`
+	Text string `json:"text"`
+}
+
+// roundMetrics keeps outputs stable across machines.
+func roundMetrics(m *StepMetrics) {
+	r := func(v *float64, d int) { *v = round(*v, d) }
+	rp := func(v *float64, d int) {
+		if v != nil {
+			*v = round(*v, d)
+		}
+	}
+	r(&m.TipDepthMM, 3)
+	r(&m.TipFromApexMM, 3)
+	r(&m.EngagedLengthMM, 3)
+	r(&m.EngagedFromTipMM[0], 3)
+	r(&m.EngagedFromTipMM[1], 3)
+	r(&m.EngagedAreaMM2, 4)
+	r(&m.RemovedVolumeMM3, 5)
+	r(&m.MaxDepthOfCutMM, 4)
+	r(&m.UntouchedWallPct, 2)
+	rp(m.DiameterAtMaxCurvatureMM, 4)
+	rp(m.StrainAtMaxCurvaturePct, 3)
+	r(&m.PeakStrainPct, 3)
+	r(&m.PeakStrainFromTipMM, 3)
+	r(&m.FatigueDamage, 5)
+	r(&m.PeakDamageFromTipMM, 3)
+	rp(m.FractureFromTipMM, 3)
+	rp(m.FractureTimeS, 2)
+	rp(m.FractureTipDepthMM, 3)
+	r(&m.ScheduleTimeS, 2)
+	r(&m.Revolutions, 1)
+	rp(m.TorsionMargin, 3)
+	rp(m.TorsionMarginFromTipMM, 3)
+	r(&m.PeakTorqueIndex, 4)
+	r(&m.CapacityAt3mmNcm, 4)
+}
+
+// ResultSummary is the whole run as `analyze --format json` prints it.
+type ResultSummary struct {
+	Canal    CanalSummary  `json:"canal"`
+	Model    ModelSummary  `json:"model"`
+	Steps    []StepMetrics `json:"steps"`
+	Warnings []string      `json:"warnings"`
+	Caution  string        `json:"caution"`
+}
+
+// ModelSummary states the settings behind the figures.
+type ModelSummary struct {
+	PathModel                 string  `json:"path_model"`
+	ContactThresholdMM        float64 `json:"contact_threshold_mm"`
+	CuttingCoefficientNPerMM2 float64 `json:"cutting_coefficient_n_per_mm2"`
+	Note                      string  `json:"note"`
+}
+
+// Caution is the safety wording every report and the About box carry.
+const Caution = "The figures are model estimates from a surface scan and stated material parameters, " +
+	"not a guarantee against file separation, ledging or perforation; clinical decisions follow the " +
+	"clinician's judgement, the maker's directions for use and local regulations and licensed practice."
+
+// Summary states the run.
+func (r *Result) Summary() ResultSummary {
+	out := ResultSummary{
+		Canal: r.Canal.Summary(false),
+		Model: ModelSummary{
+			PathModel:                 "centred",
+			ContactThresholdMM:        r.Options.ContactThreshold,
+			CuttingCoefficientNPerMM2: r.Options.CuttingCoefficient,
+			Note: "built-in alloy parameters and the cutting coefficient are illustrative; " +
+				"torque and fatigue figures compare steps, they are not measurements",
+		},
+		Warnings: append([]string{}, r.Warnings...),
+		Caution:  Caution,
+	}
+	for _, s := range r.Steps {
+		out.Steps = append(out.Steps, s.Metrics)
+	}
+	return out
+}

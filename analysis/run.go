@@ -1,0 +1,289 @@
+package analysis
+
+import (
+	"context"
+	"fmt"
+	"math"
+
+	"tapersweep/models"
+)
+
+// RunOptions are the model's settings that are not part of a sequence.
+type RunOptions struct {
+	// ContactThreshold is the depth of cut, mm, below which a cell counts as untouched: one
+	// threshold serves numbers and colours alike.
+	ContactThreshold float64
+	// CuttingCoefficient c_t, N/mm2: cutting torque per engaged cell is c_t * r * dA. An
+	// illustrative setting: torques scale with it, margins and comparisons between steps hold.
+	CuttingCoefficient float64
+}
+
+// Defaults of RunOptions.
+const (
+	DefaultContactThreshold   = 0.005
+	DefaultCuttingCoefficient = 2.0
+)
+
+func (o RunOptions) withDefaults() RunOptions {
+	if o.ContactThreshold <= 0 {
+		o.ContactThreshold = DefaultContactThreshold
+	}
+	if o.CuttingCoefficient <= 0 {
+		o.CuttingCoefficient = DefaultCuttingCoefficient
+	}
+	return o
+}
+
+// Result is a sequence run through one canal. It is immutable once built.
+type Result struct {
+	Canal    *Canal
+	Sequence *models.Sequence
+	Options  RunOptions
+	Steps    []*StepResult
+	Warnings []string
+}
+
+// StepResult is what one file does. Maps are station-major like Canal.Rho.
+type StepResult struct {
+	Number   int // from 1
+	Step     models.Step
+	Alloy    models.Alloy
+	TipDepth float64 // mm from the orifice
+	// FileRadius[i] is the file's radius at station i (0 beyond its tip).
+	FileRadius []float32
+	// Before is the canal as the earlier steps left it; Cut is the depth of cut against it;
+	// Prepared is the canal after this step.
+	Before, Cut, Prepared []float32
+	// Along the file, per material point u = k * DS from the tip (as far as the tip went):
+	Strain   []float64 // outer-fibre strain with the tip at the target depth (fraction)
+	Damage   []float64 // Miner's sum over the insertion schedule
+	Torque   []float64 // torque carried by the section, N*cm
+	Capacity []float64 // torque the section can carry, N*cm
+	Metrics  StepMetrics
+}
+
+// Run sweeps each file of the sequence through the canal in turn. Step N's depth of cut is
+// measured against the canal as steps 1..N-1 left it.
+func Run(ctx context.Context, c *Canal, seq *models.Sequence, opt RunOptions) (*Result, error) {
+	opt = opt.withDefaults()
+	if seq.PathModel == models.PathElastic {
+		return nil, fmt.Errorf("%s: path_model \"elastic\" is not available yet; use \"centred\"", seqName(seq))
+	}
+	if err := seq.CheckDepths(c.Line.Length(), c.WorkingLength); err != nil {
+		return nil, err
+	}
+	res := &Result{Canal: c, Sequence: seq, Options: opt}
+	res.Warnings = append(res.Warnings, seq.Warnings...)
+	before := c.Rho
+	geo := newCellGeometry(c)
+	for k, st := range seq.Steps {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		alloy, ok := seq.Alloy(st.AlloyName)
+		if !ok {
+			alloy = st.Instrument.Alloy
+		}
+		sr := runStep(c, geo, st, alloy, before, opt)
+		sr.Number = k + 1
+		sr.Metrics.Step = k + 1
+		sr.Metrics.Alloy = st.AlloyName
+		res.Steps = append(res.Steps, sr)
+		before = sr.Prepared
+	}
+	addAdvice(res)
+	return res, nil
+}
+
+func seqName(seq *models.Sequence) string {
+	if seq.Name != "" {
+		return seq.Name
+	}
+	return "sequence"
+}
+
+// cellGeometry holds per-station and per-angle factors every step needs.
+type cellGeometry struct {
+	cos, sin []float64
+	dTheta   float64
+	weight   []float64 // trapezoid length of each station, mm
+}
+
+func newCellGeometry(c *Canal) *cellGeometry {
+	g := &cellGeometry{dTheta: 2 * math.Pi / float64(c.Angles)}
+	g.cos = make([]float64, c.Angles)
+	g.sin = make([]float64, c.Angles)
+	for j := range g.cos {
+		th := float64(j) * g.dTheta
+		g.cos[j], g.sin[j] = math.Cos(th), math.Sin(th)
+	}
+	s := c.Line.S
+	n := len(s)
+	g.weight = make([]float64, n)
+	for i := range s {
+		lo, hi := s[max(0, i-1)], s[min(n-1, i+1)]
+		g.weight[i] = (hi - lo) / 2
+	}
+	return g
+}
+
+// runStep sweeps one file with its tip at the target depth.
+func runStep(c *Canal, g *cellGeometry, st models.Step, alloy models.Alloy, before []float32, opt RunOptions) *StepResult {
+	line := c.Line
+	n, na := line.Len(), c.Angles
+	in := st.Instrument
+	D := math.Min(st.Depth.Resolve(c.WorkingLength), line.Length())
+	sr := &StepResult{Step: st, Alloy: alloy, TipDepth: D, Before: before}
+	sr.FileRadius = make([]float32, n)
+	sr.Cut = make([]float32, n*na)
+	sr.Prepared = append([]float32(nil), before...)
+	tip := -1 // the last station the file reaches
+	for i := 0; i < n && line.S[i] <= D+1e-9; i++ {
+		sr.FileRadius[i] = float32(in.Diameter(D-line.S[i]) / 2)
+		tip = i
+	}
+	m := &sr.Metrics
+	m.Label, m.TipDepthMM, m.TipFromApexMM = in.Label(), D, line.Length()-D
+	thr := opt.ContactThreshold
+	cellTorque := make([]float64, n) // N*mm per station
+	firstEngaged, lastEngaged := -1, -1
+	for i := 0; i <= tip; i++ {
+		r := float64(sr.FileRadius[i])
+		w := g.weight[i]
+		if i == tip {
+			// The tip's cell ends at the tip.
+			w = math.Max(0, math.Min(w, D-line.S[i]+g.weight[i]/2))
+		}
+		kc, ks := line.KN1[i], line.KN2[i]
+		engaged := false
+		for j := 0; j < na; j++ {
+			idx := i*na + j
+			rho := float64(before[idx])
+			e := r - rho
+			if e <= 0 {
+				continue
+			}
+			sr.Cut[idx] = float32(e)
+			sr.Prepared[idx] = float32(r)
+			if e <= thr {
+				continue
+			}
+			engaged = true
+			bend := kc*g.cos[j] + ks*g.sin[j]
+			dA := r * (1 - bend*r) * g.dTheta * w
+			m.EngagedAreaMM2 += dA
+			m.RemovedVolumeMM3 += ((r*r-rho*rho)/2 - bend*(r*r*r-rho*rho*rho)/3) * g.dTheta * w
+			m.MaxDepthOfCutMM = math.Max(m.MaxDepthOfCutMM, e)
+			cellTorque[i] += opt.CuttingCoefficient * r * dA
+		}
+		if engaged {
+			if firstEngaged < 0 {
+				firstEngaged = i
+			}
+			lastEngaged = i
+		}
+	}
+	if firstEngaged >= 0 {
+		m.EngagedLengthMM = line.S[lastEngaged] - line.S[firstEngaged]
+		m.EngagedFromTipMM = [2]float64{D - line.S[lastEngaged], D - line.S[firstEngaged]}
+	}
+	m.UntouchedWallPct = untouchedShare(c, g, sr.Prepared, thr)
+	strainAndFatigue(c, sr, tip)
+	torsion(sr, line, cellTorque, tip)
+	roundMetrics(m)
+	return sr
+}
+
+// untouchedShare is the share of the wall area, orifice to working length, that no file has
+// cut deeper than the contact threshold so far (a standard micro-CT outcome).
+func untouchedShare(c *Canal, g *cellGeometry, prepared []float32, thr float64) float64 {
+	var total, untouched float64
+	na := c.Angles
+	last := c.Line.Station(c.WorkingLength)
+	for i := 0; i <= last; i++ {
+		kc, ks := c.Line.KN1[i], c.Line.KN2[i]
+		for j := 0; j < na; j++ {
+			rho := float64(c.Rho[i*na+j])
+			a := rho * math.Max(0, 1-(kc*g.cos[j]+ks*g.sin[j])*rho) * g.weight[i]
+			total += a
+			if float64(prepared[i*na+j])-rho <= thr {
+				untouched += a
+			}
+		}
+	}
+	if total == 0 {
+		return 100
+	}
+	return 100 * untouched / total
+}
+
+// strainAndFatigue fills strain along the file at the target depth, the diameter and strain at
+// the point of greatest curvature, and Miner's damage over the insertion schedule.
+func strainAndFatigue(c *Canal, sr *StepResult, tip int) {
+	line, m, in := c.Line, &sr.Metrics, sr.Step.Instrument
+	D := sr.TipDepth
+	sr.Strain = make([]float64, tip+1)
+	for k := 0; k <= tip; k++ {
+		i := tip - k
+		// Outer-fibre bending strain d k / 2 (beam theory); the section's shape does not change
+		// it when its edges lie on the circle of diameter d.
+		e := in.Diameter(D-line.S[i]) * line.K[i] / 2
+		sr.Strain[k] = e
+		if e > m.PeakStrainPct/100 {
+			m.PeakStrainPct = 100 * e
+			m.PeakStrainFromTipMM = D - line.S[i]
+		}
+	}
+	sStar := c.Measures.MaxCurvatureS
+	if D >= sStar {
+		d := in.Diameter(D - sStar)
+		k := line.K[line.Station(sStar)]
+		m.DiameterAtMaxCurvatureMM = finite(d)
+		m.StrainAtMaxCurvaturePct = finite(100 * d * k / 2)
+	}
+	moves := insertionSchedule(D, sr.Step.PeckMM, sr.Step.RetractMM, sr.Step.AdvanceMMs)
+	f := fatigue(line, in, sr.Alloy, moves, sr.Step.RPM)
+	sr.Damage = f.damage
+	m.FatigueDamage = f.peak
+	m.PeakDamageFromTipMM = f.peakU
+	m.ScheduleTimeS = f.time
+	m.Revolutions = f.revolutions
+	if f.fractured {
+		m.FractureFromTipMM = finite(f.fractureU)
+		m.FractureTimeS = finite(f.fractureT)
+		m.FractureTipDepthMM = finite(f.fractureTip)
+	}
+}
+
+// torsion sums the cutting torque from the tip up and compares it with what each section can
+// carry: tau_u * Z_t(d), Z_t = pi d^3 / 16 for round, times the section's Saint-Venant factor.
+func torsion(sr *StepResult, line *Centerline, cellTorque []float64, tip int) {
+	m, in := &sr.Metrics, sr.Step.Instrument
+	tau := sr.Alloy.ShearUltimateMPa
+	sr.Torque = make([]float64, tip+1)
+	sr.Capacity = make([]float64, tip+1)
+	carried := 0.0
+	best := math.Inf(1)
+	bestU := 0.0
+	for k := 0; k <= tip; k++ {
+		i := tip - k
+		carried += cellTorque[i] / 10 // N*mm -> N*cm
+		u := math.Max(0, sr.TipDepth-line.S[i])
+		sr.Torque[k] = carried
+		sr.Capacity[k] = in.TorsionCapacity(u, tau)
+		if carried > 0 {
+			if mg := sr.Capacity[k] / carried; mg < best {
+				best, bestU = mg, u
+			}
+		}
+	}
+	m.PeakTorqueIndex = carried
+	m.CapacityAt3mmNcm = in.TorsionCapacity(3, tau)
+	if !math.IsInf(best, 1) {
+		m.TorsionMargin = finite(best)
+		m.TorsionMarginFromTipMM = finite(bestU)
+	}
+	if lim := sr.Step.TorqueLimitNcm; lim > 0 {
+		m.TorqueLimitNcm = finite(lim)
+	}
+}

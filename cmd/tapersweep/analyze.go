@@ -1,0 +1,122 @@
+package main
+
+import (
+	"context"
+	"encoding/csv"
+	"encoding/json"
+	"flag"
+	"fmt"
+	"io"
+	"strings"
+	"text/tabwriter"
+
+	"tapersweep/analysis"
+	"tapersweep/models"
+)
+
+func analyzeCommand() command {
+	return command{
+		name:    "analyze",
+		summary: "run a file sequence through a canal and state, per step, engagement, strain, fatigue use and torsional margin",
+		usage:   "--canal PATH --sequence PATH [--format json|csv|table] [--working-length MM] [--scale K]",
+		example: "tapersweep analyze --canal canal.stl --sequence plan.json --format table",
+		flags: func(fs *flag.FlagSet) func(stdout, stderr io.Writer) int {
+			var cf canalFlags
+			cf.register(fs)
+			seqPath := fs.String("sequence", "", "sequence `file` (JSON)")
+			format := fs.String("format", "json", "output `format`: json, csv or table")
+			return func(stdout, stderr io.Writer) int {
+				if *format != "json" && *format != "csv" && *format != "table" {
+					return usageError(stderr, "analyze", "--format must be json, csv or table, not %q", *format)
+				}
+				if code := cf.check(stderr, "analyze"); code != exitOK {
+					return code
+				}
+				if *seqPath == "" {
+					return usageError(stderr, "analyze", "--sequence is required")
+				}
+				res, err := analyzeFiles(context.Background(), &cf, *seqPath)
+				if err != nil {
+					return inputError(stderr, "analyze", err)
+				}
+				switch *format {
+				case "csv":
+					return writeStepsCSV(stdout, res)
+				case "table":
+					writeStepsTable(stdout, res)
+					return exitOK
+				}
+				enc := json.NewEncoder(stdout)
+				enc.SetIndent("", " ")
+				if err := enc.Encode(res.Summary()); err != nil {
+					return inputError(stderr, "analyze", err)
+				}
+				return exitOK
+			}
+		},
+	}
+}
+
+// analyzeFiles loads a canal and a sequence and runs one through the other.
+func analyzeFiles(ctx context.Context, cf *canalFlags, seqPath string) (*analysis.Result, error) {
+	seq, err := models.LoadSequence(seqPath)
+	if err != nil {
+		return nil, err
+	}
+	c, err := cf.load(ctx)
+	if err != nil {
+		return nil, err
+	}
+	return analysis.Run(ctx, c, seq, analysis.RunOptions{})
+}
+
+func writeStepsCSV(w io.Writer, res *analysis.Result) int {
+	cw := csv.NewWriter(w)
+	cw.Write(analysis.StepColumns)
+	for _, s := range res.Steps {
+		cw.Write(s.Metrics.Row())
+	}
+	cw.Flush()
+	if cw.Error() != nil {
+		return exitBadInput
+	}
+	return exitOK
+}
+
+// writeStepsTable prints the steps for a person at a terminal.
+func writeStepsTable(w io.Writer, res *analysis.Result) {
+	sum := res.Canal.Summary(false)
+	fmt.Fprintf(w, "%s: length %.2f mm, working length %.2f mm", sum.Name, sum.LengthMM, sum.WorkingLengthMM)
+	if r := sum.MaxCurvature.RadiusMM; r != nil {
+		fmt.Fprintf(w, ", tightest bend r %.2f mm at %.2f mm from the apical end", *r, sum.MaxCurvature.FromApexMM)
+	}
+	fmt.Fprintf(w, ", Schneider angle %.1f deg\n\n", sum.SchneiderDeg)
+	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintln(tw, "step\tfile\tdepth mm\tengaged mm\tarea mm2\td at bend mm\tstrain %\tfatigue use\tmargin\tadvice\t")
+	opt := func(v *float64, f string) string {
+		if v == nil {
+			return "-"
+		}
+		return fmt.Sprintf(f, *v)
+	}
+	for _, s := range res.Steps {
+		m := s.Metrics
+		codes := make([]string, len(m.Advice))
+		for i, a := range m.Advice {
+			codes[i] = a.Code
+		}
+		fmt.Fprintf(tw, "%d\t%s\t%.2f\t%.2f\t%.2f\t%s\t%s\t%.3f\t%s\t%s\t\n", m.Step, m.Label, m.TipDepthMM,
+			m.EngagedLengthMM, m.EngagedAreaMM2, opt(m.DiameterAtMaxCurvatureMM, "%.3f"),
+			opt(m.StrainAtMaxCurvaturePct, "%.2f"), m.FatigueDamage, opt(m.TorsionMargin, "%.1f"), strings.Join(codes, " "))
+	}
+	tw.Flush()
+	for _, s := range res.Steps {
+		for _, a := range s.Metrics.Advice {
+			fmt.Fprintf(w, "\nstep %d, %s: %s", s.Number, a.Code, a.Text)
+		}
+	}
+	for _, warn := range append(sum.Warnings, res.Warnings...) {
+		fmt.Fprintf(w, "\nnote: %s", warn)
+	}
+	fmt.Fprintf(w, "\n\n%s\n", analysis.Caution)
+}

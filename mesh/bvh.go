@@ -1,0 +1,634 @@
+package mesh
+
+import (
+	"math"
+	"slices"
+
+	"github.com/go-gl/mathgl/mgl64"
+)
+
+// BVH is a bounding volume hierarchy over a mesh's triangles for ray casts, closest points
+// and inside tests. It is immutable once built: any number of goroutines may query it, and
+// queries do not allocate.
+type BVH struct {
+	nodes []bvhNode
+	tris  []bvhTri // in leaf order
+}
+
+// bvhNode is a box; a leaf lists count triangles from first, an inner node (count 0) has its
+// children at first and first+1.
+type bvhNode struct {
+	lo, hi mgl64.Vec3
+	first  int32
+	count  int32
+}
+
+// bvhTri stores a corner and two edges, as the ray test wants them.
+type bvhTri struct {
+	a, e1, e2 mgl64.Vec3
+	id        int32
+}
+
+// Hit is where a ray first meets the surface: Point = orig + T*dir.
+type Hit struct {
+	T     float64
+	Tri   int32
+	Point mgl64.Vec3
+}
+
+const (
+	bvhLeafSize = 4
+	bvhBins     = 12
+	// Past this depth splits go by count, so the tree is at most about 40 + 31 deep and a
+	// query's stack (one entry per level plus one) cannot overflow.
+	bvhSAHDepth   = 40
+	bvhStackDepth = 96
+)
+
+// bvhItem is a triangle's box and centre while building, in float32 to halve the memory the
+// build streams through; node boxes are refitted in float64 afterwards.
+type bvhItem struct {
+	c, lo, hi [3]float32
+	id        int32
+}
+
+// bvhBounds is a box plus the box of the centres inside it.
+type bvhBounds struct{ lo, hi, clo, chi [3]float32 }
+
+func emptyBounds() bvhBounds {
+	inf := float32(math.Inf(1))
+	return bvhBounds{lo: [3]float32{inf, inf, inf}, hi: [3]float32{-inf, -inf, -inf},
+		clo: [3]float32{inf, inf, inf}, chi: [3]float32{-inf, -inf, -inf}}
+}
+
+// add grows the bounds by an item (plain comparisons: NaN corners are simply not counted).
+func (b *bvhBounds) add(it *bvhItem) {
+	for k := 0; k < 3; k++ {
+		if it.lo[k] < b.lo[k] {
+			b.lo[k] = it.lo[k]
+		}
+		if it.hi[k] > b.hi[k] {
+			b.hi[k] = it.hi[k]
+		}
+		if it.c[k] < b.clo[k] {
+			b.clo[k] = it.c[k]
+		}
+		if it.c[k] > b.chi[k] {
+			b.chi[k] = it.c[k]
+		}
+	}
+}
+
+func (b *bvhBounds) merge(o *bvhBounds) {
+	for k := 0; k < 3; k++ {
+		b.lo[k] = min(b.lo[k], o.lo[k])
+		b.hi[k] = max(b.hi[k], o.hi[k])
+		b.clo[k] = min(b.clo[k], o.clo[k])
+		b.chi[k] = max(b.chi[k], o.chi[k])
+	}
+}
+
+func (b *bvhBounds) area() float64 {
+	dx, dy, dz := float64(b.hi[0]-b.lo[0]), float64(b.hi[1]-b.lo[1]), float64(b.hi[2]-b.lo[2])
+	if !(dx >= 0) {
+		return 0
+	}
+	return dx*dy + dy*dz + dz*dx
+}
+
+type bvhBuilder struct {
+	items []bvhItem
+	bin   []uint8 // scratch: each item's bin in the current split
+	nodes []bvhNode
+}
+
+// NewBVH builds the hierarchy by binned surface-area-heuristic splits (Wald, "On fast
+// construction of SAH-based bounding volume hierarchies", 2007), the root's two halves on two
+// cores. The tree depends only on the mesh. Triangles whose indices are out of range are left out.
+func NewBVH(m *Mesh) *BVH {
+	nv := int32(len(m.Vertices))
+	b := &bvhBuilder{items: make([]bvhItem, 0, len(m.Triangles))}
+	root := emptyBounds()
+	for t, tri := range m.Triangles {
+		if !triInRange(tri, nv) {
+			continue
+		}
+		p, q, r := m.Corners(t)
+		it := bvhItem{id: int32(t)}
+		for k := 0; k < 3; k++ {
+			lo, hi := min(p[k], q[k], r[k]), max(p[k], q[k], r[k])
+			it.lo[k], it.hi[k], it.c[k] = float32(lo), float32(hi), float32((lo+hi)/2)
+		}
+		b.items = append(b.items, it)
+		root.add(&b.items[len(b.items)-1])
+	}
+	out := &BVH{}
+	n := len(b.items)
+	if n == 0 {
+		return out
+	}
+	b.bin = make([]uint8, n)
+	b.buildRoot(root)
+	out.tris = make([]bvhTri, n)
+	for i := range b.items {
+		t := b.items[i].id
+		p, q, r := m.Corners(int(t))
+		out.tris[i] = bvhTri{a: p, e1: q.Sub(p), e2: r.Sub(p), id: t}
+	}
+	// Refit exact boxes bottom-up: children always come after their parent.
+	nodes := b.nodes
+	for i := len(nodes) - 1; i >= 0; i-- {
+		nd := &nodes[i]
+		if nd.count > 0 {
+			lo, hi := triBox(&out.tris[nd.first])
+			for j := nd.first + 1; j < nd.first+nd.count; j++ {
+				l, h := triBox(&out.tris[j])
+				growBox(&lo, &hi, l, h)
+			}
+			nd.lo, nd.hi = lo, hi
+			continue
+		}
+		lo, hi := nodes[nd.first].lo, nodes[nd.first].hi
+		growBox(&lo, &hi, nodes[nd.first+1].lo, nodes[nd.first+1].hi)
+		nd.lo, nd.hi = lo, hi
+	}
+	out.nodes = nodes
+	return out
+}
+
+func triBox(t *bvhTri) (lo, hi mgl64.Vec3) {
+	for k := 0; k < 3; k++ {
+		p, q, r := t.a[k], t.a[k]+t.e1[k], t.a[k]+t.e2[k]
+		lo[k], hi[k] = min(p, q, r), max(p, q, r)
+	}
+	return
+}
+
+// bvhParallelMin is the size above which the root's two halves are built concurrently.
+const bvhParallelMin = 20000
+
+// buildRoot splits the root once, builds the two halves concurrently into their own node
+// arrays (their items and bins are disjoint) and joins them in the layout a serial build gives.
+func (b *bvhBuilder) buildRoot(root bvhBounds) {
+	n := len(b.items)
+	b.nodes = make([]bvhNode, 1, 2*n/bvhLeafSize+2)
+	if n < bvhParallelMin {
+		b.build(0, 0, n, 0, root)
+		return
+	}
+	mid, lb, rb := b.split(0, 0, n, 0, root)
+	if mid < 0 {
+		return
+	}
+	l := &bvhBuilder{items: b.items, bin: b.bin, nodes: make([]bvhNode, 1, 2*mid/bvhLeafSize+2)}
+	r := &bvhBuilder{items: b.items, bin: b.bin, nodes: make([]bvhNode, 1, 2*(n-mid)/bvhLeafSize+2)}
+	done := make(chan struct{})
+	go func() {
+		r.build(0, mid, n, 1, rb)
+		close(done)
+	}()
+	l.build(0, 0, mid, 1, lb)
+	<-done
+	// Root at 0, the halves' roots at 1 and 2, then the rest of the left half, then the right.
+	b.nodes = b.nodes[:1]
+	b.nodes[0].first = 1
+	b.nodes = append(b.nodes, l.nodes[0], r.nodes[0])
+	b.nodes = append(b.nodes, l.nodes[1:]...)
+	b.nodes = append(b.nodes, r.nodes[1:]...)
+	// A half's local index i > 0 moves to 3 + (i - 1) (+ the left's extra nodes for the right).
+	lOff, rOff := int32(2), int32(2+len(l.nodes)-1)
+	for i := 1; i < len(b.nodes); i++ {
+		off := lOff
+		if i == 2 || i >= 3+len(l.nodes)-1 {
+			off = rOff
+		}
+		if b.nodes[i].count == 0 {
+			b.nodes[i].first += off
+		}
+	}
+}
+
+// build makes node the root of the subtree over items[begin:end].
+func (b *bvhBuilder) build(node int, begin, end, depth int, bd bvhBounds) {
+	mid, lb, rb := b.split(node, begin, end, depth, bd)
+	if mid < 0 {
+		return
+	}
+	left := len(b.nodes)
+	b.nodes = append(b.nodes, bvhNode{}, bvhNode{})
+	b.nodes[node].first = int32(left)
+	b.build(left, begin, mid, depth+1, lb)
+	b.build(left+1, mid, end, depth+1, rb)
+}
+
+// split makes node a leaf (returning -1) or partitions its items, returning the split index
+// and the bounds of the two sides.
+func (b *bvhBuilder) split(node int, begin, end, depth int, bd bvhBounds) (int, bvhBounds, bvhBounds) {
+	count := end - begin
+	if count <= bvhLeafSize {
+		b.nodes[node].first, b.nodes[node].count = int32(begin), int32(count)
+		return -1, bd, bd
+	}
+	axis := 0
+	ext := [3]float32{bd.chi[0] - bd.clo[0], bd.chi[1] - bd.clo[1], bd.chi[2] - bd.clo[2]}
+	if ext[1] > ext[axis] {
+		axis = 1
+	}
+	if ext[2] > ext[axis] {
+		axis = 2
+	}
+	mid := -1
+	var lb, rb bvhBounds
+	if ext[axis] > 0 && depth < bvhSAHDepth {
+		mid, lb, rb = b.sahSplit(begin, end, axis, bd.clo[axis], ext[axis], bd.area())
+		if mid == -2 {
+			b.nodes[node].first, b.nodes[node].count = int32(begin), int32(count)
+			return -1, bd, bd
+		}
+	}
+	if mid <= begin || mid >= end {
+		// Equal centres or too deep: halve by count.
+		mid = (begin + end) / 2
+		slices.SortFunc(b.items[begin:end], func(x, y bvhItem) int {
+			switch {
+			case x.c[axis] < y.c[axis]:
+				return -1
+			case x.c[axis] > y.c[axis]:
+				return 1
+			}
+			return int(x.id - y.id)
+		})
+		lb, rb = emptyBounds(), emptyBounds()
+		for i := begin; i < mid; i++ {
+			lb.add(&b.items[i])
+		}
+		for i := mid; i < end; i++ {
+			rb.add(&b.items[i])
+		}
+	}
+	return mid, lb, rb
+}
+
+// sahSplit bins centres along axis and partitions at the cheapest plane. It returns the
+// split index (-1 when binning cannot separate the triangles, -2 when a leaf is cheaper)
+// and the bounds of the two sides.
+func (b *bvhBuilder) sahSplit(begin, end, axis int, c0, ext float32, parentArea float64) (int, bvhBounds, bvhBounds) {
+	var cnt [bvhBins]int
+	var bins [bvhBins]bvhBounds
+	for i := range bins {
+		bins[i] = emptyBounds()
+	}
+	scale := bvhBins / ext
+	items, binOf := b.items[begin:end], b.bin[begin:end]
+	for i := range items {
+		k := int((items[i].c[axis] - c0) * scale)
+		k = min(max(k, 0), bvhBins-1)
+		binOf[i] = uint8(k)
+		cnt[k]++
+		bins[k].add(&items[i])
+	}
+	// Sweep from the right for suffix bounds, then from the left for the cost.
+	var right [bvhBins]bvhBounds
+	var rightCnt [bvhBins]int
+	acc := emptyBounds()
+	rc := 0
+	for i := bvhBins - 1; i > 0; i-- {
+		acc.merge(&bins[i])
+		rc += cnt[i]
+		right[i], rightCnt[i] = acc, rc
+	}
+	left := emptyBounds()
+	var bestLeft bvhBounds
+	lc := 0
+	best, bestCost := -1, math.Inf(1)
+	for i := 1; i < bvhBins; i++ {
+		left.merge(&bins[i-1])
+		lc += cnt[i-1]
+		if lc == 0 || rightCnt[i] == 0 {
+			continue
+		}
+		if c := float64(lc)*left.area() + float64(rightCnt[i])*right[i].area(); c < bestCost {
+			best, bestCost, bestLeft = i, c, left
+		}
+	}
+	if best < 0 {
+		return -1, bvhBounds{}, bvhBounds{}
+	}
+	// A leaf costs count triangle tests; two children cost a box test plus their tests
+	// weighted by the chance (relative area) of entering them.
+	count := end - begin
+	if count <= 4*bvhLeafSize && parentArea > 0 && 1+bestCost/parentArea >= float64(count) {
+		return -2, bvhBounds{}, bvhBounds{}
+	}
+	i, j := 0, len(items)-1
+	for i <= j {
+		if int(binOf[i]) < best {
+			i++
+		} else {
+			items[i], items[j] = items[j], items[i]
+			binOf[i], binOf[j] = binOf[j], binOf[i]
+			j--
+		}
+	}
+	return begin + i, bestLeft, right[best]
+}
+
+func growBox(lo, hi *mgl64.Vec3, plo, phi mgl64.Vec3) {
+	for k := 0; k < 3; k++ {
+		if plo[k] < lo[k] {
+			lo[k] = plo[k]
+		}
+		if phi[k] > hi[k] {
+			hi[k] = phi[k]
+		}
+	}
+}
+
+// rayBox returns whether the ray enters the box before tMax (and after 0).
+func rayBox(lo, hi, o, inv mgl64.Vec3, tMax float64) bool {
+	tn, tf := 0.0, tMax
+	for k := 0; k < 3; k++ {
+		t1 := (lo[k] - o[k]) * inv[k]
+		t2 := (hi[k] - o[k]) * inv[k]
+		if t1 > t2 {
+			t1, t2 = t2, t1
+		}
+		// NaN (origin on a slab plane of a flat direction) constrains nothing.
+		if t1 > tn {
+			tn = t1
+		}
+		if t2 < tf {
+			tf = t2
+		}
+	}
+	return tn <= tf
+}
+
+// rayTri is the Moller-Trumbore test; it returns t, the barycentric u, v and det.
+func rayTri(tr *bvhTri, o, d mgl64.Vec3) (t, u, v, det float64, ok bool) {
+	p := d.Cross(tr.e2)
+	det = tr.e1.Dot(p)
+	if det == 0 {
+		return
+	}
+	inv := 1 / det
+	s := o.Sub(tr.a)
+	u = s.Dot(p) * inv
+	if u < 0 || u > 1 {
+		return
+	}
+	q := s.Cross(tr.e1)
+	v = d.Dot(q) * inv
+	if v < 0 || u+v > 1 {
+		return
+	}
+	t = tr.e2.Dot(q) * inv
+	return t, u, v, det, true
+}
+
+func inverse(d mgl64.Vec3) mgl64.Vec3 {
+	return mgl64.Vec3{1 / d[0], 1 / d[1], 1 / d[2]}
+}
+
+// Ray returns the first hit with 0 < T < tMax along orig + T*dir (dir need not be unit;
+// T is in units of dir).
+func (b *BVH) Ray(orig, dir mgl64.Vec3, tMax float64) (Hit, bool) {
+	var hit Hit
+	if len(b.nodes) == 0 || !(tMax > 0) || dir == (mgl64.Vec3{}) {
+		return hit, false
+	}
+	inv := inverse(dir)
+	best := tMax
+	found := false
+	var stack [bvhStackDepth]int32
+	sp := 1
+	for sp > 0 {
+		sp--
+		n := &b.nodes[stack[sp]]
+		if !rayBox(n.lo, n.hi, orig, inv, best) {
+			continue
+		}
+		if n.count > 0 {
+			for i := n.first; i < n.first+n.count; i++ {
+				tr := &b.tris[i]
+				if t, _, _, _, ok := rayTri(tr, orig, dir); ok && t > 0 && t < best {
+					best, found = t, true
+					hit.Tri = tr.id
+				}
+			}
+			continue
+		}
+		// Visit the child on the ray's near side first (pushed last).
+		l, r := n.first, n.first+1
+		axis := 0
+		if math.Abs(dir[1]) > math.Abs(dir[axis]) {
+			axis = 1
+		}
+		if math.Abs(dir[2]) > math.Abs(dir[axis]) {
+			axis = 2
+		}
+		if dir[axis] < 0 {
+			l, r = r, l
+		}
+		stack[sp], stack[sp+1] = r, l
+		sp += 2
+	}
+	if !found {
+		return Hit{}, false
+	}
+	hit.T = best
+	hit.Point = orig.Add(dir.Mul(best))
+	return hit, true
+}
+
+// Closest returns the surface point nearest p, its triangle and the distance. With no
+// triangles it returns p, -1 and +Inf.
+func (b *BVH) Closest(p mgl64.Vec3) (q mgl64.Vec3, tri int32, dist float64) {
+	if len(b.nodes) == 0 {
+		return p, -1, math.Inf(1)
+	}
+	best2 := math.Inf(1)
+	tri = -1
+	var stack [bvhStackDepth]int32
+	sp := 1
+	for sp > 0 {
+		sp--
+		n := &b.nodes[stack[sp]]
+		if boxDist2(n.lo, n.hi, p) >= best2 {
+			continue
+		}
+		if n.count > 0 {
+			for i := n.first; i < n.first+n.count; i++ {
+				tr := &b.tris[i]
+				c := closestOnTriangle(p, tr.a, tr.a.Add(tr.e1), tr.a.Add(tr.e2))
+				if d := c.Sub(p); d.Dot(d) < best2 {
+					best2, q, tri = d.Dot(d), c, tr.id
+				}
+			}
+			continue
+		}
+		l, r := n.first, n.first+1
+		dl := boxDist2(b.nodes[l].lo, b.nodes[l].hi, p)
+		dr := boxDist2(b.nodes[r].lo, b.nodes[r].hi, p)
+		if dl > dr {
+			l, r = r, l
+		}
+		stack[sp], stack[sp+1] = r, l
+		sp += 2
+	}
+	return q, tri, math.Sqrt(best2)
+}
+
+func boxDist2(lo, hi, p mgl64.Vec3) float64 {
+	d2 := 0.0
+	for k := 0; k < 3; k++ {
+		if p[k] < lo[k] {
+			d := lo[k] - p[k]
+			d2 += d * d
+		} else if p[k] > hi[k] {
+			d := p[k] - hi[k]
+			d2 += d * d
+		}
+	}
+	return d2
+}
+
+// closestOnTriangle finds the point of triangle abc nearest p by its Voronoi regions
+// (Ericson, Real-Time Collision Detection, 5.1.5).
+func closestOnTriangle(p, a, b, c mgl64.Vec3) mgl64.Vec3 {
+	ab, ac, ap := b.Sub(a), c.Sub(a), p.Sub(a)
+	d1, d2 := ab.Dot(ap), ac.Dot(ap)
+	if d1 <= 0 && d2 <= 0 {
+		return a
+	}
+	bp := p.Sub(b)
+	d3, d4 := ab.Dot(bp), ac.Dot(bp)
+	if d3 >= 0 && d4 <= d3 {
+		return b
+	}
+	vc := d1*d4 - d3*d2
+	if vc <= 0 && d1 >= 0 && d3 <= 0 {
+		return a.Add(ab.Mul(d1 / (d1 - d3)))
+	}
+	cp := p.Sub(c)
+	d5, d6 := ab.Dot(cp), ac.Dot(cp)
+	if d6 >= 0 && d5 <= d6 {
+		return c
+	}
+	vb := d5*d2 - d1*d6
+	if vb <= 0 && d2 >= 0 && d6 <= 0 {
+		return a.Add(ac.Mul(d2 / (d2 - d6)))
+	}
+	va := d3*d6 - d5*d4
+	if va <= 0 && d4-d3 >= 0 && d5-d6 >= 0 {
+		return b.Add(c.Sub(b).Mul((d4 - d3) / ((d4 - d3) + (d5 - d6))))
+	}
+	den := va + vb + vc
+	if den == 0 { // zero-area triangle not caught above: fall back to the nearest corner
+		return nearestOf(p, a, b, c)
+	}
+	v, w := vb/den, vc/den
+	return a.Add(ab.Mul(v)).Add(ac.Mul(w))
+}
+
+func nearestOf(p mgl64.Vec3, pts ...mgl64.Vec3) mgl64.Vec3 {
+	best, bd := pts[0], math.Inf(1)
+	for _, q := range pts {
+		if d := q.Sub(p).LenSqr(); d < bd {
+			best, bd = q, d
+		}
+	}
+	return best
+}
+
+// insideDirs are fixed, irregular directions so rays rarely run along mesh features.
+var insideDirs = [...]mgl64.Vec3{
+	{0.3217, 0.7891, 0.5232},
+	{-0.6124, 0.2219, 0.7589},
+	{0.1187, -0.9063, 0.4055},
+	{-0.4471, -0.3352, -0.8291},
+	{0.8543, -0.1678, -0.4921},
+	{-0.2609, 0.9378, -0.2291},
+}
+
+// Inside reports whether p lies inside the closed surface by the parity of crossings along a
+// ray. A ray that grazes an edge, a corner or a face's plane is ambiguous, so another
+// direction is tried; if every direction grazes, the last count decides.
+func (b *BVH) Inside(p mgl64.Vec3) bool {
+	if len(b.nodes) == 0 {
+		return false
+	}
+	inside := false
+	for _, d := range insideDirs {
+		n, clean := b.crossings(p, d)
+		inside = n%2 == 1
+		if clean {
+			break
+		}
+	}
+	return inside
+}
+
+// crossings counts the triangles the ray p + t d (t > 0) passes through, and whether every
+// crossing was clear of edges and of the triangle's plane.
+func (b *BVH) crossings(p, d mgl64.Vec3) (n int, clean bool) {
+	const edgeEps = 1e-9
+	inv := inverse(d)
+	clean = true
+	var stack [bvhStackDepth]int32
+	sp := 1
+	for sp > 0 {
+		sp--
+		nd := &b.nodes[stack[sp]]
+		if !rayBox(nd.lo, nd.hi, p, inv, math.Inf(1)) {
+			continue
+		}
+		if nd.count == 0 {
+			stack[sp], stack[sp+1] = nd.first, nd.first+1
+			sp += 2
+			continue
+		}
+		for i := nd.first; i < nd.first+nd.count; i++ {
+			tr := &b.tris[i]
+			t, u, v, det, ok := rayTri(tr, p, d)
+			if !ok {
+				// A ray nearly in the plane can slip between neighbours: note it.
+				if nearPlane(tr, d, det) && planeCloseToRay(tr, p, d) {
+					clean = false
+				}
+				continue
+			}
+			scale := tr.e1.Len() + tr.e2.Len()
+			if math.Abs(t)*d.Len() < 1e-12*scale {
+				clean = false // p on the surface
+				continue
+			}
+			if t <= 0 {
+				continue
+			}
+			n++
+			if u < edgeEps || v < edgeEps || 1-u-v < edgeEps || nearPlane(tr, d, det) {
+				clean = false
+			}
+		}
+	}
+	return n, clean
+}
+
+// nearPlane: the ray meets the triangle's plane at a grazing angle.
+func nearPlane(tr *bvhTri, d mgl64.Vec3, det float64) bool {
+	return math.Abs(det) <= 1e-9*tr.e1.Len()*tr.e2.Len()*d.Len()
+}
+
+// planeCloseToRay: the ray's line passes near the triangle's box (only then does a grazing
+// miss matter).
+func planeCloseToRay(tr *bvhTri, p, d mgl64.Vec3) bool {
+	lo, hi := tr.a, tr.a
+	for _, q := range [2]mgl64.Vec3{tr.a.Add(tr.e1), tr.a.Add(tr.e2)} {
+		growBox(&lo, &hi, q, q)
+	}
+	pad := 1e-9 * (tr.e1.Len() + tr.e2.Len())
+	lo = lo.Sub(mgl64.Vec3{pad, pad, pad})
+	hi = hi.Add(mgl64.Vec3{pad, pad, pad})
+	return rayBox(lo, hi, p, inverse(d), math.Inf(1))
+}

@@ -1,0 +1,321 @@
+package mesh
+
+import (
+	"fmt"
+	"slices"
+
+	"github.com/go-gl/mathgl/mgl64"
+)
+
+// Report describes how well a mesh bounds a solid.
+type Report struct {
+	Triangles, Vertices int
+	// BoundaryEdges are used by one triangle only (the rims of holes or open ends).
+	BoundaryEdges int
+	// NonManifoldEdges are shared by more than two triangles.
+	NonManifoldEdges int
+	// Degenerate triangles repeat a vertex or have zero area.
+	Degenerate int
+	// Shells counts pieces connected through shared vertices.
+	Shells int
+	// InconsistentOrientation counts edges whose two triangles run it the same way,
+	// i.e. one of them faces the wrong side.
+	InconsistentOrientation int
+	Closed, Manifold        bool
+}
+
+// Validate checks edges, orientation, degenerate triangles and connectivity.
+// Triangles whose indices are out of range count as degenerate and are otherwise ignored.
+func Validate(m *Mesh) Report {
+	return validate(m, true)
+}
+
+// validate counts edges and shells on two cores; degenerate triangles only when asked.
+func validate(m *Mesh, degenerate bool) Report {
+	r := Report{Triangles: len(m.Triangles), Vertices: len(m.Vertices)}
+	done := make(chan struct{})
+	go func() {
+		r.Shells = countShells(m)
+		close(done)
+	}()
+	if degenerate {
+		for t := range m.Triangles {
+			if isDegenerate(m, t) {
+				r.Degenerate++
+			}
+		}
+	}
+	r.BoundaryEdges, r.NonManifoldEdges, r.InconsistentOrientation = edgeCounts(m)
+	<-done
+	r.Closed = r.BoundaryEdges == 0 && len(m.Triangles) > 0
+	r.Manifold = r.NonManifoldEdges == 0
+	return r
+}
+
+// Warnings returns plain-language problems, each with a way to fix it.
+func (r Report) Warnings() []string {
+	var w []string
+	if r.Triangles == 0 {
+		return append(w, "the surface has no triangles; load a file that contains a surface")
+	}
+	if r.Shells > 1 {
+		w = append(w, fmt.Sprintf("the file holds %d separate surfaces; all were kept. "+
+			"If only one of them is the canal, keep the largest surface or pick the one you need", r.Shells))
+	}
+	if r.BoundaryEdges > 0 {
+		w = append(w, fmt.Sprintf("the surface is not closed: %d edges border holes or open ends. "+
+			"Close the holes (or cap the ends) before export; measurements that need an inside may be wrong", r.BoundaryEdges))
+	}
+	if r.NonManifoldEdges > 0 {
+		w = append(w, fmt.Sprintf("%d edges are shared by more than two triangles. "+
+			"Repair the surface so each edge joins exactly two triangles, or re-export it from the segmentation", r.NonManifoldEdges))
+	}
+	if r.InconsistentOrientation > 0 {
+		w = append(w, fmt.Sprintf("%d edges join triangles that face opposite ways. "+
+			"Re-export with consistent normals (all facing out), or repair the surface", r.InconsistentOrientation))
+	}
+	if r.Degenerate > 0 {
+		w = append(w, fmt.Sprintf("%d triangles have zero area or a repeated corner. "+
+			"They carry no surface; remove them (loading a file does this for you)", r.Degenerate))
+	}
+	return w
+}
+
+// isDegenerate reports a repeated or out-of-range index, or exactly zero area.
+func isDegenerate(m *Mesh, t int) bool {
+	tri := m.Triangles[t]
+	n := int32(len(m.Vertices))
+	for _, v := range tri {
+		if v < 0 || v >= n {
+			return true
+		}
+	}
+	if tri[0] == tri[1] || tri[1] == tri[2] || tri[0] == tri[2] {
+		return true
+	}
+	a, b, c := &m.Vertices[tri[0]], &m.Vertices[tri[1]], &m.Vertices[tri[2]]
+	ux, uy, uz := b[0]-a[0], b[1]-a[1], b[2]-a[2]
+	vx, vy, vz := c[0]-a[0], c[1]-a[1], c[2]-a[2]
+	return uy*vz-uz*vy == 0 && uz*vx-ux*vz == 0 && ux*vy-uy*vx == 0
+}
+
+func triInRange(tri [3]int32, n int32) bool {
+	return tri[0] >= 0 && tri[0] < n && tri[1] >= 0 && tri[1] < n && tri[2] >= 0 && tri[2] < n
+}
+
+// edgeCounts buckets every half-edge under its smaller vertex (a counting sort, no hash map)
+// and counts how many triangles use each undirected edge and in which directions.
+func edgeCounts(m *Mesh) (boundary, nonManifold, inconsistent int) {
+	nv := int32(len(m.Vertices))
+	start := make([]int32, nv+1)
+	for _, tri := range m.Triangles {
+		if !triInRange(tri, nv) {
+			continue
+		}
+		for k := 0; k < 3; k++ {
+			a, b := tri[k], tri[(k+1)%3]
+			if a == b {
+				continue
+			}
+			start[min(a, b)+1]++
+		}
+	}
+	for i := int32(0); i < nv; i++ {
+		start[i+1] += start[i]
+	}
+	// Each entry: other vertex << 1 | direction bit (1 when the half-edge runs high to low).
+	entries := make([]int64, start[nv])
+	fill := slices.Clone(start[:nv])
+	for _, tri := range m.Triangles {
+		if !triInRange(tri, nv) {
+			continue
+		}
+		for k := 0; k < 3; k++ {
+			a, b := tri[k], tri[(k+1)%3]
+			if a == b {
+				continue
+			}
+			lo, hi, dir := a, b, int64(0)
+			if b < a {
+				lo, hi, dir = b, a, 1
+			}
+			entries[fill[lo]] = int64(hi)<<1 | dir
+			fill[lo]++
+		}
+	}
+	for v := int32(0); v < nv; v++ {
+		bucket := entries[start[v]:start[v+1]]
+		sortEdgeBucket(bucket)
+		for i := 0; i < len(bucket); {
+			j := i
+			fwd := 0
+			for j < len(bucket) && bucket[j]>>1 == bucket[i]>>1 {
+				if bucket[j]&1 == 0 {
+					fwd++
+				}
+				j++
+			}
+			switch n := j - i; {
+			case n == 1:
+				boundary++
+			case n > 2:
+				nonManifold++
+			case fwd != 1:
+				inconsistent++
+			}
+			i = j
+		}
+	}
+	return
+}
+
+// sortEdgeBucket is an insertion sort: buckets hold a vertex's few edges.
+func sortEdgeBucket(a []int64) {
+	if len(a) > 32 {
+		slices.Sort(a)
+		return
+	}
+	for i := 1; i < len(a); i++ {
+		x := a[i]
+		j := i - 1
+		for j >= 0 && a[j] > x {
+			a[j+1] = a[j]
+			j--
+		}
+		a[j+1] = x
+	}
+}
+
+// vertexUnion joins the vertices of every triangle; find returns a vertex's shell root.
+type vertexUnion []int32
+
+func newVertexUnion(m *Mesh) vertexUnion {
+	u := make(vertexUnion, len(m.Vertices))
+	for i := range u {
+		u[i] = int32(i)
+	}
+	nv := int32(len(m.Vertices))
+	for _, tri := range m.Triangles {
+		if !triInRange(tri, nv) {
+			continue
+		}
+		u.union(tri[0], tri[1])
+		u.union(tri[0], tri[2])
+	}
+	return u
+}
+
+func (u vertexUnion) find(x int32) int32 {
+	for u[x] != x {
+		u[x] = u[u[x]] // path halving
+		x = u[x]
+	}
+	return x
+}
+
+func (u vertexUnion) union(a, b int32) {
+	ra, rb := u.find(a), u.find(b)
+	if ra == rb {
+		return
+	}
+	// The smaller index becomes the root, so roots never depend on anything but the input.
+	if ra < rb {
+		u[rb] = ra
+	} else {
+		u[ra] = rb
+	}
+}
+
+// countShells counts the distinct shell roots among the triangles.
+func countShells(m *Mesh) int {
+	u := newVertexUnion(m)
+	seen := make([]bool, len(m.Vertices))
+	n := 0
+	nv := int32(len(m.Vertices))
+	for _, tri := range m.Triangles {
+		if !triInRange(tri, nv) {
+			continue
+		}
+		if r := u.find(tri[0]); !seen[r] {
+			seen[r] = true
+			n++
+		}
+	}
+	return n
+}
+
+// Shells returns the triangle indices of each connected shell (pieces joined through shared
+// vertices), largest first; ties go to the shell whose first triangle comes first. Each list is
+// in ascending order. Triangles with out-of-range indices belong to no shell.
+func Shells(m *Mesh) [][]int32 {
+	u := newVertexUnion(m)
+	nv := int32(len(m.Vertices))
+	shellOf := map[int32]int{} // root -> shell number in order of first triangle
+	var shells [][]int32
+	for t, tri := range m.Triangles {
+		if !triInRange(tri, nv) {
+			continue
+		}
+		r := u.find(tri[0])
+		s, ok := shellOf[r]
+		if !ok {
+			s = len(shells)
+			shellOf[r] = s
+			shells = append(shells, nil)
+		}
+		shells[s] = append(shells[s], int32(t))
+	}
+	// Stable: equal sizes keep first-triangle order.
+	slices.SortStableFunc(shells, func(a, b []int32) int { return len(b) - len(a) })
+	return shells
+}
+
+// Subset returns a new mesh made of the given triangles (in the given order) and only the
+// vertices they use, which keep their relative order. Out-of-range indices are skipped.
+func (m *Mesh) Subset(tris []int32) *Mesh {
+	nv := int32(len(m.Vertices))
+	newIndex := make([]int32, nv)
+	for i := range newIndex {
+		newIndex[i] = -1
+	}
+	out := &Mesh{Triangles: make([][3]int32, 0, len(tris))}
+	for _, t := range tris {
+		if t < 0 || int(t) >= len(m.Triangles) || !triInRange(m.Triangles[t], nv) {
+			continue
+		}
+		for _, v := range m.Triangles[t] {
+			newIndex[v] = 0
+		}
+	}
+	n := int32(0)
+	for v := range newIndex {
+		if newIndex[v] == 0 {
+			newIndex[v] = n
+			n++
+		}
+	}
+	out.Vertices = make([]mgl64.Vec3, 0, n)
+	for v, ni := range newIndex {
+		if ni >= 0 {
+			out.Vertices = append(out.Vertices, m.Vertices[v])
+		}
+	}
+	for _, t := range tris {
+		if t < 0 || int(t) >= len(m.Triangles) || !triInRange(m.Triangles[t], nv) {
+			continue
+		}
+		tri := m.Triangles[t]
+		out.Triangles = append(out.Triangles, [3]int32{newIndex[tri[0]], newIndex[tri[1]], newIndex[tri[2]]})
+	}
+	return out
+}
+
+// LargestShell returns the shell with the most triangles as a mesh of its own
+// (an empty mesh if m has none).
+func LargestShell(m *Mesh) *Mesh {
+	shells := Shells(m)
+	if len(shells) == 0 {
+		return &Mesh{}
+	}
+	return m.Subset(shells[0])
+}

@@ -1,0 +1,262 @@
+package mesh
+
+import (
+	"math"
+
+	"github.com/go-gl/mathgl/mgl64"
+)
+
+// Weld turns a triangle soup (three corners per triangle, in input order) into an indexed
+// mesh, merging corners that lie within tol of an already kept vertex. Vertices are numbered
+// in order of first appearance and keep the coordinates of that first corner. A corner
+// identical to a recent one joins the same vertex; otherwise it joins the first kept vertex
+// found within tol, searching its own grid cell (newest first), then the neighbouring cells in
+// a fixed order. So the result depends only on the input order, never on map order or core
+// count. tol <= 0 merges only identical points. Non-finite corners are never merged. Corners
+// past a multiple of three are ignored.
+func Weld(corners []mgl64.Vec3, tol float64) *Mesh {
+	return weld(corners, tol, 0)
+}
+
+// weld is Weld with, when relTol > 0, the tolerance relTol times the largest coordinate
+// magnitude (float32 rounding grows with the magnitude, not with the model's size).
+func weld(corners []mgl64.Vec3, tol, relTol float64) *Mesh {
+	nt := len(corners) / 3
+	corners = corners[:3*nt]
+	m := &Mesh{Triangles: make([][3]int32, nt)}
+	if nt == 0 {
+		return m
+	}
+	w := newWelder(corners, tol, relTol)
+	for t := 0; t < nt; t++ {
+		for k := 0; k < 3; k++ {
+			m.Triangles[t][k] = w.add(corners[3*t+k])
+		}
+	}
+	m.Vertices = w.verts
+	return m
+}
+
+// welder is a grid hash: an open-addressing table from cell key to the first vertex of that
+// cell, and a per-vertex link to the next vertex of the same cell.
+type welder struct {
+	tol, tol2 float64
+	inv       float64 // 1 / cell size; 0 in exact mode
+	exact     bool
+	slots     []weldSlot
+	mask      uint64
+	used      int
+	verts     []mgl64.Vec3
+	next      []int32
+	// recent remembers the vertex given to recently seen exact positions: an STL lists each
+	// vertex about six times, mostly close together, and this small table stays in cache
+	// where the grid hash does not. It depends only on the input order.
+	recent [weldRecentSize]weldRecent
+}
+
+const weldRecentSize = 4096
+
+// weldSlot is one table entry: a 64-bit hash of the cell stands for the cell. Two cells that
+// share a hash share a chain, which costs a few distance checks and never a wrong merge.
+type weldSlot struct {
+	key  uint64
+	head int32 // -1 = empty
+}
+
+type weldRecent struct {
+	p mgl64.Vec3
+	v int32 // -1 = empty
+}
+
+// weldMaxCell keeps cell indices far inside int64 whatever the coordinates.
+const weldMaxCell = 1 << 40
+
+func newWelder(corners []mgl64.Vec3, tol, relTol float64) *welder {
+	w := &welder{}
+	maxAbs := 0.0
+	if tol > 0 || relTol > 0 {
+		for _, c := range corners {
+			for k := 0; k < 3; k++ {
+				if a := math.Abs(c[k]); a > maxAbs && a <= math.MaxFloat64 {
+					maxAbs = a
+				}
+			}
+		}
+		if relTol > 0 {
+			tol = relTol * maxAbs
+		}
+	}
+	if !(tol > 0) || math.IsInf(tol, 0) {
+		w.exact = true
+	} else {
+		// A cell 16*tol wide means the tol-box around a point touches at most two cells per
+		// axis and usually one; widen it further when coordinates are huge so indices stay small.
+		cell := math.Max(16*tol, maxAbs/weldMaxCell)
+		w.tol, w.tol2, w.inv = tol, tol*tol, 1/cell
+	}
+	// Room for one vertex per three corners at half load; closed meshes have one per six.
+	size := 1024
+	for size < len(corners)/3 {
+		size <<= 1
+	}
+	w.alloc(size)
+	for i := range w.recent {
+		w.recent[i].v = -1
+	}
+	w.verts = make([]mgl64.Vec3, 0, len(corners)/5+16)
+	w.next = make([]int32, 0, len(corners)/5+16)
+	return w
+}
+
+func (w *welder) alloc(size int) {
+	w.slots = make([]weldSlot, size)
+	for i := range w.slots {
+		w.slots[i].head = -1
+	}
+	w.mask = uint64(size - 1)
+	w.used = 0
+}
+
+func weldHash(k [3]int64) uint64 {
+	h := uint64(k[0])*0x9E3779B97F4A7C15 ^ uint64(k[1])*0xC2B2AE3D27D4EB4F ^ uint64(k[2])*0x165667B19E3779F9
+	return h ^ h>>29
+}
+
+// slot returns the table slot of key k: the one holding it, or the empty one where it belongs.
+func (w *welder) slot(k [3]int64) uint64 {
+	return w.slotOf(weldHash(k))
+}
+
+func (w *welder) slotOf(h uint64) uint64 {
+	i := h & w.mask
+	for w.slots[i].head >= 0 && w.slots[i].key != h {
+		i = (i + 1) & w.mask
+	}
+	return i
+}
+
+func (w *welder) cellOf(p mgl64.Vec3) [3]int64 {
+	if w.exact {
+		// Identical points share their bits; +0 folds -0 into 0.
+		return [3]int64{int64(math.Float64bits(p[0] + 0)), int64(math.Float64bits(p[1] + 0)), int64(math.Float64bits(p[2] + 0))}
+	}
+	return [3]int64{weldCellIndex(p[0] * w.inv), weldCellIndex(p[1] * w.inv), weldCellIndex(p[2] * w.inv)}
+}
+
+func weldCellIndex(x float64) int64 {
+	f := math.Floor(x)
+	if !(f > -weldMaxCell) { // also NaN
+		return -weldMaxCell
+	}
+	if f > weldMaxCell {
+		return weldMaxCell
+	}
+	return int64(f)
+}
+
+// findIn returns the first vertex of cell k within tol of p (or -1) and the cell's slot.
+func (w *welder) findIn(k [3]int64, p mgl64.Vec3) (int32, uint64) {
+	s := w.slot(k)
+	for v := w.slots[s].head; v >= 0; v = w.next[v] {
+		q := w.verts[v]
+		if w.exact {
+			if q == p {
+				return v, s
+			}
+			continue
+		}
+		d := q.Sub(p)
+		if d.Dot(d) <= w.tol2 {
+			return v, s
+		}
+	}
+	return -1, s
+}
+
+func (w *welder) add(p mgl64.Vec3) int32 {
+	h := weldHash([3]int64{int64(math.Float64bits(p[0] + 0)), int64(math.Float64bits(p[1] + 0)), int64(math.Float64bits(p[2] + 0))})
+	rc := &w.recent[h>>52&(weldRecentSize-1)]
+	if rc.v >= 0 && rc.p == p {
+		return rc.v
+	}
+	v := w.lookup(p)
+	if finiteVec(p) {
+		rc.p, rc.v = p, v
+	}
+	return v
+}
+
+// lookup finds or makes the vertex for p through the grid hash.
+func (w *welder) lookup(p mgl64.Vec3) int32 {
+	if !finiteVec(p) {
+		// NaN never equals anything; keeping such points out of the table stops one cell
+		// from collecting them all.
+		w.verts = append(w.verts, p)
+		w.next = append(w.next, -1)
+		return int32(len(w.verts) - 1)
+	}
+	k := w.cellOf(p)
+	v, s := w.findIn(k, p)
+	if v >= 0 {
+		return v
+	}
+	if !w.exact {
+		// Neighbouring cells touched by the tol-box around p (at most two per axis).
+		var lo, hi [3]int64
+		near := false
+		for a := 0; a < 3; a++ {
+			lo[a] = weldCellIndex((p[a] - w.tol) * w.inv)
+			hi[a] = weldCellIndex((p[a] + w.tol) * w.inv)
+			if lo[a] != k[a] || hi[a] != k[a] {
+				near = true
+			}
+		}
+		if near {
+			for x := lo[0]; x <= hi[0]; x++ {
+				for y := lo[1]; y <= hi[1]; y++ {
+					for z := lo[2]; z <= hi[2]; z++ {
+						c := [3]int64{x, y, z}
+						if c == k {
+							continue
+						}
+						if v, _ := w.findIn(c, p); v >= 0 {
+							return v
+						}
+					}
+				}
+			}
+		}
+	}
+	// The neighbour search did not change the table, so slot s is still k's.
+	v = int32(len(w.verts))
+	w.verts = append(w.verts, p)
+	if w.slots[s].head < 0 {
+		w.slots[s] = weldSlot{key: weldHash(k), head: v}
+		w.next = append(w.next, -1)
+		w.used++
+		if 2*w.used > len(w.slots) {
+			w.grow()
+		}
+		return v
+	}
+	// Prepend keeps the chain walk cheap; order within a cell stays deterministic.
+	w.next = append(w.next, w.slots[s].head)
+	w.slots[s].head = v
+	return v
+}
+
+func (w *welder) grow() {
+	old := w.slots
+	w.alloc(2 * len(old))
+	for _, e := range old {
+		if e.head >= 0 {
+			w.slots[w.slotOf(e.key)] = e
+			w.used++
+		}
+	}
+}
+
+// finiteVec: x - x is 0 for finite x and NaN for NaN and infinities.
+func finiteVec(p mgl64.Vec3) bool {
+	return p[0]-p[0] == 0 && p[1]-p[1] == 0 && p[2]-p[2] == 0
+}

@@ -1,0 +1,117 @@
+package models
+
+import (
+	"fmt"
+	"math"
+)
+
+// Alloy holds the material parameters a file's strain, fatigue and torsion figures need.
+// Fatigue follows two regimes: below RecoverableStrain a strain-life law eps_a = C N^-b
+// (Manson-Coffin-Basquin form); at or above it life collapses to CyclesAboveLimit.
+type Alloy struct {
+	Name              string  `json:"-"`
+	ElasticModulusGPa float64 `json:"elastic_modulus_gpa"`
+	ShearUltimateMPa  float64 `json:"shear_ultimate_mpa"`
+	RecoverableStrain float64 `json:"recoverable_strain"`
+	StrainLifeC       float64 `json:"strain_life_c"`
+	StrainLifeB       float64 `json:"strain_life_b"`
+	CyclesAboveLimit  float64 `json:"cycles_above_limit"`
+	// Illustrative marks built-in parameters that are plausible textbook-style values, not
+	// measurements of any product; they must be labelled so wherever they are shown.
+	Illustrative bool `json:"-"`
+}
+
+// IllustrativeNote is the wording shown next to a built-in alloy's figures.
+const IllustrativeNote = "illustrative parameters, not measured values of any product"
+
+// Built-in alloy names.
+const (
+	AlloyNiTiSuperelastic = "niti-superelastic"
+	AlloyNiTiMartensitic  = "niti-martensitic"
+	AlloyStainlessSteel   = "stainless-steel"
+)
+
+// builtinAlloys are illustrative. The strain-life constants are chosen so that a 25/.04 whose
+// 0.45 mm section rides a 5 mm radius curve (4.5 % strain) lasts several hundred cycles in the
+// superelastic alloy and a few thousand in the more fatigue-resistant martensitic one.
+var builtinAlloys = [...]Alloy{
+	{Name: AlloyNiTiSuperelastic, ElasticModulusGPa: 40, ShearUltimateMPa: 900, RecoverableStrain: 0.07,
+		StrainLifeC: 0.33, StrainLifeB: 0.3, CyclesAboveLimit: 3, Illustrative: true},
+	{Name: AlloyNiTiMartensitic, ElasticModulusGPa: 30, ShearUltimateMPa: 800, RecoverableStrain: 0.08,
+		StrainLifeC: 0.40, StrainLifeB: 0.28, CyclesAboveLimit: 5, Illustrative: true},
+	{Name: AlloyStainlessSteel, ElasticModulusGPa: 200, ShearUltimateMPa: 1100, RecoverableStrain: 0.01,
+		StrainLifeC: 0.015, StrainLifeB: 0.12, CyclesAboveLimit: 1, Illustrative: true},
+}
+
+// BuiltinAlloys returns the built-in alloys in a fixed order.
+func BuiltinAlloys() []Alloy {
+	out := make([]Alloy, len(builtinAlloys))
+	copy(out, builtinAlloys[:])
+	return out
+}
+
+// BuiltinAlloy returns the built-in alloy with the given name.
+func BuiltinAlloy(name string) (Alloy, bool) {
+	for _, a := range builtinAlloys {
+		if a.Name == name {
+			return a, true
+		}
+	}
+	return Alloy{}, false
+}
+
+// CyclesToFailure returns the number of bending cycles (revolutions) the alloy survives at a
+// constant strain amplitude. Rotational speed plays no part: in rotating-bending tests cycles to
+// failure did not depend on rpm (Pruett et al. 1997), so faster rotation only spends cycles faster.
+// eps <= 0 gives +Inf; NaN gives NaN.
+func (a Alloy) CyclesToFailure(strainAmplitude float64) float64 {
+	switch {
+	case math.IsNaN(strainAmplitude):
+		return math.NaN()
+	case strainAmplitude <= 0:
+		return math.Inf(1)
+	case strainAmplitude >= a.RecoverableStrain:
+		return a.CyclesAboveLimit
+	}
+	return math.Pow(strainAmplitude/a.StrainLifeC, -1/a.StrainLifeB)
+}
+
+// Validate checks that every parameter is usable; the error names the JSON field.
+func (a Alloy) Validate() error {
+	if field, msg := a.invalidField(); field != "" {
+		return fmt.Errorf("%s: %s", field, msg)
+	}
+	return nil
+}
+
+// invalidField returns the JSON name of the first bad parameter and what is wrong with it.
+func (a Alloy) invalidField() (field, msg string) {
+	positive := []struct {
+		name string
+		v    float64
+	}{
+		{"elastic_modulus_gpa", a.ElasticModulusGPa},
+		{"shear_ultimate_mpa", a.ShearUltimateMPa},
+		{"recoverable_strain", a.RecoverableStrain},
+		{"strain_life_c", a.StrainLifeC},
+		{"strain_life_b", a.StrainLifeB},
+		{"cycles_above_limit", a.CyclesAboveLimit},
+	}
+	for _, p := range positive {
+		if math.IsNaN(p.v) || math.IsInf(p.v, 0) {
+			return p.name, "must be a finite number"
+		}
+		if p.v <= 0 {
+			return p.name, fmt.Sprintf("must be above 0 (got %g)", p.v)
+		}
+	}
+	if a.RecoverableStrain >= maxRecoverableStrain {
+		return "recoverable_strain", fmt.Sprintf("must be below %g (a strain, not a percentage; got %g)",
+			maxRecoverableStrain, a.RecoverableStrain)
+	}
+	return "", ""
+}
+
+// maxRecoverableStrain bounds recoverable strain: no file alloy recovers 20 % strain, and a value
+// that large is most likely a percentage typed as a fraction.
+const maxRecoverableStrain = 0.2

@@ -1,0 +1,255 @@
+package render
+
+// Rows are split into bands of bandH rows; one worker owns a band at a time, so no
+// two goroutines write the same pixel and the result does not depend on scheduling.
+
+// opaquePhase clears each band and draws the opaque triangles into it.
+func (r *Renderer) opaquePhase(int) {
+	for {
+		band, ok := r.nextItem(r.nBands)
+		if !ok {
+			return
+		}
+		y0, y1 := r.bandRows(band)
+		r.clearRows(y0, y1)
+		for c := 0; c < r.nChunks; c++ {
+			list := r.chunks[c].opaque
+			for _, idx := range r.opaqueBins[c*r.nBands+band] {
+				r.rasterOpaque(&list[idx], y0, y1)
+			}
+		}
+	}
+}
+
+// seeThroughPhase outlines the opaque layer, then blends the see-through triangles far to near.
+func (r *Renderer) seeThroughPhase(int) {
+	for {
+		band, ok := r.nextItem(r.nBands)
+		if !ok {
+			return
+		}
+		y0, y1 := r.bandRows(band)
+		r.outlineRows(y0, y1, r.z, r.oObj, 190)
+		for _, ref := range r.clearBins[band] {
+			t := &r.chunks[ref.chunk].clear[ref.idx]
+			r.rasterSeeThrough(t, y0, y1, r.objs[t.obj-1].alpha)
+		}
+	}
+}
+
+// finishPhase outlines the see-through layer and, when supersampling, filters the band down.
+func (r *Renderer) finishPhase(int) {
+	for {
+		band, ok := r.nextItem(r.nBands)
+		if !ok {
+			return
+		}
+		y0, y1 := r.bandRows(band)
+		r.outlineRows(y0, y1, r.tz, r.tObj, 150)
+		if r.ss > 1 {
+			r.downsampleRows(y0, y1)
+		}
+	}
+}
+
+func (r *Renderer) bandRows(band int) (int, int) {
+	y0 := band * r.bandH
+	return y0, min(y0+r.bandH, r.h)
+}
+
+func (r *Renderer) clearRows(y0, y1 int) {
+	for y := y0; y < y1; y++ {
+		o := r.base + y*r.stride
+		copy(r.pix[o:o+r.w*4], r.bgRow)
+		row := r.z[y*r.w : (y+1)*r.w]
+		clear(row)
+		clear(r.tz[y*r.w : (y+1)*r.w])
+		clear(r.oObj[y*r.w : (y+1)*r.w])
+		clear(r.tObj[y*r.w : (y+1)*r.w])
+	}
+}
+
+// edges returns the three edge functions of t at the centre of pixel (x, y) and their
+// steps per pixel in x. Each is biased by -1 on edges that are not top or left, so
+// "e >= 0" is the top-left fill rule and shared edges are drawn exactly once.
+func edges(t *triSetup, x, y int32) (e0, e1, e2, s0, s1, s2 int64) {
+	px := int64(x)<<subBits + subHalf
+	py := int64(y)<<subBits + subHalf
+	edge := func(ax, ay, bx, by int32) (e, step int64) {
+		dx, dy := int64(bx-ax), int64(by-ay)
+		e = dx*(py-int64(ay)) - dy*(px-int64(ax))
+		if !(dy < 0 || (dy == 0 && dx > 0)) {
+			e--
+		}
+		return e, -dy << subBits
+	}
+	e0, s0 = edge(t.x1, t.y1, t.x2, t.y2)
+	e1, s1 = edge(t.x2, t.y2, t.x0, t.y0)
+	e2, s2 = edge(t.x0, t.y0, t.x1, t.y1)
+	return
+}
+
+// rowStep is how much the edge functions grow from one pixel row to the next.
+func rowStep(t *triSetup) (r0, r1, r2 int64) {
+	return int64(t.x2-t.x1) << subBits, int64(t.x0-t.x2) << subBits, int64(t.x1-t.x0) << subBits
+}
+
+// span returns the pixel offsets lo..hi (from the row start) where all three edge
+// functions are >= 0; lo > hi when the row misses the triangle. It saves walking the
+// empty part of a wide bounding box (long slivers close to the eye).
+func span(e0, e1, e2, s0, s1, s2, last int64) (lo, hi int64) {
+	lo, hi = 0, last
+	for _, es := range [3][2]int64{{e0, s0}, {e1, s1}, {e2, s2}} {
+		e, st := es[0], es[1]
+		switch {
+		case st > 0:
+			if e < 0 {
+				lo = max(lo, (-e+st-1)/st)
+			}
+		case st < 0:
+			if e < 0 {
+				return 1, 0
+			}
+			hi = min(hi, e/(-st))
+		default:
+			if e < 0 {
+				return 1, 0
+			}
+		}
+	}
+	return lo, hi
+}
+
+// wideBox is the bounding-box width from which computing each row's span pays off.
+const wideBox = 12
+
+func clampByte(v float32) byte {
+	if v >= 255 {
+		return 255
+	}
+	if v <= 0 {
+		return 0
+	}
+	return byte(v + 0.5)
+}
+
+// rasterOpaque draws the rows y0..y1-1 of t with a depth test (larger 1/w is nearer).
+func (r *Renderer) rasterOpaque(t *triSetup, y0, y1 int) {
+	ys, ye := max(t.minY, int32(y0)), min(t.maxY, int32(y1-1))
+	if ys > ye {
+		return
+	}
+	e0, e1, e2, s0, s1, s2 := edges(t, t.minX, ys)
+	r0, r1, r2 := rowStep(t)
+	wide := t.maxX-t.minX >= wideBox
+	w := int32(r.w)
+	zb, pix := r.z, r.pix
+	for y := ys; y <= ye; y++ {
+		a0, a1, a2 := e0, e1, e2
+		fy := float32(y - t.minY)
+		zr, rr, gr, br := t.z+t.zdy*fy, t.r+t.rdy*fy, t.g+t.gdy*fy, t.b+t.bdy*fy
+		x0, x1 := t.minX, t.maxX
+		if wide {
+			lo, hi := span(a0, a1, a2, s0, s1, s2, int64(x1-x0))
+			if lo > hi {
+				e0 += r0
+				e1 += r1
+				e2 += r2
+				continue
+			}
+			x0, x1 = t.minX+int32(lo), t.minX+int32(hi)
+			a0, a1, a2 = a0+s0*lo, a1+s1*lo, a2+s2*lo
+		}
+		i := int(y*w + x0)
+		o := r.base + int(y)*r.stride + int(x0)*4
+		fx := float32(x0 - t.minX)
+		for x := x0; x <= x1; x++ {
+			if a0|a1|a2 >= 0 {
+				if iw := zr + t.zdx*fx; iw > zb[i] {
+					zb[i] = iw
+					k := 1 / iw
+					p := pix[o : o+4 : o+4]
+					p[0] = clampByte((rr + t.rdx*fx) * k)
+					p[1] = clampByte((gr + t.gdx*fx) * k)
+					p[2] = clampByte((br + t.bdx*fx) * k)
+					p[3] = 255
+					r.oObj[i] = t.obj
+					r.triID[i] = t.tri
+				}
+			}
+			a0 += s0
+			a1 += s1
+			a2 += s2
+			fx++
+			i++
+			o += 4
+		}
+		e0 += r0
+		e1 += r1
+		e2 += r2
+	}
+}
+
+// rasterSeeThrough blends t (opacity alpha/256) over what is drawn, behind no opaque surface.
+func (r *Renderer) rasterSeeThrough(t *triSetup, y0, y1 int, alpha int32) {
+	ys, ye := max(t.minY, int32(y0)), min(t.maxY, int32(y1-1))
+	if ys > ye {
+		return
+	}
+	e0, e1, e2, s0, s1, s2 := edges(t, t.minX, ys)
+	r0, r1, r2 := rowStep(t)
+	wide := t.maxX-t.minX >= wideBox
+	w := int32(r.w)
+	zb, tz, pix := r.z, r.tz, r.pix
+	for y := ys; y <= ye; y++ {
+		a0, a1, a2 := e0, e1, e2
+		fy := float32(y - t.minY)
+		zr, rr, gr, br := t.z+t.zdy*fy, t.r+t.rdy*fy, t.g+t.gdy*fy, t.b+t.bdy*fy
+		x0, x1 := t.minX, t.maxX
+		if wide {
+			lo, hi := span(a0, a1, a2, s0, s1, s2, int64(x1-x0))
+			if lo > hi {
+				e0 += r0
+				e1 += r1
+				e2 += r2
+				continue
+			}
+			x0, x1 = t.minX+int32(lo), t.minX+int32(hi)
+			a0, a1, a2 = a0+s0*lo, a1+s1*lo, a2+s2*lo
+		}
+		i := int(y*w + x0)
+		o := r.base + int(y)*r.stride + int(x0)*4
+		fx := float32(x0 - t.minX)
+		for x := x0; x <= x1; x++ {
+			if a0|a1|a2 >= 0 {
+				if iw := zr + t.zdx*fx; iw > zb[i] {
+					k := 1 / iw
+					p := pix[o : o+4 : o+4]
+					p[0] = blend(p[0], clampByte((rr+t.rdx*fx)*k), alpha)
+					p[1] = blend(p[1], clampByte((gr+t.gdx*fx)*k), alpha)
+					p[2] = blend(p[2], clampByte((br+t.bdx*fx)*k), alpha)
+					if iw > tz[i] {
+						tz[i] = iw
+						r.tObj[i] = t.obj
+						r.triID[i] = t.tri
+					}
+				}
+			}
+			a0 += s0
+			a1 += s1
+			a2 += s2
+			fx++
+			i++
+			o += 4
+		}
+		e0 += r0
+		e1 += r1
+		e2 += r2
+	}
+}
+
+// blend returns dst + (src-dst)*alpha/256, rounded.
+func blend(dst, src byte, alpha int32) byte {
+	d := int32(dst)
+	return byte(d + ((int32(src)-d)*alpha+128)>>8)
+}

@@ -1,0 +1,382 @@
+// Package render is a CPU rasteriser for triangle meshes: a turntable camera, a z-buffer
+// with per-vertex colours and smooth shading, see-through surfaces blended back to front
+// over the opaque ones, a clipping plane, outlines, supersampling, colour scales and legends.
+// It knows meshes and colours, not canals.
+package render
+
+import (
+	"image"
+	"math"
+	"runtime"
+	"sync/atomic"
+
+	"github.com/go-gl/mathgl/mgl32"
+	"github.com/go-gl/mathgl/mgl64"
+
+	"tapersweep/mesh"
+)
+
+// Renderer draws scenes into images. It keeps its buffers between frames, so drawing
+// the same size again allocates nothing. One Renderer serves one goroutine at a time.
+type Renderer struct {
+	pool *pool
+
+	// Internal frame size (output size times the supersampling factor).
+	w, h, ss      int
+	bandH, nBands int
+	workers       int
+
+	// Camera for this frame.
+	view          mgl64.Mat4
+	rot           mgl64.Mat3 // world to view rotation, for normals
+	p00, p11      float64    // projection scale in x and y
+	near          float32
+	eye           mgl64.Vec3
+	plane         [4]float64 // world clipping plane: n.p + d >= 0 is kept
+	hasPlane      bool
+	outlineThresh float32
+
+	objs   []frameObject
+	meshes map[*mesh.Mesh]*meshCache
+	verts  []packedVert
+	vjobs  []vertexJob
+
+	chunks     []triChunk
+	nChunks    int
+	opaqueBins [][]int32 // [chunk*nBands+band] indices into chunks[chunk].opaque
+	sortItems  []sortItem
+	sortTmp    []sortItem
+	clearBins  [][]clearRef // [band] see-through triangles, far to near
+
+	// Colour target: dst.Pix directly, or own when supersampling.
+	pix    []byte
+	stride int
+	base   int
+	own    []byte
+	dst    *image.RGBA
+	bgRow  []byte
+
+	z     []float32 // 1/w of the nearest opaque surface, 0 = nothing
+	tz    []float32 // 1/w of the nearest see-through surface in front of it
+	oObj  []uint16  // object+1 of the nearest opaque surface
+	tObj  []uint16  // object+1 of the nearest see-through surface
+	triID []int32   // triangle of the nearest surface of either kind
+
+	next atomic.Int64
+
+	fnVerts, fnTris, fnOpaque, fnSeeThrough, fnFinish func(worker int)
+
+	picking pickState
+}
+
+// frameObject is an Object prepared for this frame.
+type frameObject struct {
+	mesh       *mesh.Mesh
+	src        *Object
+	vertBase   int
+	cull       bool // back faces cannot be seen: closed, opaque, camera outside, not clipped
+	clip       bool
+	seeThrough bool
+	alpha      int32 // 0..256
+	outline    bool
+	normals    []mgl32.Vec3
+	colors     bool
+}
+
+type meshCache struct {
+	nv, nt  int
+	v0      *mgl64.Vec3
+	t0      *[3]int32
+	normals []mgl32.Vec3
+	lo, hi  mgl64.Vec3
+	used    bool
+}
+
+type vertexJob struct{ obj, v0, v1 int }
+
+type triChunk struct {
+	obj, t0, t1 int
+	opaque      []triSetup
+	clear       []triSetup
+}
+
+type clearRef struct{ chunk, idx uint32 }
+
+// NewRenderer returns a renderer with no buffers yet; the first frame sizes them.
+func NewRenderer() *Renderer {
+	r := &Renderer{pool: newPool(), meshes: map[*mesh.Mesh]*meshCache{}}
+	r.fnVerts = r.vertexPhase
+	r.fnTris = r.trianglePhase
+	r.fnOpaque = r.opaquePhase
+	r.fnSeeThrough = r.seeThroughPhase
+	r.fnFinish = r.finishPhase
+	runtime.AddCleanup(r, func(p *pool) { p.close() }, r.pool)
+	return r
+}
+
+// Close stops the worker goroutines; the renderer still works, on one goroutine.
+func (r *Renderer) Close() { r.pool.close() }
+
+// Forget drops cached normals and bounds of m; call it after changing m in place.
+func (r *Renderer) Forget(m *mesh.Mesh) { delete(r.meshes, m) }
+
+const (
+	subBits  = 8 // sub-pixel bits of the fixed-point screen coordinates
+	subOne   = 1 << subBits
+	subHalf  = subOne / 2
+	guard    = 4 // guard band in NDC units: vertices farther out are clipped
+	maxSS    = 4
+	maxObjs  = math.MaxUint16 - 1
+	bandRows = 16
+)
+
+// Render draws s as seen by cam into dst (any size, any origin).
+func (r *Renderer) Render(dst *image.RGBA, s *Scene, cam *Camera, opt Options) {
+	if dst == nil || dst.Rect.Empty() {
+		return
+	}
+	ss := opt.Supersample
+	if ss < 1 {
+		ss = 1
+	}
+	if ss > maxSS {
+		ss = maxSS
+	}
+	r.workers = opt.Workers
+	if r.workers <= 0 {
+		r.workers = runtime.GOMAXPROCS(0)
+	}
+	r.resize(dst, ss)
+	if s != nil {
+		r.setBackground(s)
+	}
+	r.prepareCamera(cam, s)
+	r.prepareObjects(s)
+
+	r.runPhase(len(r.vjobs), r.fnVerts)
+	r.prepareChunks()
+	r.runPhase(r.nChunks, r.fnTris)
+	r.sortSeeThrough()
+	r.runPhase(r.nBands, r.fnOpaque)
+	r.runPhase(r.nBands, r.fnSeeThrough)
+	r.runPhase(r.nBands, r.fnFinish)
+	r.savePick(dst)
+	r.evictMeshes()
+}
+
+// runPhase hands items 0..n-1 to the workers through the shared counter.
+func (r *Renderer) runPhase(n int, fn func(worker int)) {
+	if n == 0 {
+		return
+	}
+	r.next.Store(0)
+	workers := min(r.workers, n)
+	r.pool.run(workers, fn)
+}
+
+// nextItem returns the next work item of the running phase, or false when all are taken.
+func (r *Renderer) nextItem(n int) (int, bool) {
+	i := int(r.next.Add(1) - 1)
+	return i, i < n
+}
+
+// resize sizes the internal buffers for dst at supersampling ss; they only grow.
+func (r *Renderer) resize(dst *image.RGBA, ss int) {
+	r.ss = ss
+	r.w, r.h = dst.Rect.Dx()*ss, dst.Rect.Dy()*ss
+	r.bandH = ss * max(1, bandRows/ss)
+	r.nBands = (r.h + r.bandH - 1) / r.bandH
+	n := r.w * r.h
+	r.z = grow(r.z, n)
+	r.tz = grow(r.tz, n)
+	r.oObj = grow(r.oObj, n)
+	r.tObj = grow(r.tObj, n)
+	r.triID = grow(r.triID, n)
+	r.bgRow = grow(r.bgRow, r.w*4)
+	r.dst = dst
+	if ss == 1 {
+		r.pix, r.stride, r.base = dst.Pix, dst.Stride, dst.PixOffset(dst.Rect.Min.X, dst.Rect.Min.Y)
+	} else {
+		r.own = grow(r.own, n*4)
+		r.pix, r.stride, r.base = r.own, r.w*4, 0
+	}
+	if len(r.clearBins) < r.nBands {
+		r.clearBins = append(r.clearBins, make([][]clearRef, r.nBands-len(r.clearBins))...)
+	}
+}
+
+// grow returns s with length n, reusing its storage when it is big enough.
+func grow[T any](s []T, n int) []T {
+	if cap(s) >= n {
+		return s[:n]
+	}
+	return make([]T, n, n+n/8)
+}
+
+func (r *Renderer) setBackground(s *Scene) {
+	bg := s.Background
+	for i := 0; i < len(r.bgRow); i += 4 {
+		r.bgRow[i], r.bgRow[i+1], r.bgRow[i+2], r.bgRow[i+3] = bg.R, bg.G, bg.B, 255
+	}
+}
+
+func (r *Renderer) prepareCamera(cam *Camera, s *Scene) {
+	c := Camera{Distance: 10, FovY: 35 * math.Pi / 180}
+	if cam != nil {
+		c = *cam
+	}
+	if !(c.FovY > 1e-6 && c.FovY < math.Pi-1e-6) {
+		c.FovY = 35 * math.Pi / 180
+	}
+	r.view = c.View()
+	r.rot = r.view.Mat3()
+	r.eye = c.Eye()
+	t := math.Tan(c.FovY / 2)
+	r.p11 = 1 / t
+	r.p00 = r.p11 * float64(r.h) / float64(r.w)
+	r.near = float32(c.nearDistance())
+	r.hasPlane = false
+	if s != nil && s.ClipPlane != nil && s.ClipPlane.Normal.Len() > 0 {
+		n := s.ClipPlane.Normal.Normalize()
+		r.plane = [4]float64{n[0], n[1], n[2], -n.Dot(s.ClipPlane.Point)}
+		r.hasPlane = true
+	}
+	// A depth jump of this fraction marks an outline; it scales with the pixel's angular size
+	// so outlines look alike at any resolution (the neighbour compared is ss samples away).
+	r.outlineThresh = float32(12 * 2 * t / float64(r.h/r.ss))
+}
+
+// prepareObjects resolves each object's normals, culling and colours for this frame.
+func (r *Renderer) prepareObjects(s *Scene) {
+	r.objs = r.objs[:0]
+	r.vjobs = r.vjobs[:0]
+	if s == nil {
+		return
+	}
+	nv := 0
+	for i := range s.Objects {
+		o := &s.Objects[i]
+		if o.Mesh == nil || len(o.Mesh.Triangles) == 0 || len(o.Mesh.Vertices) == 0 || len(r.objs) >= maxObjs {
+			r.objs = append(r.objs, frameObject{src: o}) // keeps object numbering; draws nothing
+			continue
+		}
+		mc := r.cacheFor(o.Mesh)
+		fo := frameObject{
+			mesh:       o.Mesh,
+			src:        o,
+			vertBase:   nv,
+			clip:       o.Clip && r.hasPlane,
+			seeThrough: o.seeThrough(),
+			outline:    o.Outline,
+			normals:    mc.normals,
+			colors:     len(o.Colors) == len(o.Mesh.Vertices),
+		}
+		fo.alpha = 256
+		if fo.seeThrough {
+			fo.alpha = int32(math.Round(o.Opacity * 256))
+		}
+		// Back faces of an opaque closed surface are hidden unless the eye is inside it
+		// or the clipping plane opens it.
+		pad := mc.hi.Sub(mc.lo).Len() * 0.01
+		inside := true
+		for k := 0; k < 3; k++ {
+			if r.eye[k] < mc.lo[k]-pad || r.eye[k] > mc.hi[k]+pad {
+				inside = false
+			}
+		}
+		fo.cull = !fo.seeThrough && !fo.clip && !inside
+		r.objs = append(r.objs, fo)
+		n := len(o.Mesh.Vertices)
+		const step = 8192
+		for v := 0; v < n; v += step {
+			r.vjobs = append(r.vjobs, vertexJob{obj: len(r.objs) - 1, v0: v, v1: min(n, v+step)})
+		}
+		nv += n
+	}
+	r.verts = grow(r.verts, nv)
+}
+
+// cacheFor returns cached normals and bounds of m, computing them when m is new or resized.
+func (r *Renderer) cacheFor(m *mesh.Mesh) *meshCache {
+	mc := r.meshes[m]
+	if mc == nil || mc.nv != len(m.Vertices) || mc.nt != len(m.Triangles) ||
+		mc.v0 != &m.Vertices[0] || mc.t0 != &m.Triangles[0] {
+		mc = &meshCache{nv: len(m.Vertices), nt: len(m.Triangles), v0: &m.Vertices[0], t0: &m.Triangles[0]}
+		mc.normals = vertexNormals(m)
+		mc.lo, mc.hi = m.Bounds()
+		r.meshes[m] = mc
+	}
+	mc.used = true
+	return mc
+}
+
+// evictMeshes forgets meshes not drawn in this frame.
+func (r *Renderer) evictMeshes() {
+	for m, mc := range r.meshes {
+		if !mc.used {
+			delete(r.meshes, m)
+		}
+		mc.used = false
+	}
+}
+
+// vertexNormals returns area-weighted vertex normals; triangles with bad indices are skipped.
+func vertexNormals(m *mesh.Mesh) []mgl32.Vec3 {
+	acc := make([]mgl64.Vec3, len(m.Vertices))
+	nv := uint32(len(m.Vertices))
+	for _, t := range m.Triangles {
+		if uint32(t[0]) >= nv || uint32(t[1]) >= nv || uint32(t[2]) >= nv {
+			continue
+		}
+		a, b, c := m.Vertices[t[0]], m.Vertices[t[1]], m.Vertices[t[2]]
+		n := b.Sub(a).Cross(c.Sub(a))
+		acc[t[0]] = acc[t[0]].Add(n)
+		acc[t[1]] = acc[t[1]].Add(n)
+		acc[t[2]] = acc[t[2]].Add(n)
+	}
+	out := make([]mgl32.Vec3, len(acc))
+	for i, n := range acc {
+		if l := n.Len(); l > 0 && !math.IsInf(l, 0) {
+			n = n.Mul(1 / l)
+			out[i] = mgl32.Vec3{float32(n[0]), float32(n[1]), float32(n[2])}
+		}
+	}
+	return out
+}
+
+// prepareChunks splits every object's triangles into chunks of work; each chunk keeps its
+// own output lists, so the frame does not depend on how many workers ran.
+func (r *Renderer) prepareChunks() {
+	total := 0
+	for _, o := range r.objs {
+		if o.mesh != nil {
+			total += len(o.mesh.Triangles)
+		}
+	}
+	size := max(4096, (total+255)/256)
+	n := 0
+	for oi, o := range r.objs {
+		if o.mesh == nil {
+			continue
+		}
+		nt := len(o.mesh.Triangles)
+		for t := 0; t < nt; t += size {
+			if n == len(r.chunks) {
+				r.chunks = append(r.chunks, triChunk{})
+			}
+			ch := &r.chunks[n]
+			ch.obj, ch.t0, ch.t1 = oi, t, min(nt, t+size)
+			ch.opaque = ch.opaque[:0]
+			ch.clear = ch.clear[:0]
+			n++
+		}
+	}
+	r.nChunks = n
+	nb := n * r.nBands
+	if len(r.opaqueBins) < nb {
+		r.opaqueBins = append(r.opaqueBins, make([][]int32, nb-len(r.opaqueBins))...)
+	}
+	for i := 0; i < nb; i++ {
+		r.opaqueBins[i] = r.opaqueBins[i][:0]
+	}
+}

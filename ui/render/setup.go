@@ -1,0 +1,212 @@
+package render
+
+import (
+	"github.com/go-gl/mathgl/mgl32"
+)
+
+// triSetup is a triangle ready to rasterise: fixed-point corners ordered so the edge
+// functions are positive inside, a pixel bounding box clamped to the viewport, and
+// attribute planes a(x, y) = a + adx*(x-minX) + ady*(y-minY) at pixel centres.
+type triSetup struct {
+	x0, y0, x1, y1, x2, y2 int32
+	minX, minY, maxX, maxY int32
+	z, zdx, zdy            float32 // 1/w
+	r, rdx, rdy            float32 // colour/w
+	g, gdx, gdy            float32
+	b, bdx, bdy            float32
+	tri                    int32
+	obj                    uint16 // object+1
+}
+
+// trianglePhase culls, clips and sets up triangles chunk by chunk, binning opaque ones by band.
+func (r *Renderer) trianglePhase(int) {
+	for {
+		c, ok := r.nextItem(r.nChunks)
+		if !ok {
+			return
+		}
+		r.setupChunk(c)
+	}
+}
+
+func (r *Renderer) setupChunk(c int) {
+	ch := &r.chunks[c]
+	o := &r.objs[ch.obj]
+	tris := o.mesh.Triangles
+	nv := uint32(len(o.mesh.Vertices))
+	verts := r.verts[o.vertBase : o.vertBase+int(nv)]
+	bins := r.opaqueBins[c*r.nBands : (c+1)*r.nBands]
+	objID := uint16(ch.obj + 1)
+	var ts triSetup
+	for t := ch.t0; t < ch.t1; t++ {
+		tri := tris[t]
+		if uint32(tri[0]) >= nv || uint32(tri[1]) >= nv || uint32(tri[2]) >= nv {
+			continue // a bad index draws nothing rather than panicking
+		}
+		a, b, cc := &verts[tri[0]], &verts[tri[1]], &verts[tri[2]]
+		if (a.code|b.code|cc.code)&outBad != 0 || (a.code&b.code&cc.code)&outReject != 0 {
+			continue
+		}
+		if (a.code|b.code|cc.code)&outClip != 0 {
+			r.clipTriangle(ch, bins, o, a, b, cc, int32(t), objID)
+			continue
+		}
+		if !r.setup(&a.s, &b.s, &cc.s, o.cull, &ts) {
+			continue
+		}
+		ts.tri, ts.obj = int32(t), objID
+		r.emit(ch, bins, o, &ts)
+	}
+}
+
+// emit stores a set-up triangle: opaque ones are binned now, see-through ones after sorting.
+func (r *Renderer) emit(ch *triChunk, bins [][]int32, o *frameObject, ts *triSetup) {
+	if o.seeThrough {
+		ch.clear = append(ch.clear, *ts)
+		return
+	}
+	idx := int32(len(ch.opaque))
+	ch.opaque = append(ch.opaque, *ts)
+	for band := int(ts.minY) / r.bandH; band <= int(ts.maxY)/r.bandH; band++ {
+		bins[band] = append(bins[band], idx)
+	}
+}
+
+// setup prepares triangle (a, b, c); false when it covers no pixel centre or faces away
+// and cull is set. Counter-clockwise triangles (seen from outside) face the viewer.
+func (r *Renderer) setup(a, b, c *screenVert, cull bool, ts *triSetup) bool {
+	area := int64(b.x-a.x)*int64(c.y-a.y) - int64(b.y-a.y)*int64(c.x-a.x)
+	if area == 0 {
+		return false
+	}
+	// On screen y points down, so a front face has negative area; reorder to positive.
+	if area > 0 {
+		if cull {
+			return false
+		}
+	} else {
+		b, c = c, b
+		area = -area
+	}
+	minx, maxx := min3(a.x, b.x, c.x), max3(a.x, b.x, c.x)
+	miny, maxy := min3(a.y, b.y, c.y), max3(a.y, b.y, c.y)
+	// Pixels whose centres (k + 1/2) lie within the box.
+	x0 := max((minx-subHalf+subOne-1)>>subBits, 0)
+	x1 := min((maxx-subHalf)>>subBits, int32(r.w-1))
+	y0 := max((miny-subHalf+subOne-1)>>subBits, 0)
+	y1 := min((maxy-subHalf)>>subBits, int32(r.h-1))
+	if x0 > x1 || y0 > y1 {
+		return false
+	}
+	ts.x0, ts.y0, ts.x1, ts.y1, ts.x2, ts.y2 = a.x, a.y, b.x, b.y, c.x, c.y
+	ts.minX, ts.minY, ts.maxX, ts.maxY = x0, y0, x1, y1
+
+	const inv = 1.0 / subOne
+	dx1, dy1 := float32(b.x-a.x)*inv, float32(b.y-a.y)*inv
+	dx2, dy2 := float32(c.x-a.x)*inv, float32(c.y-a.y)*inv
+	det := dx1*dy2 - dy1*dx2
+	id := 1 / det
+	// Offset from corner a to the centre of the box's first pixel.
+	ox := float32(x0) + 0.5 - float32(a.x)*inv
+	oy := float32(y0) + 0.5 - float32(a.y)*inv
+	plane := func(va, vb, vc float32) (base, gx, gy float32) {
+		d1, d2 := vb-va, vc-va
+		gx = (d1*dy2 - d2*dy1) * id
+		gy = (d2*dx1 - d1*dx2) * id
+		return va + gx*ox + gy*oy, gx, gy
+	}
+	ts.z, ts.zdx, ts.zdy = plane(a.iw, b.iw, c.iw)
+	ts.r, ts.rdx, ts.rdy = plane(a.r, b.r, c.r)
+	ts.g, ts.gdx, ts.gdy = plane(a.g, b.g, c.g)
+	ts.b, ts.bdx, ts.bdy = plane(a.b, b.b, c.b)
+	return true
+}
+
+func min3(a, b, c int32) int32 { return min(a, min(b, c)) }
+func max3(a, b, c int32) int32 { return max(a, max(b, c)) }
+
+// clipVert is a vertex in clip space with what clipping must interpolate.
+type clipVert struct {
+	x, y, w, d float32
+	col        mgl32.Vec3
+}
+
+// distance returns the signed distance of v to clip plane bit (>= 0 is kept). All are
+// linear in homogeneous coordinates, so interpolating along an edge is exact.
+func (r *Renderer) distance(v *clipVert, bit uint32) float32 {
+	switch bit {
+	case outNear:
+		return v.w - r.near
+	case outPlane:
+		return v.d
+	case outGuardR:
+		return guard*v.w - v.x
+	case outGuardL:
+		return guard*v.w + v.x
+	case outGuardT:
+		return guard*v.w - v.y
+	default: // outGuardB
+		return guard*v.w + v.y
+	}
+}
+
+// clipTriangle clips against the near plane, the clipping plane and the guard band
+// (Sutherland-Hodgman), then sets up the resulting fan.
+func (r *Renderer) clipTriangle(ch *triChunk, bins [][]int32, o *frameObject, a, b, c *packedVert, tri int32, objID uint16) {
+	var bufA, bufB [12]clipVert
+	in, out := bufA[:0], bufB[:0]
+	for _, p := range [3]*packedVert{a, b, c} {
+		in = append(in, clipVert{x: p.cx, y: p.cy, w: p.cw, d: p.d, col: p.col})
+	}
+	codes := a.code | b.code | c.code
+	for bit := uint32(outNear); bit <= outGuardB; bit <<= 1 {
+		if codes&bit == 0 {
+			continue
+		}
+		out = out[:0]
+		for i := range in {
+			p, q := &in[i], &in[(i+1)%len(in)]
+			dp, dq := r.distance(p, bit), r.distance(q, bit)
+			if dp >= 0 {
+				out = append(out, *p)
+			}
+			if (dp >= 0) != (dq >= 0) {
+				// Interpolate from the kept end, so both triangles sharing the edge agree.
+				if dp >= 0 {
+					out = append(out, lerpClip(p, q, dp/(dp-dq)))
+				} else {
+					out = append(out, lerpClip(q, p, dq/(dq-dp)))
+				}
+			}
+		}
+		if len(out) < 3 {
+			return
+		}
+		in, out = out, in
+	}
+	var sv [12]screenVert
+	for i := range in {
+		v := &in[i]
+		if !(v.w > 0) {
+			return // numerically degenerate
+		}
+		sv[i] = r.project(v.x, v.y, v.w, v.col)
+	}
+	var ts triSetup
+	for i := 1; i+1 < len(in); i++ {
+		if r.setup(&sv[0], &sv[i], &sv[i+1], o.cull, &ts) {
+			ts.tri, ts.obj = tri, objID
+			r.emit(ch, bins, o, &ts)
+		}
+	}
+}
+
+func lerpClip(p, q *clipVert, t float32) clipVert {
+	return clipVert{
+		x:   p.x + (q.x-p.x)*t,
+		y:   p.y + (q.y-p.y)*t,
+		w:   p.w + (q.w-p.w)*t,
+		d:   p.d + (q.d-p.d)*t,
+		col: p.col.Add(q.col.Sub(p.col).Mul(t)),
+	}
+}

@@ -1,0 +1,194 @@
+package render
+
+import (
+	"math"
+
+	"github.com/go-gl/mathgl/mgl32"
+)
+
+// screenVert is a projected vertex: fixed-point pixel position and attributes divided
+// by w, so they interpolate linearly across the screen (perspective-correct).
+type screenVert struct {
+	x, y    int32   // pixels with subBits fraction bits
+	iw      float32 // 1/w
+	r, g, b float32 // shaded colour (0..255) times 1/w
+}
+
+// packedVert is a vertex transformed for this frame.
+type packedVert struct {
+	s          screenVert
+	cx, cy, cw float32 // clip-space x, y and w (w = distance in front of the eye)
+	d          float32 // signed distance to the clipping plane
+	col        mgl32.Vec3
+	code       uint32
+}
+
+// Outcode bits: which clip planes a vertex is outside of.
+const (
+	outNear  = 1 << iota // closer than the near plane (or behind the eye)
+	outPlane             // on the removed side of the clipping plane
+	outGuardR
+	outGuardL
+	outGuardT
+	outGuardB
+	outRight // outside the viewport: a triangle with all three outside one side is invisible
+	outLeft
+	outTop
+	outBottom
+	outBad // NaN or Inf coordinates
+
+	outClip   = outNear | outPlane | outGuardR | outGuardL | outGuardT | outGuardB
+	outReject = outNear | outPlane | outRight | outLeft | outTop | outBottom
+)
+
+// Lighting: a key light above and to the left of the viewer, a weak fill from the viewer
+// (so walls seen edge-on inside a canal do not go black), soft ambient, a small highlight.
+// Directions are in view space (x right, y up, +z toward the viewer).
+var (
+	keyLight  = mgl32.Vec3{-0.35, 0.55, 0.76}.Normalize()
+	halfway   = keyLight.Add(mgl32.Vec3{0, 0, 1}).Normalize()
+	ambient   = float32(0.32)
+	diffuse   = float32(0.53)
+	fill      = float32(0.15)
+	highlight = float32(0.22) * 255
+)
+
+// vertexPhase transforms, shades and classifies vertices, one job of 8192 at a time.
+func (r *Renderer) vertexPhase(int) {
+	for {
+		j, ok := r.nextItem(len(r.vjobs))
+		if !ok {
+			return
+		}
+		job := r.vjobs[j]
+		r.transformVertices(&r.objs[job.obj], job.v0, job.v1)
+	}
+}
+
+func (r *Renderer) transformVertices(o *frameObject, v0, v1 int) {
+	m := r.view
+	rot := r.rot
+	src := o.src
+	verts := o.mesh.Vertices
+	out := r.verts[o.vertBase : o.vertBase+len(verts)]
+	ownNormals := len(src.Normals) == len(verts)
+	base := mgl32.Vec3{float32(src.Color.R), float32(src.Color.G), float32(src.Color.B)}
+	near := float64(r.near)
+	for i := v0; i < v1; i++ {
+		p := verts[i]
+		vx := m[0]*p[0] + m[4]*p[1] + m[8]*p[2] + m[12]
+		vy := m[1]*p[0] + m[5]*p[1] + m[9]*p[2] + m[13]
+		vz := m[2]*p[0] + m[6]*p[1] + m[10]*p[2] + m[14]
+		cx, cy, cw := vx*r.p00, vy*r.p11, -vz
+		pv := &out[i]
+		pv.cx, pv.cy, pv.cw = float32(cx), float32(cy), float32(cw)
+
+		var code uint32
+		if cw < near {
+			code |= outNear
+		}
+		if o.clip {
+			d := r.plane[0]*p[0] + r.plane[1]*p[1] + r.plane[2]*p[2] + r.plane[3]
+			pv.d = float32(d)
+			if d < 0 {
+				code |= outPlane
+			}
+		}
+		g := guard * cw
+		if cx > g {
+			code |= outGuardR
+		}
+		if cx < -g {
+			code |= outGuardL
+		}
+		if cy > g {
+			code |= outGuardT
+		}
+		if cy < -g {
+			code |= outGuardB
+		}
+		if cx > cw {
+			code |= outRight
+		}
+		if cx < -cw {
+			code |= outLeft
+		}
+		if cy > cw {
+			code |= outTop
+		}
+		if cy < -cw {
+			code |= outBottom
+		}
+		if math.IsNaN(cx+cy+cw) || math.IsInf(cx+cy+cw, 0) {
+			code = outBad
+		}
+		pv.code = code
+
+		// Two-sided shading: |n.l| lights the inside of a tube as well as the outside.
+		var n mgl32.Vec3
+		if ownNormals {
+			q := rot.Mul3x1(src.Normals[i])
+			n = mgl32.Vec3{float32(q[0]), float32(q[1]), float32(q[2])}
+		} else {
+			q := o.normals[i]
+			n = mgl32.Vec3{
+				float32(rot[0])*q[0] + float32(rot[3])*q[1] + float32(rot[6])*q[2],
+				float32(rot[1])*q[0] + float32(rot[4])*q[1] + float32(rot[7])*q[2],
+				float32(rot[2])*q[0] + float32(rot[5])*q[1] + float32(rot[8])*q[2],
+			}
+		}
+		c := base
+		if o.colors {
+			k := src.Colors[i]
+			c = mgl32.Vec3{float32(k.R), float32(k.G), float32(k.B)}
+		}
+		pv.col = shade(c, n)
+		if code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
+			pv.s = r.project(pv.cx, pv.cy, pv.cw, pv.col)
+		}
+	}
+}
+
+// shade lights colour c (0..255) on a surface with view-space normal n.
+func shade(c, n mgl32.Vec3) mgl32.Vec3 {
+	l := n.Len()
+	if !(l > 1e-12) {
+		return c.Mul(ambient + 0.5*(diffuse+fill))
+	}
+	n = n.Mul(1 / l)
+	d := abs32(n.Dot(keyLight))
+	s := abs32(n.Dot(halfway))
+	s *= s // s^32 by squaring
+	s *= s
+	s *= s
+	s *= s
+	s *= s
+	k := ambient + diffuse*d + fill*abs32(n[2])
+	h := highlight * s
+	return mgl32.Vec3{c[0]*k + h, c[1]*k + h, c[2]*k + h}
+}
+
+func abs32(x float32) float32 {
+	if x < 0 {
+		return -x
+	}
+	return x
+}
+
+// project maps clip coordinates (w >= near, inside the guard band) to the screen.
+// The same float64 arithmetic serves all callers, so a vertex shared by a clipped
+// and an unclipped triangle lands on the same fixed-point position.
+func (r *Renderer) project(cx, cy, cw float32, col mgl32.Vec3) screenVert {
+	iw := 1 / float64(cw)
+	sx := (float64(cx)*iw*0.5 + 0.5) * float64(r.w)
+	sy := (0.5 - float64(cy)*iw*0.5) * float64(r.h)
+	fiw := float32(iw)
+	return screenVert{
+		x:  int32(math.Floor(sx*subOne + 0.5)),
+		y:  int32(math.Floor(sy*subOne + 0.5)),
+		iw: fiw,
+		r:  col[0] * fiw,
+		g:  col[1] * fiw,
+		b:  col[2] * fiw,
+	}
+}
