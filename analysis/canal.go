@@ -113,7 +113,11 @@ func CanalFromSpec(ctx context.Context, name string, spec *models.CanalSpec, opt
 
 // RhoAt is the wall distance at arc length s and angle theta (radians), interpolated
 // bilinearly in the radius map.
-func (c *Canal) RhoAt(s, theta float64) float64 {
+func (c *Canal) RhoAt(s, theta float64) float64 { return c.MapAt(c.Rho, s, theta) }
+
+// MapAt interpolates any station-major map of this canal (the radius map, a step's depth of
+// cut or prepared canal) bilinearly at arc length s and angle theta (radians).
+func (c *Canal) MapAt(m []float32, s, theta float64) float64 {
 	n := c.Line.Len()
 	fs := math.Max(0, math.Min(s/c.Line.DS, float64(n-1)))
 	i := min(int(fs), n-2)
@@ -125,7 +129,7 @@ func (c *Canal) RhoAt(s, theta float64) float64 {
 	j := int(ft) % c.Angles
 	b := ft - math.Floor(ft)
 	j1 := (j + 1) % c.Angles
-	r := func(i, j int) float64 { return float64(c.Rho[i*c.Angles+j]) }
+	r := func(i, j int) float64 { return float64(m[i*c.Angles+j]) }
 	return (1-a)*((1-b)*r(i, j)+b*r(i, j1)) + a*((1-b)*r(i+1, j)+b*r(i+1, j1))
 }
 

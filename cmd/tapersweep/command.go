@@ -19,7 +19,7 @@ type command struct {
 }
 
 func commands() []command {
-	return []command{centerlineCommand(), analyzeCommand()}
+	return []command{centerlineCommand(), analyzeCommand(), renderCommand()}
 }
 
 // run parses args and calls the command's body.
