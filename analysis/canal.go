@@ -31,11 +31,11 @@ type Canal struct {
 	Rho []float32
 	// Each wall vertex's own place: arc length and angle (radians, 0..2 pi).
 	VertexS, VertexTheta []float32
-	Voxel                float64  // voxel edge used for the centerline, mm
+	Voxel                float64 // voxel edge used for the centerline, mm
 	// SurfaceDetail is the median edge of the wall's triangles, mm: for a segmented scan about
 	// its voxel size. 0 for parametric canals, whose mesh detail is ours.
 	SurfaceDetail float64
-	Warnings             []string // about the mesh and the extraction, in plain words
+	Warnings      []string // about the mesh and the extraction, in plain words
 	// Exact is the known centerline of a parametric canal, sampled every StationSpacing from
 	// the orifice (nil for scans). Kept for checks, never used by the analysis.
 	Exact []mgl64.Vec3

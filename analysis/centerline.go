@@ -22,8 +22,8 @@ type Centerline struct {
 	// KN1, KN2 are the curvature vector dT/ds in the frame: the wall at angle theta lies on the
 	// inner side of the local bend where KN1 cos(theta) + KN2 sin(theta) > 0.
 	KN1, KN2 []float64
-	DS     float64
-	window int // half-width of the curvature fit, in stations
+	DS       float64
+	window   int // half-width of the curvature fit, in stations
 }
 
 // Length is the arc length from the orifice to the apical end.

@@ -17,8 +17,8 @@ type voxelGraph struct {
 	node  []int32   // grid index -> node, -1 outside
 	dist  []float64 // distance to the wall in mm, per node
 	nbr   [26]struct {
-		off  int32
-		step float64
+		off        int32
+		step       float64
 		di, dj, dk int
 	}
 }
@@ -96,9 +96,9 @@ func (h minHeap) Less(a, b int) bool {
 	}
 	return h[a].n < h[b].n
 }
-func (h minHeap) Swap(a, b int)  { h[a], h[b] = h[b], h[a] }
-func (h *minHeap) Push(x any)    { *h = append(*h, x.(heapItem)) }
-func (h *minHeap) Pop() any      { old := *h; x := old[len(old)-1]; *h = old[:len(old)-1]; return x }
+func (h minHeap) Swap(a, b int) { h[a], h[b] = h[b], h[a] }
+func (h *minHeap) Push(x any)   { *h = append(*h, x.(heapItem)) }
+func (h *minHeap) Pop() any     { old := *h; x := old[len(old)-1]; *h = old[:len(old)-1]; return x }
 
 // dijkstra returns distances from the sources over the graph, where crossing an edge costs
 // step * weight(a, b), and the predecessor of every node (-1 for sources and unreached nodes).

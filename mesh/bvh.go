@@ -39,6 +39,11 @@ type Hit struct {
 const (
 	bvhLeafSize = 4
 	bvhBins     = 12
+	// Nodes of at most bvhSmallNode triangles split at the middle of their centres.
+	bvhSmallNode = 32
+	// Nodes above bvhSampleAbove triangles bin a strided sample of about bvhSample.
+	bvhSampleAbove = 8192
+	bvhSample      = 2048
 	// Past this depth splits go by count, so the tree is at most about 40 + 31 deep and a
 	// query's stack (one entry per level plus one) cannot overflow.
 	bvhSAHDepth   = 40
@@ -48,11 +53,14 @@ const (
 // bvhItem is a triangle's box and centre while building, in float32 to halve the memory the
 // build streams through; node boxes are refitted in float64 afterwards.
 type bvhItem struct {
-	c, lo, hi [3]float32
-	id        int32
+	lo, hi [3]float32
+	id     int32
 }
 
-// bvhBounds is a box plus the box of the centres inside it.
+// centre is kept doubled ((lo + hi), not halved): only comparisons and bins use it.
+func (it *bvhItem) centre(k int) float32 { return it.lo[k] + it.hi[k] }
+
+// bvhBounds is a box plus the box of the (doubled) centres inside it.
 type bvhBounds struct{ lo, hi, clo, chi [3]float32 }
 
 func emptyBounds() bvhBounds {
@@ -61,21 +69,14 @@ func emptyBounds() bvhBounds {
 		clo: [3]float32{inf, inf, inf}, chi: [3]float32{-inf, -inf, -inf}}
 }
 
-// add grows the bounds by an item (plain comparisons: NaN corners are simply not counted).
+// add grows the bounds by an item (branch-free min and max; items carry no NaN).
 func (b *bvhBounds) add(it *bvhItem) {
 	for k := 0; k < 3; k++ {
-		if it.lo[k] < b.lo[k] {
-			b.lo[k] = it.lo[k]
-		}
-		if it.hi[k] > b.hi[k] {
-			b.hi[k] = it.hi[k]
-		}
-		if it.c[k] < b.clo[k] {
-			b.clo[k] = it.c[k]
-		}
-		if it.c[k] > b.chi[k] {
-			b.chi[k] = it.c[k]
-		}
+		b.lo[k] = min(b.lo[k], it.lo[k])
+		b.hi[k] = max(b.hi[k], it.hi[k])
+		c := it.centre(k)
+		b.clo[k] = min(b.clo[k], c)
+		b.chi[k] = max(b.chi[k], c)
 	}
 }
 
@@ -117,7 +118,10 @@ func NewBVH(m *Mesh) *BVH {
 		it := bvhItem{id: int32(t)}
 		for k := 0; k < 3; k++ {
 			lo, hi := min(p[k], q[k], r[k]), max(p[k], q[k], r[k])
-			it.lo[k], it.hi[k], it.c[k] = float32(lo), float32(hi), float32((lo+hi)/2)
+			if !(lo-lo == 0 && hi-hi == 0) { // NaN or infinite corner: park it at 0; it is never hit
+				lo, hi = 0, 0
+			}
+			it.lo[k], it.hi[k] = float32(lo), float32(hi)
 		}
 		b.items = append(b.items, it)
 		root.add(&b.items[len(b.items)-1])
@@ -239,7 +243,10 @@ func (b *bvhBuilder) split(node int, begin, end, depth int, bd bvhBounds) (int, 
 	}
 	mid := -1
 	var lb, rb bvhBounds
-	if ext[axis] > 0 && depth < bvhSAHDepth {
+	switch {
+	case ext[axis] > 0 && depth < bvhSAHDepth && count <= bvhSmallNode:
+		mid, lb, rb = b.midpointSplit(begin, end, axis, bd.clo[axis]+ext[axis]/2)
+	case ext[axis] > 0 && depth < bvhSAHDepth:
 		mid, lb, rb = b.sahSplit(begin, end, axis, bd.clo[axis], ext[axis], bd.area())
 		if mid == -2 {
 			b.nodes[node].first, b.nodes[node].count = int32(begin), int32(count)
@@ -251,9 +258,9 @@ func (b *bvhBuilder) split(node int, begin, end, depth int, bd bvhBounds) (int, 
 		mid = (begin + end) / 2
 		slices.SortFunc(b.items[begin:end], func(x, y bvhItem) int {
 			switch {
-			case x.c[axis] < y.c[axis]:
+			case x.centre(axis) < y.centre(axis):
 				return -1
-			case x.c[axis] > y.c[axis]:
+			case x.centre(axis) > y.centre(axis):
 				return 1
 			}
 			return int(x.id - y.id)
@@ -280,9 +287,39 @@ func (b *bvhBuilder) sahSplit(begin, end, axis int, c0, ext float32, parentArea 
 	}
 	scale := bvhBins / ext
 	items, binOf := b.items[begin:end], b.bin[begin:end]
+	binIndex := func(it *bvhItem) int {
+		k := int((it.centre(axis) - c0) * scale)
+		return min(max(k, 0), bvhBins-1)
+	}
+	// Large nodes choose their plane from an evenly strided sample (the cost curve is smooth
+	// at that size) and get exact child bounds while partitioning, saving a pass.
+	if len(items) > bvhSampleAbove {
+		stride := len(items) / bvhSample
+		for i := 0; i < len(items); i += stride {
+			k := binIndex(&items[i])
+			cnt[k]++
+			bins[k].add(&items[i])
+		}
+		best := bestBin(&cnt, &bins)
+		if best < 0 {
+			return -1, bvhBounds{}, bvhBounds{}
+		}
+		lb, rb := emptyBounds(), emptyBounds()
+		i, j := 0, len(items)-1
+		for i <= j {
+			if binIndex(&items[i]) < best {
+				lb.add(&items[i])
+				i++
+			} else {
+				rb.add(&items[i])
+				items[i], items[j] = items[j], items[i]
+				j--
+			}
+		}
+		return begin + i, lb, rb
+	}
 	for i := range items {
-		k := int((items[i].c[axis] - c0) * scale)
-		k = min(max(k, 0), bvhBins-1)
+		k := binIndex(&items[i])
 		binOf[i] = uint8(k)
 		cnt[k]++
 		bins[k].add(&items[i])
@@ -331,6 +368,53 @@ func (b *bvhBuilder) sahSplit(begin, end, axis int, c0, ext float32, parentArea 
 		}
 	}
 	return begin + i, bestLeft, right[best]
+}
+
+// midpointSplit partitions small nodes at the middle of their centres' extent in one pass:
+// binning costs more than it saves there. Both sides get at least one item when the extent
+// is not zero.
+func (b *bvhBuilder) midpointSplit(begin, end, axis int, at float32) (int, bvhBounds, bvhBounds) {
+	items := b.items[begin:end]
+	lb, rb := emptyBounds(), emptyBounds()
+	i, j := 0, len(items)-1
+	for i <= j {
+		if items[i].centre(axis) < at {
+			lb.add(&items[i])
+			i++
+		} else {
+			rb.add(&items[i])
+			items[i], items[j] = items[j], items[i]
+			j--
+		}
+	}
+	return begin + i, lb, rb
+}
+
+// bestBin returns the cheapest split plane (bins below it go left), or -1.
+func bestBin(cnt *[bvhBins]int, bins *[bvhBins]bvhBounds) int {
+	var rightArea [bvhBins]float64
+	var rightCnt [bvhBins]int
+	acc := emptyBounds()
+	rc := 0
+	for i := bvhBins - 1; i > 0; i-- {
+		acc.merge(&bins[i])
+		rc += cnt[i]
+		rightArea[i], rightCnt[i] = acc.area(), rc
+	}
+	left := emptyBounds()
+	lc := 0
+	best, bestCost := -1, math.Inf(1)
+	for i := 1; i < bvhBins; i++ {
+		left.merge(&bins[i-1])
+		lc += cnt[i-1]
+		if lc == 0 || rightCnt[i] == 0 {
+			continue
+		}
+		if c := float64(lc)*left.area() + float64(rightCnt[i])*rightArea[i]; c < bestCost {
+			best, bestCost = i, c
+		}
+	}
+	return best
 }
 
 func growBox(lo, hi *mgl64.Vec3, plo, phi mgl64.Vec3) {

@@ -7,6 +7,7 @@ import (
 	"path/filepath"
 	"regexp"
 	"strconv"
+	"strings"
 	"testing"
 
 	"github.com/go-gl/mathgl/mgl64"
@@ -87,7 +88,7 @@ var (
 
 // admesh (Debian package admesh) is the reference library: it must report the same volume,
 // facet count and number of parts as we compute on the same binary STL. (admesh 0.98 prints
-// no surface area, so area is checked against the analytic values above.)
+// no surface area; VTK checks the area below.)
 func TestVolumeMatchesAdmesh(t *testing.T) {
 	bin, err := exec.LookPath("admesh")
 	if err != nil {
@@ -130,5 +131,51 @@ func TestVolumeMatchesAdmesh(t *testing.T) {
 		if p := num(admeshParts); int(p) != Validate(got).Shells {
 			t.Errorf("%s: admesh counts %v parts, we %d shells", name, p, Validate(got).Shells)
 		}
+	}
+}
+
+// vtkMassPropertiesScript prints VTK's surface area and volume of an STL file.
+const vtkMassPropertiesScript = `
+import sys, vtk
+r = vtk.vtkSTLReader(); r.SetFileName(sys.argv[1]); r.Update()
+m = vtk.vtkMassProperties(); m.SetInputConnection(r.GetOutputPort()); m.Update()
+print(repr(m.GetSurfaceArea()), repr(m.GetVolume()))
+`
+
+// VTK's vtkMassProperties (Debian package python3-vtk9) is the reference for the area, which
+// admesh does not print: on the same binary STL both area and volume must agree.
+func TestAreaVolumeMatchVTK(t *testing.T) {
+	py := "/usr/bin/python3"
+	if out, err := exec.Command(py, "-c", "import vtk").CombinedOutput(); err != nil {
+		if os.Getenv("CI") != "" {
+			t.Fatalf("python3-vtk9 is needed as the reference (apt-get install python3-vtk9): %v %s", err, out)
+		}
+		t.Skip("python3-vtk9 not installed")
+	}
+	dir := t.TempDir()
+	for name, m := range map[string]*Mesh{
+		"cylinder.stl": shapeCylinder(0.8, 12, 64, 10),
+		"torus.stl":    shapeTorusSection(6, 0.7, 1.2, 48, 48),
+	} {
+		path := filepath.Join(dir, name)
+		if err := WriteSTLFile(path, m); err != nil {
+			t.Fatal(err)
+		}
+		got, _, err := LoadFile(t.Context(), path, LoadOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		out, err := exec.Command(py, "-c", vtkMassPropertiesScript, path).CombinedOutput()
+		if err != nil {
+			t.Fatalf("vtk on %s: %v\n%s", name, err, out)
+		}
+		f := strings.Fields(string(out))
+		if len(f) != 2 {
+			t.Fatalf("vtk output %q", out)
+		}
+		area, _ := strconv.ParseFloat(f[0], 64)
+		vol, _ := strconv.ParseFloat(f[1], 64)
+		within(t, name+" area vs VTK", Area(got), area, 1e-6)
+		within(t, name+" volume vs VTK", Volume(got), vol, 1e-6)
 	}
 }

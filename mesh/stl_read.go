@@ -65,7 +65,7 @@ func LoadFile(ctx context.Context, path string, opt LoadOptions) (*Mesh, LoadRep
 }
 
 // Load reads a binary or ASCII STL surface from r (size bytes long; where seeking to the end
-// reports another length, the seek wins), welds it, drops degenerate triangles and validates
+// works and reports another length, the seek wins), welds it, drops degenerate triangles and validates
 // it. Problems that still leave a usable surface become warnings in the report; anything else
 // is an error naming name and the place in the file. Cancelling ctx stops the read.
 func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt LoadOptions) (*Mesh, LoadReport, error) {
@@ -82,7 +82,7 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	}
 	if end, err := r.Seek(0, io.SeekEnd); err == nil {
 		size = end
-	} else {
+	} else if size <= 0 {
 		return nil, rep, fmt.Errorf("%s: cannot find the file's length: %w", name, err)
 	}
 	if size == 0 {
@@ -400,7 +400,26 @@ func (s *stlStream) Seek(offset int64, whence int) (int64, error) {
 	return offset, nil
 }
 
+// Read fills p across the parts, so the stl package's single header read sees real bytes.
 func (s *stlStream) Read(p []byte) (int, error) {
+	total := 0
+	for total < len(p) {
+		n, err := s.readPart(p[total:])
+		total += n
+		if err == io.EOF && total > 0 {
+			return total, nil
+		}
+		if err != nil {
+			return total, err
+		}
+		if n == 0 {
+			break
+		}
+	}
+	return total, nil
+}
+
+func (s *stlStream) readPart(p []byte) (int, error) {
 	if s.col.stop != nil {
 		return 0, errStopped
 	}

@@ -2,11 +2,11 @@
 package main
 
 import (
-	"tapersweep/analysis"
 	"fmt"
 	"io"
 	"os"
 	"strings"
+	"tapersweep/analysis"
 )
 
 func main() {

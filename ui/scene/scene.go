@@ -19,7 +19,7 @@ import (
 
 // Options say what to show.
 type Options struct {
-	Step        int     // from 1; 0 draws the canal alone
+	Step int // from 1; 0 draws the canal alone
 	// Before draws the canal as the step meets it (the file as a ghost around the cut wall)
 	// instead of as the step leaves it (the cut wall just outside the file).
 	Before      bool
@@ -235,4 +235,3 @@ func wallColors(c *analysis.Canal, st *analysis.StepResult, scale *render.Scale,
 	}
 	return cols
 }
-
