@@ -21,13 +21,18 @@ const (
 	AdviceMotorLimit     = "motor-limit"
 	AdviceFatigue        = "fatigue"
 	AdviceTorsion        = "torsion"
+	AdviceTransportation = "apical-transportation"
 )
+
+// apicalTransportLimit: transportation above about 0.3 mm harmed the apical seal (Wu MK, Fan B,
+// Wesselink PR, J Endod 2000;26:210-216; from memory).
+const apicalTransportLimit = 0.3
 
 // addAdvice fills each step's advice list; every step gets a list, possibly empty.
 func addAdvice(res *Result) {
 	c := res.Canal
 	canalAtWL := 2 * c.MeanRadius(c.Line.Station(math.Min(c.WorkingLength, c.Line.Length()-StationSpacing)))
-	apexNoted := false
+	apexNoted, transportNoted := false, false
 	for k, sr := range res.Steps {
 		m := &sr.Metrics
 		m.Advice = []Advice{}
@@ -77,6 +82,12 @@ func addAdvice(res *Result) {
 			add(AdviceFatigue, "The insertion uses up the fatigue life %.1f mm from the tip after %.0f s.", *m.FractureFromTipMM, *m.FractureTimeS)
 		} else if m.FatigueDamage >= 0.5 {
 			add(AdviceFatigue, "The insertion uses %.0f %% of the fatigue life %.1f mm from the tip.", 100*m.FatigueDamage, m.PeakDamageFromTipMM)
+		}
+		if !transportNoted {
+			if tr := transportBetween(c, c.Rho, sr.Prepared).TransportationMM["1"]; tr > apicalTransportLimit {
+				add(AdviceTransportation, "The canal 1 mm from the apical end has moved %.2f mm from where it was scanned; above about 0.3 mm the apical seal was found to suffer.", tr)
+				transportNoted = true
+			}
 		}
 		if mg := m.TorsionMargin; mg != nil && *mg < 1.5 {
 			add(AdviceTorsion, "Cutting torque comes within a factor of %.2f of what the file carries %.1f mm from its tip.", *mg, *m.TorsionMarginFromTipMM)

@@ -53,6 +53,9 @@ func NewCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions) 
 	if len(m.Triangles) == 0 {
 		return nil, fmt.Errorf("%s: the mesh has no triangles", name)
 	}
+	if err := checkUnits(m); err != nil {
+		return nil, fmt.Errorf("%s: %w", name, err)
+	}
 	c := &Canal{Name: name, Mesh: m, Angles: opt.Angles}
 	if c.Angles <= 0 {
 		c.Angles = DefaultAngles
@@ -140,4 +143,26 @@ func (c *Canal) MeanRadius(i int) float64 {
 		sum += float64(r)
 	}
 	return sum / float64(c.Angles)
+}
+
+// Sizes a root canal can have, in mm: a whole tooth is under 35 mm long and no canal is
+// narrower than a few micrometres.
+const (
+	maxCanalExtent = 100.0
+	minCanalExtent = 0.5
+)
+
+// checkUnits refuses a mesh whose size says it is not in millimetres, naming the fix.
+func checkUnits(m *mesh.Mesh) error {
+	lo, hi := m.Bounds()
+	size := hi.Sub(lo).Len()
+	switch {
+	case math.IsNaN(size) || math.IsInf(size, 0):
+		return fmt.Errorf("the mesh has coordinates that are not numbers")
+	case size > maxCanalExtent:
+		return fmt.Errorf("the mesh spans %.0f units, far more than a tooth in mm: if it is in micrometres, use --scale 0.001", size)
+	case size < minCanalExtent:
+		return fmt.Errorf("the mesh spans only %.3g units, far less than a canal in mm: if it is in metres, use --scale 1000; in centimetres, --scale 10", size)
+	}
+	return nil
 }

@@ -73,6 +73,11 @@ func NewCenterline(pts []mgl64.Vec3, ds, window, trustFrom, trustTo float64) *Ce
 	w := window
 	if lo, hi := c.peakStretch(0.5); c.K[(lo+hi)/2] > straightCurvature {
 		w = math.Max(window, math.Min((c.S[hi]-c.S[lo])/6, 1.0))
+		// A "curve" that hardly turns the canal is noise: fit as wide as for a long curve.
+		a, b := max(0, lo-c.window), min(len(c.T)-1, hi+c.window)
+		if turn := math.Acos(math.Max(-1, math.Min(1, c.T[a].Dot(c.T[b])))); turn < mgl64.DegToRad(minCurveDeg) {
+			w = math.Max(window, 1.0)
+		}
 	}
 	d2 := c.fit(w, trustFrom, trustTo)
 	c.frames(d2)

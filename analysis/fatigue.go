@@ -24,7 +24,10 @@ type fatigueResult struct {
 // Below the recoverable strain N follows eps = C N^-b, so 1/N = (d/(2C))^(1/b) k^(1/b) splits
 // into a factor of the file and a factor of the canal; above it, N is the alloy's few cycles.
 // Cycles to failure do not depend on rpm (Pruett et al. 1997); rpm only sets revolutions.
-func fatigue(line *Centerline, in models.Instrument, alloy models.Alloy, moves []move, rpm float64) fatigueResult {
+//
+// pathK gives, for the tip at a station, the curvature of the file's axis at each station up
+// to it (the centerline's curvature in the centred model).
+func fatigue(line *Centerline, in models.Instrument, alloy models.Alloy, moves []move, rpm float64, pathK func(tip int) []float64) fatigueResult {
 	ds := line.DS
 	n := line.Len()
 	var far float64
@@ -44,9 +47,21 @@ func fatigue(line *Centerline, in models.Instrument, alloy models.Alloy, moves [
 			limitK[k] = 2 * alloy.RecoverableStrain / d
 		}
 	}
-	canalF := make([]float64, n) // k^(1/b)
-	for i, k := range line.K {
-		canalF[i] = math.Pow(k, inv)
+	// k^(1/b) along the file's axis, per tip station (computed once for each).
+	type canalFactors struct{ k, f []float64 }
+	cache := map[*float64]canalFactors{} // keyed by the curvature slice pathK returned
+	factorsAt := func(tip int) canalFactors {
+		k := pathK(tip)
+		key := &k[0]
+		if cf, ok := cache[key]; ok {
+			return cf
+		}
+		cf := canalFactors{k: k, f: make([]float64, len(k))}
+		for i, ki := range k {
+			cf.f[i] = math.Pow(ki, inv)
+		}
+		cache[key] = cf
+		return cf
 	}
 	above := 1 / math.Max(alloy.CyclesAboveLimit, 1e-9)
 	revsPerSecond := rpm / 60
@@ -68,13 +83,14 @@ func fatigue(line *Centerline, in models.Instrument, alloy models.Alloy, moves [
 			tip := min(start+dir*st, kmax)
 			t += dt
 			res.revolutions += revs
+			cf := factorsAt(tip)
 			for k := 0; k <= tip; k++ {
 				i := tip - k
 				var dmg float64
-				if line.K[i] >= limitK[k] {
+				if cf.k[i] >= limitK[k] {
 					dmg = revs * above
 				} else {
-					dmg = revs * fileF[k] * canalF[i]
+					dmg = revs * fileF[k] * cf.f[i]
 				}
 				res.damage[k] += dmg
 				if !res.fractured && res.damage[k] >= 1 {

@@ -37,6 +37,9 @@ type StepMetrics struct {
 	CapacityAt3mmNcm       float64  `json:"capacity_at_3mm_ncm"`
 	TorqueLimitNcm         *float64 `json:"torque_limit_ncm"`
 
+	// How this step moved the canal against the canal as it met it (Gambill et al. 1996).
+	Transport
+
 	Advice []Advice `json:"advice"`
 }
 
@@ -85,6 +88,8 @@ type ResultSummary struct {
 	Canal    CanalSummary  `json:"canal"`
 	Model    ModelSummary  `json:"model"`
 	Steps    []StepMetrics `json:"steps"`
+	// Sequence: how the whole sequence moved the canal against the canal as scanned.
+	Sequence Transport `json:"sequence"`
 	Warnings []string      `json:"warnings"`
 	Caution  string        `json:"caution"`
 }
@@ -94,6 +99,7 @@ type ModelSummary struct {
 	PathModel                 string  `json:"path_model"`
 	ContactThresholdMM        float64 `json:"contact_threshold_mm"`
 	CuttingCoefficientNPerMM2 float64 `json:"cutting_coefficient_n_per_mm2"`
+	WallStiffnessNPerMM2      float64 `json:"wall_stiffness_n_per_mm2"`
 	Note                      string  `json:"note"`
 }
 
@@ -107,14 +113,16 @@ func (r *Result) Summary() ResultSummary {
 	out := ResultSummary{
 		Canal: r.Canal.Summary(false),
 		Model: ModelSummary{
-			PathModel:                 "centred",
+			PathModel:                 r.Options.PathModel,
+			WallStiffnessNPerMM2:      r.Options.WallStiffness,
 			ContactThresholdMM:        r.Options.ContactThreshold,
 			CuttingCoefficientNPerMM2: r.Options.CuttingCoefficient,
-			Note: "built-in alloy parameters and the cutting coefficient are illustrative; " +
-				"torque and fatigue figures compare steps, they are not measurements",
+			Note: "built-in alloy parameters, the cutting coefficient and the wall stiffness are illustrative; " +
+				"torque, fatigue and transportation figures compare steps, they are not measurements",
 		},
 		Warnings: append([]string{}, r.Warnings...),
 		Caution:  Caution,
+		Sequence: r.Moved,
 	}
 	for _, s := range r.Steps {
 		out.Steps = append(out.Steps, s.Metrics)

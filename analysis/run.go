@@ -16,6 +16,10 @@ type RunOptions struct {
 	// CuttingCoefficient c_t, N/mm2: cutting torque per engaged cell is c_t * r * dA. An
 	// illustrative setting: torques scale with it, margins and comparisons between steps hold.
 	CuttingCoefficient float64
+	// PathModel overrides the sequence's path_model when set: "centred" or "elastic".
+	PathModel string
+	// WallStiffness k_w, N/mm2, for the elastic path (illustrative; 0 = the default).
+	WallStiffness float64
 }
 
 // Defaults of RunOptions.
@@ -31,6 +35,9 @@ func (o RunOptions) withDefaults() RunOptions {
 	if o.CuttingCoefficient <= 0 {
 		o.CuttingCoefficient = DefaultCuttingCoefficient
 	}
+	if o.WallStiffness <= 0 {
+		o.WallStiffness = DefaultWallStiffness
+	}
 	return o
 }
 
@@ -41,6 +48,8 @@ type Result struct {
 	Options  RunOptions
 	Steps    []*StepResult
 	Warnings []string
+	// Moved is how the whole sequence moved the canal (final prepared against scanned).
+	Moved Transport
 }
 
 // StepResult is what one file does. Maps are station-major like Canal.Rho.
@@ -59,15 +68,24 @@ type StepResult struct {
 	Damage   []float64 // Miner's sum over the insertion schedule
 	Torque   []float64 // torque carried by the section, N*cm
 	Capacity []float64 // torque the section can carry, N*cm
-	Metrics  StepMetrics
+	// Offset1, Offset2: the file's axis off the centerline along N1 and N2 at each station it
+	// reaches, mm (nil in the centred model).
+	Offset1, Offset2 []float64
+	Metrics          StepMetrics
 }
 
 // Run sweeps each file of the sequence through the canal in turn. Step N's depth of cut is
 // measured against the canal as steps 1..N-1 left it.
 func Run(ctx context.Context, c *Canal, seq *models.Sequence, opt RunOptions) (*Result, error) {
 	opt = opt.withDefaults()
-	if seq.PathModel == models.PathElastic {
-		return nil, fmt.Errorf("%s: path_model \"elastic\" is not available yet; use \"centred\"", seqName(seq))
+	if opt.PathModel == "" {
+		opt.PathModel = seq.PathModel
+	}
+	if opt.PathModel == "" {
+		opt.PathModel = models.PathCentred
+	}
+	if opt.PathModel != models.PathCentred && opt.PathModel != models.PathElastic {
+		return nil, fmt.Errorf("%s: path model %q: use %q or %q", seqName(seq), opt.PathModel, models.PathCentred, models.PathElastic)
 	}
 	if err := seq.CheckDepths(c.Line.Length(), c.WorkingLength); err != nil {
 		return nil, err
@@ -91,6 +109,7 @@ func Run(ctx context.Context, c *Canal, seq *models.Sequence, opt RunOptions) (*
 		res.Steps = append(res.Steps, sr)
 		before = sr.Prepared
 	}
+	res.Moved = transportBetween(c, c.Rho, before)
 	addAdvice(res)
 	return res, nil
 }
@@ -144,6 +163,12 @@ func runStep(c *Canal, g *cellGeometry, st models.Step, alloy models.Alloy, befo
 	}
 	m := &sr.Metrics
 	m.Label, m.TipDepthMM, m.TipFromApexMM = in.Label(), D, line.Length()-D
+	elastic := opt.PathModel == models.PathElastic
+	path := elasticPath{k: line.K}
+	if elastic {
+		path = solveElasticPath(c, in, alloy.ElasticModulusGPa, opt.WallStiffness, D, tip, before)
+		sr.Offset1, sr.Offset2 = path.o1, path.o2
+	}
 	thr := opt.ContactThreshold
 	cellTorque := make([]float64, n) // N*mm per station
 	firstEngaged, lastEngaged := -1, -1
@@ -155,24 +180,39 @@ func runStep(c *Canal, g *cellGeometry, st models.Step, alloy models.Alloy, befo
 			w = math.Max(0, math.Min(w, D-line.S[i]+g.weight[i]/2))
 		}
 		kc, ks := line.KN1[i], line.KN2[i]
+		var o1, o2 float64
+		if elastic {
+			o1, o2 = path.o1[i], path.o2[i]
+		}
 		engaged := false
 		for j := 0; j < na; j++ {
 			idx := i*na + j
 			rho := float64(before[idx])
-			e := r - rho
+			// t: how far the file's surface reaches from the centerline in this direction
+			// (its radius when centred; with its axis offset, the far side of the offset circle).
+			t := r
+			if o1 != 0 || o2 != 0 {
+				p := o1*g.cos[j] + o2*g.sin[j]
+				q2 := o1*o1 + o2*o2 - p*p
+				if q2 >= r*r {
+					continue
+				}
+				t = p + math.Sqrt(r*r-q2)
+			}
+			e := t - rho
 			if e <= 0 {
 				continue
 			}
 			sr.Cut[idx] = float32(e)
-			sr.Prepared[idx] = float32(r)
+			sr.Prepared[idx] = float32(t)
 			if e <= thr {
 				continue
 			}
 			engaged = true
 			bend := kc*g.cos[j] + ks*g.sin[j]
-			dA := r * (1 - bend*r) * g.dTheta * w
+			dA := t * (1 - bend*t) * g.dTheta * w
 			m.EngagedAreaMM2 += dA
-			m.RemovedVolumeMM3 += ((r*r-rho*rho)/2 - bend*(r*r*r-rho*rho*rho)/3) * g.dTheta * w
+			m.RemovedVolumeMM3 += ((t*t-rho*rho)/2 - bend*(t*t*t-rho*rho*rho)/3) * g.dTheta * w
 			m.MaxDepthOfCutMM = math.Max(m.MaxDepthOfCutMM, e)
 			cellTorque[i] += opt.CuttingCoefficient * r * dA
 		}
@@ -188,8 +228,9 @@ func runStep(c *Canal, g *cellGeometry, st models.Step, alloy models.Alloy, befo
 		m.EngagedFromTipMM = [2]float64{D - line.S[lastEngaged], D - line.S[firstEngaged]}
 	}
 	m.UntouchedWallPct = untouchedShare(c, g, sr.Prepared, thr)
-	strainAndFatigue(c, sr, tip)
+	strainAndFatigue(c, sr, tip, path.k, pathCurvature(c, in, alloy, opt, before, elastic))
 	torsion(sr, line, cellTorque, tip)
+	m.Transport = transportBetween(c, before, sr.Prepared)
 	roundMetrics(m)
 	return sr
 }
@@ -219,7 +260,10 @@ func untouchedShare(c *Canal, g *cellGeometry, prepared []float32, thr float64) 
 
 // strainAndFatigue fills strain along the file at the target depth, the diameter and strain at
 // the point of greatest curvature, and Miner's damage over the insertion schedule.
-func strainAndFatigue(c *Canal, sr *StepResult, tip int) {
+//
+// pathK is the curvature of the file's axis with the tip at the target; pathAt gives it for
+// other tip stations (the schedule's).
+func strainAndFatigue(c *Canal, sr *StepResult, tip int, pathK []float64, pathAt func(int) []float64) {
 	line, m, in := c.Line, &sr.Metrics, sr.Step.Instrument
 	D := sr.TipDepth
 	sr.Strain = make([]float64, tip+1)
@@ -227,7 +271,7 @@ func strainAndFatigue(c *Canal, sr *StepResult, tip int) {
 		i := tip - k
 		// Outer-fibre bending strain d k / 2 (beam theory); the section's shape does not change
 		// it when its edges lie on the circle of diameter d.
-		e := in.Diameter(D-line.S[i]) * line.K[i] / 2
+		e := in.Diameter(D-line.S[i]) * pathK[i] / 2
 		sr.Strain[k] = e
 		if e > m.PeakStrainPct/100 {
 			m.PeakStrainPct = 100 * e
@@ -237,12 +281,12 @@ func strainAndFatigue(c *Canal, sr *StepResult, tip int) {
 	sStar := c.Measures.MaxCurvatureS
 	if D >= sStar {
 		d := in.Diameter(D - sStar)
-		k := line.K[line.Station(sStar)]
+		k := pathK[min(line.Station(sStar), tip)]
 		m.DiameterAtMaxCurvatureMM = finite(d)
 		m.StrainAtMaxCurvaturePct = finite(100 * d * k / 2)
 	}
 	moves := insertionSchedule(D, sr.Step.PeckMM, sr.Step.RetractMM, sr.Step.AdvanceMMs)
-	f := fatigue(line, in, sr.Alloy, moves, sr.Step.RPM)
+	f := fatigue(line, in, sr.Alloy, moves, sr.Step.RPM, pathAt)
 	sr.Damage = f.damage
 	m.FatigueDamage = f.peak
 	m.PeakDamageFromTipMM = f.peakU
@@ -285,5 +329,26 @@ func torsion(sr *StepResult, line *Centerline, cellTorque []float64, tip int) {
 	}
 	if lim := sr.Step.TorqueLimitNcm; lim > 0 {
 		m.TorqueLimitNcm = finite(lim)
+	}
+}
+
+// pathCurvature returns, for a tip station, the curvature of the file's axis at each station
+// up to it. Centred: the centerline's. Elastic: the beam solved with the tip a little deeper
+// (the next multiple of eight stations, 0.4 mm), so a schedule needs a few dozen solves.
+func pathCurvature(c *Canal, in models.Instrument, alloy models.Alloy, opt RunOptions, before []float32, elastic bool) func(int) []float64 {
+	if !elastic {
+		return func(int) []float64 { return c.Line.K }
+	}
+	const every = 8
+	cache := map[int][]float64{}
+	last := c.Line.Len() - 1
+	return func(tip int) []float64 {
+		zc := min(last, (tip+every-1)/every*every)
+		if k, ok := cache[zc]; ok {
+			return k
+		}
+		p := solveElasticPath(c, in, alloy.ElasticModulusGPa, opt.WallStiffness, c.Line.S[zc], zc, before)
+		cache[zc] = p.k
+		return p.k
 	}
 }

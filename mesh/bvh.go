@@ -132,21 +132,27 @@ func NewBVH(m *Mesh) *BVH {
 		return out
 	}
 	b.bin = make([]uint8, n)
-	b.buildRoot(root)
 	out.tris = make([]bvhTri, n)
-	for i := range b.items {
+	b.buildRoot(root, m, out.tris)
+	out.nodes = b.nodes
+	return out
+}
+
+// finish fills tris[begin:end] in leaf order and refits the builder's boxes exactly in
+// float64, bottom-up: children always come after their parent.
+func (b *bvhBuilder) finish(m *Mesh, tris []bvhTri, begin, end int) {
+	for i := begin; i < end; i++ {
 		t := b.items[i].id
 		p, q, r := m.Corners(int(t))
-		out.tris[i] = bvhTri{a: p, e1: q.Sub(p), e2: r.Sub(p), id: t}
+		tris[i] = bvhTri{a: p, e1: q.Sub(p), e2: r.Sub(p), id: t}
 	}
-	// Refit exact boxes bottom-up: children always come after their parent.
 	nodes := b.nodes
 	for i := len(nodes) - 1; i >= 0; i-- {
 		nd := &nodes[i]
 		if nd.count > 0 {
-			lo, hi := triBox(&out.tris[nd.first])
+			lo, hi := triBox(&tris[nd.first])
 			for j := nd.first + 1; j < nd.first+nd.count; j++ {
-				l, h := triBox(&out.tris[j])
+				l, h := triBox(&tris[j])
 				growBox(&lo, &hi, l, h)
 			}
 			nd.lo, nd.hi = lo, hi
@@ -156,8 +162,6 @@ func NewBVH(m *Mesh) *BVH {
 		growBox(&lo, &hi, nodes[nd.first+1].lo, nodes[nd.first+1].hi)
 		nd.lo, nd.hi = lo, hi
 	}
-	out.nodes = nodes
-	return out
 }
 
 func triBox(t *bvhTri) (lo, hi mgl64.Vec3) {
@@ -173,15 +177,17 @@ const bvhParallelMin = 20000
 
 // buildRoot splits the root once, builds the two halves concurrently into their own node
 // arrays (their items and bins are disjoint) and joins them in the layout a serial build gives.
-func (b *bvhBuilder) buildRoot(root bvhBounds) {
+func (b *bvhBuilder) buildRoot(root bvhBounds, m *Mesh, tris []bvhTri) {
 	n := len(b.items)
 	b.nodes = make([]bvhNode, 1, 2*n/bvhLeafSize+2)
 	if n < bvhParallelMin {
 		b.build(0, 0, n, 0, root)
+		b.finish(m, tris, 0, n)
 		return
 	}
 	mid, lb, rb := b.split(0, 0, n, 0, root)
 	if mid < 0 {
+		b.finish(m, tris, 0, n)
 		return
 	}
 	l := &bvhBuilder{items: b.items, bin: b.bin, nodes: make([]bvhNode, 1, 2*mid/bvhLeafSize+2)}
@@ -189,13 +195,17 @@ func (b *bvhBuilder) buildRoot(root bvhBounds) {
 	done := make(chan struct{})
 	go func() {
 		r.build(0, mid, n, 1, rb)
+		r.finish(m, tris, mid, n)
 		close(done)
 	}()
 	l.build(0, 0, mid, 1, lb)
+	l.finish(m, tris, 0, mid)
 	<-done
 	// Root at 0, the halves' roots at 1 and 2, then the rest of the left half, then the right.
 	b.nodes = b.nodes[:1]
 	b.nodes[0].first = 1
+	b.nodes[0].lo, b.nodes[0].hi = l.nodes[0].lo, l.nodes[0].hi
+	growBox(&b.nodes[0].lo, &b.nodes[0].hi, r.nodes[0].lo, r.nodes[0].hi)
 	b.nodes = append(b.nodes, l.nodes[0], r.nodes[0])
 	b.nodes = append(b.nodes, l.nodes[1:]...)
 	b.nodes = append(b.nodes, r.nodes[1:]...)
@@ -247,11 +257,7 @@ func (b *bvhBuilder) split(node int, begin, end, depth int, bd bvhBounds) (int, 
 	case ext[axis] > 0 && depth < bvhSAHDepth && count <= bvhSmallNode:
 		mid, lb, rb = b.midpointSplit(begin, end, axis, bd.clo[axis]+ext[axis]/2)
 	case ext[axis] > 0 && depth < bvhSAHDepth:
-		mid, lb, rb = b.sahSplit(begin, end, axis, bd.clo[axis], ext[axis], bd.area())
-		if mid == -2 {
-			b.nodes[node].first, b.nodes[node].count = int32(begin), int32(count)
-			return -1, bd, bd
-		}
+		mid, lb, rb = b.sahSplit(begin, end, axis, bd.clo[axis], ext[axis])
 	}
 	if mid <= begin || mid >= end {
 		// Equal centres or too deep: halve by count.
@@ -276,17 +282,14 @@ func (b *bvhBuilder) split(node int, begin, end, depth int, bd bvhBounds) (int, 
 	return mid, lb, rb
 }
 
-// sahSplit bins centres along axis and partitions at the cheapest plane. It returns the
-// split index (-1 when binning cannot separate the triangles, -2 when a leaf is cheaper)
-// and the bounds of the two sides.
-func (b *bvhBuilder) sahSplit(begin, end, axis int, c0, ext float32, parentArea float64) (int, bvhBounds, bvhBounds) {
+// sahSplit bins centres along axis and partitions at the plane of least surface-area cost.
+// It returns the split index (or -1 when binning cannot separate the triangles) and the
+// bounds of the two sides.
+func (b *bvhBuilder) sahSplit(begin, end, axis int, c0, ext float32) (int, bvhBounds, bvhBounds) {
 	var cnt [bvhBins]int
 	var bins [bvhBins]bvhBounds
-	for i := range bins {
-		bins[i] = emptyBounds()
-	}
-	scale := bvhBins / ext
 	items, binOf := b.items[begin:end], b.bin[begin:end]
+	scale := bvhBins / ext
 	binIndex := func(it *bvhItem) int {
 		k := int((it.centre(axis) - c0) * scale)
 		return min(max(k, 0), bvhBins-1)
@@ -294,29 +297,33 @@ func (b *bvhBuilder) sahSplit(begin, end, axis int, c0, ext float32, parentArea 
 	// Large nodes choose their plane from an evenly strided sample (the cost curve is smooth
 	// at that size) and get exact child bounds while partitioning, saving a pass.
 	if len(items) > bvhSampleAbove {
-		stride := len(items) / bvhSample
-		for i := 0; i < len(items); i += stride {
+		for i := range bins {
+			bins[i] = emptyBounds()
+		}
+		for i := 0; i < len(items); i += len(items) / bvhSample {
 			k := binIndex(&items[i])
 			cnt[k]++
 			bins[k].add(&items[i])
 		}
-		best := bestBin(&cnt, &bins)
-		if best < 0 {
-			return -1, bvhBounds{}, bvhBounds{}
-		}
-		lb, rb := emptyBounds(), emptyBounds()
-		i, j := 0, len(items)-1
-		for i <= j {
-			if binIndex(&items[i]) < best {
-				lb.add(&items[i])
-				i++
-			} else {
-				rb.add(&items[i])
-				items[i], items[j] = items[j], items[i]
-				j--
+		if best := bestBin(&cnt, &bins); best >= 0 {
+			lb, rb := emptyBounds(), emptyBounds()
+			i, j := 0, len(items)-1
+			for i <= j {
+				if binIndex(&items[i]) < best {
+					lb.add(&items[i])
+					i++
+				} else {
+					rb.add(&items[i])
+					items[i], items[j] = items[j], items[i]
+					j--
+				}
 			}
+			return begin + i, lb, rb
 		}
-		return begin + i, lb, rb
+		cnt = [bvhBins]int{} // the sample fell in one bin: bin everything
+	}
+	for i := range bins {
+		bins[i] = emptyBounds()
 	}
 	for i := range items {
 		k := binIndex(&items[i])
@@ -324,38 +331,17 @@ func (b *bvhBuilder) sahSplit(begin, end, axis int, c0, ext float32, parentArea 
 		cnt[k]++
 		bins[k].add(&items[i])
 	}
-	// Sweep from the right for suffix bounds, then from the left for the cost.
-	var right [bvhBins]bvhBounds
-	var rightCnt [bvhBins]int
-	acc := emptyBounds()
-	rc := 0
-	for i := bvhBins - 1; i > 0; i-- {
-		acc.merge(&bins[i])
-		rc += cnt[i]
-		right[i], rightCnt[i] = acc, rc
-	}
-	left := emptyBounds()
-	var bestLeft bvhBounds
-	lc := 0
-	best, bestCost := -1, math.Inf(1)
-	for i := 1; i < bvhBins; i++ {
-		left.merge(&bins[i-1])
-		lc += cnt[i-1]
-		if lc == 0 || rightCnt[i] == 0 {
-			continue
-		}
-		if c := float64(lc)*left.area() + float64(rightCnt[i])*right[i].area(); c < bestCost {
-			best, bestCost, bestLeft = i, c, left
-		}
-	}
+	best := bestBin(&cnt, &bins)
 	if best < 0 {
 		return -1, bvhBounds{}, bvhBounds{}
 	}
-	// A leaf costs count triangle tests; two children cost a box test plus their tests
-	// weighted by the chance (relative area) of entering them.
-	count := end - begin
-	if count <= 4*bvhLeafSize && parentArea > 0 && 1+bestCost/parentArea >= float64(count) {
-		return -2, bvhBounds{}, bvhBounds{}
+	lb, rb := emptyBounds(), emptyBounds()
+	for k := 0; k < bvhBins; k++ {
+		if k < best {
+			lb.merge(&bins[k])
+		} else {
+			rb.merge(&bins[k])
+		}
 	}
 	i, j := 0, len(items)-1
 	for i <= j {
@@ -367,7 +353,7 @@ func (b *bvhBuilder) sahSplit(begin, end, axis int, c0, ext float32, parentArea 
 			j--
 		}
 	}
-	return begin + i, bestLeft, right[best]
+	return begin + i, lb, rb
 }
 
 // midpointSplit partitions small nodes at the middle of their centres' extent in one pass:

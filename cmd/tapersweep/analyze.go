@@ -17,14 +17,15 @@ import (
 func analyzeCommand() command {
 	return command{
 		name:    "analyze",
-		summary: "run a file sequence through a canal and state, per step, engagement, strain, fatigue use and torsional margin",
-		usage:   "--canal PATH --sequence PATH [--format json|csv|table] [--working-length MM] [--scale K]",
+		summary: "run a file sequence through a canal and state, per step, engagement, strain, fatigue use, torsional margin and transportation",
+		usage:   "--canal PATH --sequence PATH [--format json|csv|table] [--path-model centred|elastic] [--working-length MM] [--scale K]",
 		example: "tapersweep analyze --canal canal.stl --sequence plan.json --format table",
 		flags: func(fs *flag.FlagSet) func(stdout, stderr io.Writer) int {
 			var cf canalFlags
 			cf.register(fs)
 			seqPath := fs.String("sequence", "", "sequence `file` (JSON)")
 			format := fs.String("format", "json", "output `format`: json, csv or table")
+			pathModel := fs.String("path-model", "", "file path `model`: centred (files follow the centerline) or elastic (files straighten as beams); overrides the sequence file")
 			return func(stdout, stderr io.Writer) int {
 				if *format != "json" && *format != "csv" && *format != "table" {
 					return usageError(stderr, "analyze", "--format must be json, csv or table, not %q", *format)
@@ -35,7 +36,10 @@ func analyzeCommand() command {
 				if *seqPath == "" {
 					return usageError(stderr, "analyze", "--sequence is required")
 				}
-				res, err := analyzeFiles(context.Background(), &cf, *seqPath)
+				if *pathModel != "" && *pathModel != models.PathCentred && *pathModel != models.PathElastic {
+					return usageError(stderr, "analyze", "--path-model must be %s or %s, not %q", models.PathCentred, models.PathElastic, *pathModel)
+				}
+				res, err := analyzeFiles(context.Background(), &cf, *seqPath, analysis.RunOptions{PathModel: *pathModel})
 				if err != nil {
 					return inputError(stderr, "analyze", err)
 				}
@@ -58,7 +62,11 @@ func analyzeCommand() command {
 }
 
 // analyzeFiles loads a canal and a sequence and runs one through the other.
-func analyzeFiles(ctx context.Context, cf *canalFlags, seqPath string) (*analysis.Result, error) {
+func analyzeFiles(ctx context.Context, cf *canalFlags, seqPath string, opts ...analysis.RunOptions) (*analysis.Result, error) {
+	var opt analysis.RunOptions
+	if len(opts) > 0 {
+		opt = opts[0]
+	}
 	seq, err := models.LoadSequence(seqPath)
 	if err != nil {
 		return nil, err
@@ -67,7 +75,7 @@ func analyzeFiles(ctx context.Context, cf *canalFlags, seqPath string) (*analysi
 	if err != nil {
 		return nil, err
 	}
-	return analysis.Run(ctx, c, seq, analysis.RunOptions{})
+	return analysis.Run(ctx, c, seq, opt)
 }
 
 func writeStepsCSV(w io.Writer, res *analysis.Result) int {

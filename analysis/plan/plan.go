@@ -1,0 +1,355 @@
+// Package plan proposes a file sequence for one canal: the files, their order and their depths
+// that reach a target size and taper at working length while keeping the largest engaged length,
+// the peak torque and the fatigue use of any file low.
+//
+// What "reach the target" means here: the last file of every plan is the target file (e.g. the
+// 30/.04) taken to working length. The canal it leaves is therefore at least as wide as the
+// target file wherever that file reaches, and exactly the target's size at working length.
+//
+// The objective, in plain words: the lowest weighted sum of the largest engaged length, the
+// highest peak torque and the highest fatigue use over the plan's files, each divided by its
+// value for the target file taken straight to working length (weights 1, 1, 1 by default;
+// Options.Weights changes them). A plan's measures are the largest over its files, so adding a
+// file never lowers them: a partial plan already as costly as the best full plans is dropped.
+//
+// Constraints: at most MaxSteps files (6 by default), each file on the list used at most once,
+// each file before the target engaged over at least 1 mm (one that touches less does no real
+// work);
+// every change of file changes the taper (common practice of the trade; can be lifted); no file
+// engaged over more than MaxEngagedMM (if set); no file using more of its fatigue life than
+// MaxFatigue (by default the use of the target file taken to working length, which every plan
+// has to accept anyway, and below 1, the model's fracture point, for the files before it); and no file engaged over a longer stretch or needing more torque than
+// the target file taken straight to working length, so a plan never does worse than that single
+// file on any measure.
+//
+// Depths: each preparing file may go to working length or 1 to 5 mm short of it, or to two
+// crown-down depths: where the canal leaves its straight coronal part (Schneider's departure
+// point, rounded down to 0.5 mm) and 2 mm short of that (half the working length and 2 mm short
+// of it in a straight canal). A few depths keep the search small; the apical ones matter
+// because that is where curves and the narrowest canal sit, the crown-down ones because
+// widening the coronal part first shortens the engaged length of every file after it.
+//
+// The search is a beam search over the prepared canal on a coarse copy of the canal (0.2 mm
+// between stations, 32 directions). Each partial plan is ranked by the plan it would make if
+// the target file came next; the best few (BeamWidth) of each length are kept, and a partial
+// plan that leaves the same canal as a kept one with no better figures is dropped. Every
+// candidate's figures come from the same sums analysis.Run uses, computed in parallel and
+// collected in a fixed order, so the result does not depend on the number of cores; ties
+// break by the order of the instrument list and of the depths above. The best plans found are
+// run again through the full-resolution canal with analysis.Run, and the best of those that
+// keeps every constraint there is proposed.
+package plan
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"runtime"
+	"strings"
+	"sync"
+
+	"tapersweep/analysis"
+	"tapersweep/models"
+)
+
+// Plan is a proposed sequence, measured at full resolution, and why it was chosen.
+type Plan struct {
+	Sequence *models.Sequence
+	// Result is the plan run through the full-resolution canal.
+	Result *analysis.Result
+	// Baseline is the target file taken straight to working length, the plan's yardstick.
+	Baseline *analysis.Result
+	// Cost is the objective at full resolution; the baseline scores the sum of the weights.
+	Cost float64
+	// Explanation states the target, the objective, the constraints, the depths tried, each
+	// step and the comparison with the baseline, in plain words.
+	Explanation []string
+}
+
+// Propose searches for the sequence that reaches opt.Target at working length with the least
+// stress. The context cancels the search. When no sequence keeps the constraints the error is
+// an *InfeasibleError that names the constraint that binds.
+func Propose(ctx context.Context, c *analysis.Canal, opt Options) (*Plan, error) {
+	opt, err := opt.withDefaults()
+	if err != nil {
+		return nil, err
+	}
+	if c == nil || c.Line == nil || c.Line.Len() < 2 {
+		return nil, fmt.Errorf("plan: no measured canal")
+	}
+	if c.WorkingLength > c.Line.Length()+1e-9 {
+		return nil, fmt.Errorf("plan: %s: working length %.2f mm is beyond the canal's apical end at %.2f mm",
+			c.Name, c.WorkingLength, c.Line.Length())
+	}
+	ti := findTarget(opt.Instruments, opt.Target)
+	if ti < 0 {
+		return nil, fmt.Errorf("plan: the target %s is not among the %d instruments given", opt.Target.Label(), len(opt.Instruments))
+	}
+	p := &planner{ctx: ctx, full: c, opt: opt, targetInst: ti}
+	if err := p.prepare(); err != nil {
+		return nil, err
+	}
+	return p.propose()
+}
+
+// findTarget returns the first constant-taper instrument of the target's size and taper.
+func findTarget(ins []models.Instrument, t Target) int {
+	for i, in := range ins {
+		if in.Size == t.Size && !in.IsVariableTaper() && math.Abs(in.TaperAt(0)-t.Taper) < 1e-9 {
+			return i
+		}
+	}
+	return -1
+}
+
+// planner holds one call of Propose.
+type planner struct {
+	ctx        context.Context
+	full       *analysis.Canal
+	opt        Options
+	targetInst int
+	depths     []depthChoice
+	g          *grid
+	moves      []*move
+	target     *move
+	baseline   *analysis.Result
+	fullLim    limits
+	coarseLim  limits
+	evaluated  int
+}
+
+// prepare builds the coarse canal, lays out every (file, depth) move on it, finds each move's
+// fatigue use at full resolution, and measures the baseline.
+func (p *planner) prepare() error {
+	c, opt := p.full, p.opt
+	ds := math.Max(opt.CoarseDS, c.Line.DS)
+	cc := coarse(c, ds, opt.CoarseAngles)
+	p.g = newGrid(cc, opt.Run)
+	p.depths = depthChoices(c)
+	targetStep := models.NewStep(opt.Instruments[p.targetInst], models.DepthWL(0))
+	p.target = newMove(p.g, p.targetInst, targetStep)
+	for i, in := range opt.Instruments {
+		if i == p.targetInst {
+			continue
+		}
+		for _, d := range p.depths {
+			mv := newMove(p.g, i, models.NewStep(in, d.depth))
+			mv.index = len(p.moves)
+			p.moves = append(p.moves, mv)
+		}
+	}
+	all := append([]*move{p.target}, p.moves...)
+	errs := make([]error, len(all))
+	parallel(len(all), func(i int) {
+		errs[i] = fatigueOf(p.ctx, c, all[i], opt.Run)
+	})
+	for _, err := range errs {
+		if err != nil {
+			return err
+		}
+	}
+	base, err := analysis.Run(p.ctx, c, &models.Sequence{Steps: []models.Step{targetStep}, PathModel: models.PathCentred,
+		Name: "the target file alone"}, opt.Run)
+	if err != nil {
+		return err
+	}
+	p.baseline = base
+	bm := base.Steps[0].Metrics
+	p.fullLim = limits{w: opt.Weights, maxEngaged: opt.MaxEngagedMM,
+		ref: measures{}.add(1, bm.EngagedLengthMM, bm.PeakTorqueIndex, bm.FatigueDamage)}
+	sm := p.g.sweep(cc.Rho, nil, p.target)
+	p.coarseLim = limits{w: opt.Weights, maxEngaged: opt.MaxEngagedMM,
+		ref: measures{}.add(1, sm.engaged, sm.torque, p.target.fatigue)}
+	switch {
+	case opt.MaxFatigue > 0:
+		p.fullLim.maxFatigue, p.coarseLim.maxFatigue = opt.MaxFatigue, opt.MaxFatigue
+	case opt.MaxFatigue == 0:
+		p.fullLim.maxFatigue, p.coarseLim.maxFatigue = bm.FatigueDamage, p.target.fatigue
+		// Where the target file itself reaches the model's fracture point, that is no licence
+		// for the files before it.
+		p.fullLim.maxPrepFatigue, p.coarseLim.maxPrepFatigue = 1, 1
+	}
+	return nil
+}
+
+// fatigueOf runs one move alone through the full-resolution canal for its fatigue use.
+func fatigueOf(ctx context.Context, cc *analysis.Canal, mv *move, opt analysis.RunOptions) error {
+	res, err := analysis.Run(ctx, cc, &models.Sequence{Steps: []models.Step{mv.step}, PathModel: models.PathCentred}, opt)
+	if err != nil {
+		return err
+	}
+	mv.fatigue = res.Steps[0].Metrics.FatigueDamage
+	return nil
+}
+
+// parallel runs fn(i) for every i on all cores; each i once, results kept per index.
+func parallel(n int, fn func(i int)) {
+	var wg sync.WaitGroup
+	workers := min(runtime.GOMAXPROCS(0), n)
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := w; i < n; i += workers {
+				fn(i)
+			}
+		}()
+	}
+	wg.Wait()
+}
+
+func (p *planner) searcher(strict, taperRule bool) *searcher {
+	return &searcher{g: p.g, moves: p.moves, target: p.target, lim: p.coarseLim, beamWidth: p.opt.BeamWidth,
+		keep: p.opt.Recheck, maxSteps: p.opt.MaxSteps, sameTaper: taperRule, strict: strict}
+}
+
+// checked is a plan found on the coarse canal and run at full resolution.
+type checked struct {
+	seq    *models.Sequence
+	res    *analysis.Result
+	m      measures
+	excess float64
+	cost   float64
+}
+
+// recheck runs the plans through the full-resolution canal and returns them best first
+// (fewest broken constraints, then lowest cost, then the search's order).
+func (p *planner) recheck(found []*complete) ([]*checked, error) {
+	out := make([]*checked, len(found))
+	errs := make([]error, len(found))
+	parallel(len(found), func(i int) {
+		seq := p.sequence(found[i].moves)
+		res, err := analysis.Run(p.ctx, p.full, seq, p.opt.Run)
+		if err != nil {
+			errs[i] = err
+			return
+		}
+		var m measures
+		for k, s := range res.Steps {
+			add := m.addPrep
+			if k == len(res.Steps)-1 {
+				add = m.add
+			}
+			m = add(k+1, s.Metrics.EngagedLengthMM, s.Metrics.PeakTorqueIndex, s.Metrics.FatigueDamage)
+		}
+		out[i] = &checked{seq: seq, res: res, m: m, excess: p.fullLim.excess(m), cost: p.fullLim.cost(m)}
+	})
+	for _, err := range errs {
+		if err != nil {
+			return nil, err
+		}
+	}
+	// A stable insertion sort keeps the search's order among equals.
+	for i := 1; i < len(out); i++ {
+		for j := i; j > 0 && (out[j].excess < out[j-1].excess ||
+			out[j].excess == out[j-1].excess && out[j].cost < out[j-1].cost); j-- {
+			out[j], out[j-1] = out[j-1], out[j]
+		}
+	}
+	return out, nil
+}
+
+// sequence writes the preparing moves and the target file as a sequence.
+func (p *planner) sequence(moves []*move) *models.Sequence {
+	seq := &models.Sequence{PathModel: models.PathCentred, Name: "proposed plan"}
+	for _, mv := range append(append([]*move{}, moves...), p.target) {
+		st := mv.step
+		seq.Steps = append(seq.Steps, st)
+		a := st.Instrument.Alloy
+		if b, ok := models.BuiltinAlloy(st.AlloyName); !ok || b != a {
+			if seq.Alloys == nil {
+				seq.Alloys = map[string]models.Alloy{}
+			}
+			seq.Alloys[st.AlloyName] = a
+		}
+	}
+	return seq
+}
+
+// search runs one beam search and rechecks its best plans.
+func (p *planner) search(strict, taperRule bool) ([]*checked, error) {
+	s := p.searcher(strict, taperRule)
+	found, err := s.run(p.ctx)
+	p.evaluated += s.evaluated
+	if err != nil {
+		return nil, err
+	}
+	return p.recheck(found)
+}
+
+func (p *planner) propose() (*Plan, error) {
+	if f, lim := p.fullLim.ref.fatigue, p.fullLim.maxFatigue; lim > 0 && f > lim*(1+1e-9) {
+		return nil, &InfeasibleError{Constraint: ConstraintFatigue, Limit: lim, Needed: f, Msg: fmt.Sprintf(
+			"the %s taken to working length, which ends every plan, uses %.3g of its fatigue life, above the cap of %.3g",
+			p.opt.Target.Label(), f, lim)}
+	}
+	rule := !p.opt.AllowSameTaper
+	plans, err := p.search(true, rule)
+	if err != nil {
+		return nil, err
+	}
+	if len(plans) > 0 && plans[0].excess == 0 {
+		return p.explain(plans[0]), nil
+	}
+	best, err := p.infeasible(rule)
+	if err != nil {
+		return nil, err
+	}
+	return p.explain(best), nil
+}
+
+// stepText names a step: "25/.06 to WL-2".
+func stepText(st models.Step) string {
+	d := st.Depth.String()
+	if !st.Depth.FromWL {
+		d += " mm"
+	}
+	return st.Instrument.Label() + " to " + d
+}
+
+func (p *planner) explain(best *checked) *Plan {
+	opt := p.opt
+	wl := p.full.WorkingLength
+	tl := opt.Target.Label()
+	ref := p.fullLim.ref
+	pl := &Plan{Sequence: best.seq, Result: best.res, Baseline: p.baseline, Cost: best.cost}
+	add := func(format string, a ...any) { pl.Explanation = append(pl.Explanation, fmt.Sprintf(format, a...)) }
+	add("Target: the last file is the %s taken to working length (%.2f mm), so the canal ends at its size there "+
+		"and is at least as wide as that file wherever it reaches.", tl, wl)
+	add("Objective: %s (%.2f mm, %.3f N*cm, %.3f for the %s alone).", opt.Weights.ObjectiveText(tl),
+		ref.engaged, ref.torque, ref.fatigue, tl)
+	var cons []string
+	cons = append(cons, fmt.Sprintf("at most %d files, each used once", opt.MaxSteps))
+	if !opt.AllowSameTaper {
+		cons = append(cons, "every change of file changes the taper")
+	}
+	if opt.MaxEngagedMM > 0 {
+		cons = append(cons, fmt.Sprintf("no file engaged over more than %.2f mm", opt.MaxEngagedMM))
+	}
+	switch {
+	case opt.MaxFatigue > 0:
+		cons = append(cons, fmt.Sprintf("no file using more than %.3g of its fatigue life", opt.MaxFatigue))
+	case opt.MaxFatigue == 0:
+		cons = append(cons, fmt.Sprintf("no file using more of its fatigue life than the %s at working length (%.3g)", tl, ref.fatigue))
+		cons = append(cons, "no file before it reaching the model's fracture point (a fatigue use of 1)")
+	}
+	cons = append(cons, fmt.Sprintf("no file engaged over a longer stretch or needing more torque than the %s taken straight to working length", tl))
+	add("Constraints: %s.", strings.Join(cons, "; "))
+	add("Depths tried for each preparing file: %s.", depthText(p.depths, wl))
+	for _, s := range best.res.Steps {
+		m := s.Metrics
+		add("Step %d, %s (%.2f mm): engaged over %.2f mm, peak torque %.3f N*cm, fatigue use %.3g.",
+			s.Number, stepText(s.Step), m.TipDepthMM, m.EngagedLengthMM, m.PeakTorqueIndex, m.FatigueDamage)
+	}
+	add("Against the %s taken straight to working length: largest engaged length %.2f mm (against %.2f mm), "+
+		"highest peak torque %.3f N*cm (against %.3f), highest fatigue use %.3g (against %.3g).",
+		tl, best.m.engaged, ref.engaged, best.m.torque, ref.torque, best.m.fatigue, ref.fatigue)
+	if ref.fatigue >= 1 {
+		add("Caution: the %s taken to working length alone uses up its fatigue life in this canal in the model "+
+			"(%.3g); no sequence changes that, since its bending does not depend on the files before it.", tl, ref.fatigue)
+	}
+	add("Searched on a coarse copy of the canal (%.2f mm between stations, %d directions): %d partial plans "+
+		"measured; the best %d full plans re-checked at full resolution.", p.g.canal.Line.DS, p.g.na,
+		p.evaluated, opt.Recheck)
+	return pl
+}
