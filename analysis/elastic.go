@@ -19,9 +19,9 @@ type elasticPath struct {
 }
 
 // solveElasticPath treats the file as a beam on an elastic foundation in the canal's frames:
-// its offset delta(s) minimises the bending energy integral of E I(u) |k_c + delta''|^2 plus
+// its offset delta(s) minimises the bending energy integral of E I(u) |k_c + delta”|^2 plus
 // the wall term k_w |delta|^2 (for small offsets the path's curvature vector is the
-// centerline's plus delta'' in a parallel-transported frame, so the two components decouple).
+// centerline's plus delta” in a parallel-transported frame, so the two components decouple).
 // The file is held at the orifice in line with the canal (delta = delta' = 0) and its tip is
 // free (zero moment and shear follow from the energy). One banded (pentadiagonal) solve per
 // component; afterwards the axis is kept inside the canal as prepared so far.

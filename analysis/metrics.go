@@ -85,13 +85,13 @@ func roundMetrics(m *StepMetrics) {
 
 // ResultSummary is the whole run as `analyze --format json` prints it.
 type ResultSummary struct {
-	Canal    CanalSummary  `json:"canal"`
-	Model    ModelSummary  `json:"model"`
-	Steps    []StepMetrics `json:"steps"`
+	Canal CanalSummary  `json:"canal"`
+	Model ModelSummary  `json:"model"`
+	Steps []StepMetrics `json:"steps"`
 	// Sequence: how the whole sequence moved the canal against the canal as scanned.
 	Sequence Transport `json:"sequence"`
-	Warnings []string      `json:"warnings"`
-	Caution  string        `json:"caution"`
+	Warnings []string  `json:"warnings"`
+	Caution  string    `json:"caution"`
 }
 
 // ModelSummary states the settings behind the figures.
