@@ -194,7 +194,7 @@ func (vg *voxelGraph) nearest(p mgl64.Vec3, reach []float64) int32 {
 
 // endWidth is the widest distance-to-wall within 1 mm (geodesic) of an end node.
 func (vg *voxelGraph) endWidth(end int32, _ []float64) float64 {
-	d, _ := vg.dijkstra([]int32{end}, nil)
+	d, _ := vg.dijkstra([]int32{end}, nil, 1.0)
 	w := 0.0
 	for n, dn := range d {
 		if dn <= 1.0 {

@@ -1,7 +1,6 @@
 package analysis
 
 import (
-	"container/heap"
 	"math"
 
 	"github.com/go-gl/mathgl/mgl64"
@@ -87,22 +86,59 @@ type heapItem struct {
 	d float64
 	n int32
 }
+
+// minHeap is a binary heap of (distance, node), smallest first, ties by node so every search
+// is deterministic. Typed rather than container/heap: no boxing, no allocation per push.
 type minHeap []heapItem
 
-func (h minHeap) Len() int { return len(h) }
-func (h minHeap) Less(a, b int) bool {
+func (h minHeap) less(a, b int) bool {
 	if h[a].d != h[b].d {
 		return h[a].d < h[b].d
 	}
 	return h[a].n < h[b].n
 }
-func (h minHeap) Swap(a, b int) { h[a], h[b] = h[b], h[a] }
-func (h *minHeap) Push(x any)   { *h = append(*h, x.(heapItem)) }
-func (h *minHeap) Pop() any     { old := *h; x := old[len(old)-1]; *h = old[:len(old)-1]; return x }
+
+func (h *minHeap) push(it heapItem) {
+	*h = append(*h, it)
+	q := *h
+	for i := len(q) - 1; i > 0; {
+		p := (i - 1) / 2
+		if !q.less(i, p) {
+			break
+		}
+		q[i], q[p] = q[p], q[i]
+		i = p
+	}
+}
+
+func (h *minHeap) pop() heapItem {
+	q := *h
+	top := q[0]
+	last := len(q) - 1
+	q[0] = q[last]
+	q = q[:last]
+	for i := 0; ; {
+		l, r, m := 2*i+1, 2*i+2, i
+		if l < len(q) && q.less(l, m) {
+			m = l
+		}
+		if r < len(q) && q.less(r, m) {
+			m = r
+		}
+		if m == i {
+			break
+		}
+		q[i], q[m] = q[m], q[i]
+		i = m
+	}
+	*h = q
+	return top
+}
 
 // dijkstra returns distances from the sources over the graph, where crossing an edge costs
 // step * weight(a, b), and the predecessor of every node (-1 for sources and unreached nodes).
-func (vg *voxelGraph) dijkstra(sources []int32, weight func(a, b int32) float64) ([]float64, []int32) {
+// Nodes farther than limit stay unreached (+Inf).
+func (vg *voxelGraph) dijkstra(sources []int32, weight func(a, b int32) float64, limit ...float64) ([]float64, []int32) {
 	n := len(vg.cells)
 	dist := make([]float64, n)
 	prev := make([]int32, n)
@@ -110,13 +146,17 @@ func (vg *voxelGraph) dijkstra(sources []int32, weight func(a, b int32) float64)
 		dist[i] = math.Inf(1)
 		prev[i] = -1
 	}
-	h := &minHeap{}
+	bound := math.Inf(1)
+	if len(limit) > 0 {
+		bound = limit[0]
+	}
+	h := make(minHeap, 0, 1024)
 	for _, s := range sources {
 		dist[s] = 0
-		heap.Push(h, heapItem{0, s})
+		h.push(heapItem{0, s})
 	}
-	for h.Len() > 0 {
-		it := heap.Pop(h).(heapItem)
+	for len(h) > 0 {
+		it := h.pop()
 		if it.d > dist[it.n] {
 			continue
 		}
@@ -125,10 +165,10 @@ func (vg *voxelGraph) dijkstra(sources []int32, weight func(a, b int32) float64)
 			if weight != nil {
 				w *= weight(it.n, m)
 			}
-			if nd := it.d + w; nd < dist[m] {
+			if nd := it.d + w; nd < dist[m] && nd <= bound {
 				dist[m] = nd
 				prev[m] = it.n
-				heap.Push(h, heapItem{nd, m})
+				h.push(heapItem{nd, m})
 			}
 		})
 	}

@@ -117,3 +117,29 @@ func TestSweepMatchesRun(t *testing.T) {
 		before = next
 	}
 }
+
+// TestFewAnglesKeepsFatigue: a file's fatigue use depends on the centerline it bends along, not
+// on the radius map (Miner's sum of the strain d k / 2 over the schedule), so the thinned copy
+// gives the same figure as the full canal.
+func TestFewAnglesKeepsFatigue(t *testing.T) {
+	_, c := testCanals(t)
+	seq, err := models.ParseSequence("s.json", []byte(`{"steps":[{"size":30,"taper":0.04,"depth":"WL"}]}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	thin := fewAngles(c)
+	if thin.Angles != 4 || len(thin.Rho) != 4*c.Line.Len() {
+		t.Fatalf("thinned to %d angles", thin.Angles)
+	}
+	a, err := analysis.Run(context.Background(), c, seq, analysis.RunOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := analysis.Run(context.Background(), thin, seq, analysis.RunOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if fa, fb := a.Steps[0].Metrics.FatigueDamage, b.Steps[0].Metrics.FatigueDamage; fa != fb || fa <= 0 {
+		t.Errorf("fatigue use %g on the full canal, %g on the thinned copy", fa, fb)
+	}
+}

@@ -17,14 +17,17 @@ type depthChoice struct {
 // wlOffsets are the depths short of working length offered to every file, mm.
 var wlOffsets = [...]float64{0, 1, 2, 3, 4, 5}
 
+// crownDownSteps are how far short of the start of the curve the crown-down depths lie, mm.
+var crownDownSteps = [...]float64{0, 2, 4}
+
 // minDepthMM keeps the shallowest choice a real step into the canal.
 const minDepthMM = 3.0
 
 // depthChoices lists the depths the search offers each preparing file, deepest first: working
-// length and 1 to 5 mm short of it (the apical part, where curves sit), and two crown-down
+// length and 1 to 5 mm short of it (the apical part, where curves sit), and three crown-down
 // depths: where the canal leaves its straight coronal part (Schneider's departure point,
-// rounded down to 0.5 mm) and 2 mm short of that. In a straight canal the crown-down depths are
-// half the working length and 2 mm short of it. Depths closer than 0.5 mm to one already
+// rounded down to 0.5 mm) and 2 and 4 mm short of that. In a straight canal the crown-down
+// depths start from half the working length instead. Depths closer than 0.5 mm to one already
 // offered, or shallower than 3 mm, are left out.
 func depthChoices(c *analysis.Canal) []depthChoice {
 	wl := math.Min(c.WorkingLength, c.Line.Length())
@@ -48,11 +51,11 @@ func depthChoices(c *analysis.Canal) []depthChoice {
 		bend, why = wl/2, "half the working length (the canal is straight)"
 	}
 	bend = math.Floor(bend*2) / 2
-	for k, d := range []float64{bend, bend - 2} {
-		if d >= minDepthMM && d < wl && !taken(d) {
+	for _, short := range crownDownSteps {
+		if d := bend - short; d >= minDepthMM && d < wl && !taken(d) {
 			w := why
-			if k == 1 {
-				w = "2 mm short of " + why
+			if short > 0 {
+				w = fmt.Sprintf("%g mm short of %s", short, why)
 			}
 			out = append(out, depthChoice{models.DepthMM(d), w})
 		}

@@ -31,7 +31,8 @@ type Options struct {
 	AllowSameTaper bool
 	// Weights of the objective; all zero = DefaultWeights.
 	Weights Weights
-	// Run holds the model's settings (contact threshold, cutting coefficient).
+	// Run holds the model's settings (contact threshold, cutting coefficient). The search
+	// sums engagement as the centred path model does; plans are written and checked centred.
 	Run analysis.RunOptions
 	// Search tuning; zero = defaults.
 	CoarseDS     float64 // station spacing of the search's canal, mm (DefaultCoarseDS)
@@ -134,5 +135,6 @@ func runDefaults(o analysis.RunOptions) analysis.RunOptions {
 	if o.CuttingCoefficient <= 0 {
 		o.CuttingCoefficient = analysis.DefaultCuttingCoefficient
 	}
+	o.PathModel = models.PathCentred // the search's own sums follow the centred file
 	return o
 }

@@ -22,10 +22,10 @@
 // the target file taken straight to working length, so a plan never does worse than that single
 // file on any measure.
 //
-// Depths: each preparing file may go to working length or 1 to 5 mm short of it, or to two
+// Depths: each preparing file may go to working length or 1 to 5 mm short of it, or to three
 // crown-down depths: where the canal leaves its straight coronal part (Schneider's departure
-// point, rounded down to 0.5 mm) and 2 mm short of that (half the working length and 2 mm short
-// of it in a straight canal). A few depths keep the search small; the apical ones matter
+// point, rounded down to 0.5 mm) and 2 and 4 mm short of that (from half the working length in
+// a straight canal); none shallower than 3 mm. A few depths keep the search small; the apical ones matter
 // because that is where curves and the narrowest canal sit, the crown-down ones because
 // widening the coronal part first shortens the engaged length of every file after it.
 //
@@ -116,6 +116,7 @@ type planner struct {
 	fullLim    limits
 	coarseLim  limits
 	evaluated  int
+	rechecked  int
 }
 
 // prepare builds the coarse canal, lays out every (file, depth) move on it, finds each move's
@@ -138,13 +139,26 @@ func (p *planner) prepare() error {
 			p.moves = append(p.moves, mv)
 		}
 	}
-	all := append([]*move{p.target}, p.moves...)
-	errs := make([]error, len(all))
-	parallel(len(all), func(i int) {
-		errs[i] = fatigueOf(p.ctx, c, all[i], opt.Run)
-	})
-	for _, err := range errs {
-		if err != nil {
+	// Fatigue use on the coarse canal first; the target, and every file whose coarse figure
+	// comes within reach of a cap, again at full resolution, so that a cap means the same in the
+	// search as in the final check. (Near an alloy's strain limit the coarse figure can be a
+	// quarter off or more; a file whose coarse figure is a quarter of the cap is taken to stay
+	// under it, and the final check at full resolution catches any that does not.)
+	if err := p.fatigueOn(cc, p.moves); err != nil {
+		return err
+	}
+	thin := fewAngles(c)
+	if err := p.fatigueOn(thin, []*move{p.target}); err != nil {
+		return err
+	}
+	if lim := p.fatigueCap(p.target.fatigue); lim > 0 {
+		var near []*move
+		for _, mv := range p.moves {
+			if mv.fatigue >= fullFatigueShare*lim {
+				near = append(near, mv)
+			}
+		}
+		if err := p.fatigueOn(thin, near); err != nil {
 			return err
 		}
 	}
@@ -172,7 +186,37 @@ func (p *planner) prepare() error {
 	return nil
 }
 
-// fatigueOf runs one move alone through the full-resolution canal for its fatigue use.
+// fullFatigueShare: a file whose coarse fatigue use reaches this share of a cap is measured
+// again at full resolution.
+const fullFatigueShare = 0.25
+
+// fatigueCap is the lowest fatigue cap in force for the files before the target, given the
+// target's own use (0: none).
+func (p *planner) fatigueCap(targetUse float64) float64 {
+	switch {
+	case p.opt.MaxFatigue > 0:
+		return p.opt.MaxFatigue
+	case p.opt.MaxFatigue == 0:
+		return math.Min(targetUse, 1)
+	}
+	return 0
+}
+
+// fatigueOn finds the moves' fatigue use on canal c, in parallel.
+func (p *planner) fatigueOn(c *analysis.Canal, moves []*move) error {
+	errs := make([]error, len(moves))
+	parallel(len(moves), func(i int) {
+		errs[i] = fatigueOf(p.ctx, c, moves[i], p.opt.Run)
+	})
+	for _, err := range errs {
+		if err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// fatigueOf runs one move alone through canal c for its fatigue use.
 func fatigueOf(ctx context.Context, cc *analysis.Canal, mv *move, opt analysis.RunOptions) error {
 	res, err := analysis.Run(ctx, cc, &models.Sequence{Steps: []models.Step{mv.step}, PathModel: models.PathCentred}, opt)
 	if err != nil {
@@ -271,6 +315,7 @@ func (p *planner) search(strict, taperRule bool) ([]*checked, error) {
 	s := p.searcher(strict, taperRule)
 	found, err := s.run(p.ctx)
 	p.evaluated += s.evaluated
+	p.rechecked += len(found)
 	if err != nil {
 		return nil, err
 	}
@@ -344,12 +389,15 @@ func (p *planner) explain(best *checked) *Plan {
 	add("Against the %s taken straight to working length: largest engaged length %.2f mm (against %.2f mm), "+
 		"highest peak torque %.3f N*cm (against %.3f), highest fatigue use %.3g (against %.3g).",
 		tl, best.m.engaged, ref.engaged, best.m.torque, ref.torque, best.m.fatigue, ref.fatigue)
+	if len(best.res.Steps) == 1 {
+		add("No sequence of these instruments within the constraints does better than the %s taken straight to working length.", tl)
+	}
 	if ref.fatigue >= 1 {
 		add("Caution: the %s taken to working length alone uses up its fatigue life in this canal in the model "+
 			"(%.3g); no sequence changes that, since its bending does not depend on the files before it.", tl, ref.fatigue)
 	}
 	add("Searched on a coarse copy of the canal (%.2f mm between stations, %d directions): %d partial plans "+
 		"measured; the best %d full plans re-checked at full resolution.", p.g.canal.Line.DS, p.g.na,
-		p.evaluated, opt.Recheck)
+		p.evaluated, p.rechecked)
 	return pl
 }

@@ -1,0 +1,346 @@
+package main
+
+import (
+	"context"
+	"encoding/csv"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"os/signal"
+	"path/filepath"
+	"runtime"
+	"sort"
+	"strconv"
+	"strings"
+	"sync"
+	"time"
+
+	"tapersweep/analysis"
+	"tapersweep/models"
+)
+
+func batchCommand() command {
+	return command{
+		name: "batch",
+		summary: "run one sequence through every canal file (*.stl, *.json) in a folder, not its subfolders, into one CSV " +
+			"row per canal and step; a canal that fails gets a row with its error and the run goes on",
+		usage:   "--canals DIR --sequence PATH --out FILE.csv [--jobs N] [--shard I/N] [--working-length MM] [--scale K]",
+		example: "tapersweep batch --canals scans/ --sequence plan.json --out results.csv --jobs 4 --shard 2/10",
+		flags: func(fs *flag.FlagSet) func(stdout, stderr io.Writer) int {
+			dir := fs.String("canals", "", "`folder` of canal files: STL surfaces and canal specs (JSON), not searched recursively")
+			seqPath := fs.String("sequence", "", "sequence `file` (JSON)")
+			out := fs.String("out", "", "CSV `file` to write, - for standard output")
+			jobs := fs.Int("jobs", runtime.NumCPU(), "canals to run at once (`N`)")
+			shard := fs.String("shard", "1/1", "take shard `I/N` of the sorted canal files: those whose index k (from 0) has k mod N = I-1; shards count from 1")
+			wl := fs.Float64("working-length", 0, "working length in `mm` for every canal (default: each spec's, else its centerline's length)")
+			scale := fs.Float64("scale", 1, "multiply STL coordinates by `K` (0.001 turns micrometres into mm)")
+			return func(stdout, stderr io.Writer) int {
+				switch {
+				case *dir == "":
+					return usageError(stderr, "batch", "--canals is required")
+				case *seqPath == "":
+					return usageError(stderr, "batch", "--sequence is required")
+				case *out == "":
+					return usageError(stderr, "batch", "--out is required")
+				case *jobs < 1:
+					return usageError(stderr, "batch", "--jobs must be at least 1")
+				case *scale <= 0:
+					return usageError(stderr, "batch", "--scale must be above 0")
+				case *wl < 0:
+					return usageError(stderr, "batch", "--working-length must not be negative")
+				}
+				si, sn, err := parseShard(*shard)
+				if err != nil {
+					return usageError(stderr, "batch", "--shard: %v", err)
+				}
+				seq, err := models.LoadSequence(*seqPath)
+				if err != nil {
+					return inputError(stderr, "batch", err)
+				}
+				files, err := canalFiles(*dir)
+				if err != nil {
+					return inputError(stderr, "batch", err)
+				}
+				files = shardFiles(files, si, sn)
+				ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
+				defer stop()
+				opt := batchOptions{Dir: *dir, Jobs: *jobs, Load: analysis.LoadOptions{Scale: *scale,
+					Canal: analysis.CanalOptions{WorkingLength: *wl}}}
+				return writeBatch(ctx, stdout, stderr, *out, files, seq, opt)
+			}
+		},
+	}
+}
+
+// parseShard reads "I/N" with 1 <= I <= N.
+func parseShard(s string) (i, n int, err error) {
+	a, b, ok := strings.Cut(s, "/")
+	if ok {
+		i, err = strconv.Atoi(strings.TrimSpace(a))
+		if err == nil {
+			n, err = strconv.Atoi(strings.TrimSpace(b))
+		}
+	}
+	if !ok || err != nil || n < 1 || i < 1 || i > n {
+		return 0, 0, fmt.Errorf("want I/N with 1 <= I <= N, like 3/10; got %q", s)
+	}
+	return i, n, nil
+}
+
+// canalFiles lists the *.stl and *.json files directly in dir, sorted by name.
+func canalFiles(dir string) ([]string, error) {
+	entries, err := os.ReadDir(dir)
+	if err != nil {
+		return nil, err
+	}
+	var out []string
+	for _, e := range entries {
+		ext := strings.ToLower(filepath.Ext(e.Name()))
+		if (ext == ".stl" || ext == ".json") && e.Type().IsRegular() {
+			out = append(out, e.Name())
+		}
+	}
+	if len(out) == 0 {
+		return nil, fmt.Errorf("%s: no canal files (*.stl, *.json) in this folder (subfolders are not searched)", dir)
+	}
+	sort.Strings(out)
+	return out, nil
+}
+
+// shardFiles keeps the files whose sorted index k satisfies k % n == i-1.
+func shardFiles(files []string, i, n int) []string {
+	var out []string
+	for k, f := range files {
+		if k%n == i-1 {
+			out = append(out, f)
+		}
+	}
+	return out
+}
+
+// batchCanalColumns describe the canal on every row; then come analysis.StepColumns, the
+// warnings and the error.
+var batchCanalColumns = []string{"canal_file", "canal_name", "length_mm", "working_length_mm",
+	"tightest_bend_radius_mm", "tightest_bend_from_apex_mm", "schneider_angle_deg", "arc_angle_deg"}
+
+func batchColumns() []string {
+	cols := append(append([]string{}, batchCanalColumns...), analysis.StepColumns...)
+	return append(cols, "warnings", "error")
+}
+
+type batchOptions struct {
+	Dir  string
+	Jobs int
+	Load analysis.LoadOptions
+	// Progress is told of each canal as it finishes, in the order they finish.
+	Progress func(done, total, failed int, file string, err error)
+}
+
+// writeBatch runs the batch into the named file (written beside it first and renamed when
+// complete, so an interrupted run leaves no table that looks whole) or standard output.
+func writeBatch(ctx context.Context, stdout, stderr io.Writer, out string, files []string, seq *models.Sequence, opt batchOptions) int {
+	opt.Progress = newProgress(stderr, isTerminal(stderr))
+	if out == "-" {
+		failed, err := runBatch(ctx, stdout, files, seq, opt)
+		return batchDone(stderr, len(files), failed, err)
+	}
+	tmp := out + ".partial"
+	f, err := os.Create(tmp)
+	if err != nil {
+		return inputError(stderr, "batch", err)
+	}
+	failed, err := runBatch(ctx, f, files, seq, opt)
+	if cerr := f.Close(); err == nil {
+		err = cerr
+	}
+	if err == nil {
+		err = os.Rename(tmp, out)
+	}
+	if err != nil {
+		os.Remove(tmp)
+	}
+	return batchDone(stderr, len(files), failed, err)
+}
+
+func batchDone(stderr io.Writer, total, failed int, err error) int {
+	if err != nil {
+		return inputError(stderr, "batch", err)
+	}
+	if failed > 0 {
+		fmt.Fprintf(stderr, "tapersweep batch: %d of %d canals failed; their rows carry the error\n", failed, total)
+	}
+	return exitOK
+}
+
+// runBatch analyses the canals up to opt.Jobs at once and writes the table in file order as
+// soon as each leading canal is done, so the output is the same whatever the number of jobs.
+func runBatch(ctx context.Context, w io.Writer, files []string, seq *models.Sequence, opt batchOptions) (failed int, err error) {
+	cw := csv.NewWriter(w)
+	if err := cw.Write(batchColumns()); err != nil {
+		return 0, err
+	}
+	type done struct {
+		k    int
+		rows [][]string
+		err  error
+	}
+	jobs := max(1, min(opt.Jobs, len(files)))
+	next := make(chan int)
+	results := make(chan done, jobs)
+	var wg sync.WaitGroup
+	for range jobs {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for k := range next {
+				rows, err := batchCanal(ctx, filepath.Join(opt.Dir, files[k]), files[k], seq, opt.Load)
+				results <- done{k, rows, err}
+			}
+		}()
+	}
+	go func() {
+		defer close(next)
+		for k := range files {
+			select {
+			case next <- k:
+			case <-ctx.Done():
+				return
+			}
+		}
+	}()
+	go func() { wg.Wait(); close(results) }()
+
+	pending := map[int][][]string{}
+	written, finished := 0, 0
+	for r := range results {
+		finished++
+		if r.err != nil {
+			failed++
+		}
+		if opt.Progress != nil {
+			opt.Progress(finished, len(files), failed, files[r.k], r.err)
+		}
+		pending[r.k] = r.rows
+		for rows, ok := pending[written]; ok; rows, ok = pending[written] {
+			delete(pending, written)
+			written++
+			if err == nil {
+				err = cw.WriteAll(rows)
+			}
+		}
+	}
+	if err == nil && ctx.Err() != nil {
+		err = fmt.Errorf("stopped after %d of %d canals: %w", written, len(files), ctx.Err())
+	}
+	if err == nil {
+		cw.Flush()
+		err = cw.Error()
+	}
+	return failed, err
+}
+
+// batchCanal runs the sequence through one canal and returns its rows: one per step, or one
+// row carrying the error. A failure in one canal, even a crash in the analysis, stays in its row.
+func batchCanal(ctx context.Context, path, file string, seq *models.Sequence, opt analysis.LoadOptions) (rows [][]string, err error) {
+	width := len(batchColumns())
+	errorRow := func(e error) [][]string {
+		row := make([]string, width)
+		row[0] = file
+		row[width-1] = oneLine(e.Error())
+		return [][]string{row}
+	}
+	defer func() {
+		if p := recover(); p != nil {
+			err = fmt.Errorf("%s: internal error, please report it: %v", path, p)
+			rows = errorRow(err)
+		}
+	}()
+	c, err := analysis.LoadCanal(ctx, path, opt)
+	if err == nil {
+		var res *analysis.Result
+		if res, err = analysis.Run(ctx, c, seq, analysis.RunOptions{}); err == nil {
+			return canalRows(file, res), nil
+		}
+	}
+	if !strings.Contains(err.Error(), path) {
+		err = fmt.Errorf("%s: %w", path, err)
+	}
+	return errorRow(err), err
+}
+
+// canalRows states each step of a run with the canal's own columns in front.
+func canalRows(file string, res *analysis.Result) [][]string {
+	sum := res.Canal.Summary(false)
+	f := func(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
+	p := func(v *float64) string {
+		if v == nil {
+			return ""
+		}
+		return f(*v)
+	}
+	canal := []string{file, sum.Name, f(sum.LengthMM), f(sum.WorkingLengthMM), p(sum.MaxCurvature.RadiusMM),
+		f(sum.MaxCurvature.FromApexMM), f(sum.SchneiderDeg), f(sum.Arc.AngleDeg)}
+	warnings := oneLine(strings.Join(mergeNotes(sum.Warnings, res.Warnings), " | "))
+	var rows [][]string
+	for _, st := range res.Steps {
+		row := append(append([]string{}, canal...), st.Metrics.Row()...)
+		rows = append(rows, append(row, warnings, ""))
+	}
+	return rows
+}
+
+func mergeNotes(a, b []string) []string {
+	seen := map[string]bool{}
+	var out []string
+	for _, s := range append(append([]string{}, a...), b...) {
+		if !seen[s] {
+			seen[s] = true
+			out = append(out, s)
+		}
+	}
+	return out
+}
+
+// oneLine keeps a message on one CSV line.
+func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
+
+// isTerminal tells whether w is a terminal (stderr at a shell prompt, not a log file).
+func isTerminal(w io.Writer) bool {
+	f, ok := w.(*os.File)
+	if !ok {
+		return false
+	}
+	st, err := f.Stat()
+	return err == nil && st.Mode()&os.ModeCharDevice != 0
+}
+
+// newProgress reports progress as a bar redrawn in place on a terminal, and as one plain line
+// per canal otherwise (logs of a batch scheduler).
+func newProgress(w io.Writer, terminal bool) func(done, total, failed int, file string, err error) {
+	start := time.Now()
+	return func(done, total, failed int, file string, err error) {
+		if !terminal {
+			status := "ok"
+			if err != nil {
+				status = "failed: " + oneLine(err.Error())
+			}
+			fmt.Fprintf(w, "batch: %d/%d %s %s\n", done, total, file, status)
+			return
+		}
+		const width = 30
+		fill := width * done / max(total, 1)
+		bar := strings.Repeat("#", fill) + strings.Repeat(".", width-fill)
+		elapsed := time.Since(start)
+		left := ""
+		if done < total {
+			eta := time.Duration(float64(elapsed) / float64(done) * float64(total-done))
+			left = ", about " + eta.Round(time.Second).String() + " left"
+		}
+		fmt.Fprintf(w, "\r[%s] %d/%d canals, %d failed, %s%s\x1b[K", bar, done, total, failed,
+			elapsed.Round(time.Second), left)
+		if done == total {
+			fmt.Fprintln(w)
+		}
+	}
+}

@@ -1,0 +1,189 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+	"text/tabwriter"
+
+	"tapersweep/analysis"
+	"tapersweep/analysis/plan"
+	"tapersweep/models"
+)
+
+func planCommand() command {
+	return command{
+		name:    "plan",
+		summary: "propose a file sequence that reaches a target size and taper at working length with the least engagement, torque and fatigue use",
+		usage: "--canal PATH --target SIZE/TAPER [--instruments PATH] [--max-steps N] [--out FILE] [--compare PATH]\n" +
+			"       [--max-engaged MM] [--max-fatigue F] [--weights a,b,c] [--allow-same-taper] [--working-length MM] [--scale K]",
+		example: "tapersweep plan --canal canal.stl --target 30/.04 --instruments shelf.json --max-engaged 6 --out plan.json --compare mine.json",
+		flags: func(fs *flag.FlagSet) func(stdout, stderr io.Writer) int {
+			var cf canalFlags
+			cf.register(fs)
+			target := fs.String("target", "", "the `SIZE/TAPER` of the last file, taken to working length (e.g. 30/.04)")
+			instruments := fs.String("instruments", "", "instruments `file` (JSON list of {\"size\": 25, \"taper\": 0.04, ...}); default: the generic catalogue")
+			maxSteps := fs.Int("max-steps", plan.DefaultMaxSteps, "at most `N` files, the target included")
+			out := fs.String("out", "", "write the proposed sequence (JSON, as analyze reads it) to `FILE`; default: print it after the table")
+			compare := fs.String("compare", "", "sequence `file` to compare with; default: the target file taken straight to working length")
+			maxEngaged := fs.Float64("max-engaged", 0, "no file engaged over more than `MM` mm (0: no cap)")
+			maxFatigue := fs.Float64("max-fatigue", 0, "no file using more than `F` of its fatigue life (0: what the target file alone uses at working length; -1: no cap)")
+			weights := fs.String("weights", "1,1,1", "weights `a,b,c` of largest engaged length, peak torque and fatigue use, each relative to the target file alone")
+			sameTaper := fs.Bool("allow-same-taper", false, "allow two consecutive files of the same taper")
+			return func(stdout, stderr io.Writer) int {
+				if code := cf.check(stderr, "plan"); code != exitOK {
+					return code
+				}
+				if *target == "" {
+					return usageError(stderr, "plan", "--target is required (e.g. --target 30/.04)")
+				}
+				tg, err := plan.ParseTarget(*target)
+				if err != nil {
+					return usageError(stderr, "plan", "--target: %v", err)
+				}
+				w, err := parseWeights(*weights)
+				if err != nil {
+					return usageError(stderr, "plan", "--weights: %v", err)
+				}
+				if *maxSteps < 1 || *maxSteps > 12 {
+					return usageError(stderr, "plan", "--max-steps must be from 1 to 12")
+				}
+				if *maxEngaged < 0 || math.IsNaN(*maxEngaged) {
+					return usageError(stderr, "plan", "--max-engaged must not be negative")
+				}
+				if math.IsNaN(*maxFatigue) || *maxFatigue < 0 && *maxFatigue != -1 {
+					return usageError(stderr, "plan", "--max-fatigue must be above 0, 0 (the default cap) or -1 (no cap)")
+				}
+				opt := plan.Options{Target: tg, MaxSteps: *maxSteps, MaxEngagedMM: *maxEngaged,
+					MaxFatigue: *maxFatigue, AllowSameTaper: *sameTaper, Weights: w}
+				if *instruments != "" {
+					ins, warns, err := plan.LoadInstruments(*instruments)
+					if err != nil {
+						return inputError(stderr, "plan", err)
+					}
+					for _, wn := range warns {
+						fmt.Fprintf(stderr, "note: %s\n", wn)
+					}
+					opt.Instruments = ins
+				}
+				var cmp *models.Sequence
+				if *compare != "" {
+					if cmp, err = models.LoadSequence(*compare); err != nil {
+						return inputError(stderr, "plan", err)
+					}
+				}
+				ctx := context.Background()
+				c, err := cf.load(ctx)
+				if err != nil {
+					return inputError(stderr, "plan", err)
+				}
+				pl, err := plan.Propose(ctx, c, opt)
+				if err != nil {
+					var inf *plan.InfeasibleError
+					if errors.As(err, &inf) {
+						fmt.Fprintf(stderr, "tapersweep plan: %s: %v\n", c.Name, err)
+						return exitBadInput
+					}
+					return inputError(stderr, "plan", err)
+				}
+				other, otherName := pl.Baseline, tg.Label()+" alone to WL"
+				if cmp != nil {
+					if other, err = analysis.Run(ctx, c, cmp, analysis.RunOptions{}); err != nil {
+						return inputError(stderr, "plan", err)
+					}
+					otherName = *compare
+				}
+				data, err := pl.Sequence.MarshalJSON()
+				if err != nil {
+					return inputError(stderr, "plan", err)
+				}
+				data = append(data, '\n')
+				if *out != "" {
+					if err := os.WriteFile(*out, data, 0o644); err != nil {
+						return inputError(stderr, "plan", err)
+					}
+				}
+				writePlanTable(stdout, c, pl, other, otherName)
+				if *out == "" {
+					fmt.Fprintf(stdout, "\nproposed sequence (JSON):\n%s", data)
+				} else {
+					fmt.Fprintf(stdout, "\nproposed sequence written to %s\n", *out)
+				}
+				return exitOK
+			}
+		},
+	}
+}
+
+// parseWeights reads "a,b,c": three weights, finite and not negative, not all zero.
+func parseWeights(s string) (plan.Weights, error) {
+	parts := strings.Split(s, ",")
+	if len(parts) != 3 {
+		return plan.Weights{}, fmt.Errorf("want three numbers a,b,c, not %q", s)
+	}
+	var v [3]float64
+	for i, p := range parts {
+		f, err := strconv.ParseFloat(strings.TrimSpace(p), 64)
+		if err != nil || f < 0 || math.IsNaN(f) || math.IsInf(f, 0) {
+			return plan.Weights{}, fmt.Errorf("%q is not a number of 0 or more", strings.TrimSpace(p))
+		}
+		v[i] = f
+	}
+	if v == [3]float64{} {
+		return plan.Weights{}, fmt.Errorf("at least one weight must be above 0")
+	}
+	return plan.Weights{Engaged: v[0], Torque: v[1], Fatigue: v[2]}, nil
+}
+
+// stressOf is a run's largest engaged length, highest peak torque and highest fatigue use.
+func stressOf(res *analysis.Result) (engaged, torque, fatigue float64) {
+	for _, s := range res.Steps {
+		m := s.Metrics
+		engaged, torque, fatigue = max(engaged, m.EngagedLengthMM), max(torque, m.PeakTorqueIndex), max(fatigue, m.FatigueDamage)
+	}
+	return
+}
+
+// writePlanTable prints the plan and the sequence it is compared with, step by step, then both
+// overall, then why the plan was chosen.
+func writePlanTable(w io.Writer, c *analysis.Canal, pl *plan.Plan, other *analysis.Result, otherName string) {
+	fmt.Fprintf(w, "%s: working length %.2f mm\n", c.Name, c.WorkingLength)
+	steps := func(title string, res *analysis.Result) {
+		fmt.Fprintf(w, "\n%s\n", title)
+		tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', tabwriter.AlignRight)
+		fmt.Fprintln(tw, "step\tfile\tdepth\ttip mm\tengaged mm\tpeak torque N*cm\tfatigue use\t")
+		for _, s := range res.Steps {
+			m := s.Metrics
+			depth := s.Step.Depth.String()
+			if !s.Step.Depth.FromWL {
+				depth += " mm"
+			}
+			fmt.Fprintf(tw, "%d\t%s\t%s\t%.2f\t%.2f\t%.3f\t%.4f\t\n", m.Step, m.Label, depth, m.TipDepthMM,
+				m.EngagedLengthMM, m.PeakTorqueIndex, m.FatigueDamage)
+		}
+		tw.Flush()
+	}
+	steps("proposed plan", pl.Result)
+	steps("compared with: "+otherName, other)
+	pe, pt, pf := stressOf(pl.Result)
+	oe, ot, of := stressOf(other)
+	fmt.Fprintln(w, "\noverall (the largest over the files)")
+	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintf(tw, "\tplan\tcompared\t\n")
+	fmt.Fprintf(tw, "largest engaged length mm\t%.2f\t%.2f\t\n", pe, oe)
+	fmt.Fprintf(tw, "highest peak torque N*cm\t%.3f\t%.3f\t\n", pt, ot)
+	fmt.Fprintf(tw, "highest fatigue use\t%.4f\t%.4f\t\n", pf, of)
+	fmt.Fprintf(tw, "files\t%d\t%d\t\n", len(pl.Result.Steps), len(other.Steps))
+	tw.Flush()
+	fmt.Fprintln(w)
+	for _, line := range pl.Explanation {
+		fmt.Fprintf(w, "%s\n", line)
+	}
+	fmt.Fprintf(w, "\n%s\n", analysis.Caution)
+}

@@ -1,0 +1,67 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"flag"
+	"io"
+	"os"
+	"strings"
+
+	"tapersweep/ui/report"
+	"tapersweep/ui/scene"
+)
+
+func reportCommand() command {
+	return command{
+		name:    "report",
+		summary: "write a PDF report of a sequence run through a canal: a summary page, then a page per step",
+		usage:   "--canal PATH --sequence PATH --out FILE.pdf [--view NAME] [--title TEXT] [--working-length MM] [--scale K]",
+		example: "tapersweep report --canal canal.stl --sequence plan.json --out case.pdf --view side",
+		flags: func(fs *flag.FlagSet) func(stdout, stderr io.Writer) int {
+			var cf canalFlags
+			cf.register(fs)
+			seqPath := fs.String("sequence", "", "sequence `file` (JSON)")
+			out := fs.String("out", "", "PDF `file` to write")
+			view := fs.String("view", scene.Views[0].Name, "named `view` of the step pictures: "+strings.Join(scene.ViewNames(), ", "))
+			title := fs.String("title", "", "heading of the first page (default: the canal's name)")
+			return func(stdout, stderr io.Writer) int {
+				if code := cf.check(stderr, "report"); code != exitOK {
+					return code
+				}
+				if *seqPath == "" {
+					return usageError(stderr, "report", "--sequence is required")
+				}
+				if *out == "" {
+					return usageError(stderr, "report", "--out is required")
+				}
+				if !isView(*view) {
+					return usageError(stderr, "report", "--view must be one of %s", strings.Join(scene.ViewNames(), ", "))
+				}
+				res, err := analyzeFiles(context.Background(), &cf, *seqPath)
+				if err != nil {
+					return inputError(stderr, "report", err)
+				}
+				var buf bytes.Buffer
+				err = report.WritePDF(&buf, res, report.Options{Title: *title, CanalFile: *cf.path,
+					SequenceFile: *seqPath, View: *view})
+				if err != nil {
+					return inputError(stderr, "report", err)
+				}
+				if err := os.WriteFile(*out, buf.Bytes(), 0o644); err != nil {
+					return inputError(stderr, "report", err)
+				}
+				return exitOK
+			}
+		},
+	}
+}
+
+func isView(name string) bool {
+	for _, v := range scene.ViewNames() {
+		if v == name {
+			return true
+		}
+	}
+	return false
+}

@@ -1,0 +1,279 @@
+package report
+
+import (
+	"bytes"
+	"fmt"
+	"image/png"
+	"strings"
+
+	"codeberg.org/go-pdf/fpdf"
+	"gonum.org/v1/plot"
+
+	"tapersweep/analysis"
+	"tapersweep/models"
+	"tapersweep/ui/scene"
+)
+
+// Text sizes, points, and line heights, mm.
+const (
+	sizeTitle   = 16.0
+	sizeHeading = 11.0
+	sizeBody    = 8.5
+	sizeSmall   = 7.5
+	lineBody    = 4.0
+	lineSmall   = 3.4
+)
+
+func heading(pdf *fpdf.Fpdf, text string) {
+	pdf.Ln(2)
+	pdf.SetFont(fontBold, "", sizeHeading)
+	pdf.CellFormat(bodyW, 6, text, "", 1, "L", false, 0, "")
+	pdf.SetFont(fontRegular, "", sizeBody)
+}
+
+// keyValue writes "key: value" lines in two columns of the given widths from x.
+func keyValue(pdf *fpdf.Fpdf, x, keyW, valW float64, pairs [][2]string) {
+	for _, kv := range pairs {
+		pdf.SetX(x)
+		pdf.SetFont(fontRegular, "", sizeBody)
+		pdf.SetTextColor(90, 90, 90)
+		pdf.CellFormat(keyW, lineBody, kv[0], "", 0, "L", false, 0, "")
+		pdf.SetTextColor(0, 0, 0)
+		pdf.MultiCell(valW, lineBody, kv[1], "", "L", false)
+	}
+}
+
+func mm(v float64) string { return fmt.Sprintf("%.2f mm", v) }
+
+// summaryPage states the canal, the table of steps, the model's settings and the caution.
+func summaryPage(pdf *fpdf.Fpdf, res *analysis.Result, sum analysis.ResultSummary, opt Options) {
+	pdf.AddPage()
+	pdf.SetFont(fontBold, "", sizeTitle)
+	pdf.CellFormat(bodyW, 8, "tapersweep report", "", 1, "L", false, 0, "")
+	pdf.SetFont(fontRegular, "", sizeHeading)
+	pdf.MultiCell(bodyW, 5, opt.Title, "", "L", false)
+	pdf.SetFont(fontRegular, "", sizeSmall)
+	pdf.SetTextColor(90, 90, 90)
+	var src []string
+	if opt.CanalFile != "" {
+		src = append(src, "canal file: "+opt.CanalFile)
+	}
+	if opt.SequenceFile != "" {
+		src = append(src, "sequence file: "+opt.SequenceFile)
+	}
+	src = append(src, fmt.Sprintf("%d steps, one page each after this one", len(res.Steps)))
+	pdf.MultiCell(bodyW, lineSmall+0.4, strings.Join(src, "   ·   "), "", "L", false)
+	pdf.SetTextColor(0, 0, 0)
+
+	heading(pdf, "The canal")
+	c := sum.Canal
+	bend := "none: the canal is straight"
+	if r := c.MaxCurvature.RadiusMM; r != nil {
+		bend = fmt.Sprintf("radius %.2f mm, %.2f mm from the orifice (%.2f mm from the apical end)",
+			*r, c.MaxCurvature.SMM, c.MaxCurvature.FromApexMM)
+	}
+	arc := "no curved part"
+	if r := c.Arc.RadiusMM; r != nil {
+		arc = fmt.Sprintf("radius %.2f mm over %.1f°", *r, c.Arc.AngleDeg)
+	}
+	pairs := [][2]string{
+		{"name", c.Name},
+		{"centerline length", mm(c.LengthMM)},
+		{"working length", mm(c.WorkingLengthMM)},
+		{"tightest bend", bend},
+		{"Schneider angle", fmt.Sprintf("%.1f°", c.SchneiderDeg)},
+		{"curved part (fitted arc)", arc},
+		{"voxel for the centerline", fmt.Sprintf("%.3f mm", c.VoxelMM)},
+	}
+	notes := append(append([]string{}, c.Warnings...), sum.Warnings...)
+	for i, n := range notes {
+		key := ""
+		if i == 0 {
+			key = "notes"
+		}
+		pairs = append(pairs, [2]string{key, n})
+	}
+	keyValue(pdf, margin, 42, bodyW-42, pairs)
+
+	heading(pdf, "Steps")
+	labels, cells := StepTable(sum)
+	stepTable(pdf, labels, cells)
+
+	heading(pdf, "Model, assumptions and parameters")
+	modelSection(pdf, res, sum)
+
+	heading(pdf, "Caution")
+	pdf.SetFont(fontRegular, "", sizeBody)
+	pdf.MultiCell(bodyW, lineBody, sum.Caution, "", "L", false)
+}
+
+// stepTable prints labels down the left and one column per step, in blocks of at most
+// stepsPerBlock columns so a long sequence still fits the page width.
+func stepTable(pdf *fpdf.Fpdf, labels []string, cells [][]string) {
+	const labelW, stepsPerBlock, maxColW = 56.0, 8, 28.0
+	steps := 0
+	if len(cells) > 0 {
+		steps = len(cells[0])
+	}
+	for lo := 0; lo < steps; lo += stepsPerBlock {
+		hi := min(lo+stepsPerBlock, steps)
+		colW := min(maxColW, (bodyW-labelW)/float64(min(steps, stepsPerBlock)))
+		for i, label := range labels {
+			vals := cells[i][lo:hi]
+			if label == "advice" {
+				for k, v := range vals {
+					vals[k] = strings.ReplaceAll(v, ";", " ")
+				}
+			}
+			// Row height: the tallest cell once wrapped.
+			pdf.SetFont(fontRegular, "", sizeSmall)
+			lines := 1
+			for _, v := range vals {
+				lines = max(lines, len(pdf.SplitText(v, colW-1.5)))
+			}
+			h := float64(lines) * lineSmall
+			if pdf.GetY()+h > pageH-bottomM-8 {
+				pdf.AddPage()
+			}
+			y := pdf.GetY()
+			fill := i%2 == 0
+			pdf.SetFillColor(240, 239, 234)
+			if i == 0 {
+				pdf.SetFont(fontBold, "", sizeSmall)
+			}
+			pdf.SetXY(margin, y)
+			pdf.CellFormat(labelW, h, label, "", 0, "L", fill, 0, "")
+			for k, v := range vals {
+				x := margin + labelW + float64(k)*colW
+				pdf.SetXY(x, y)
+				if lines == 1 {
+					pdf.CellFormat(colW, h, v, "", 0, "R", fill, 0, "")
+					continue
+				}
+				pdf.Rect(x, y, colW, h, map[bool]string{true: "F", false: ""}[fill])
+				pdf.MultiCell(colW, lineSmall, v, "", "R", false)
+			}
+			pdf.SetXY(margin, y+h)
+		}
+		pdf.Ln(2)
+	}
+	pdf.SetFont(fontRegular, "", sizeBody)
+}
+
+// modelSection states the settings the figures rest on; illustrative values say so.
+func modelSection(pdf *fpdf.Fpdf, res *analysis.Result, sum analysis.ResultSummary) {
+	m := sum.Model
+	pairs := [][2]string{
+		{"file path", "the file follows the canal's centerline (" + m.PathModel + "); a real file straightens in a curve and presses on the outer wall"},
+		{"depth of cut", fmt.Sprintf("the file's radius less the distance from the centerline to the wall, per place around the wall; contact below %.3f mm is drawn and counted as none", m.ContactThresholdMM)},
+		{"bending strain", "outer-fibre strain d·k/2 of the file's diameter d where the canal's curvature is k"},
+		{"fatigue", "Miner's sum of revolutions over cycles to failure at each point of the file through the insertion schedule; the strain-life law of the alloy below its recoverable strain, a few cycles above it"},
+		{"torsion", fmt.Sprintf("cutting torque from a cutting coefficient of %g N/mm² (illustrative) against the section's torsional capacity", m.CuttingCoefficientNPerMM2)},
+		{"note", m.Note},
+	}
+	for _, a := range alloysUsed(res) {
+		src := "from the sequence file"
+		if a.Illustrative {
+			src = "built in: " + models.IllustrativeNote
+		}
+		pairs = append(pairs, [2]string{"alloy", fmt.Sprintf(
+			"%s: E %g GPa, shear ultimate %g MPa, recoverable strain %.4g %%, strain-life C %g, b %g, %g cycles above the recoverable strain (%s)",
+			a.Name, a.ElasticModulusGPa, a.ShearUltimateMPa, 100*a.RecoverableStrain, a.StrainLifeC, a.StrainLifeB, a.CyclesAboveLimit, src)})
+	}
+	keyValue(pdf, margin, 42, bodyW-42, pairs)
+}
+
+// alloysUsed lists each alloy the steps use once, in step order.
+func alloysUsed(res *analysis.Result) []models.Alloy {
+	seen := map[string]bool{}
+	var out []models.Alloy
+	for _, st := range res.Steps {
+		a := st.Alloy
+		if a.Name == "" {
+			a.Name = st.Metrics.Alloy
+		}
+		if !seen[a.Name] {
+			seen[a.Name] = true
+			out = append(out, a)
+		}
+	}
+	return out
+}
+
+// The step picture's place on the page, mm.
+const (
+	pictureWMM    = 84.0
+	pictureMaxHMM = 130.0
+)
+
+// stepPage shows one step: the view with its legend, the three profiles, the numbers and the
+// advice.
+func stepPage(pdf *fpdf.Fpdf, res *analysis.Result, st *analysis.StepResult, opt Options) error {
+	c := res.Canal
+	m := st.Metrics
+	pdf.AddPage()
+	pdf.SetFont(fontBold, "", 13)
+	pdf.CellFormat(bodyW, 7, fmt.Sprintf("Step %d of %d: %s, %s", st.Number, len(res.Steps), m.Label, m.Alloy), "", 1, "L", false, 0, "")
+	pdf.SetFont(fontRegular, "", sizeBody)
+	pdf.MultiCell(bodyW, lineBody, fmt.Sprintf("Target depth %s: the tip at %.2f mm from the orifice, %.2f mm from the apical end "+
+		"(working length %.2f mm). Wall shaded by depth of cut against the canal as the earlier steps left it.",
+		st.Step.Depth.String(), m.TipDepthMM, m.TipFromApexMM, c.WorkingLength), "", "L", false)
+	pdf.Ln(1)
+
+	// The canal runs down the page: its picture on the left, the numbers beside it, the
+	// profiles underneath.
+	top := pdf.GetY()
+	imgW := pictureWMM
+	imgH := imgW * float64(opt.ImageHeight) / float64(opt.ImageWidth)
+	if imgH > pictureMaxHMM {
+		imgW, imgH = imgW*pictureMaxHMM/imgH, pictureMaxHMM
+	}
+	img, err := scene.Picture(c, res, scene.Options{Step: st.Number}, opt.View, opt.ImageWidth, opt.ImageHeight)
+	if err != nil {
+		return err
+	}
+	var buf bytes.Buffer
+	if err := png.Encode(&buf, img); err != nil {
+		return err
+	}
+	name := fmt.Sprintf("step%d-view", st.Number)
+	pdf.RegisterImageOptionsReader(name, fpdf.ImageOptions{ImageType: "PNG"}, &buf)
+	pdf.ImageOptions(name, margin, top, imgW, imgH, false, fpdf.ImageOptions{ImageType: "PNG"}, 0, "")
+	pdf.SetY(top)
+	numbersAndAdvice(pdf, st, margin+imgW+5)
+	pdf.SetY(max(top+imgH, pdf.GetY()) + 3)
+	if err := profilePlots(pdf, c, st); err != nil {
+		return err
+	}
+	return nil
+}
+
+// profilePlots puts the three profiles side by side.
+func profilePlots(pdf *fpdf.Fpdf, c *analysis.Canal, st *analysis.StepResult) error {
+	pr := StepProfile(c, st)
+	cut, err := depthOfCutPlot(pr)
+	if err != nil {
+		return err
+	}
+	dia, err := diameterPlot(pr)
+	if err != nil {
+		return err
+	}
+	str, err := strainPlot(pr, 100*st.Alloy.RecoverableStrain)
+	if err != nil {
+		return err
+	}
+	gap := (bodyW - 3*plotWMM) / 2
+	y := pdf.GetY()
+	for k, p := range []*plot.Plot{cut, dia, str} {
+		b, err := plotPNG(p)
+		if err != nil {
+			return err
+		}
+		name := fmt.Sprintf("step%d-plot%d", st.Number, k)
+		pdf.RegisterImageOptionsReader(name, fpdf.ImageOptions{ImageType: "PNG"}, bytes.NewReader(b))
+		pdf.ImageOptions(name, margin+float64(k)*(plotWMM+gap), y, plotWMM, plotHMM, false, fpdf.ImageOptions{ImageType: "PNG"}, 0, "")
+	}
+	pdf.SetY(y + plotHMM + 2)
+	return nil
+}

@@ -1,0 +1,211 @@
+package report
+
+import (
+	"bytes"
+	"context"
+	"encoding/csv"
+	"encoding/json"
+	"os"
+	"os/exec"
+	"regexp"
+	"strconv"
+	"strings"
+	"sync"
+	"testing"
+
+	"tapersweep/analysis"
+	"tapersweep/models"
+)
+
+var (
+	demoOnce sync.Once
+	demoRes  *analysis.Result
+	demoErr  error
+)
+
+// demoRun runs the built-in demo sequence through the built-in demo canal once per test binary.
+func demoRun(t testing.TB) *analysis.Result {
+	demoOnce.Do(func() {
+		ctx := context.Background()
+		c, err := analysis.CanalFromSpec(ctx, "demo canal", models.DemoCanal(), analysis.CanalOptions{})
+		if err != nil {
+			demoErr = err
+			return
+		}
+		seq, err := models.ParseSequence("demo sequence", models.DemoSequenceJSON())
+		if err != nil {
+			demoErr = err
+			return
+		}
+		demoRes, demoErr = analysis.Run(ctx, c, seq, analysis.RunOptions{})
+	})
+	if demoErr != nil {
+		t.Fatal(demoErr)
+	}
+	return demoRes
+}
+
+// pageObject matches a page object of the PDF 1.7 standard (ISO 32000-1, 7.7.3.3: /Type /Page),
+// not the page tree root (/Type /Pages).
+var pageObject = regexp.MustCompile(`/Type\s*/Page[^s]`)
+
+func TestDemoReportHasSummaryAndOnePagePerStep(t *testing.T) {
+	res := demoRun(t)
+	var buf bytes.Buffer
+	if err := WritePDF(&buf, res, Options{CanalFile: "demo-canal.json", ImageWidth: 900, ImageHeight: 480}); err != nil {
+		t.Fatal(err)
+	}
+	b := buf.Bytes()
+	if !bytes.HasPrefix(b, []byte("%PDF-")) {
+		t.Fatalf("not a PDF: starts %q", b[:min(len(b), 8)])
+	}
+	want := 1 + len(res.Steps)
+	if got := len(pageObject.FindAll(b, -1)); got != want {
+		t.Errorf("%d page objects, want the summary and one per step: %d", got, want)
+	}
+	// The page tree's /Count must agree (ISO 32000-1, 7.7.3.2).
+	if m := regexp.MustCompile(`/Type /Pages\s*/Kids \[[^\]]*\]\s*/Count (\d+)`).FindSubmatch(b); m == nil {
+		t.Error("no page tree with a count")
+	} else if n, _ := strconv.Atoi(string(m[1])); n != want {
+		t.Errorf("page tree counts %d pages, want %d", n, want)
+	}
+
+	// A PDF reader (poppler's pdftotext, Debian poppler-utils) must find the same numbers as
+	// the run's JSON summary in the text it extracts.
+	text := pdfText(t, b)
+	if text == "" {
+		return
+	}
+	if got := strings.Count(text, "\f") + 1; got != want {
+		t.Errorf("pdftotext saw %d pages, want %d", got, want)
+	}
+	js, err := json.Marshal(res.Summary())
+	if err != nil {
+		t.Fatal(err)
+	}
+	var sum analysis.ResultSummary
+	if err := json.Unmarshal(js, &sum); err != nil {
+		t.Fatal(err)
+	}
+	pages := strings.Split(text, "\f")
+	for _, m := range sum.Steps {
+		page := pages[m.Step]
+		for _, v := range []float64{m.EngagedLengthMM, m.EngagedAreaMM2, m.RemovedVolumeMM3, m.MaxDepthOfCutMM, m.FatigueDamage} {
+			s := strconv.FormatFloat(v, 'f', -1, 64)
+			if !strings.Contains(pages[0], s) {
+				t.Errorf("summary page lacks step %d's %s", m.Step, s)
+			}
+			if !strings.Contains(page, s) {
+				t.Errorf("step %d's page lacks %s", m.Step, s)
+			}
+		}
+		if !strings.Contains(page, "Step "+strconv.Itoa(m.Step)+" of") {
+			t.Errorf("page %d is not step %d's", m.Step+1, m.Step)
+		}
+		for _, a := range m.Advice {
+			if !strings.Contains(squash(page), squash(a.Text)) {
+				t.Errorf("step %d's page lacks the advice %q", m.Step, a.Text)
+			}
+		}
+	}
+	if !strings.Contains(squash(pages[0]), squash(analysis.Caution)) {
+		t.Error("the summary page lacks the caution wording")
+	}
+	if !strings.Contains(pages[0], "mm²") || !strings.Contains(pages[0], "°") {
+		t.Error("symbols did not survive: the UTF-8 font is not in use")
+	}
+}
+
+// squash folds whitespace so wrapped lines compare with the text they came from.
+func squash(s string) string { return strings.Join(strings.Fields(s), " ") }
+
+// pdfText extracts the text of a PDF with pdftotext, page breaks as form feeds; it skips the
+// text checks when the tool is not installed (.ci/setup.sh installs poppler-utils).
+func pdfText(t *testing.T, pdf []byte) string {
+	path, err := exec.LookPath("pdftotext")
+	if err != nil {
+		t.Log("pdftotext not installed: text checks skipped")
+		return ""
+	}
+	f := t.TempDir() + "/r.pdf"
+	if err := os.WriteFile(f, pdf, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, err := exec.Command(path, "-enc", "UTF-8", f, "-").Output()
+	if err != nil {
+		t.Fatalf("pdftotext: %v", err)
+	}
+	return strings.TrimSuffix(string(out), "\f")
+}
+
+func TestStepTableHoldsTheJSONNumbers(t *testing.T) {
+	res := demoRun(t)
+	sum := res.Summary()
+	labels, cells := StepTable(sum)
+	if len(labels) != len(analysis.StepColumns) {
+		t.Fatalf("%d rows, want one per column: %d", len(labels), len(analysis.StepColumns))
+	}
+	// The JSON that `analyze --format json` prints, read back by name.
+	js, _ := json.Marshal(sum)
+	var back struct {
+		Steps []map[string]any `json:"steps"`
+	}
+	if err := json.Unmarshal(js, &back); err != nil {
+		t.Fatal(err)
+	}
+	for i, col := range analysis.StepColumns {
+		for j, step := range back.Steps {
+			v, ok := step[col]
+			if !ok {
+				continue // advice is a list in JSON; checked as codes below
+			}
+			cell := cells[i][j]
+			switch v := v.(type) {
+			case nil:
+				if cell != "–" {
+					t.Errorf("step %d %s: JSON null, table %q", j+1, col, cell)
+				}
+			case float64:
+				got, err := strconv.ParseFloat(cell, 64)
+				if err != nil || got != v {
+					t.Errorf("step %d %s: JSON %v, table %q", j+1, col, v, cell)
+				}
+			case string:
+				if cell != v {
+					t.Errorf("step %d %s: JSON %q, table %q", j+1, col, v, cell)
+				}
+			}
+		}
+	}
+}
+
+func TestWriteCSVHasAHeaderAndARowPerStep(t *testing.T) {
+	res := demoRun(t)
+	var buf bytes.Buffer
+	if err := WriteCSV(&buf, res); err != nil {
+		t.Fatal(err)
+	}
+	rows, err := csv.NewReader(&buf).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rows) != 1+len(res.Steps) {
+		t.Fatalf("%d rows, want 1 + %d", len(rows), len(res.Steps))
+	}
+	if strings.Join(rows[0], ",") != strings.Join(analysis.StepColumns, ",") {
+		t.Errorf("header %v", rows[0])
+	}
+	for k, st := range res.Steps {
+		if rows[k+1][0] != strconv.Itoa(st.Number) {
+			t.Errorf("row %d is step %s", k+1, rows[k+1][0])
+		}
+	}
+}
+
+func TestWritePDFRejectsAnUnknownView(t *testing.T) {
+	res := demoRun(t)
+	err := WritePDF(&bytes.Buffer{}, res, Options{View: "sideways"})
+	if err == nil || !strings.Contains(err.Error(), "sideways") {
+		t.Fatalf("want an error naming the view, got %v", err)
+	}
+}

@@ -1,0 +1,87 @@
+package report
+
+import (
+	"fmt"
+
+	"codeberg.org/go-pdf/fpdf"
+
+	"tapersweep/analysis"
+)
+
+// numbersAndAdvice writes the step's numbers, its advice and how the file is used in a column
+// from x to the right margin.
+func numbersAndAdvice(pdf *fpdf.Fpdf, st *analysis.StepResult, x float64) {
+	m := st.Metrics
+	colW := margin + bodyW - x
+
+	pdf.SetX(x)
+	pdf.SetFont(fontBold, "", 9.5)
+	pdf.CellFormat(colW, 5, "Numbers", "", 1, "L", false, 0, "")
+	row := m.Row()
+	var pairs [][2]string
+	for i, col := range analysis.StepColumns {
+		switch col {
+		case "step", "label", "alloy", "advice", "tip_depth_mm", "tip_from_apex_mm":
+			continue
+		}
+		v := row[i]
+		if v == "" {
+			v = "–"
+		}
+		pairs = append(pairs, [2]string{ColumnLabel(col), v})
+	}
+	opt := func(v *float64, f string) string {
+		if v == nil {
+			return "–"
+		}
+		return fmt.Sprintf(f, *v)
+	}
+	pairs = append(pairs,
+		[2]string{"engaged zone from tip, mm", fmt.Sprintf("%g to %g", m.EngagedFromTipMM[0], m.EngagedFromTipMM[1])},
+		[2]string{"peak strain from tip, mm", fmt.Sprintf("%g", m.PeakStrainFromTipMM)},
+		[2]string{"most used point from tip, mm", fmt.Sprintf("%g", m.PeakDamageFromTipMM)},
+		[2]string{"weakest section from tip, mm", opt(m.TorsionMarginFromTipMM, "%g")},
+		[2]string{"capacity 3 mm from tip, N·cm", fmt.Sprintf("%g", m.CapacityAt3mmNcm)},
+		[2]string{"schedule, s (revolutions)", fmt.Sprintf("%g (%g)", m.ScheduleTimeS, m.Revolutions)},
+	)
+	if m.FractureTimeS != nil {
+		pairs = append(pairs, [2]string{"fracture after, s (tip depth, mm)",
+			opt(m.FractureTimeS, "%g") + " (" + opt(m.FractureTipDepthMM, "%g") + ")"})
+	}
+	for _, kv := range pairs {
+		pdf.SetX(x)
+		pdf.SetFont(fontRegular, "", sizeSmall)
+		pdf.SetTextColor(90, 90, 90)
+		pdf.CellFormat(colW-30, lineSmall, kv[0], "", 0, "L", false, 0, "")
+		pdf.SetTextColor(0, 0, 0)
+		pdf.CellFormat(30, lineSmall, kv[1], "", 1, "R", false, 0, "")
+	}
+	pdf.Ln(2)
+	pdf.SetX(x)
+	pdf.SetFont(fontBold, "", 9.5)
+	pdf.CellFormat(colW, 5, "Advice", "", 1, "L", false, 0, "")
+	pdf.SetFont(fontRegular, "", sizeSmall)
+	if len(m.Advice) == 0 {
+		pdf.SetX(x)
+		pdf.MultiCell(colW, lineSmall, "Nothing to remark for this step.", "", "L", false)
+	}
+	for _, a := range m.Advice {
+		pdf.SetX(x)
+		pdf.MultiCell(colW, lineSmall, "• "+a.Text, "", "L", false)
+		pdf.Ln(0.8)
+	}
+	pdf.Ln(1.5)
+	pdf.SetX(x)
+	pdf.SetFont(fontBold, "", 9.5)
+	pdf.CellFormat(colW, 5, "How the file is used", "", 1, "L", false, 0, "")
+	pdf.SetFont(fontRegular, "", sizeSmall)
+	s := st.Step
+	limit := "none set"
+	if s.TorqueLimitNcm > 0 {
+		limit = fmt.Sprintf("%g N·cm", s.TorqueLimitNcm)
+	}
+	pdf.SetX(x)
+	pdf.MultiCell(colW, lineSmall, fmt.Sprintf(
+		"%g rpm; advance %g mm/s in pecks of %g mm past the deepest point, withdrawing %g mm between them; "+
+			"motor torque limit %s; %s section.", s.RPM, s.AdvanceMMs, s.PeckMM, s.RetractMM, limit, s.SectionName), "", "L", false)
+}

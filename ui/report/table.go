@@ -1,0 +1,73 @@
+package report
+
+import (
+	"encoding/csv"
+	"io"
+
+	"tapersweep/analysis"
+)
+
+// columnLabels names each of analysis.StepColumns in plain words with its unit, for the
+// report's table; the CSV keeps the column names themselves.
+var columnLabels = map[string]string{
+	"step":                         "step",
+	"label":                        "file (size/taper)",
+	"alloy":                        "alloy",
+	"tip_depth_mm":                 "tip depth from orifice, mm",
+	"tip_from_apex_mm":             "tip from apical end, mm",
+	"engaged_length_mm":            "engaged length, mm",
+	"engaged_area_mm2":             "engaged area, mm²",
+	"removed_volume_mm3":           "removed volume, mm³",
+	"max_depth_of_cut_mm":          "deepest cut, mm",
+	"untouched_wall_pct":           "wall not yet touched, %",
+	"diameter_at_max_curvature_mm": "file diameter at tightest bend, mm",
+	"strain_at_max_curvature_pct":  "strain at tightest bend, %",
+	"peak_strain_pct":              "peak strain, %",
+	"fatigue_damage":               "fatigue use (1 = fracture)",
+	"fracture_from_tip_mm":         "fracture point from tip, mm",
+	"torsion_margin":               "torsional margin (capacity / load)",
+	"peak_torque_index":            "peak torque, N·cm (illustrative)",
+	"advice":                       "advice",
+}
+
+// ColumnLabel is the plain-words heading of one of analysis.StepColumns.
+func ColumnLabel(col string) string {
+	if l, ok := columnLabels[col]; ok {
+		return l
+	}
+	return col
+}
+
+// StepTable lays the run's steps out as the report prints them: one row per column of
+// analysis.StepColumns (label first), one column per step. The cells are the same strings
+// the CSV holds (StepMetrics.Row of the run's summary), so the PDF, the CSV and the JSON agree;
+// a value that does not exist is "–".
+func StepTable(sum analysis.ResultSummary) (labels []string, cells [][]string) {
+	cols := analysis.StepColumns
+	labels = make([]string, len(cols))
+	cells = make([][]string, len(cols))
+	for i, c := range cols {
+		labels[i] = ColumnLabel(c)
+		cells[i] = make([]string, len(sum.Steps))
+	}
+	for j, m := range sum.Steps {
+		for i, v := range m.Row() {
+			if v == "" {
+				v = "–"
+			}
+			cells[i][j] = v
+		}
+	}
+	return labels, cells
+}
+
+// WriteCSV writes one row per step under analysis.StepColumns, as `analyze --format csv`.
+func WriteCSV(w io.Writer, res *analysis.Result) error {
+	cw := csv.NewWriter(w)
+	cw.Write(analysis.StepColumns)
+	for _, s := range res.Steps {
+		cw.Write(s.Metrics.Row())
+	}
+	cw.Flush()
+	return cw.Error()
+}
