@@ -14,8 +14,8 @@ type Options struct {
 	// Target is the file that must finish the preparation at working length: size and
 	// constant taper, e.g. 30/.04.
 	Target Target
-	// Instruments are the files on the shelf; nil means the generic catalogue
-	// (models.Catalogue). Each may be used at most once in a plan.
+	// Instruments are the files on the shelf; nil means DefaultShelf(Target): the generic
+	// catalogue's files no wider at the tip than the target. Each may be used at most once.
 	Instruments []models.Instrument
 	// MaxSteps counts every file, the target included. 0 = DefaultMaxSteps.
 	MaxSteps int
@@ -84,7 +84,7 @@ func (o Options) withDefaults() (Options, error) {
 		return o, fmt.Errorf("plan: a target size and taper is required (e.g. 30/.04), not %d/%g", o.Target.Size, o.Target.Taper)
 	}
 	if o.Instruments == nil {
-		o.Instruments = models.Catalogue()
+		o.Instruments = DefaultShelf(o.Target)
 	}
 	if len(o.Instruments) == 0 {
 		return o, fmt.Errorf("plan: the instrument list is empty")
@@ -137,4 +137,23 @@ func runDefaults(o analysis.RunOptions) analysis.RunOptions {
 	}
 	o.PathModel = models.PathCentred // the search's own sums follow the centred file
 	return o
+}
+
+// DefaultShelf is what a plan draws on when the user names no instruments: the generic
+// catalogue's files from size 10 up to the target's tip size, tapers .02 to .08, and the .10
+// taper from size 20 up for opening the coronal part. Files wider at the tip than the target
+// would enlarge the canal past the planned apical size, and the smallest sizes cut nothing in a
+// scanned canal wide enough to be segmented.
+func DefaultShelf(t Target) []models.Instrument {
+	var out []models.Instrument
+	for _, in := range models.Catalogue() {
+		if in.Size < 10 || in.Size > t.Size {
+			continue
+		}
+		if tp := in.TaperAt(0); tp > 0.08+1e-9 && (in.Size < 20 || tp > 0.10+1e-9) {
+			continue
+		}
+		out = append(out, in)
+	}
+	return out
 }

@@ -31,7 +31,7 @@ func batchCommand() command {
 			dir := fs.String("canals", "", "`folder` of canal files: STL surfaces and canal specs (JSON), not searched recursively")
 			seqPath := fs.String("sequence", "", "sequence `file` (JSON)")
 			out := fs.String("out", "", "CSV `file` to write, - for standard output")
-			jobs := fs.Int("jobs", runtime.NumCPU(), "canals to run at once (`N`)")
+			jobs := fs.Int("jobs", runtime.NumCPU(), "canals to run at once (`N`); the run uses at most N cores, so on a shared machine or an array job it stays within the cores it was given")
 			shard := fs.String("shard", "1/1", "take shard `I/N` of the sorted canal files: those whose index k (from 0) has k mod N = I-1; shards count from 1")
 			wl := fs.Float64("working-length", 0, "working length in `mm` for every canal (default: each spec's, else its centerline's length)")
 			scale := fs.Float64("scale", 1, "multiply STL coordinates by `K` (0.001 turns micrometres into mm)")
@@ -186,6 +186,10 @@ func runBatch(ctx context.Context, w io.Writer, files []string, seq *models.Sequ
 		err  error
 	}
 	jobs := max(1, min(opt.Jobs, len(files)))
+	// --jobs bounds the cores the run uses, not only the canals in flight: each canal's own
+	// parallel parts share those cores, and one job means one core.
+	cores := max(1, min(opt.Jobs, runtime.NumCPU()))
+	defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(cores))
 	next := make(chan int)
 	results := make(chan done, jobs)
 	var wg sync.WaitGroup

@@ -28,7 +28,7 @@ func planCommand() command {
 			var cf canalFlags
 			cf.register(fs)
 			target := fs.String("target", "", "the `SIZE/TAPER` of the last file, taken to working length (e.g. 30/.04)")
-			instruments := fs.String("instruments", "", "instruments `file` (JSON list of {\"size\": 25, \"taper\": 0.04, ...}); default: the generic catalogue")
+			instruments := fs.String("instruments", "", "instruments `file` (JSON list of {\"size\": 25, \"taper\": 0.04, ...}); default: the generic catalogue from size 10 up to the target size, tapers .02-.08 (and .10 from size 20)")
 			maxSteps := fs.Int("max-steps", plan.DefaultMaxSteps, "at most `N` files, the target included")
 			out := fs.String("out", "", "write the proposed sequence (JSON, as analyze reads it) to `FILE`; default: print it after the table")
 			compare := fs.String("compare", "", "sequence `file` to compare with; default: the target file taken straight to working length")
