@@ -1,0 +1,93 @@
+package ui
+
+import (
+	"fmt"
+	"math"
+
+	"tapersweep/analysis"
+	"tapersweep/ui/render"
+	"tapersweep/ui/scene"
+)
+
+// wallPoint is a place on the canal wall in the canal's own coordinates.
+type wallPoint struct {
+	S, Theta float64 // arc length from the orifice (mm) and angle (radians)
+}
+
+// pickWall finds the wall point under pixel (x, y) of the last frame; ok is false when the
+// pointer is over the file, the centerline or the background.
+func pickWall(b *scene.Built, r *render.Renderer, c *analysis.Canal, x, y int) (p wallPoint, onFile bool, ok bool) {
+	obj, tri, bary, hit := r.Pick(x, y)
+	if !hit || obj < 0 || obj >= len(b.Scene.Objects) {
+		return p, false, false
+	}
+	if obj == b.FileIndex {
+		return p, true, false
+	}
+	m := b.Scene.Objects[obj].Mesh
+	if len(m.Vertices) != len(c.VertexS) || len(m.Vertices) == 0 || b.Wall == nil ||
+		len(b.Wall.Vertices) == 0 || &m.Vertices[0] != &b.Wall.Vertices[0] {
+		return p, false, false // not the wall (the centerline tube)
+	}
+	t := m.Triangles[tri]
+	return wallPointAt(c, t, bary), false, true
+}
+
+// wallPointAt interpolates (s, theta) of a triangle's corners with barycentric weights,
+// unwrapping the angles around the heaviest corner so a triangle across theta = 0 stays whole.
+func wallPointAt(c *analysis.Canal, t [3]int32, bary [3]float32) wallPoint {
+	ref := 0
+	for k := 1; k < 3; k++ {
+		if bary[k] > bary[ref] {
+			ref = k
+		}
+	}
+	th0 := float64(c.VertexTheta[t[ref]])
+	var s, th float64
+	for k := 0; k < 3; k++ {
+		w := float64(bary[k])
+		s += w * float64(c.VertexS[t[k]])
+		d := math.Remainder(float64(c.VertexTheta[t[k]])-th0, 2*math.Pi)
+		th += w * (th0 + d)
+	}
+	th = math.Mod(th, 2*math.Pi)
+	if th < 0 {
+		th += 2 * math.Pi
+	}
+	return wallPoint{S: s, Theta: th}
+}
+
+// hoverText states what lies under pixel (x, y): on the wall the depth of cut of the shown step,
+// the distance from the apical end and the local canal radius as drawn.
+func hoverText(in sceneInput, b *scene.Built, r *render.Renderer, x, y int) string {
+	c := in.canal
+	p, onFile, ok := pickWall(b, r, c, x, y)
+	var st *analysis.StepResult
+	if in.res != nil && in.opt.Step > 0 && in.opt.Step <= len(in.res.Steps) {
+		st = in.res.Steps[in.opt.Step-1]
+	}
+	if onFile && st != nil {
+		return fmt.Sprintf("file %s, tip at %.2f mm from the orifice", st.Metrics.Label, st.TipDepth)
+	}
+	if !ok {
+		return ""
+	}
+	fromApex := c.Line.Length() - p.S
+	rhoMap := c.Rho
+	if st != nil {
+		rhoMap = st.Prepared
+		if in.opt.Before {
+			rhoMap = st.Before
+		}
+	}
+	radius := c.MapAt(rhoMap, p.S, p.Theta)
+	if st == nil {
+		return fmt.Sprintf("wall %.2f mm from the apical end · canal radius %.3f mm", fromApex, radius)
+	}
+	cut := c.MapAt(st.Cut, p.S, p.Theta)
+	cutText := "no contact"
+	if cut > in.res.Options.ContactThreshold {
+		cutText = fmt.Sprintf("depth of cut %.3f mm", cut)
+	}
+	return fmt.Sprintf("%s · %.2f mm from the apical end · canal radius %.3f mm", cutText, fromApex, radius)
+}
