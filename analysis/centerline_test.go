@@ -65,6 +65,7 @@ var parametricCases = []lineCase{
 	{"s-curve", `{"kind":"straight","length":8},{"kind":"arc","radius":5,"angle":40},{"kind":"arc","radius":8,"angle":20,"plane_turn":180},{"kind":"straight","length":2}`, 0, 5},
 	{"3d curve", `{"kind":"straight","length":7},{"kind":"arc","radius":6,"angle":35},{"kind":"arc","radius":4,"angle":30,"plane_turn":90},{"kind":"straight","length":2}`, 0, 4},
 	{"oval 45deg r5", `{"kind":"straight","length":9},{"kind":"arc","radius":5,"angle":45},{"kind":"straight","length":3}`, 1.4, 5},
+	{"90deg r2", `{"kind":"straight","length":8},{"kind":"arc","radius":2,"angle":90},{"kind":"straight","length":3}`, 0, 2},
 }
 
 // TestParametricCenterline checks extraction against the exact centerline of parametric
@@ -81,7 +82,11 @@ func TestParametricCenterline(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			checkAgainstExact(t, c, spec, 0.05, 0.10, 2)
+			radiusTol := 0.10
+			if tc.radius <= 2 {
+				radiusTol = 0.20 // the issue allows 20 % on a 2 mm radius
+			}
+			checkAgainstExact(t, c, spec, 0.05, radiusTol, 2)
 		})
 	}
 }
