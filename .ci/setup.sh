@@ -5,7 +5,7 @@
 #                            (admesh, VTK, scikit-image) and a virtual screen for the window check
 set -euo pipefail
 what=${1:-app}
-pkgs=(gcc pkg-config libgl1-mesa-dev xorg-dev)
+pkgs=(gcc pkg-config libgl1-mesa-dev libgl1-mesa-dri xorg-dev)
 if [ "$what" = test ]; then
   pkgs+=(admesh python3-vtk9 python3-skimage python3-numpy xvfb x11-utils imagemagick poppler-utils)
 fi
