@@ -100,7 +100,7 @@ func writeStepsTable(w io.Writer, res *analysis.Result) {
 	}
 	fmt.Fprintf(w, ", Schneider angle %.1f deg\n\n", sum.SchneiderDeg)
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "step\tfile\tdepth mm\tengaged mm\tarea mm2\td at bend mm\tstrain %\tfatigue use\tmargin\tadvice\t")
+	fmt.Fprintln(tw, "step\tfile\tdepth mm\tengaged mm\tarea mm2\td at bend mm\tstrain %\tfatigue use\tmargin\tmoved at 1 mm\tadvice\t")
 	opt := func(v *float64, f string) string {
 		if v == nil {
 			return "-"
@@ -113,11 +113,15 @@ func writeStepsTable(w io.Writer, res *analysis.Result) {
 		for i, a := range m.Advice {
 			codes[i] = a.Code
 		}
-		fmt.Fprintf(tw, "%d\t%s\t%.2f\t%.2f\t%.2f\t%s\t%s\t%.3f\t%s\t%s\t\n", m.Step, m.Label, m.TipDepthMM,
+		fmt.Fprintf(tw, "%d\t%s\t%.2f\t%.2f\t%.2f\t%s\t%s\t%.3f\t%s\t%.3f\t%s\t\n", m.Step, m.Label, m.TipDepthMM,
 			m.EngagedLengthMM, m.EngagedAreaMM2, opt(m.DiameterAtMaxCurvatureMM, "%.3f"),
-			opt(m.StrainAtMaxCurvaturePct, "%.2f"), m.FatigueDamage, opt(m.TorsionMargin, "%.1f"), strings.Join(codes, " "))
+			opt(m.StrainAtMaxCurvaturePct, "%.2f"), m.FatigueDamage, opt(m.TorsionMargin, "%.1f"),
+			m.TransportationMM["1"], strings.Join(codes, " "))
 	}
 	tw.Flush()
+	mv := res.Moved
+	fmt.Fprintf(w, "\nFile path model: %s. The whole sequence moved the canal %.3f mm at 1 mm, %.3f mm at 3 mm and %.3f mm at 5 mm from the apical end; the foramen by %.3f mm.\n",
+		res.Options.PathModel, mv.TransportationMM["1"], mv.TransportationMM["3"], mv.TransportationMM["5"], mv.ForamenShiftMM)
 	for _, s := range res.Steps {
 		for _, a := range s.Metrics.Advice {
 			fmt.Fprintf(w, "\nstep %d, %s: %s", s.Number, a.Code, a.Text)
