@@ -59,6 +59,8 @@ type mainWindow struct {
 	editor   *stepEditor
 	summary  *canalPanel
 	profiles *profilePanel
+	path     *pathPanel
+	planning *planRun // the plan being proposed or shown; nil when none
 	controls *viewControls
 	status   *widget.Label
 	hover    *widget.Label
@@ -88,11 +90,20 @@ func newMainWindow(a fyne.App, ui *handOver) *mainWindow {
 	w.summary = newCanalPanel(w)
 	w.profiles = newProfilePanel()
 	w.controls = newViewControls(w)
+	w.path = newPathPanel(w)
 
 	left := container.NewBorder(w.controls.box, container.NewVBox(w.profiles.raster, w.hover), nil, nil, w.view)
-	right := container.NewBorder(
-		container.NewVBox(w.summary.box, widget.NewSeparator(), sectionTitle("Files in the sequence (select one to show it)")),
-		w.editor.box, nil, nil, w.table.table)
+	// The canal, the steps and the editor share the height in splits the user can move; the
+	// table and the editor scroll when the window is short.
+	steps := container.NewBorder(
+		container.NewVBox(w.path.box,
+			container.NewBorder(nil, nil, nil, widget.NewButton("Propose a sequence…", w.proposeDialog),
+				sectionTitle("Files in the sequence (select one to show it)"))),
+		nil, nil, nil, w.table.table)
+	lower := container.NewVSplit(steps, container.NewVScroll(w.editor.box))
+	lower.Offset = 0.72
+	right := container.NewVSplit(w.summary.box, lower)
+	right.Offset = 0 // the canal's summary as small as it fits; the steps take the rest
 	split := container.NewHSplit(left, right)
 	split.Offset = 0.52
 	w.win.SetContent(container.NewBorder(nil, w.status, nil, nil, split))
@@ -120,6 +131,7 @@ func (w *mainWindow) start(opt Options) {
 		seq, _ = models.ParseSequence("demo sequence (invented)", models.DemoSequenceJSON())
 	}
 	w.seq = seq
+	w.path.sync()
 	w.table.refresh()
 	if opt.CanalPath == "" {
 		w.loadCanal("demo canal (invented)", false, func(ctx context.Context, progress func(string, int64, int64)) (*analysis.Canal, error) {
@@ -200,6 +212,7 @@ func (w *mainWindow) runDone(res *analysis.Result, err error) {
 	}
 	w.table.refresh()
 	w.editor.load()
+	w.path.refresh()
 	w.controls.stepChanged()
 	w.profiles.set(w.canal, res, w.selected)
 	w.showScene(first) // the first run brings the file: fit it in

@@ -32,6 +32,7 @@ type stepEditor struct {
 	box fyne.CanvasObject
 
 	title                   *widget.Label
+	detail                  *widget.Label // how the shown step moved the canal
 	size, alloy             *widget.Select
 	taper, depth, rpm, peck *widget.Entry
 	errs                    map[string]*widget.Label
@@ -88,7 +89,10 @@ func newStepEditor(w *mainWindow) *stepEditor {
 	e.remove = widget.NewButtonWithIcon("Remove", theme.DeleteIcon(), e.removeStep)
 	e.up = widget.NewButtonWithIcon("Earlier", theme.MoveUpIcon(), func() { e.moveStep(-1) })
 	e.down = widget.NewButtonWithIcon("Later", theme.MoveDownIcon(), func() { e.moveStep(1) })
-	e.box = container.NewVBox(widget.NewSeparator(), container.NewHBox(e.title, e.add, e.remove, e.up, e.down), e.fields, e.general)
+	e.detail = widget.NewLabel("")
+	e.detail.Wrapping = fyne.TextWrapWord
+	e.detail.Hide()
+	e.box = container.NewVBox(widget.NewSeparator(), container.NewHBox(e.title, e.add, e.remove, e.up, e.down), e.detail, e.fields, e.general)
 	e.load()
 	return e
 }
@@ -101,6 +105,7 @@ func (e *stepEditor) load() {
 	e.clearErrors()
 	if w.seq == nil || w.selected == 0 || w.selected > len(w.seq.Steps) {
 		e.title.SetText("Shown file: none")
+		e.detail.Hide()
 		e.fields.Hide()
 		e.setButtons()
 		return
@@ -108,6 +113,7 @@ func (e *stepEditor) load() {
 	e.fields.Show()
 	st := w.seq.Steps[w.selected-1]
 	e.title.SetText(fmt.Sprintf("Step %d", w.selected))
+	e.showDetail()
 	sizes := e.size.Options
 	cur := strconv.Itoa(st.Instrument.Size)
 	if !models.IsISOSize(st.Instrument.Size) && !contains(sizes, cur) {
@@ -125,6 +131,17 @@ func (e *stepEditor) load() {
 	e.alloy.Options = alloyNames(w.seq)
 	e.alloy.SetSelected(st.AlloyName)
 	e.setButtons()
+}
+
+// showDetail states how the shown step moved the canal, from the last valid run.
+func (e *stepEditor) showDetail() {
+	w := e.w
+	if w.res == nil || w.selected > len(w.res.Steps) {
+		e.detail.Hide()
+		return
+	}
+	e.detail.SetText("This step, " + transportText(w.res.Steps[w.selected-1].Metrics.Transport))
+	e.detail.Show()
 }
 
 func (e *stepEditor) setButtons() {

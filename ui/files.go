@@ -162,9 +162,16 @@ func (w *mainWindow) openSequencePath(path string) {
 		return
 	}
 	w.remember(path)
+	w.takeSequence(seq)
+}
+
+// takeSequence replaces the sequence (opened or adopted) and runs it.
+func (w *mainWindow) takeSequence(seq *models.Sequence) {
 	w.seq = seq
 	w.selected = 0
 	w.res = nil
+	w.path.sync()
+	w.path.refresh()
 	w.table.refresh()
 	w.editor.load()
 	w.rerun()
@@ -270,8 +277,7 @@ func (w *mainWindow) openSequenceDialog() {
 		if err == nil {
 			var seq *models.Sequence
 			if seq, err = models.ParseSequence(r.URI().Name(), data); err == nil {
-				w.seq, w.selected, w.res = seq, 0, nil
-				w.rerun()
+				w.takeSequence(seq)
 				return
 			}
 		}

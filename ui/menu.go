@@ -36,11 +36,14 @@ func (w *mainWindow) menu() *fyne.MainMenu {
 		fyne.NewMenuItem("Save the table as CSV…", w.exportCSV),
 		fyne.NewMenuItem("Save the report as PDF…", w.exportPDF),
 	)
+	sequence := fyne.NewMenu("Sequence",
+		fyne.NewMenuItem("Propose a sequence…", w.proposeDialog),
+	)
 	help := fyne.NewMenu("Help",
 		fyne.NewMenuItem("How to move the view", w.showControlsHelp),
 		fyne.NewMenuItem("About tapersweep", w.showAbout),
 	)
-	return fyne.NewMainMenu(file, help)
+	return fyne.NewMainMenu(file, sequence, help)
 }
 
 // aboutText is the About box: what the program is, and the safety wording.

@@ -22,7 +22,8 @@ type stepColumn struct {
 	text  func(st *analysis.StepResult) string
 }
 
-const adviceColumn = 10
+// adviceColumn is the last column: a tap on it opens the step's advice.
+var adviceColumn = len(stepColumns) - 1
 
 var stepColumns = []stepColumn{
 	{"", 18, nil}, // ISO colour swatch
@@ -35,6 +36,11 @@ var stepColumns = []stepColumn{
 	{"strain\nat s* %", 56, func(st *analysis.StepResult) string { return optional(st.Metrics.StrainAtMaxCurvaturePct, "%.2f") }},
 	{"fatigue\nused %", 58, func(st *analysis.StepResult) string { return fmt.Sprintf("%.1f", 100*st.Metrics.FatigueDamage) }},
 	{"torsion\nmargin", 58, func(st *analysis.StepResult) string { return optional(st.Metrics.TorsionMargin, "%.1f×") }},
+	// Gambill's measures 1 mm from the apical end, where transportation matters for the seal.
+	{"transp. mm\nat 1 mm", 72, func(st *analysis.StepResult) string {
+		return fmt.Sprintf("%.3f", st.Metrics.TransportationMM["1"])
+	}},
+	{"centring\nat 1 mm", 62, func(st *analysis.StepResult) string { return optional(st.Metrics.CenteringRatio["1"], "%.2f") }},
 	{"advice", 52, func(st *analysis.StepResult) string {
 		if n := len(st.Metrics.Advice); n > 0 {
 			return fmt.Sprintf("⚠ %d", n)

@@ -8,6 +8,8 @@ import (
 	"os"
 	"strings"
 
+	"tapersweep/analysis"
+	"tapersweep/models"
 	"tapersweep/ui/report"
 	"tapersweep/ui/scene"
 )
@@ -16,7 +18,7 @@ func reportCommand() command {
 	return command{
 		name:    "report",
 		summary: "write a PDF report of a sequence run through a canal: a summary page, then a page per step",
-		usage:   "--canal PATH --sequence PATH --out FILE.pdf [--view NAME] [--title TEXT] [--working-length MM] [--scale K]",
+		usage:   "--canal PATH --sequence PATH --out FILE.pdf [--view NAME] [--title TEXT] [--path-model centred|elastic] [--working-length MM] [--scale K]",
 		example: "tapersweep report --canal canal.stl --sequence plan.json --out case.pdf --view side",
 		flags: func(fs *flag.FlagSet) func(stdout, stderr io.Writer) int {
 			var cf canalFlags
@@ -25,6 +27,7 @@ func reportCommand() command {
 			out := fs.String("out", "", "PDF `file` to write")
 			view := fs.String("view", scene.Views[0].Name, "named `view` of the step pictures: "+strings.Join(scene.ViewNames(), ", "))
 			title := fs.String("title", "", "heading of the first page (default: the canal's name)")
+			pathModel := fs.String("path-model", "", "file path `model`: centred (files follow the centerline) or elastic (files straighten as beams); overrides the sequence file")
 			return func(stdout, stderr io.Writer) int {
 				if code := cf.check(stderr, "report"); code != exitOK {
 					return code
@@ -38,7 +41,10 @@ func reportCommand() command {
 				if !isView(*view) {
 					return usageError(stderr, "report", "--view must be one of %s", strings.Join(scene.ViewNames(), ", "))
 				}
-				res, err := analyzeFiles(context.Background(), &cf, *seqPath)
+				if *pathModel != "" && *pathModel != models.PathCentred && *pathModel != models.PathElastic {
+					return usageError(stderr, "report", "--path-model must be %s or %s, not %q", models.PathCentred, models.PathElastic, *pathModel)
+				}
+				res, err := analyzeFiles(context.Background(), &cf, *seqPath, analysis.RunOptions{PathModel: *pathModel})
 				if err != nil {
 					return inputError(stderr, "report", err)
 				}

@@ -87,6 +87,65 @@ func TestDemoReportAgreesWithAnalyze(t *testing.T) {
 	}
 }
 
+// TestElasticReportAgreesWithAnalyze: `report --path-model elastic` states the model and
+// carries the transportation `analyze --path-model elastic --format json` prints, per step
+// (transportation_mm) and for the whole sequence.
+func TestElasticReportAgreesWithAnalyze(t *testing.T) {
+	dir := t.TempDir()
+	canal := writeFile(t, "canal.json", models.DemoCanalJSON())
+	seq := writeFile(t, "seq.json", models.DemoSequenceJSON())
+	out := filepath.Join(dir, "elastic.pdf")
+	if code, _, errOut := runCLI(t, "report", "--canal", canal, "--sequence", seq, "--out", out, "--path-model", "elastic"); code != exitOK {
+		t.Fatalf("report: exit %d: %s", code, errOut)
+	}
+	code, js, errOut := runCLI(t, "analyze", "--canal", canal, "--sequence", seq, "--format", "json", "--path-model", "elastic")
+	if code != exitOK {
+		t.Fatalf("analyze: exit %d: %s", code, errOut)
+	}
+	var sum analysis.ResultSummary
+	if err := json.Unmarshal([]byte(js), &sum); err != nil {
+		t.Fatal(err)
+	}
+	if sum.Model.PathModel != models.PathElastic {
+		t.Fatalf("analyze ran %q", sum.Model.PathModel)
+	}
+	tool, err := exec.LookPath("pdftotext") // Debian poppler-utils
+	if err != nil {
+		t.Skip("pdftotext not installed: the text of the report is not checked")
+	}
+	text, err := exec.Command(tool, "-enc", "UTF-8", out, "-").Output()
+	if err != nil {
+		t.Fatalf("pdftotext: %v", err)
+	}
+	pages := strings.Split(strings.TrimSuffix(string(text), "\f"), "\f")
+	if len(pages) != 1+len(sum.Steps) {
+		t.Fatalf("pdftotext read %d pages, want %d", len(pages), 1+len(sum.Steps))
+	}
+	if !strings.Contains(pages[0], "elastic:") {
+		t.Error("the summary page does not name the elastic path")
+	}
+	num := func(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
+	found := 0
+	for _, m := range sum.Steps {
+		for _, k := range []string{"1", "3", "5"} {
+			if v := m.TransportationMM[k]; v != 0 {
+				found++
+				if !strings.Contains(pages[m.Step], num(v)) {
+					t.Errorf("step %d's page lacks its transportation at %s mm, %s", m.Step, k, num(v))
+				}
+			}
+		}
+	}
+	for _, k := range []string{"1", "3", "5"} {
+		if v := sum.Sequence.TransportationMM[k]; v != 0 && !strings.Contains(pages[0], num(v)) {
+			t.Errorf("the summary page lacks the sequence's transportation at %s mm, %s", k, num(v))
+		}
+	}
+	if found == 0 {
+		t.Error("the elastic demo moves the canal nowhere: nothing to look for")
+	}
+}
+
 func TestReportUsageAndBadInput(t *testing.T) {
 	dir := t.TempDir()
 	seq := writeFile(t, "seq.json", models.DemoSequenceJSON())
@@ -102,6 +161,7 @@ func TestReportUsageAndBadInput(t *testing.T) {
 		{[]string{"--canal", canal, "--out", out}, exitUsage, "--sequence is required"},
 		{[]string{"--canal", canal, "--sequence", seq}, exitUsage, "--out is required"},
 		{[]string{"--canal", canal, "--sequence", seq, "--out", out, "--view", "sideways"}, exitUsage, "--view"},
+		{[]string{"--canal", canal, "--sequence", seq, "--out", out, "--path-model", "wobbly"}, exitUsage, "--path-model"},
 		{[]string{"--canal", canal, "--sequence", seq, "--out", out, "--bogus"}, exitUsage, "bogus"},
 		{[]string{"--canal", bad, "--sequence", seq, "--out", out}, exitBadInput, "bad.stl"},
 		{[]string{"--canal", canal, "--sequence", seq, "--out", filepath.Join(dir, "no", "such", "r.pdf")}, exitBadInput, "r.pdf"},

@@ -99,6 +99,15 @@ func summaryPage(pdf *fpdf.Fpdf, res *analysis.Result, sum analysis.ResultSummar
 	labels, cells := StepTable(sum)
 	stepTable(pdf, labels, cells)
 
+	heading(pdf, "How the whole sequence moved the canal")
+	pdf.SetFont(fontRegular, "", sizeBody)
+	pdf.MultiCell(bodyW, lineBody, "The canal as the last step leaves it against the canal as scanned. "+
+		transportSentence(sum.Sequence), "", "L", false)
+	pdf.SetFont(fontRegular, "", sizeSmall)
+	pdf.SetTextColor(90, 90, 90)
+	pdf.MultiCell(bodyW, lineSmall, transportLevelsNote, "", "L", false)
+	pdf.SetTextColor(0, 0, 0)
+
 	heading(pdf, "Model, assumptions and parameters")
 	modelSection(pdf, res, sum)
 
@@ -164,9 +173,10 @@ func stepTable(pdf *fpdf.Fpdf, labels []string, cells [][]string) {
 func modelSection(pdf *fpdf.Fpdf, res *analysis.Result, sum analysis.ResultSummary) {
 	m := sum.Model
 	pairs := [][2]string{
-		{"file path", "the file follows the canal's centerline (" + m.PathModel + "); a real file straightens in a curve and presses on the outer wall"},
+		{"file path", pathModelText(m)},
+		{"wall stiffness", fmt.Sprintf("%g N/mm² (illustrative): the dentine's resistance to being cut; elastic path only", m.WallStiffnessNPerMM2)},
 		{"depth of cut", fmt.Sprintf("the file's radius less the distance from the centerline to the wall, per place around the wall; contact below %.3f mm is drawn and counted as none", m.ContactThresholdMM)},
-		{"bending strain", "outer-fibre strain d·k/2 of the file's diameter d where the canal's curvature is k"},
+		{"bending strain", "outer-fibre strain d·k/2 of the file's diameter d where the curvature of the file's path is k (the canal's centerline when centred)"},
 		{"fatigue", "Miner's sum of revolutions over cycles to failure at each point of the file through the insertion schedule; the strain-life law of the alloy below its recoverable strain, a few cycles above it"},
 		{"torsion", fmt.Sprintf("cutting torque from a cutting coefficient of %g N/mm² (illustrative) against the section's torsional capacity", m.CuttingCoefficientNPerMM2)},
 		{"note", m.Note},
@@ -181,6 +191,16 @@ func modelSection(pdf *fpdf.Fpdf, res *analysis.Result, sum analysis.ResultSumma
 			a.Name, a.ElasticModulusGPa, a.ShearUltimateMPa, 100*a.RecoverableStrain, a.StrainLifeC, a.StrainLifeB, a.CyclesAboveLimit, src)})
 	}
 	keyValue(pdf, margin, 42, bodyW-42, pairs)
+}
+
+// pathModelText states how the file runs in the canal.
+func pathModelText(m analysis.ModelSummary) string {
+	if m.PathModel == models.PathElastic {
+		return "elastic: the file's axis bends as a beam on an elastic foundation (E·I from alloy and diameter against " +
+			"the wall stiffness below), held at the orifice, free at the tip; cut, strain and fatigue follow that path"
+	}
+	return "centred: the file follows the canal's centerline; a real file straightens in a curve and presses on " +
+		"the outer wall, which this model cannot show (its transportation comes from an uneven wall only)"
 }
 
 // alloysUsed lists each alloy the steps use once, in step order.

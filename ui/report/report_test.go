@@ -142,8 +142,19 @@ func TestStepTableHoldsTheJSONNumbers(t *testing.T) {
 	res := demoRun(t)
 	sum := res.Summary()
 	labels, cells := StepTable(sum)
-	if len(labels) != len(analysis.StepColumns) {
-		t.Fatalf("%d rows, want one per column: %d", len(labels), len(analysis.StepColumns))
+	// The CSV's transportation columns are stated by the report's own transportation rows.
+	var cols []string
+	for _, c := range analysis.StepColumns {
+		if !strings.HasPrefix(c, "transportation_") && !strings.HasPrefix(c, "centering_ratio_") && c != "foramen_shift_mm" {
+			cols = append(cols, c)
+		}
+	}
+	if want := len(cols) + len(summaryTransportRows); len(labels) != want {
+		t.Fatalf("%d rows, want one per column and transportation row: %d", len(labels), want)
+	}
+	rowOf := map[string]int{}
+	for i, l := range labels {
+		rowOf[l] = i
 	}
 	// The JSON that `analyze --format json` prints, read back by name.
 	js, _ := json.Marshal(sum)
@@ -153,7 +164,11 @@ func TestStepTableHoldsTheJSONNumbers(t *testing.T) {
 	if err := json.Unmarshal(js, &back); err != nil {
 		t.Fatal(err)
 	}
-	for i, col := range analysis.StepColumns {
+	for _, col := range cols {
+		i, ok := rowOf[ColumnLabel(col)]
+		if !ok {
+			t.Fatalf("no row for %s", col)
+		}
 		for j, step := range back.Steps {
 			v, ok := step[col]
 			if !ok {
@@ -176,6 +191,135 @@ func TestStepTableHoldsTheJSONNumbers(t *testing.T) {
 				}
 			}
 		}
+	}
+}
+
+// TestStepTableHoldsTheTransportationOfTheJSON: the transportation rows carry the numbers of
+// the JSON fields transportation_mm, centering_ratio and foramen_shift_mm (keyed "1", "3",
+// "5"), read back by name from what `analyze --format json` prints.
+func TestStepTableHoldsTheTransportationOfTheJSON(t *testing.T) {
+	res := elasticRun(t)
+	sum := res.Summary()
+	labels, cells := StepTable(sum)
+	rowOf := map[string]int{}
+	for i, l := range labels {
+		rowOf[l] = i
+	}
+	js, _ := json.Marshal(sum)
+	var back struct {
+		Steps []struct {
+			Transportation map[string]float64  `json:"transportation_mm"`
+			Centering      map[string]*float64 `json:"centering_ratio"`
+			Foramen        float64             `json:"foramen_shift_mm"`
+		} `json:"steps"`
+	}
+	if err := json.Unmarshal(js, &back); err != nil {
+		t.Fatal(err)
+	}
+	nonzero := 0
+	for j, st := range back.Steps {
+		// "a / b / c" for the levels 1, 3 and 5 mm, as the JSON writes each number.
+		split := func(row string) []string { return strings.Split(cells[rowOf[row]][j], " / ") }
+		tr, cr := split("transportation at 1 / 3 / 5 mm, mm"), split("centring ratio at 1 / 3 / 5 mm")
+		if len(tr) != 3 || len(cr) != 3 {
+			t.Fatalf("step %d: cells %q and %q do not hold three levels", j+1, tr, cr)
+		}
+		for k, key := range []string{"1", "3", "5"} {
+			if got, err := strconv.ParseFloat(tr[k], 64); err != nil || got != st.Transportation[key] {
+				t.Errorf("step %d transportation at %s mm: JSON %v, table %q", j+1, key, st.Transportation[key], tr[k])
+			}
+			if st.Transportation[key] != 0 {
+				nonzero++
+			}
+			if c := st.Centering[key]; c == nil && cr[k] != "–" || c != nil && cr[k] != strconv.FormatFloat(*c, 'f', -1, 64) {
+				t.Errorf("step %d centring at %s mm: JSON %v, table %q", j+1, key, c, cr[k])
+			}
+		}
+		if cell := cells[rowOf["apical foramen shift, mm"]][j]; cell != strconv.FormatFloat(st.Foramen, 'f', -1, 64) {
+			t.Errorf("step %d foramen shift: JSON %v, table %q", j+1, st.Foramen, cell)
+		}
+	}
+	if nonzero == 0 {
+		t.Error("no step of the elastic demo moves the canal: the rows would hold only zeros")
+	}
+	if labels[len(labels)-1] != "advice" {
+		t.Errorf("the last row is %q, want the advice", labels[len(labels)-1])
+	}
+}
+
+var (
+	elasticOnce sync.Once
+	elasticRes  *analysis.Result
+	elasticErr  error
+)
+
+// elasticRun is the demo with the file as a bending beam.
+func elasticRun(t testing.TB) *analysis.Result {
+	centred := demoRun(t)
+	elasticOnce.Do(func() {
+		elasticRes, elasticErr = analysis.Run(context.Background(), centred.Canal, centred.Sequence,
+			analysis.RunOptions{PathModel: models.PathElastic})
+	})
+	if elasticErr != nil {
+		t.Fatal(elasticErr)
+	}
+	return elasticRes
+}
+
+// TestElasticReportStatesPathAndTransportation: with the elastic path, the summary page names
+// the model and its illustrative wall stiffness and carries the whole sequence's
+// transportation; each step's page carries its own Gambill measures, place and direction.
+func TestElasticReportStatesPathAndTransportation(t *testing.T) {
+	res := elasticRun(t)
+	var buf bytes.Buffer
+	if err := WritePDF(&buf, res, Options{ImageWidth: 260, ImageHeight: 390}); err != nil {
+		t.Fatal(err)
+	}
+	text := pdfText(t, buf.Bytes())
+	if text == "" {
+		return
+	}
+	pages := strings.Split(text, "\f")
+	sum := res.Summary()
+	first := squash(pages[0])
+	for _, want := range []string{"elastic: the file's axis bends as a beam",
+		strconv.FormatFloat(sum.Model.WallStiffnessNPerMM2, 'f', -1, 64) + " N/mm² (illustrative",
+		"How the whole sequence moved the canal"} {
+		if !strings.Contains(first, want) {
+			t.Errorf("the summary page lacks %q", want)
+		}
+	}
+	seqVals := []float64{sum.Sequence.TransportationMM["1"], sum.Sequence.TransportationMM["3"],
+		sum.Sequence.TransportationMM["5"], sum.Sequence.Largest.MM, sum.Sequence.Largest.FromApexMM}
+	for _, v := range seqVals {
+		if s := strconv.FormatFloat(v, 'f', -1, 64); !strings.Contains(first, s) {
+			t.Errorf("the summary page lacks the sequence's %s", s)
+		}
+	}
+	checked := 0
+	for _, m := range sum.Steps {
+		page := pages[m.Step]
+		if !strings.Contains(page, "How this step moved the canal") {
+			t.Errorf("step %d's page has no transportation section", m.Step)
+		}
+		for _, v := range []float64{m.TransportationMM["1"], m.TransportationMM["3"], m.TransportationMM["5"], m.Largest.MM} {
+			if v == 0 {
+				continue
+			}
+			checked++
+			if s := strconv.FormatFloat(v, 'f', -1, 64); !strings.Contains(page, s) {
+				t.Errorf("step %d's page lacks its transportation %s", m.Step, s)
+			}
+		}
+		if m.Largest.MM > 0 {
+			dir := strconv.FormatFloat(m.Largest.TowardDeg, 'f', -1, 64) + "° " + sideWord(m.Largest.TowardDeg)
+			if !strings.Contains(page, dir) {
+				t.Errorf("step %d's page lacks the direction %q", m.Step, dir)
+			}
+		}
+	}
+	if checked == 0 {
+		t.Error("no nonzero transportation to look for")
 	}
 }
 

@@ -48,14 +48,12 @@ func numbersAndAdvice(pdf *fpdf.Fpdf, st *analysis.StepResult, x float64) {
 		pairs = append(pairs, [2]string{"fracture after, s (tip depth, mm)",
 			opt(m.FractureTimeS, "%g") + " (" + opt(m.FractureTipDepthMM, "%g") + ")"})
 	}
-	for _, kv := range pairs {
-		pdf.SetX(x)
-		pdf.SetFont(fontRegular, "", sizeSmall)
-		pdf.SetTextColor(90, 90, 90)
-		pdf.CellFormat(colW-30, lineSmall, kv[0], "", 0, "L", false, 0, "")
-		pdf.SetTextColor(0, 0, 0)
-		pdf.CellFormat(30, lineSmall, kv[1], "", 1, "R", false, 0, "")
-	}
+	numberLines(pdf, x, colW, pairs)
+	pdf.Ln(1.5)
+	pdf.SetX(x)
+	pdf.SetFont(fontBold, "", 9.5)
+	pdf.CellFormat(colW, 5, "How this step moved the canal", "", 1, "L", false, 0, "")
+	numberLines(pdf, x, colW, transportPairs(m.Transport))
 	pdf.Ln(2)
 	pdf.SetX(x)
 	pdf.SetFont(fontBold, "", 9.5)
@@ -84,4 +82,16 @@ func numbersAndAdvice(pdf *fpdf.Fpdf, st *analysis.StepResult, x float64) {
 	pdf.MultiCell(colW, lineSmall, fmt.Sprintf(
 		"%g rpm; advance %g mm/s in pecks of %g mm past the deepest point, withdrawing %g mm between them; "+
 			"motor torque limit %s; %s section.", s.RPM, s.AdvanceMMs, s.PeckMM, s.RetractMM, limit, s.SectionName), "", "L", false)
+}
+
+// numberLines writes label/value pairs, values right-aligned, in a column from x.
+func numberLines(pdf *fpdf.Fpdf, x, colW float64, pairs [][2]string) {
+	for _, kv := range pairs {
+		pdf.SetX(x)
+		pdf.SetFont(fontRegular, "", sizeSmall)
+		pdf.SetTextColor(90, 90, 90)
+		pdf.CellFormat(colW-30, lineSmall, kv[0], "", 0, "L", false, 0, "")
+		pdf.SetTextColor(0, 0, 0)
+		pdf.CellFormat(30, lineSmall, kv[1], "", 1, "R", false, 0, "")
+	}
 }

@@ -3,6 +3,7 @@ package report
 import (
 	"encoding/csv"
 	"io"
+	"strings"
 
 	"tapersweep/analysis"
 )
@@ -39,23 +40,57 @@ func ColumnLabel(col string) string {
 }
 
 // StepTable lays the run's steps out as the report prints them: one row per column of
-// analysis.StepColumns (label first), one column per step. The cells are the same strings
-// the CSV holds (StepMetrics.Row of the run's summary), so the PDF, the CSV and the JSON agree;
-// a value that does not exist is "–".
+// analysis.StepColumns (label first), then the transportation rows, advice last; one column
+// per step. The cells are the same strings the CSV holds (StepMetrics.Row of the run's
+// summary) and the transportation figures as the JSON writes them, so the PDF, the CSV and
+// the JSON agree; a value that does not exist is "–".
 func StepTable(sum analysis.ResultSummary) (labels []string, cells [][]string) {
+	// The transportation columns of the CSV are stated by the report's own rows
+	// (summaryTransportRows), which also give the largest transportation and its direction.
+	skip := func(c string) bool {
+		return strings.HasPrefix(c, "transportation_") || strings.HasPrefix(c, "centering_ratio_") || c == "foramen_shift_mm"
+	}
 	cols := analysis.StepColumns
-	labels = make([]string, len(cols))
-	cells = make([][]string, len(cols))
+	advice := -1
 	for i, c := range cols {
-		labels[i] = ColumnLabel(c)
-		cells[i] = make([]string, len(sum.Steps))
+		if c == "advice" {
+			advice = i
+			continue
+		}
+		if skip(c) {
+			continue
+		}
+		labels = append(labels, ColumnLabel(c))
+		cells = append(cells, make([]string, len(sum.Steps)))
+	}
+	first := len(labels)
+	for _, r := range summaryTransportRows {
+		labels = append(labels, r.label)
+		cells = append(cells, make([]string, len(sum.Steps)))
+	}
+	if advice >= 0 {
+		labels = append(labels, ColumnLabel("advice"))
+		cells = append(cells, make([]string, len(sum.Steps)))
 	}
 	for j, m := range sum.Steps {
+		row := 0
 		for i, v := range m.Row() {
+			if skip(cols[i]) {
+				continue
+			}
 			if v == "" {
 				v = "–"
 			}
-			cells[i][j] = v
+			at := row
+			if i == advice {
+				at = len(labels) - 1
+			} else {
+				row++
+			}
+			cells[at][j] = v
+		}
+		for k, r := range summaryTransportRows {
+			cells[first+k][j] = r.value(m.Transport)
 		}
 	}
 	return labels, cells

@@ -28,6 +28,13 @@ const (
 // orifice), its tapered radius d(u)/2, and shallow helical grooves; above the orifice it goes
 // on straight along the canal's coronal axis.
 func FileMesh(c *analysis.Canal, in models.Instrument, tip float64) *mesh.Mesh {
+	return FileMeshOnPath(c, in, tip, nil, nil)
+}
+
+// FileMeshOnPath is FileMesh with the file's axis moved off the centerline by o1*N1 + o2*N2
+// (mm, per station from the orifice, as analysis.StepResult.Offset1/Offset2 hold them) and
+// interpolated between stations; nil offsets draw the file centred.
+func FileMeshOnPath(c *analysis.Canal, in models.Instrument, tip float64, o1, o2 []float64) *mesh.Mesh {
 	length := math.Min(in.CuttingLength+fileAbove, tip+fileAbove)
 	n := max(2, int(math.Ceil(length/fileStepMM))+1)
 	centers := make([]mgl64.Vec3, n)
@@ -41,6 +48,10 @@ func FileMesh(c *analysis.Canal, in models.Instrument, tip float64) *mesh.Mesh {
 		s := tip - u
 		if s >= 0 {
 			centers[k], _, n1s[k], n2s[k] = c.Line.At(s)
+			if len(o1) > 0 && len(o1) == len(o2) {
+				a, b := offsetAt(c.Line, o1, s), offsetAt(c.Line, o2, s)
+				centers[k] = centers[k].Add(n1s[k].Mul(a)).Add(n2s[k].Mul(b))
+			}
 		} else {
 			centers[k] = c.Line.Points[0].Add(t0.Mul(s)) // straight on above the orifice
 			n1s[k], n2s[k] = a0, b0
@@ -56,6 +67,21 @@ func FileMesh(c *analysis.Canal, in models.Instrument, tip float64) *mesh.Mesh {
 		return r
 	}
 	return mesh.SweepTube(centers, n1s, n2s, radius, fileAround, true, true)
+}
+
+// offsetAt interpolates a per-station offset at arc length s; past the last station it keeps
+// the last value (the tip lies less than one station beyond it).
+func offsetAt(line *analysis.Centerline, o []float64, s float64) float64 {
+	x := s / line.DS
+	i := int(math.Floor(x))
+	switch {
+	case i < 0:
+		return o[0]
+	case i >= len(o)-1:
+		return o[len(o)-1]
+	}
+	f := x - float64(i)
+	return o[i]*(1-f) + o[i+1]*f
 }
 
 // FileColors colours the file in its size colour with a dark tip, vertex by vertex in the
@@ -104,4 +130,14 @@ func centerlineMesh(c *analysis.Canal) (*mesh.Mesh, []color.RGBA) {
 		cols[v] = scale.At(t)
 	}
 	return m, cols
+}
+
+// centerlineInk is the thin centerline drawn beside a file on its own path.
+var centerlineInk = color.RGBA{30, 60, 120, 255}
+
+// thinCenterline is the centerline as a thin tube of one colour.
+func thinCenterline(c *analysis.Canal) *mesh.Mesh {
+	const around, r = 6, 0.018
+	line := c.Line
+	return mesh.SweepTube(line.Points, line.N1, line.N2, func(int, float64) float64 { return r }, around, true, true)
 }

@@ -52,6 +52,9 @@ func Decorate(img *image.RGBA, b *Built, c *analysis.Canal, view string) {
 		view = Views[0].Name
 	}
 	note := fmt.Sprintf("view: %s", view)
+	if b.OwnPath {
+		note += " · the file bends on its own path; thin line: the centerline"
+	}
 	_, th := render.MeasureText(note, 11)
 	render.DrawText(img, 10, img.Bounds().Dy()-th-8, note, color.RGBA{110, 110, 110, 255}, 11)
 }

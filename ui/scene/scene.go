@@ -38,6 +38,9 @@ const DefaultWallOpacity = 0.35
 // fileGhostOpacity draws the file around the cut wall as the step meets the canal.
 const fileGhostOpacity = 0.3
 
+// fileOnPathOpacity lets the centerline show through a file that runs off it.
+const fileOnPathOpacity = 0.7
+
 // contactLift puts the cut wall just outside the file after the step, so patch and file do
 // not fight for the same pixels: a share of the radius plus a few micrometres.
 const contactLift = 0.03
@@ -53,6 +56,10 @@ type Built struct {
 	WallIndex  int // index of the wall among Scene.Objects
 	FileIndex  int // -1 when no file is drawn
 	Wall, File *mesh.Mesh
+	// OwnPath: the file is drawn on its own (elastic) path, off the centerline.
+	OwnPath bool
+	// CenterlineIndex is the centerline among Scene.Objects, -1 when not drawn.
+	CenterlineIndex int
 }
 
 // Background of every view: a light warm paper tone.
@@ -67,7 +74,7 @@ func Build(c *analysis.Canal, res *analysis.Result, opt Options) (*Built, error)
 		}
 		return nil, fmt.Errorf("step %d does not exist (the sequence has %d steps, numbered from 1)", opt.Step, n)
 	}
-	b := &Built{Scale: render.DepthScale(), FileIndex: -1}
+	b := &Built{Scale: render.DepthScale(), FileIndex: -1, CenterlineIndex: -1}
 	b.Lo, b.Hi = c.Mesh.Bounds()
 	b.LegendMax = legendMax(res)
 	var st *analysis.StepResult
@@ -100,13 +107,23 @@ func Build(c *analysis.Canal, res *analysis.Result, opt Options) (*Built, error)
 	if contact != nil && len(contact.Triangles) > 0 {
 		s.Objects = append(s.Objects, render.Object{Mesh: contact, Colors: colors, Clip: true})
 	}
+	// On the elastic path the file runs off the centerline: it is drawn on its own axis and
+	// the centerline as a thin line, so the difference shows.
+	ownPath := st != nil && len(st.Offset1) > 0 && len(st.Offset1) == len(st.Offset2)
 	if st != nil && !opt.HideFile {
 		in := st.Step.Instrument
-		b.File = FileMesh(c, in, st.TipDepth)
+		if ownPath {
+			b.File = FileMeshOnPath(c, in, st.TipDepth, st.Offset1, st.Offset2)
+			b.OwnPath = true
+		} else {
+			b.File = FileMesh(c, in, st.TipDepth)
+		}
 		cols := FileColors(b.File, FileColor(in.Size), in, st.TipDepth)
 		obj := render.Object{Mesh: b.File, Colors: cols, Outline: true}
 		if opt.Before && contact != nil && len(contact.Triangles) > 0 {
 			obj.Opacity = fileGhostOpacity
+		} else if ownPath {
+			obj.Opacity = fileOnPathOpacity
 		}
 		s.Objects = append(s.Objects, obj)
 		b.FileIndex = len(s.Objects) - 1
@@ -115,9 +132,14 @@ func Build(c *analysis.Canal, res *analysis.Result, opt Options) (*Built, error)
 			b.Lo[k], b.Hi[k] = math.Min(b.Lo[k], flo[k]), math.Max(b.Hi[k], fhi[k])
 		}
 	}
-	if opt.Centerline {
+	switch {
+	case opt.Centerline:
 		line, cols := centerlineMesh(c)
 		s.Objects = append(s.Objects, render.Object{Mesh: line, Colors: cols})
+		b.CenterlineIndex = len(s.Objects) - 1
+	case ownPath && !opt.HideFile:
+		s.Objects = append(s.Objects, render.Object{Mesh: thinCenterline(c), Color: centerlineInk})
+		b.CenterlineIndex = len(s.Objects) - 1
 	}
 	if opt.Clip {
 		star := c.Line.Station(c.Measures.MaxCurvatureS)

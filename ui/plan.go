@@ -1,0 +1,356 @@
+package ui
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"strconv"
+	"strings"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/dialog"
+	"fyne.io/fyne/v2/layout"
+	"fyne.io/fyne/v2/widget"
+
+	"tapersweep/analysis"
+	"tapersweep/analysis/plan"
+	"tapersweep/models"
+)
+
+// planRun is one "Propose a sequence" from the form through the search to the answer: the
+// plan shown beside the current sequence, to adopt or to leave.
+type planRun struct {
+	w     *mainWindow
+	canal *analysis.Canal // the canal the plan is for
+	mine  *models.Sequence
+
+	// the form
+	form                            dialog.Dialog
+	size, steps                     *widget.Select
+	taper, maxEngaged, maxFatigue   *widget.Entry
+	sameTaper                       *widget.Check
+	objective, formErr              *widget.Label
+	proposeButton, formCancelButton *widget.Button
+	target                          plan.Target
+
+	// the search
+	progress     dialog.Dialog
+	cancelButton *widget.Button
+	cancel       context.CancelFunc
+
+	// the answer
+	plan                *plan.Plan
+	mineRes, proposed   *analysis.Result // both run with the window's path model
+	answer              dialog.Dialog
+	answerText          string // the infeasible or error message, when no plan came
+	adopt, keep         *widget.Button
+	finished, cancelled bool
+}
+
+// proposeDialog asks for the target and the limits of a plan for the open canal.
+func (w *mainWindow) proposeDialog() {
+	if w.canal == nil || w.seq == nil || len(w.seq.Steps) == 0 {
+		w.setStatus("A sequence can be proposed once a canal is open.")
+		return
+	}
+	if w.planning != nil && w.planning.cancel != nil && !w.planning.finished {
+		w.planning.progress.Show() // one search at a time
+		return
+	}
+	pr := &planRun{w: w, canal: w.canal, mine: w.seq}
+	w.planning = pr
+	last := w.seq.Steps[len(w.seq.Steps)-1].Instrument
+	sizes := make([]string, 0, 24)
+	for _, s := range models.ISOSizes() {
+		sizes = append(sizes, strconv.Itoa(s))
+	}
+	pr.size = widget.NewSelect(sizes, func(string) { pr.targetChanged() })
+	pr.taper = widget.NewEntry()
+	pr.taper.OnChanged = func(string) { pr.targetChanged() }
+	var counts []string
+	for n := 1; n <= 12; n++ {
+		counts = append(counts, strconv.Itoa(n))
+	}
+	pr.steps = widget.NewSelect(counts, nil)
+	pr.steps.SetSelected(strconv.Itoa(plan.DefaultMaxSteps))
+	pr.maxEngaged = widget.NewEntry()
+	pr.maxEngaged.SetPlaceHolder("no limit")
+	pr.maxFatigue = widget.NewEntry()
+	pr.maxFatigue.SetPlaceHolder("what the last file alone uses")
+	pr.sameTaper = widget.NewCheck("Allow two files of the same taper in a row", nil)
+	pr.objective = widget.NewLabel("")
+	pr.objective.Wrapping = fyne.TextWrapWord
+	pr.formErr = widget.NewLabel("")
+	pr.formErr.Importance = widget.DangerImportance
+	pr.formErr.Wrapping = fyne.TextWrapWord
+	pr.formErr.Hide()
+	if !contains(sizes, strconv.Itoa(last.Size)) {
+		pr.size.Options = append(pr.size.Options, strconv.Itoa(last.Size))
+	}
+	pr.size.SetSelected(strconv.Itoa(last.Size))
+	pr.taper.SetText(strconv.FormatFloat(last.TaperAt(0), 'f', -1, 64))
+
+	row := func(label string, o fyne.CanvasObject) fyne.CanvasObject {
+		return container.NewBorder(nil, nil, container.NewGridWrap(fyne.NewSize(320, o.MinSize().Height), widget.NewLabel(label)), nil, o)
+	}
+	pr.proposeButton = widget.NewButton("Propose", pr.start)
+	pr.proposeButton.Importance = widget.HighImportance
+	pr.formCancelButton = widget.NewButton("Cancel", func() { pr.form.Hide() })
+	body := container.NewVBox(
+		widget.NewLabel("The last file reaches working length; the rest are chosen from the generic catalogue."),
+		row("Last file: ISO size", pr.size),
+		row("Last file: taper (mm/mm)", pr.taper),
+		row("At most this many files", pr.steps),
+		row("Longest engaged length per file (mm)", pr.maxEngaged),
+		row("Highest fatigue use per file (1 = fracture)", pr.maxFatigue),
+		pr.sameTaper,
+		pr.objective,
+		pr.formErr,
+		container.NewHBox(layout.NewSpacer(), pr.formCancelButton, pr.proposeButton),
+	)
+	pr.form = dialog.NewCustomWithoutButtons("Propose a sequence for this canal", body, w.win)
+	pr.form.Resize(fyne.NewSize(700, 480))
+	pr.targetChanged()
+	pr.form.Show()
+}
+
+// targetChanged restates the objective for the target being typed.
+func (pr *planRun) targetChanged() {
+	if pr.objective == nil {
+		return
+	}
+	t, err := pr.readTarget()
+	label := "last file"
+	if err == nil {
+		label = t.Label()
+	}
+	pr.objective.SetText("The plan sought has " + plan.DefaultWeights.ObjectiveText(label) + ".")
+}
+
+func (pr *planRun) readTarget() (plan.Target, error) {
+	size, err := strconv.Atoi(pr.size.Selected)
+	if err != nil {
+		return plan.Target{}, errors.New("choose the last file's size")
+	}
+	taper, err := parseNumber(pr.taper.Text)
+	if err != nil {
+		return plan.Target{}, fmt.Errorf("taper: %w", err)
+	}
+	if !(taper > 0) || taper > 0.2 {
+		return plan.Target{}, fmt.Errorf("taper: %g is not a file's taper (0.02 to 0.12 are usual)", taper)
+	}
+	return plan.Target{Size: size, Taper: taper}, nil
+}
+
+// options reads the form; a blank limit is none (or the planner's default for fatigue).
+func (pr *planRun) options() (plan.Options, error) {
+	t, err := pr.readTarget()
+	if err != nil {
+		return plan.Options{}, err
+	}
+	opt := plan.Options{Target: t, AllowSameTaper: pr.sameTaper.Checked}
+	if opt.MaxSteps, err = strconv.Atoi(pr.steps.Selected); err != nil {
+		return opt, errors.New("choose the number of files")
+	}
+	limit := func(e *widget.Entry, name string) (float64, error) {
+		if strings.TrimSpace(e.Text) == "" {
+			return 0, nil
+		}
+		v, err := parseNumber(e.Text)
+		if err == nil && !(v > 0) {
+			err = errors.New("must be above 0, or blank for no limit")
+		}
+		if err != nil {
+			return 0, fmt.Errorf("%s: %w", name, err)
+		}
+		return v, nil
+	}
+	if opt.MaxEngagedMM, err = limit(pr.maxEngaged, "engaged length"); err != nil {
+		return opt, err
+	}
+	if opt.MaxFatigue, err = limit(pr.maxFatigue, "fatigue use"); err != nil {
+		return opt, err
+	}
+	return opt, nil
+}
+
+// start runs the search off the UI goroutine with a progress dialog that can cancel it.
+func (pr *planRun) start() {
+	w := pr.w
+	opt, err := pr.options()
+	if err != nil {
+		pr.formErr.SetText(err.Error())
+		pr.formErr.Show()
+		return
+	}
+	pr.formErr.Hide()
+	pr.form.Hide()
+	pr.target = opt.Target
+	ctx, cancel := context.WithCancel(context.Background())
+	pr.cancel = cancel
+	busy := widget.NewProgressBarInfinite()
+	pr.cancelButton = widget.NewButton("Cancel", func() {
+		cancel()
+		pr.cancelled = true
+	})
+	pr.progress = dialog.NewCustomWithoutButtons("Proposing a sequence",
+		container.NewVBox(widget.NewLabel("Searching files, order and depths that reach the "+opt.Target.Label()+
+			" at working length…"), busy, pr.cancelButton), w.win)
+	pr.progress.Resize(fyne.NewSize(460, 150))
+	pr.progress.Show()
+	w.setStatus("Proposing a sequence for the " + opt.Target.Label() + "…")
+	c, mine := pr.canal, pr.mine
+	w.ui.spawn(func() {
+		p, mineRes, proposed, err := proposeAndCompare(ctx, c, mine, opt)
+		w.ui.postAndWait(func() {
+			busy.Stop()
+			pr.done(p, mineRes, proposed, err)
+		})
+	})
+}
+
+// proposeAndCompare finds a plan and runs it and the current sequence with the same path
+// model, so the comparison holds whichever model the window shows.
+func proposeAndCompare(ctx context.Context, c *analysis.Canal, mine *models.Sequence, opt plan.Options) (*plan.Plan, *analysis.Result, *analysis.Result, error) {
+	p, err := plan.Propose(ctx, c, opt)
+	if err != nil {
+		return nil, nil, nil, err
+	}
+	mineRes, err := analysis.Run(ctx, c, mine, analysis.RunOptions{})
+	if err != nil {
+		return nil, nil, nil, fmt.Errorf("your sequence: %w", err)
+	}
+	proposed := p.Result
+	if mine.PathModel != p.Result.Options.PathModel {
+		seq := *p.Sequence
+		seq.PathModel = mine.PathModel
+		if proposed, err = analysis.Run(ctx, c, &seq, analysis.RunOptions{}); err != nil {
+			return nil, nil, nil, fmt.Errorf("the proposed sequence: %w", err)
+		}
+	}
+	return p, mineRes, proposed, nil
+}
+
+// done takes the outcome of the search.
+func (pr *planRun) done(p *plan.Plan, mineRes, proposed *analysis.Result, err error) {
+	w := pr.w
+	pr.finished = true
+	pr.progress.Hide()
+	var inf *plan.InfeasibleError
+	switch {
+	case pr.cancelled || errors.Is(err, context.Canceled):
+		pr.cancelled = true
+		w.setStatus("Proposing a sequence cancelled; your sequence stays.")
+		return
+	case errors.As(err, &inf):
+		pr.answerText = "No sequence meets the limits: " + inf.Error() + "."
+		w.setStatus("No sequence meets the limits set.")
+		pr.showMessage("No sequence found")
+		return
+	case err != nil:
+		pr.answerText = "Could not propose a sequence: " + err.Error()
+		w.setStatus(pr.answerText)
+		pr.showMessage("No sequence found")
+		return
+	case w.canal != pr.canal:
+		w.setStatus("The canal or its working length changed while the plan was sought; propose again.")
+		return
+	}
+	pr.plan, pr.mineRes, pr.proposed = p, mineRes, proposed
+	w.setStatus(fmt.Sprintf("A sequence of %d files is proposed for the %s.", len(p.Sequence.Steps), pr.target.Label()))
+	pr.showPlan()
+}
+
+func (pr *planRun) showMessage(title string) {
+	l := widget.NewLabel(pr.answerText)
+	l.Wrapping = fyne.TextWrapWord
+	pr.keep = widget.NewButton("Close", func() { pr.answer.Hide() })
+	pr.answer = dialog.NewCustomWithoutButtons(title,
+		container.NewBorder(nil, container.NewHBox(layout.NewSpacer(), pr.keep), nil, nil,
+			container.NewGridWrap(fyne.NewSize(520, 160), container.NewVScroll(l))), pr.w.win)
+	pr.answer.Show()
+}
+
+// showPlan shows the plan beside the current sequence, its reasons, and the choice.
+func (pr *planRun) showPlan() {
+	w := pr.w
+	model := pathCentredText
+	if pr.mine.PathModel == models.PathElastic {
+		model = pathElasticText
+	}
+	side := func(title string, res *analysis.Result) fyne.CanvasObject {
+		return container.NewVBox(sectionTitle(title), comparisonGrid(comparisonRows(res)))
+	}
+	tables := container.NewGridWithColumns(2,
+		side("Your sequence", pr.mineRes),
+		side("Proposed for the "+pr.target.Label(), pr.proposed))
+	why := widget.NewLabel(strings.Join(pr.plan.Explanation, "\n\n"))
+	why.Wrapping = fyne.TextWrapWord
+	note := widget.NewLabel("Tip depth and engaged length in mm, peak torque in N·cm, fatigue use with 1 = fracture; " +
+		"both run here with the file path that " + model + ". Model estimates: compare them, do not take them as measurements.")
+	note.Wrapping = fyne.TextWrapWord
+	pr.adopt = widget.NewButton("Use this sequence", pr.adoptPlan)
+	pr.adopt.Importance = widget.HighImportance
+	pr.keep = widget.NewButton("Keep mine", func() { pr.answer.Hide() })
+	// The figures above, the reasons below; the split between them can be moved.
+	parts := container.NewVSplit(container.NewVScroll(container.NewVBox(tables, note)),
+		container.NewBorder(sectionTitle("Why this sequence"), nil, nil, nil, container.NewVScroll(why)))
+	parts.Offset = 0.62
+	buttons := container.NewHBox(layout.NewSpacer(), pr.keep, pr.adopt)
+	body := container.NewBorder(nil, buttons, nil, nil, parts)
+	pr.answer = dialog.NewCustomWithoutButtons("A proposed sequence", body, w.win)
+	pr.answer.Resize(fyne.NewSize(900, 680))
+	pr.answer.Show()
+}
+
+// adoptPlan replaces the sequence with the plan (keeping the window's path model) and runs it.
+func (pr *planRun) adoptPlan() {
+	w := pr.w
+	pr.answer.Hide()
+	seq := *pr.plan.Sequence
+	seq.PathModel = pr.mine.PathModel
+	data, err := seq.MarshalJSON()
+	var parsed *models.Sequence
+	if err == nil {
+		parsed, err = models.ParseSequence("proposed for the "+pr.target.Label(), data)
+	}
+	if err == nil {
+		err = parsed.CheckDepths(w.canal.Line.Length(), w.canal.WorkingLength)
+	}
+	if err != nil {
+		dialog.ShowError(fmt.Errorf("the proposed sequence cannot be used: %w", err), w.win)
+		return
+	}
+	w.takeSequence(parsed)
+	w.setStatus(fmt.Sprintf("Using the proposed sequence of %d files; save it from the File menu to keep it.", len(parsed.Steps)))
+}
+
+// comparisonRows are the per-step figures the plan is judged by and, last, the largest of
+// each over the files: engaged length, peak torque and fatigue use.
+func comparisonRows(res *analysis.Result) [][]string {
+	rows := [][]string{{"#", "file", "tip", "engaged", "torque", "fatigue"}}
+	var eng, tq, fat float64
+	for _, st := range res.Steps {
+		m := st.Metrics
+		rows = append(rows, []string{strconv.Itoa(st.Number), m.Label, fmt.Sprintf("%.2f", m.TipDepthMM),
+			fmt.Sprintf("%.2f", m.EngagedLengthMM), fmt.Sprintf("%.3f", m.PeakTorqueIndex), fmt.Sprintf("%.4f", m.FatigueDamage)})
+		eng, tq, fat = max(eng, m.EngagedLengthMM), max(tq, m.PeakTorqueIndex), max(fat, m.FatigueDamage)
+	}
+	return append(rows, []string{"", "largest", "", fmt.Sprintf("%.2f", eng), fmt.Sprintf("%.3f", tq), fmt.Sprintf("%.4f", fat)})
+}
+
+// comparisonGrid lays rows out as a small table; the first and last rows are bold.
+func comparisonGrid(rows [][]string) fyne.CanvasObject {
+	g := container.NewGridWithColumns(len(rows[0]))
+	for i, r := range rows {
+		for _, v := range r {
+			l := widget.NewLabel(v)
+			if i == 0 || i == len(rows)-1 {
+				l.TextStyle = fyne.TextStyle{Bold: true}
+			}
+			g.Add(l)
+		}
+	}
+	return g
+}
