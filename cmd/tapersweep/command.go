@@ -29,9 +29,12 @@ func (c command) run(args []string, stdout, stderr io.Writer) int {
 	body := c.flags(fs)
 	help := func(w io.Writer) {
 		fmt.Fprintf(w, "Usage: tapersweep %s %s\n\n%s\n\nFlags:\n", c.name, c.usage, c.summary)
-		fs.SetOutput(w)
+		// The flag package prints "-name"; every usage line here writes "--name".
+		var defaults strings.Builder
+		fs.SetOutput(&defaults)
 		fs.PrintDefaults()
 		fs.SetOutput(io.Discard)
+		io.WriteString(w, strings.ReplaceAll("\n"+defaults.String(), "\n  -", "\n  --")[1:])
 		fmt.Fprintf(w, "\nExample:\n  %s\n", c.example)
 	}
 	if err := fs.Parse(args); err != nil {
