@@ -54,7 +54,7 @@ type welder struct {
 	recent [weldRecentSize]weldRecent
 }
 
-const weldRecentSize = 4096
+const weldRecentSize = 16384
 
 // weldSlot is one table entry: a 64-bit hash of the cell stands for the cell. Two cells that
 // share a hash share a chain, which costs a few distance checks and never a wrong merge.
