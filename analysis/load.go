@@ -5,6 +5,7 @@ import (
 	"context"
 	"fmt"
 	"os"
+	"strings"
 
 	"tapersweep/mesh"
 	"tapersweep/models"
@@ -12,8 +13,11 @@ import (
 
 // LoadOptions say how to read a canal file.
 type LoadOptions struct {
-	Canal    CanalOptions
-	Scale    float64 // multiply STL coordinates (0.001 for micrometres); 0 = 1
+	Canal CanalOptions
+	Scale float64 // multiply STL coordinates (0.001 for micrometres); 0 = 1
+	// Shell keeps only one separate surface of an STL: 1 = the largest, 2 = the next, ...;
+	// 0 keeps them all.
+	Shell    int
 	Progress func(stage string, done, total int64)
 }
 
@@ -37,6 +41,9 @@ func LoadCanalBytes(ctx context.Context, name string, data []byte, opt LoadOptio
 		if opt.Scale != 0 && opt.Scale != 1 {
 			return nil, fmt.Errorf("%s: --scale applies to STL surfaces; a canal spec is already in mm", name)
 		}
+		if opt.Shell != 0 {
+			return nil, fmt.Errorf("%s: --shell applies to STL surfaces; a canal spec has one", name)
+		}
 		return CanalFromSpec(ctx, name, spec, opt.Canal)
 	}
 	lo := mesh.LoadOptions{Scale: opt.Scale}
@@ -46,6 +53,14 @@ func LoadCanalBytes(ctx context.Context, name string, data []byte, opt LoadOptio
 	m, rep, err := mesh.Load(ctx, name, bytes.NewReader(data), int64(len(data)), lo)
 	if err != nil {
 		return nil, err
+	}
+	if opt.Shell > 0 {
+		shells := mesh.Shells(m)
+		if opt.Shell > len(shells) {
+			return nil, fmt.Errorf("%s: surface %d asked for, but the file holds %d", name, opt.Shell, len(shells))
+		}
+		m = m.Subset(shells[opt.Shell-1])
+		rep.Warnings = append(dropShellWarning(rep.Warnings), fmt.Sprintf("surface %d of %d kept", opt.Shell, len(shells)))
 	}
 	c, err := NewCanal(ctx, name, m, opt.Canal)
 	if err != nil {
@@ -62,6 +77,17 @@ func mergeWarnings(a, b []string) []string {
 	for _, w := range append(append([]string{}, a...), b...) {
 		if !seen[w] {
 			seen[w] = true
+			out = append(out, w)
+		}
+	}
+	return out
+}
+
+// dropShellWarning removes the "separate surfaces" warning once one surface has been picked.
+func dropShellWarning(ws []string) []string {
+	var out []string
+	for _, w := range ws {
+		if !strings.Contains(w, "separate surfaces") {
 			out = append(out, w)
 		}
 	}

@@ -60,7 +60,7 @@ func (r Report) Warnings() []string {
 	}
 	if r.Shells > 1 {
 		w = append(w, fmt.Sprintf("the file holds %d separate surfaces; all were kept. "+
-			"If only one of them is the canal, keep the largest surface or pick the one you need", r.Shells))
+			"If only one of them is the canal, keep it with --shell N (1 = the largest, 2 = the next, ...)", r.Shells))
 	}
 	if r.BoundaryEdges > 0 {
 		w = append(w, fmt.Sprintf("the surface is not closed: %d edges border holes or open ends. "+

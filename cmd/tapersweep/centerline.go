@@ -2,10 +2,14 @@ package main
 
 import (
 	"context"
+	"math"
+	"strings"
+
 	"encoding/csv"
 	"encoding/json"
 	"flag"
 	"fmt"
+	"github.com/go-gl/mathgl/mgl64"
 	"io"
 	"strconv"
 
@@ -52,12 +56,37 @@ type canalFlags struct {
 	path          *string
 	workingLength *float64
 	scale         *float64
+	shell         *int
+	orifice, apex *string
 }
 
 func (cf *canalFlags) register(fs *flag.FlagSet) {
 	cf.path = fs.String("canal", "", "canal `file`: an STL surface (binary or ASCII) or a canal spec (JSON)")
 	cf.workingLength = fs.Float64("working-length", 0, "working length in `mm` (default: the spec's, else the centerline's length)")
 	cf.scale = fs.Float64("scale", 1, "multiply STL coordinates by `K` (0.001 turns micrometres into mm)")
+	cf.shell = fs.Int("shell", 0, "keep only separate surface `N` of an STL (1 = the largest); default: all")
+	cf.orifice = fs.String("orifice", "", "a point `X,Y,Z` near the coronal end, in the file's coordinates (default: the wider end)")
+	cf.apex = fs.String("apical-end", "", "a point `X,Y,Z` near the apical end, in the file's coordinates (default: the narrower end)")
+}
+
+// point reads "x,y,z".
+func point(s string) (*mgl64.Vec3, error) {
+	if s == "" {
+		return nil, nil
+	}
+	f := strings.Split(s, ",")
+	if len(f) != 3 {
+		return nil, fmt.Errorf("%q is not X,Y,Z", s)
+	}
+	var p mgl64.Vec3
+	for k := range f {
+		v, err := strconv.ParseFloat(strings.TrimSpace(f[k]), 64)
+		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, fmt.Errorf("%q is not X,Y,Z", s)
+		}
+		p[k] = v
+	}
+	return &p, nil
 }
 
 func (cf *canalFlags) check(stderr io.Writer, cmd string) int {
@@ -70,13 +99,26 @@ func (cf *canalFlags) check(stderr io.Writer, cmd string) int {
 	if *cf.workingLength < 0 {
 		return usageError(stderr, cmd, "--working-length must not be negative")
 	}
+	if *cf.shell < 0 {
+		return usageError(stderr, cmd, "--shell counts from 1")
+	}
+	if _, err := point(*cf.orifice); err != nil {
+		return usageError(stderr, cmd, "--orifice: %v", err)
+	}
+	if _, err := point(*cf.apex); err != nil {
+		return usageError(stderr, cmd, "--apical-end: %v", err)
+	}
 	return exitOK
 }
 
 func (cf *canalFlags) load(ctx context.Context) (*analysis.Canal, error) {
+	orifice, _ := point(*cf.orifice)
+	apex, _ := point(*cf.apex)
 	return analysis.LoadCanal(ctx, *cf.path, analysis.LoadOptions{
 		Scale: *cf.scale,
-		Canal: analysis.CanalOptions{WorkingLength: *cf.workingLength},
+		Shell: *cf.shell,
+		Canal: analysis.CanalOptions{WorkingLength: *cf.workingLength,
+			Extract: analysis.ExtractOptions{Orifice: orifice, Apex: apex}},
 	})
 }
 

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/binary"
 	"encoding/json"
+	"fmt"
 	"github.com/go-gl/mathgl/mgl64"
 	"math"
 	"os"
@@ -298,5 +299,63 @@ func TestOddMeshes(t *testing.T) {
 		default:
 			t.Errorf("%s: exit %d without naming the problem (%q): %s %s", tc.name, code, tc.word, out[:min(len(out), 400)], errOut)
 		}
+	}
+}
+
+// TestChoosingEndsAndShells: the user may name the ends (the line then runs from the named
+// orifice) and keep one surface of a file with several.
+func TestChoosingEndsAndShells(t *testing.T) {
+	var first struct {
+		Orifice   [3]float64 `json:"orifice"`
+		ApicalEnd [3]float64 `json:"apical_end"`
+		LengthMM  float64    `json:"length_mm"`
+	}
+	code, out, errOut := runCLI(t, "centerline", "--canal", "../../testdata/curve_45deg_r5.stl")
+	if code != exitOK {
+		t.Fatal(errOut)
+	}
+	json.Unmarshal([]byte(out), &first)
+	pt := func(p [3]float64) string { return fmt.Sprintf("%g,%g,%g", p[0], p[1], p[2]) }
+	code, out, errOut = runCLI(t, "centerline", "--canal", "../../testdata/curve_45deg_r5.stl",
+		"--orifice", pt(first.ApicalEnd), "--apical-end", pt(first.Orifice))
+	if code != exitOK {
+		t.Fatal(errOut)
+	}
+	var swapped struct {
+		Orifice  [3]float64 `json:"orifice"`
+		LengthMM float64    `json:"length_mm"`
+	}
+	json.Unmarshal([]byte(out), &swapped)
+	d := mgl64.Vec3(swapped.Orifice).Sub(mgl64.Vec3(first.ApicalEnd)).Len()
+	if d > 0.3 || math.Abs(swapped.LengthMM-first.LengthMM) > 0.01*first.LengthMM {
+		t.Errorf("named ends: line starts %.3f mm from the named orifice, length %.3f against %.3f", d, swapped.LengthMM, first.LengthMM)
+	}
+	if code, _, _ := runCLI(t, "centerline", "--canal", "x.stl", "--orifice", "1,2"); code != exitUsage {
+		t.Errorf("a malformed point: exit %d, want 2", code)
+	}
+
+	// Two copies of a canal side by side: keep the first with --shell 1.
+	spec, err := models.ParseCanalSpec("t.json", []byte(`{"segments":[{"kind":"straight","length":8},{"kind":"arc","radius":5,"angle":30}],"orifice_d":1,"apical_d":0.4}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	base := spec.Mesh(0.1, 32)
+	two := &mesh.Mesh{Vertices: append([]mgl64.Vec3(nil), base.Vertices...), Triangles: append([][3]int32(nil), base.Triangles...)}
+	off := int32(len(base.Vertices))
+	for _, v := range base.Vertices {
+		two.Vertices = append(two.Vertices, v.Add(mgl64.Vec3{5, 0, 0}))
+	}
+	for _, tri := range base.Triangles {
+		two.Triangles = append(two.Triangles, [3]int32{tri[0] + off, tri[1] + off, tri[2] + off})
+	}
+	var b bytes.Buffer
+	mesh.WriteSTL(&b, two, "two")
+	path := writeFile(t, "two.stl", b.Bytes())
+	code, out, errOut = runCLI(t, "centerline", "--canal", path, "--shell", "1")
+	if code != exitOK || strings.Contains(out, "separate surfaces") || !strings.Contains(out, "surface 1 of 2 kept") {
+		t.Errorf("--shell 1: exit %d, %s %s", code, out[:min(len(out), 300)], errOut)
+	}
+	if code, _, errOut := runCLI(t, "centerline", "--canal", path, "--shell", "3"); code != exitBadInput || !strings.Contains(errOut, "holds 2") {
+		t.Errorf("--shell 3: exit %d, %s", code, errOut)
 	}
 }
