@@ -35,6 +35,12 @@ func FileMesh(c *analysis.Canal, in models.Instrument, tip float64) *mesh.Mesh {
 // (mm, per station from the orifice, as analysis.StepResult.Offset1/Offset2 hold them) and
 // interpolated between stations; nil offsets draw the file centred.
 func FileMeshOnPath(c *analysis.Canal, in models.Instrument, tip float64, o1, o2 []float64) *mesh.Mesh {
+	return fileTube(c, in, tip, o1, o2, true)
+}
+
+// fileTube sweeps the file; without grooves it is a smooth taper, which reads better when the
+// file is drawn as a see-through ghost.
+func fileTube(c *analysis.Canal, in models.Instrument, tip float64, o1, o2 []float64, grooves bool) *mesh.Mesh {
 	length := math.Min(in.CuttingLength+fileAbove, tip+fileAbove)
 	n := max(2, int(math.Ceil(length/fileStepMM))+1)
 	centers := make([]mgl64.Vec3, n)
@@ -60,7 +66,7 @@ func FileMeshOnPath(c *analysis.Canal, in models.Instrument, tip float64, o1, o2
 	radius := func(k int, th float64) float64 {
 		u := us[k]
 		r := in.Diameter(u) / 2
-		if u > 0 && u < in.CuttingLength {
+		if grooves && u > 0 && u < in.CuttingLength {
 			groove := 0.5 + 0.5*math.Cos(fluteBladeNo*th-2*math.Pi*u/flutePitch)
 			r *= 1 - fluteDepth*groove*groove
 		}

@@ -36,7 +36,7 @@ type Options struct {
 const DefaultWallOpacity = 0.35
 
 // fileGhostOpacity draws the file around the cut wall as the step meets the canal.
-const fileGhostOpacity = 0.3
+const fileGhostOpacity = 0.25
 
 // fileOnPathOpacity lets the centerline show through a file that runs off it.
 const fileOnPathOpacity = 0.7
@@ -112,15 +112,16 @@ func Build(c *analysis.Canal, res *analysis.Result, opt Options) (*Built, error)
 	ownPath := st != nil && len(st.Offset1) > 0 && len(st.Offset1) == len(st.Offset2)
 	if st != nil && !opt.HideFile {
 		in := st.Step.Instrument
+		ghost := opt.Before && contact != nil && len(contact.Triangles) > 0
+		var o1, o2 []float64
 		if ownPath {
-			b.File = FileMeshOnPath(c, in, st.TipDepth, st.Offset1, st.Offset2)
+			o1, o2 = st.Offset1, st.Offset2
 			b.OwnPath = true
-		} else {
-			b.File = FileMesh(c, in, st.TipDepth)
 		}
+		b.File = fileTube(c, in, st.TipDepth, o1, o2, !ghost)
 		cols := FileColors(b.File, FileColor(in.Size), in, st.TipDepth)
 		obj := render.Object{Mesh: b.File, Colors: cols, Outline: true}
-		if opt.Before && contact != nil && len(contact.Triangles) > 0 {
+		if ghost {
 			obj.Opacity = fileGhostOpacity
 		} else if ownPath {
 			obj.Opacity = fileOnPathOpacity
