@@ -56,6 +56,16 @@ func TestPlanBeatsSingleFileAndSameTaperSeries(t *testing.T) {
 					}
 				}
 			}
+			// Tip sizes go up where files have reached (common practice: a smaller tip where a
+			// larger one went enlarges nothing at its tip).
+			res := pl.Result.Steps
+			for k := range res {
+				for j := 0; j < k; j++ {
+					if res[j].TipDepth >= res[k].TipDepth-1e-9 && steps[j].Instrument.Size > steps[k].Instrument.Size {
+						t.Errorf("step %d (%s) goes where the larger step %d (%s) went", k+1, stepText(steps[k]), j+1, stepText(steps[j]))
+					}
+				}
+			}
 			// Constraints: each file once, consecutive tapers differ, nothing above the target
 			// file alone (engaged length, torque) or above its fatigue use.
 			single := runSteps(t, c, `{"size":30,"taper":0.04,"depth":"WL"}`)

@@ -95,6 +95,18 @@ func (s *state) uses(inst int) bool {
 }
 
 // path lists the moves from the first file on.
+// smallerTipWhereLargerWent: a file whose tip is smaller than one already taken as deep or
+// deeper enlarges nothing at its tip; common practice goes up in tip size where files have
+// reached, and shapes coronally with larger tapers instead.
+func (s *state) smallerTipWhereLargerWent(mv *move) bool {
+	for p := s; p != nil && p.mv != nil; p = p.parent {
+		if p.mv.depth >= mv.depth-1e-9 && p.mv.step.Instrument.Size > mv.step.Instrument.Size {
+			return true
+		}
+	}
+	return false
+}
+
 func (s *state) path() []*move {
 	var out []*move
 	for p := s; p != nil && p.mv != nil; p = p.parent {
@@ -299,6 +311,9 @@ func (s *searcher) evaluate(c *candidate, p *state, mv *move, order int, bound f
 		return
 	}
 	if s.sameTaper && p.mv != nil && sameTaper(p.mv, mv) {
+		return
+	}
+	if p.smallerTipWhereLargerWent(mv) {
 		return
 	}
 	if s.strict && (s.lim.maxFatigue > 0 && mv.fatigue > s.lim.maxFatigue*(1+1e-9) ||
