@@ -173,3 +173,26 @@ func TestPlanLimitsAndCancel(t *testing.T) {
 		t.Errorf("cancel: cancelled %v, plan %v, sequence kept %v", pr.cancelled, pr.plan != nil, w.seq == mine)
 	}
 }
+
+// TestPlanWeightsCanBeChanged: the objective's weights are read from the form, stated in plain
+// words, and a form where nothing counts is refused at the form.
+func TestPlanWeightsCanBeChanged(t *testing.T) {
+	w := openDemo(t)
+	pr := openPlanForm(t, w)
+	before := pr.objective.Text
+	pr.weights[0].SetText("3")
+	if pr.objective.Text == before || !strings.Contains(pr.objective.Text, "3") {
+		t.Errorf("objective after weighting engaged length 3: %q (was %q)", pr.objective.Text, before)
+	}
+	opt, err := pr.options()
+	if err != nil || opt.Weights.Engaged != 3 || opt.Weights.Torque != 1 {
+		t.Errorf("options read %+v, %v", opt.Weights, err)
+	}
+	for _, e := range pr.weights {
+		e.SetText("0")
+	}
+	test.Tap(pr.proposeButton)
+	if !pr.formErr.Visible() || !strings.Contains(pr.formErr.Text, "weights") || pr.cancel != nil {
+		t.Errorf("weights of nothing started a search or showed %q", pr.formErr.Text)
+	}
+}

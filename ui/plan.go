@@ -29,6 +29,7 @@ type planRun struct {
 	form                            dialog.Dialog
 	size, steps                     *widget.Select
 	taper, maxEngaged, maxFatigue   *widget.Entry
+	weights                         [3]*widget.Entry // engaged length, torque, fatigue use
 	sameTaper                       *widget.Check
 	objective, formErr              *widget.Label
 	proposeButton, formCancelButton *widget.Button
@@ -79,6 +80,12 @@ func (w *mainWindow) proposeDialog() {
 	pr.maxFatigue = widget.NewEntry()
 	pr.maxFatigue.SetPlaceHolder("what the last file alone uses")
 	pr.sameTaper = widget.NewCheck("Allow two files of the same taper in a row", nil)
+	for k, v := range []float64{plan.DefaultWeights.Engaged, plan.DefaultWeights.Torque, plan.DefaultWeights.Fatigue} {
+		e := widget.NewEntry()
+		e.SetText(strconv.FormatFloat(v, 'f', -1, 64))
+		e.OnChanged = func(string) { pr.targetChanged() }
+		pr.weights[k] = e
+	}
 	pr.objective = widget.NewLabel("")
 	pr.objective.Wrapping = fyne.TextWrapWord
 	pr.formErr = widget.NewLabel("")
@@ -98,19 +105,20 @@ func (w *mainWindow) proposeDialog() {
 	pr.proposeButton.Importance = widget.HighImportance
 	pr.formCancelButton = widget.NewButton("Cancel", func() { pr.form.Hide() })
 	body := container.NewVBox(
-		widget.NewLabel("The last file reaches working length; the rest are chosen from the generic catalogue."),
+		widget.NewLabel("The last file reaches working length; the rest come from the generic catalogue, up to its size."),
 		row("Last file: ISO size", pr.size),
 		row("Last file: taper (mm/mm)", pr.taper),
 		row("At most this many files", pr.steps),
 		row("Longest engaged length per file (mm)", pr.maxEngaged),
 		row("Highest fatigue use per file (1 = fracture)", pr.maxFatigue),
 		pr.sameTaper,
+		row("How much counts: engaged length, torque, fatigue use", container.NewGridWithColumns(3, pr.weights[0], pr.weights[1], pr.weights[2])),
 		pr.objective,
 		pr.formErr,
 		container.NewHBox(layout.NewSpacer(), pr.formCancelButton, pr.proposeButton),
 	)
 	pr.form = dialog.NewCustomWithoutButtons("Propose a sequence for this canal", body, w.win)
-	pr.form.Resize(fyne.NewSize(700, 480))
+	pr.form.Resize(fyne.NewSize(720, 540))
 	pr.targetChanged()
 	pr.form.Show()
 }
@@ -125,7 +133,31 @@ func (pr *planRun) targetChanged() {
 	if err == nil {
 		label = t.Label()
 	}
-	pr.objective.SetText("The plan sought has " + plan.DefaultWeights.ObjectiveText(label) + ".")
+	wts, err := pr.readWeights()
+	if err != nil {
+		pr.objective.SetText(err.Error())
+		return
+	}
+	pr.objective.SetText("The plan sought has " + wts.ObjectiveText(label) + ".")
+}
+
+// readWeights reads the three weights of the objective; blank counts as 0.
+func (pr *planRun) readWeights() (plan.Weights, error) {
+	var v [3]float64
+	for k, e := range pr.weights {
+		if e == nil || strings.TrimSpace(e.Text) == "" {
+			continue
+		}
+		x, err := parseNumber(e.Text)
+		if err != nil || x < 0 {
+			return plan.Weights{}, fmt.Errorf("weights: %q is not a number of 0 or more", e.Text)
+		}
+		v[k] = x
+	}
+	if v == [3]float64{} {
+		return plan.Weights{}, errors.New("weights: at least one measure must count")
+	}
+	return plan.Weights{Engaged: v[0], Torque: v[1], Fatigue: v[2]}, nil
 }
 
 func (pr *planRun) readTarget() (plan.Target, error) {
@@ -170,6 +202,9 @@ func (pr *planRun) options() (plan.Options, error) {
 		return opt, err
 	}
 	if opt.MaxFatigue, err = limit(pr.maxFatigue, "fatigue use"); err != nil {
+		return opt, err
+	}
+	if opt.Weights, err = pr.readWeights(); err != nil {
 		return opt, err
 	}
 	return opt, nil
