@@ -2,7 +2,6 @@ package main
 
 import (
 	"context"
-	"encoding/csv"
 	"encoding/json"
 	"flag"
 	"fmt"
@@ -12,6 +11,7 @@ import (
 
 	"tapersweep/analysis"
 	"tapersweep/models"
+	"tapersweep/ui/report"
 )
 
 func analyzeCommand() command {
@@ -45,7 +45,10 @@ func analyzeCommand() command {
 				}
 				switch *format {
 				case "csv":
-					return writeStepsCSV(stdout, res)
+					if err := report.WriteCSV(stdout, res); err != nil {
+						return inputError(stderr, "analyze", err)
+					}
+					return exitOK
 				case "table":
 					writeStepsTable(stdout, res)
 					return exitOK
@@ -76,19 +79,6 @@ func analyzeFiles(ctx context.Context, cf *canalFlags, seqPath string, opts ...a
 		return nil, err
 	}
 	return analysis.Run(ctx, c, seq, opt)
-}
-
-func writeStepsCSV(w io.Writer, res *analysis.Result) int {
-	cw := csv.NewWriter(w)
-	cw.Write(analysis.StepColumns)
-	for _, s := range res.Steps {
-		cw.Write(s.Metrics.Row())
-	}
-	cw.Flush()
-	if cw.Error() != nil {
-		return exitBadInput
-	}
-	return exitOK
 }
 
 // writeStepsTable prints the steps for a person at a terminal.
