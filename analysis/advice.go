@@ -84,7 +84,7 @@ func addAdvice(res *Result) {
 			add(AdviceFatigue, "The insertion uses %.0f %% of the fatigue life %.1f mm from the tip.", 100*m.FatigueDamage, m.PeakDamageFromTipMM)
 		}
 		if !transportNoted {
-			if tr := transportBetween(c, c.Rho, sr.Prepared).TransportationMM["1"]; tr > apicalTransportLimit {
+			if tr, _, _ := transportAt(c, c.Rho, sr.Prepared, c.Line.Length()-1); tr > apicalTransportLimit {
 				add(AdviceTransportation, "The canal 1 mm from the apical end has moved %.2f mm from where it was scanned; above about 0.3 mm the apical seal was found to suffer.", tr)
 				transportNoted = true
 			}

@@ -52,7 +52,7 @@ func (c *Centerline) At(s float64) (p, t, n1, n2 mgl64.Vec3) {
 	return
 }
 
-// CurvatureWindow is the half-width, in mm, of the local fit that gives tangents and curvature.
+// curvatureWindow is the half-width, in mm, of the local fit that gives tangents and curvature.
 // It is wide enough to calm voxel noise of a scan and narrow enough to keep the peak of a
 // 20 degree curve on a 3 mm radius (about 1 mm of arc).
 func curvatureWindow(noiseScale float64) float64 {

@@ -114,12 +114,14 @@ func extractCenterline(ctx context.Context, m *mesh.Mesh, bvh *mesh.BVH, opt Ext
 	if opt.Apex != nil {
 		b = vg.nearest(*opt.Apex, fromSeed)
 	}
-	if opt.Orifice == nil && opt.Apex == nil && vg.endWidth(b, fromA) > vg.endWidth(a, fromA) {
+	if opt.Orifice == nil && opt.Apex == nil && vg.endWidth(b) > vg.endWidth(a) {
 		a, b = b, a // the wider end is the orifice
 	} else if opt.Orifice == nil && opt.Apex != nil {
-		a, _ = farthest(first(vg.dijkstra([]int32{b}, nil)))
+		fromB, _ := vg.dijkstra([]int32{b}, nil)
+		a, _ = farthest(fromB)
 	} else if opt.Apex == nil && opt.Orifice != nil {
-		b, _ = farthest(first(vg.dijkstra([]int32{a}, nil)))
+		fromOrifice, _ := vg.dijkstra([]int32{a}, nil)
+		b, _ = farthest(fromOrifice)
 	}
 	if err := ctx.Err(); err != nil {
 		return nil, info, err
@@ -176,8 +178,6 @@ func extractCenterline(ctx context.Context, m *mesh.Mesh, bvh *mesh.BVH, opt Ext
 	return pts, info, nil
 }
 
-func first(d []float64, _ []int32) []float64 { return d }
-
 // nearest returns the reached node closest to p.
 func (vg *voxelGraph) nearest(p mgl64.Vec3, reach []float64) int32 {
 	best, bd := int32(0), math.Inf(1)
@@ -193,7 +193,7 @@ func (vg *voxelGraph) nearest(p mgl64.Vec3, reach []float64) int32 {
 }
 
 // endWidth is the widest distance-to-wall within 1 mm (geodesic) of an end node.
-func (vg *voxelGraph) endWidth(end int32, _ []float64) float64 {
+func (vg *voxelGraph) endWidth(end int32) float64 {
 	d, _ := vg.dijkstra([]int32{end}, nil, 1.0)
 	w := 0.0
 	for n, dn := range d {

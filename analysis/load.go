@@ -5,7 +5,6 @@ import (
 	"context"
 	"fmt"
 	"os"
-	"strings"
 
 	"tapersweep/mesh"
 	"tapersweep/models"
@@ -54,42 +53,21 @@ func LoadCanalBytes(ctx context.Context, name string, data []byte, opt LoadOptio
 	if err != nil {
 		return nil, err
 	}
+	// NewCanal checks the surface it is given (after a shell is picked), so only what reading
+	// found is carried over from the load.
+	notes := rep.Notes
 	if opt.Shell > 0 {
 		shells := mesh.Shells(m)
 		if opt.Shell > len(shells) {
 			return nil, fmt.Errorf("%s: surface %d asked for, but the file holds %d", name, opt.Shell, len(shells))
 		}
 		m = m.Subset(shells[opt.Shell-1])
-		rep.Warnings = append(dropShellWarning(rep.Warnings), fmt.Sprintf("surface %d of %d kept", opt.Shell, len(shells)))
+		notes = append(notes, fmt.Sprintf("surface %d of %d kept", opt.Shell, len(shells)))
 	}
 	c, err := NewCanal(ctx, name, m, opt.Canal)
 	if err != nil {
 		return nil, err
 	}
-	c.Warnings = mergeWarnings(rep.Warnings, c.Warnings)
+	c.Warnings = append(c.Warnings, notes...)
 	return c, nil
-}
-
-// mergeWarnings joins two lists and drops repeats, keeping first-seen order.
-func mergeWarnings(a, b []string) []string {
-	seen := map[string]bool{}
-	var out []string
-	for _, w := range append(append([]string{}, a...), b...) {
-		if !seen[w] {
-			seen[w] = true
-			out = append(out, w)
-		}
-	}
-	return out
-}
-
-// dropShellWarning removes the "separate surfaces" warning once one surface has been picked.
-func dropShellWarning(ws []string) []string {
-	var out []string
-	for _, w := range ws {
-		if !strings.Contains(w, "separate surfaces") {
-			out = append(out, w)
-		}
-	}
-	return out
 }

@@ -28,7 +28,8 @@ const (
 	DefaultCuttingCoefficient = 2.0
 )
 
-func (o RunOptions) withDefaults() RunOptions {
+// WithDefaults fills every setting left at zero with its default, as Run does.
+func (o RunOptions) WithDefaults() RunOptions {
 	if o.ContactThreshold <= 0 {
 		o.ContactThreshold = DefaultContactThreshold
 	}
@@ -77,7 +78,7 @@ type StepResult struct {
 // Run sweeps each file of the sequence through the canal in turn. Step N's depth of cut is
 // measured against the canal as steps 1..N-1 left it.
 func Run(ctx context.Context, c *Canal, seq *models.Sequence, opt RunOptions) (*Result, error) {
-	opt = opt.withDefaults()
+	opt = opt.WithDefaults()
 	if opt.PathModel == "" {
 		opt.PathModel = seq.PathModel
 	}

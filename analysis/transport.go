@@ -48,15 +48,6 @@ type TransportPlace struct {
 func transportBetween(c *Canal, from, to []float32) Transport {
 	tr := Transport{TransportationMM: map[string]float64{}, CenteringRatio: map[string]*float64{}}
 	L := c.Line.Length()
-	at := func(s float64) (mag, toward float64, ratio *float64) {
-		removed := func(th float64) float64 { return c.MapAt(to, s, th) - c.MapAt(from, s, th) }
-		// m1 - m2 is the wall taken off one side (the root's outer edge does not move), so
-		// with m1 = 0, m2 = -removed; a positive result moves the canal toward theta = 0
-		// (in the plane) or theta = 90 degrees (across).
-		inPlane, r := Gambill(0, -removed(0), 0, -removed(math.Pi))
-		across, _ := Gambill(0, -removed(math.Pi/2), 0, -removed(3*math.Pi/2))
-		return math.Hypot(inPlane, across), math.Mod(mgl360(math.Atan2(across, inPlane)), 360), r
-	}
 	for _, x := range TransportLevels {
 		key := strconv.FormatFloat(x, 'f', -1, 64)
 		if x >= L {
@@ -64,7 +55,7 @@ func transportBetween(c *Canal, from, to []float32) Transport {
 			tr.CenteringRatio[key] = nil
 			continue
 		}
-		mag, _, r := at(L - x)
+		mag, _, r := transportAt(c, from, to, L-x)
 		tr.TransportationMM[key] = round(mag, 4)
 		if r != nil {
 			v := round(*r, 3)
@@ -74,12 +65,25 @@ func transportBetween(c *Canal, from, to []float32) Transport {
 	}
 	for i := range c.Line.S {
 		s := c.Line.S[i]
-		if mag, toward, _ := at(s); mag > tr.Largest.MM {
+		if mag, toward, _ := transportAt(c, from, to, s); mag > tr.Largest.MM {
 			tr.Largest = TransportPlace{MM: round(mag, 4), FromApexMM: round(L-s, 3), TowardDeg: round(toward, 1)}
 		}
 	}
 	tr.ForamenShiftMM = round(centreShift(c, from, to, math.Max(0, L-0.1)), 4)
 	return tr
+}
+
+// transportAt is the transportation at arc length s between two states of the canal: its size,
+// the side it moves toward (degrees, 0 = inner side of the main curve) and the centring ratio
+// in the plane of the curve (nil when neither side lost wall).
+func transportAt(c *Canal, from, to []float32, s float64) (mag, toward float64, ratio *float64) {
+	removed := func(th float64) float64 { return c.MapAt(to, s, th) - c.MapAt(from, s, th) }
+	// m1 - m2 is the wall taken off one side (the root's outer edge does not move), so
+	// with m1 = 0, m2 = -removed; a positive result moves the canal toward theta = 0
+	// (in the plane) or theta = 90 degrees (across).
+	inPlane, r := Gambill(0, -removed(0), 0, -removed(math.Pi))
+	across, _ := Gambill(0, -removed(math.Pi/2), 0, -removed(3*math.Pi/2))
+	return math.Hypot(inPlane, across), math.Mod(mgl360(math.Atan2(across, inPlane)), 360), r
 }
 
 func mgl360(rad float64) float64 {

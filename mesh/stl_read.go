@@ -30,8 +30,12 @@ type LoadReport struct {
 	TrianglesRead     int
 	DegenerateRemoved int
 	Vertices          int
-	// Warnings are plain-language problems, each with a way to fix it.
+	// Warnings are plain-language problems, each with a way to fix it: the surface's own
+	// (Validate's) followed by Notes.
 	Warnings []string
+	// Notes are what reading found beyond the surface's shape: triangles removed, units that
+	// look wrong, a very large mesh. A caller that validates the mesh itself uses only these.
+	Notes []string
 }
 
 const (
@@ -124,7 +128,8 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	if err := ctx.Err(); err != nil {
 		return nil, rep, fmt.Errorf("%s: loading stopped: %w", name, err)
 	}
-	rep.Warnings = loadWarnings(m, rep)
+	rep.Notes = loadNotes(m, rep)
+	rep.Warnings = append(validate(m, false).Warnings(), rep.Notes...) // degenerate triangles are gone already
 	return m, rep, nil
 }
 
@@ -144,8 +149,9 @@ func weldAndClean(corners []mgl64.Vec3) (*Mesh, int) {
 	return m, removed
 }
 
-func loadWarnings(m *Mesh, rep LoadReport) []string {
-	w := validate(m, false).Warnings() // degenerate triangles are gone already
+// loadNotes states what reading found beyond the surface's shape, each with a way to fix it.
+func loadNotes(m *Mesh, rep LoadReport) []string {
+	var w []string
 	if rep.DegenerateRemoved > 0 {
 		w = append(w, fmt.Sprintf("%d triangles with zero area or a repeated corner were removed; "+
 			"nothing to fix unless the surface now shows holes", rep.DegenerateRemoved))

@@ -312,12 +312,12 @@ func TestLoadFileAndWriteFile(t *testing.T) {
 
 func TestLoadWarnsAboutLargeAndTinyModels(t *testing.T) {
 	m := shapeCylinder(0.5, 10, 16, 2)
-	w := loadWarnings(m, LoadReport{TrianglesRead: largeMeshTriangles + 1})
+	w := loadNotes(m, LoadReport{TrianglesRead: largeMeshTriangles + 1})
 	if !hasWarning(LoadReport{Warnings: w}, "2000001 triangles", "coarser") {
 		t.Errorf("no size warning: %q", w)
 	}
 	// A canal modelled in metres: 0.01 units long.
-	w = loadWarnings(shapeScale(m, 0.001), LoadReport{TrianglesRead: len(m.Triangles)})
+	w = loadNotes(shapeScale(m, 0.001), LoadReport{TrianglesRead: len(m.Triangles)})
 	if !hasWarning(LoadReport{Warnings: w}, "--scale 1000") {
 		t.Errorf("no metre warning: %q", w)
 	}

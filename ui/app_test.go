@@ -90,7 +90,7 @@ func TestDemoFillsOneRowPerStep(t *testing.T) {
 		if row[1] != st.Step.Instrument.Label() {
 			t.Errorf("row %d shows file %q, want %q", i+1, row[1], st.Step.Instrument.Label())
 		}
-		if got, wantArea := row[4], strings.TrimSpace(stepColumns[5].text(st)); got != wantArea {
+		if got, wantArea := row[5], strings.TrimSpace(stepColumns[6].text(st)); got != wantArea {
 			t.Errorf("row %d shows engaged area %q, the same run outside the window gives %q", i+1, got, wantArea)
 		}
 	}

@@ -17,7 +17,7 @@ func transportCells(w *mainWindow) []string {
 	var out []string
 	for i := range w.res.Steps {
 		row := w.table.rowText(i)
-		out = append(out, row[len(row)-3]+" "+row[len(row)-2]) // before the advice column
+		out = append(out, row[len(row)-2]+" "+row[len(row)-1]) // the last two columns
 	}
 	return out
 }

@@ -22,13 +22,20 @@ type stepColumn struct {
 	text  func(st *analysis.StepResult) string
 }
 
-// adviceColumn is the last column: a tap on it opens the step's advice.
-var adviceColumn = len(stepColumns) - 1
+// adviceColumn is the column of the advice marker: a tap on it opens the step's advice.
+const adviceColumn = 3
 
 var stepColumns = []stepColumn{
 	{"", 18, nil}, // ISO colour swatch
 	{"#", 28, func(st *analysis.StepResult) string { return fmt.Sprint(st.Number) }},
 	{"file", 64, func(st *analysis.StepResult) string { return st.Metrics.Label }},
+	// Advice sits beside the file's name, where it is seen without scrolling the table.
+	{"advice", 52, func(st *analysis.StepResult) string {
+		if n := len(st.Metrics.Advice); n > 0 {
+			return fmt.Sprintf("⚠ %d", n)
+		}
+		return ""
+	}},
 	{"tip\nmm", 50, func(st *analysis.StepResult) string { return fmt.Sprintf("%.2f", st.Metrics.TipDepthMM) }},
 	{"engaged\nmm", 66, func(st *analysis.StepResult) string { return fmt.Sprintf("%.2f", st.Metrics.EngagedLengthMM) }},
 	{"area\nmm²", 50, func(st *analysis.StepResult) string { return fmt.Sprintf("%.2f", st.Metrics.EngagedAreaMM2) }},
@@ -41,12 +48,6 @@ var stepColumns = []stepColumn{
 		return fmt.Sprintf("%.3f", st.Metrics.TransportationMM["1"])
 	}},
 	{"centring\nat 1 mm", 62, func(st *analysis.StepResult) string { return optional(st.Metrics.CenteringRatio["1"], "%.2f") }},
-	{"advice", 52, func(st *analysis.StepResult) string {
-		if n := len(st.Metrics.Advice); n > 0 {
-			return fmt.Sprintf("⚠ %d", n)
-		}
-		return ""
-	}},
 }
 
 func optional(v *float64, format string) string {

@@ -129,12 +129,7 @@ func (o Options) withDefaults() (Options, error) {
 // runDefaults fills the model's settings the way analysis.Run does, so the search's own sums use
 // the same threshold and coefficient.
 func runDefaults(o analysis.RunOptions) analysis.RunOptions {
-	if o.ContactThreshold <= 0 {
-		o.ContactThreshold = analysis.DefaultContactThreshold
-	}
-	if o.CuttingCoefficient <= 0 {
-		o.CuttingCoefficient = analysis.DefaultCuttingCoefficient
-	}
+	o = o.WithDefaults()
 	o.PathModel = models.PathCentred // the search's own sums follow the centred file
 	return o
 }

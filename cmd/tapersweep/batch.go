@@ -285,25 +285,13 @@ func canalRows(file string, res *analysis.Result) [][]string {
 	}
 	canal := []string{file, sum.Name, f(sum.LengthMM), f(sum.WorkingLengthMM), p(sum.MaxCurvature.RadiusMM),
 		f(sum.MaxCurvature.FromApexMM), f(sum.SchneiderDeg), f(sum.Arc.AngleDeg)}
-	warnings := oneLine(strings.Join(mergeNotes(sum.Warnings, res.Warnings), " | "))
+	warnings := oneLine(strings.Join(append(sum.Warnings, res.Warnings...), " | "))
 	var rows [][]string
 	for _, st := range res.Steps {
 		row := append(append([]string{}, canal...), st.Metrics.Row()...)
 		rows = append(rows, append(row, warnings, ""))
 	}
 	return rows
-}
-
-func mergeNotes(a, b []string) []string {
-	seen := map[string]bool{}
-	var out []string
-	for _, s := range append(append([]string{}, a...), b...) {
-		if !seen[s] {
-			seen[s] = true
-			out = append(out, s)
-		}
-	}
-	return out
 }
 
 // oneLine keeps a message on one CSV line.

@@ -81,8 +81,9 @@ func Build(c *analysis.Canal, res *analysis.Result, opt Options) (*Built, error)
 	if opt.Step > 0 {
 		st = res.Steps[opt.Step-1]
 	}
-	b.Wall, b.Title = wallMesh(c, st, !opt.Before), "canal"
-	colors := wallColors(c, st, b.Scale, b.LegendMax, res)
+	cut := vertexCut(c, st)
+	b.Wall, b.Title = wallMesh(c, st, cut, !opt.Before), "canal"
+	colors := wallColors(c, cut, b.Scale, b.LegendMax, res)
 	if st != nil {
 		when := "after the step"
 		if opt.Before {
@@ -99,7 +100,7 @@ func Build(c *analysis.Canal, res *analysis.Result, opt Options) (*Built, error)
 	// depth of cut; elsewhere see-through, so the file shows inside. As the step meets the
 	// canal, the cut wall lies inside the file, so the file is drawn as a ghost around it;
 	// after the step, the cut wall is drawn just outside the file.
-	contact, free := splitWall(b.Wall, c, st, res)
+	contact, free := splitWall(b.Wall, cut, res)
 	if len(free.Triangles) > 0 {
 		s.Objects = append(s.Objects, render.Object{Mesh: free, Colors: colors, Opacity: opacity, Outline: true, Clip: true})
 	}
@@ -181,9 +182,22 @@ func FileColor(size int) color.RGBA {
 	return c
 }
 
+// vertexCut is the step's depth of cut at each wall vertex's own (s, theta); nil without a step.
+// Colours, the split into cut and free wall and the lifted wall all read it.
+func vertexCut(c *analysis.Canal, st *analysis.StepResult) []float64 {
+	if st == nil {
+		return nil
+	}
+	cut := make([]float64, len(c.Mesh.Vertices))
+	for v := range cut {
+		cut[v] = c.MapAt(st.Cut, float64(c.VertexS[v]), float64(c.VertexTheta[v]))
+	}
+	return cut
+}
+
 // wallMesh is the canal's own mesh, or with each vertex moved out to the prepared wall (and
 // where this step cut, just outside its file).
-func wallMesh(c *analysis.Canal, st *analysis.StepResult, after bool) *mesh.Mesh {
+func wallMesh(c *analysis.Canal, st *analysis.StepResult, cut []float64, after bool) *mesh.Mesh {
 	if st == nil || !after {
 		return c.Mesh
 	}
@@ -193,7 +207,7 @@ func wallMesh(c *analysis.Canal, st *analysis.StepResult, after bool) *mesh.Mesh
 		q, _, n1, n2 := c.Line.At(s)
 		d := p.Sub(q)
 		prep := c.MapAt(st.Prepared, s, th)
-		if c.MapAt(st.Cut, s, th) > 0 {
+		if cut[v] > 0 {
 			prep = prep*(1+contactLift) + 0.003
 		}
 		if r := d.Len(); prep > r {
@@ -207,15 +221,11 @@ func wallMesh(c *analysis.Canal, st *analysis.StepResult, after bool) *mesh.Mesh
 
 // splitWall separates the triangles the step cuts (mean cut of their corners above the
 // contact threshold) from the rest. Without a step everything is free wall.
-func splitWall(wall *mesh.Mesh, c *analysis.Canal, st *analysis.StepResult, res *analysis.Result) (contact, free *mesh.Mesh) {
-	if st == nil {
+func splitWall(wall *mesh.Mesh, cut []float64, res *analysis.Result) (contact, free *mesh.Mesh) {
+	if cut == nil {
 		return nil, wall
 	}
 	thr := res.Options.ContactThreshold
-	cut := make([]float64, len(wall.Vertices))
-	for v := range cut {
-		cut[v] = c.MapAt(st.Cut, float64(c.VertexS[v]), float64(c.VertexTheta[v]))
-	}
 	var in, out []int32
 	for t, tri := range wall.Triangles {
 		if (cut[tri[0]]+cut[tri[1]]+cut[tri[2]])/3 > thr {
@@ -239,17 +249,16 @@ func subsetKeepIndex(m *mesh.Mesh, tris []int32) *mesh.Mesh {
 
 // wallColors gives each wall vertex the depth of cut at its own (s, theta): the scale where
 // the cut passes the contact threshold, neutral elsewhere.
-func wallColors(c *analysis.Canal, st *analysis.StepResult, scale *render.Scale, max float64, res *analysis.Result) []color.RGBA {
+func wallColors(c *analysis.Canal, cut []float64, scale *render.Scale, max float64, res *analysis.Result) []color.RGBA {
 	cols := make([]color.RGBA, len(c.Mesh.Vertices))
-	if st == nil {
+	if cut == nil {
 		for i := range cols {
 			cols[i] = scale.Neutral
 		}
 		return cols
 	}
 	thr := res.Options.ContactThreshold
-	for v := range cols {
-		e := c.MapAt(st.Cut, float64(c.VertexS[v]), float64(c.VertexTheta[v]))
+	for v, e := range cut {
 		if e <= thr {
 			cols[v] = scale.Neutral
 			continue
