@@ -167,7 +167,7 @@ var stepColumns = func() []Column {
 			func(m *StepMetrics) **float64 { return &m.FractureFromTipMM }),
 		optional("torsion_margin", "torsional margin (capacity / load)", "torsion\nmargin", "", 3, 1,
 			func(m *StepMetrics) **float64 { return &m.TorsionMargin }),
-		scalar("peak_torque_index", "peak torque, N·cm (illustrative)", "torque\nN·cm", "N·cm", 4, 3,
+		scalar("peak_torque_index", "peak torque, N·cm (illustrative)", "peak torque\nN·cm", "N·cm", 4, 3,
 			func(m *StepMetrics) *float64 { return &m.PeakTorqueIndex }),
 	}
 	cols = append(cols, transportColumns()...)
@@ -275,4 +275,14 @@ func roundMetrics(m *StepMetrics) {
 			}
 		}
 	}
+}
+
+// Largest is the column's largest value over a run's steps; ok is false when no step has one.
+func (c Column) Largest(r *Result) (v float64, ok bool) {
+	for _, s := range r.Steps {
+		if x, has := c.Value(s.Metrics); has && (!ok || x > v) {
+			v, ok = x, true
+		}
+	}
+	return v, ok
 }

@@ -64,3 +64,21 @@ func WriteCSV(w io.Writer, res *analysis.Result) error {
 	cw.Flush()
 	return cw.Error()
 }
+
+// TextRows states a run's steps under the columns as a terminal prints them: one-line headings,
+// Shown decimals, "-" for a value that does not exist.
+func TextRows(cols []analysis.Column, res *analysis.Result) (head []string, rows [][]string) {
+	for _, c := range cols {
+		head = append(head, c.HeadingLine())
+	}
+	for _, s := range res.Steps {
+		row := make([]string, len(cols))
+		for i, c := range cols {
+			if row[i] = c.Format(s.Metrics); row[i] == "" && c.IsNumber() {
+				row[i] = "-"
+			}
+		}
+		rows = append(rows, row)
+	}
+	return head, rows
+}
