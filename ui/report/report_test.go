@@ -108,6 +108,13 @@ func TestDemoReportHasSummaryAndOnePagePerStep(t *testing.T) {
 			}
 		}
 	}
+	// A reader sees words, not the JSON's field names (the step pages once listed
+	// transportation_1_mm ... above the section that states them in words).
+	for _, c := range append(analysis.StepColumns(), analysis.StepDetails()...) {
+		if strings.Contains(c.Key, "_") && strings.Contains(text, c.Key) {
+			t.Errorf("the report shows the field name %s", c.Key)
+		}
+	}
 	if !strings.Contains(squash(pages[0]), squash(analysis.Caution)) {
 		t.Error("the summary page lacks the caution wording")
 	}

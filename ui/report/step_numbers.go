@@ -23,15 +23,14 @@ func numbersAndAdvice(pdf *fpdf.Fpdf, st *analysis.StepResult, x float64) {
 		case "step", "label", "alloy", "advice", "tip_depth_mm", "tip_from_apex_mm":
 			continue
 		}
+		if isTransportColumn(c) {
+			continue // stated below, under "How this step moved the canal"
+		}
 		v := c.Cell(m)
 		if v == "" {
 			v = "–"
 		}
-		label := c.Label
-		if isTransportColumn(c) {
-			label = c.Key
-		}
-		pairs = append(pairs, [2]string{label, v})
+		pairs = append(pairs, [2]string{c.Label, v})
 	}
 	opt := func(v *float64, f string) string {
 		if v == nil {
