@@ -32,7 +32,7 @@ func LoadCanal(ctx context.Context, path string, opt LoadOptions) (*Canal, error
 
 // LoadCanalBytes is LoadCanal for content already in memory (a dropped file, a URI reader).
 func LoadCanalBytes(ctx context.Context, name string, data []byte, opt LoadOptions) (*Canal, error) {
-	if models.IsCanalSpec(data) {
+	if models.LooksLikeJSON(data) {
 		spec, err := models.ParseCanalSpec(name, data)
 		if err != nil {
 			return nil, err

@@ -1,151 +1,246 @@
 package models
 
 import (
-	"bytes"
 	"encoding/json"
-	"errors"
 	"fmt"
 	"math"
-	"os"
+	"reflect"
 	"slices"
-	"sort"
 	"strings"
 )
 
 // CanalSpec describes a parametric canal: a chain of straight and circular segments that
 // starts at the origin running down -z, with a diameter that narrows linearly from the
-// orifice to the apical end. See design.md, "Input files".
+// orifice to the apical end. Its file is canalSpecJSON (README, "Canal spec files").
 type CanalSpec struct {
-	Name     string         `json:"name"`
-	Segments []CanalSegment `json:"segments"`
-	OrificeD float64        `json:"orifice_d"`
-	ApicalD  float64        `json:"apical_d"`
+	Name     string
+	Segments []CanalSegment
+	OrificeD float64
+	ApicalD  float64
 	// Oval is the ratio of the long to the short axis of the cross-section (>= 1; 0 = round).
-	Oval float64 `json:"oval,omitempty"`
+	Oval float64
 	// GivenWorkingLength is the working length from the file; 0 means the centerline length.
-	GivenWorkingLength float64 `json:"working_length,omitempty"`
+	GivenWorkingLength float64
 
 	path canalPath // built by ParseCanalSpec or on first use
 }
 
 // CanalSegment is one piece of the centerline.
 type CanalSegment struct {
-	Kind   string  `json:"kind"`             // "straight" or "arc"
-	Length float64 `json:"length,omitempty"` // straight: mm
-	Radius float64 `json:"radius,omitempty"` // arc: mm
-	Angle  float64 `json:"angle,omitempty"`  // arc: degrees
+	Kind   string  // "straight" or "arc"
+	Length float64 // straight: mm
+	Radius float64 // arc: mm
+	Angle  float64 // arc: degrees
 	// PlaneTurn (arc only, degrees) turns this arc's bending direction about the tangent,
 	// right-handed, away from the bending direction of the previous arc carried to here
 	// (for the first arc: away from +x). 0 continues the previous bend, 180 bends back
 	// (an S-curve in the same plane), 90 leaves the plane.
-	PlaneTurn float64 `json:"plane_turn,omitempty"`
+	PlaneTurn float64
+}
+
+// canalSpecJSON is the canal spec file: the schema ParseCanalSpec reads and CanalSpec's
+// MarshalJSON writes. The json tags are the one list of its fields.
+type canalSpecJSON struct {
+	Name          *string       `json:"name,omitempty"`
+	Segments      []segmentJSON `json:"segments"`
+	OrificeD      *float64      `json:"orifice_d"`
+	ApicalD       *float64      `json:"apical_d"`
+	Oval          *float64      `json:"oval,omitempty"`
+	WorkingLength *float64      `json:"working_length,omitempty"`
+}
+
+type segmentJSON struct {
+	Kind      *string  `json:"kind"`
+	Length    *float64 `json:"length,omitempty"`
+	Radius    *float64 `json:"radius,omitempty"`
+	Angle     *float64 `json:"angle,omitempty"`
+	PlaneTurn *float64 `json:"plane_turn,omitempty"`
 }
 
 // Limits that keep a spec to the size of a tooth (with room to spare), so a hostile file
 // cannot make the program allocate without bound.
 const (
 	maxCanalSegments = 1000
-	maxCanalLengthMM = 500.0
+	// MaxCanalLengthMM is the longest centerline a spec may describe.
+	MaxCanalLengthMM = 500.0
 	maxCanalDiamMM   = 50.0
 	maxCanalOval     = 100.0
 	maxArcAngleDeg   = 360.0
+	// MaxSpecBytes: the largest valid spec (maxCanalSegments segments) is far below this; a
+	// bigger file is not a canal spec and is not read into memory.
+	MaxSpecBytes = 1 << 20
 )
 
-var (
-	canalTopFields     = []string{"name", "segments", "orifice_d", "apical_d", "oval", "working_length"}
-	canalSegmentFields = []string{"kind", "length", "radius", "angle", "plane_turn"}
-)
+// SpecError is a problem in a canal spec file. Line and Column are set for broken JSON and for
+// a field given twice.
+type SpecError struct {
+	File         string
+	Line, Column int
+	Msg          string // names the segment (from 1) and the field
+}
 
-// IsCanalSpec tells a canal spec (JSON) from an STL by its first non-space byte.
-func IsCanalSpec(data []byte) bool {
-	t := bytes.TrimLeft(bytes.TrimPrefix(data, []byte("\xef\xbb\xbf")), " \t\r\n")
-	return len(t) > 0 && t[0] == '{'
+func (e *SpecError) Error() string {
+	if e.Line > 0 {
+		return fmt.Sprintf("canal spec %s: line %d, column %d: %s", e.File, e.Line, e.Column, e.Msg)
+	}
+	return fmt.Sprintf("canal spec %s: %s", e.File, e.Msg)
 }
 
 // LoadCanalSpec reads and parses a canal spec file.
 func LoadCanalSpec(path string) (*CanalSpec, error) {
-	// The largest valid spec (maxCanalSegments segments) is far below this; a bigger file
-	// is not a canal spec and is not read into memory.
-	const maxSpecBytes = 1 << 20
-	if st, err := os.Stat(path); err == nil && st.Size() > maxSpecBytes {
-		return nil, fmt.Errorf("canal spec %s: %d bytes, more than a canal spec can need (%d)", path, st.Size(), maxSpecBytes)
-	}
-	data, err := os.ReadFile(path)
+	data, err := readInput(path, MaxSpecBytes)
 	if err != nil {
-		return nil, fmt.Errorf("canal spec %s: %w", path, err)
+		return nil, &SpecError{File: path, Msg: err.Error()}
 	}
 	return ParseCanalSpec(path, data)
 }
 
-// ParseCanalSpec parses a canal spec strictly: unknown fields, missing fields, wrong kinds
-// and values out of range are errors that name the file (name), the segment (from 1) and
-// the field; broken JSON is reported with its line and column.
+// ParseCanalSpec parses a canal spec strictly: unknown fields, fields given twice, missing
+// fields, wrong kinds and values out of range are errors that name the file (name), the
+// segment (from 1) and the field; broken JSON is reported with its line and column.
 func ParseCanalSpec(name string, data []byte) (*CanalSpec, error) {
-	fail := func(format string, a ...any) error {
-		return fmt.Errorf("canal spec %s: %s", name, fmt.Sprintf(format, a...))
+	fail := func(format string, a ...any) error { return &SpecError{File: name, Msg: fmt.Sprintf(format, a...)} }
+	if len(data) > MaxSpecBytes {
+		return nil, fail("%d bytes, more than a canal spec can need (%d)", len(data), MaxSpecBytes)
 	}
-	data = bytes.TrimPrefix(data, []byte("\xef\xbb\xbf"))
-	var top map[string]json.RawMessage
-	if err := json.Unmarshal(data, &top); err != nil {
-		var syn *json.SyntaxError
-		if errors.As(err, &syn) {
-			line, col := canalLineColumn(data, syn.Offset)
-			return nil, fail("line %d, column %d: broken JSON: %v", line, col, syn)
-		}
-		return nil, fail("want a JSON object {\"name\": ..., \"segments\": [...], ...}")
+	var f canalSpecJSON
+	if err := decodeJSON(data, &f); err != nil {
+		return nil, specProblem(name, err)
 	}
-	if err := canalCheckFields(top, canalTopFields); err != nil {
-		return nil, fail("%v", err)
+	c := &CanalSpec{OrificeD: *f.OrificeD, ApicalD: *f.ApicalD, Oval: orDefault(f.Oval, 0),
+		GivenWorkingLength: orDefault(f.WorkingLength, 0)}
+	if f.Name != nil {
+		c.Name = *f.Name
 	}
-	c := &CanalSpec{}
-	if raw, ok := top["name"]; ok {
-		if err := json.Unmarshal(raw, &c.Name); err != nil {
-			return nil, fail("field \"name\": want a string")
-		}
-	}
-	var err error
-	if c.OrificeD, err = canalNumber(top, "orifice_d", true); err != nil {
-		return nil, fail("%v", err)
-	}
-	if c.ApicalD, err = canalNumber(top, "apical_d", true); err != nil {
-		return nil, fail("%v", err)
-	}
-	if c.Oval, err = canalNumber(top, "oval", false); err != nil {
-		return nil, fail("%v", err)
-	}
-	if c.GivenWorkingLength, err = canalNumber(top, "working_length", false); err != nil {
-		return nil, fail("%v", err)
-	}
-	rawSegs, ok := top["segments"]
-	if !ok {
-		return nil, fail("missing field \"segments\"")
-	}
-	var segs []json.RawMessage
-	if err := json.Unmarshal(rawSegs, &segs); err != nil || segs == nil {
-		return nil, fail("field \"segments\": want a list of segments")
-	}
-	if len(segs) == 0 {
+	switch {
+	case len(f.Segments) == 0:
 		return nil, fail("field \"segments\": the list is empty")
+	case len(f.Segments) > maxCanalSegments:
+		return nil, fail("field \"segments\": %d segments, at most %d", len(f.Segments), maxCanalSegments)
 	}
-	if len(segs) > maxCanalSegments {
-		return nil, fail("field \"segments\": %d segments, at most %d", len(segs), maxCanalSegments)
-	}
-	for i, raw := range segs {
-		seg, err := parseCanalSegment(raw)
+	for i, sj := range f.Segments {
+		seg, err := sj.segment()
 		if err != nil {
 			return nil, fail("segment %d: %v", i+1, err)
 		}
 		c.Segments = append(c.Segments, seg)
 	}
-	if err := c.check(); err != nil {
+	if err := c.Validate(); err != nil {
 		return nil, fail("%v", err)
 	}
 	c.path = buildCanalPath(c)
 	return c, nil
 }
 
-// check validates values that span fields; it is also used for specs built in code.
-func (c *CanalSpec) check() error {
+// segment reads one segment: the fields its kind takes, each present.
+func (j segmentJSON) segment() (CanalSegment, error) {
+	s := CanalSegment{Kind: *j.Kind, Length: orDefault(j.Length, 0), Radius: orDefault(j.Radius, 0),
+		Angle: orDefault(j.Angle, 0), PlaneTurn: orDefault(j.PlaneTurn, 0)}
+	switch s.Kind {
+	case "straight":
+		for _, f := range []struct {
+			name  string
+			given *float64
+		}{{"radius", j.Radius}, {"angle", j.Angle}, {"plane_turn", j.PlaneTurn}} {
+			if f.given != nil {
+				return s, fmt.Errorf("field %q does not apply to a straight segment (it takes \"length\")", f.name)
+			}
+		}
+		if j.Length == nil {
+			return s, fmt.Errorf("missing field \"length\"")
+		}
+	case "arc":
+		if j.Length != nil {
+			return s, fmt.Errorf("field \"length\" does not apply to an arc (it takes \"radius\" and \"angle\")")
+		}
+		if j.Radius == nil {
+			return s, fmt.Errorf("missing field \"radius\"")
+		}
+		if j.Angle == nil {
+			return s, fmt.Errorf("missing field \"angle\"")
+		}
+	}
+	return s, s.check()
+}
+
+// MarshalJSON writes the spec in the schema ParseCanalSpec reads; zero optional values are
+// left out.
+func (c CanalSpec) MarshalJSON() ([]byte, error) {
+	given := func(v float64) *float64 {
+		if v == 0 {
+			return nil
+		}
+		return &v
+	}
+	name := c.Name
+	f := canalSpecJSON{Name: &name, OrificeD: &c.OrificeD, ApicalD: &c.ApicalD, Oval: given(c.Oval),
+		WorkingLength: given(c.GivenWorkingLength), Segments: make([]segmentJSON, len(c.Segments))}
+	for i, s := range c.Segments {
+		kind := s.Kind
+		f.Segments[i] = segmentJSON{Kind: &kind, Length: given(s.Length), Radius: given(s.Radius),
+			Angle: given(s.Angle), PlaneTurn: given(s.PlaneTurn)}
+	}
+	return json.Marshal(f)
+}
+
+// specProblem words a problem the reading of a spec found.
+func specProblem(file string, err error) error {
+	p, ok := err.(*jsonProblem)
+	if !ok {
+		return &SpecError{File: file, Msg: err.Error()}
+	}
+	e := &SpecError{File: file}
+	where := ""
+	if len(p.path) >= 2 && p.path[0] == "segments" {
+		where = fmt.Sprintf("segment %d: ", p.path[1].(int)+1)
+	}
+	field := ""
+	if n := len(p.path); n > 0 {
+		if k, ok := p.path[n-1].(string); ok {
+			field = k
+		}
+	}
+	switch p.kind {
+	case jsonSyntax:
+		e.Line, e.Column, e.Msg = p.line, p.col, "broken JSON: "+p.err.Error()
+	case jsonEncoding:
+		if p.offset == 0 {
+			e.Msg = "UTF-16 text: save the file as UTF-8"
+		} else {
+			e.Line, e.Column, e.Msg = p.line, p.col, "not UTF-8 text: save the file as UTF-8"
+		}
+	case jsonUnknown:
+		e.Msg = fmt.Sprintf("%sunknown field %q (known: %s)", where, p.key, strings.Join(p.known, ", "))
+		if len(p.path) == 0 && slices.Contains(fieldNames(reflect.TypeFor[sequenceJSON]()), p.key) {
+			e.Msg = fmt.Sprintf("this is a sequence file (it has %q), not a canal spec", p.key)
+		}
+	case jsonRepeated:
+		e.Line, e.Column = p.line, p.col
+		e.Msg = fmt.Sprintf("%sfield %q given twice (first on line %d); a field may appear once", where, p.key, p.firstLine)
+	case jsonMissing:
+		e.Msg = fmt.Sprintf("%smissing field %q", where, p.key)
+	case jsonWrongKind:
+		switch {
+		case len(p.path) == 0:
+			e.Msg = "want a JSON object {\"name\": ..., \"segments\": [...], ...}"
+		case len(p.path) == 1 && field == "segments":
+			e.Msg = "field \"segments\": want a list of segments"
+		case len(p.path) == 2:
+			e.Msg = where + "want an object {\"kind\": ...}"
+		case field == "kind":
+			e.Msg = where + "field \"kind\": want \"straight\" or \"arc\""
+		default:
+			e.Msg = fmt.Sprintf("%sfield %q: want a %s, got %s", where, field, p.want, p.got)
+		}
+	default:
+		e.Msg = where + p.err.Error()
+	}
+	return e
+}
+
+// Validate checks a spec's values (also of a spec built in code); the error names the segment
+// and the field.
+func (c *CanalSpec) Validate() error {
 	if len(c.Segments) == 0 {
 		return fmt.Errorf("no segments")
 	}
@@ -167,10 +262,10 @@ func (c *CanalSpec) check() error {
 		}
 		total += s.length()
 	}
-	if total > maxCanalLengthMM {
-		return fmt.Errorf("centerline length %g mm is over %g mm", total, maxCanalLengthMM)
+	if total > MaxCanalLengthMM {
+		return fmt.Errorf("centerline length %g mm is over %g mm", total, MaxCanalLengthMM)
 	}
-	if c.GivenWorkingLength < 0 || math.IsNaN(c.GivenWorkingLength) || c.GivenWorkingLength > maxCanalLengthMM {
+	if c.GivenWorkingLength < 0 || math.IsNaN(c.GivenWorkingLength) || c.GivenWorkingLength > MaxCanalLengthMM {
 		return fmt.Errorf("field \"working_length\" = %g: want a length in mm above 0", c.GivenWorkingLength)
 	}
 	return nil
@@ -182,14 +277,14 @@ func (s CanalSegment) check() error {
 		if s.Radius != 0 || s.Angle != 0 || s.PlaneTurn != 0 {
 			return fmt.Errorf("a straight segment takes only \"length\"")
 		}
-		if !(s.Length > 0) || s.Length > maxCanalLengthMM {
+		if !(s.Length > 0) || s.Length > MaxCanalLengthMM {
 			return fmt.Errorf("field \"length\" = %g: want a length in mm above 0", s.Length)
 		}
 	case "arc":
 		if s.Length != 0 {
 			return fmt.Errorf("an arc takes \"radius\" and \"angle\", not \"length\"")
 		}
-		if !(s.Radius > 0) || s.Radius > maxCanalLengthMM {
+		if !(s.Radius > 0) || s.Radius > MaxCanalLengthMM {
 			return fmt.Errorf("field \"radius\" = %g: want a radius in mm above 0", s.Radius)
 		}
 		if !(s.Angle > 0) || s.Angle > maxArcAngleDeg {
@@ -198,8 +293,8 @@ func (s CanalSegment) check() error {
 		if math.IsNaN(s.PlaneTurn) || math.Abs(s.PlaneTurn) > 3600 {
 			return fmt.Errorf("field \"plane_turn\" = %g: want degrees", s.PlaneTurn)
 		}
-		if s.length() > maxCanalLengthMM {
-			return fmt.Errorf("arc length %g mm is over %g mm", s.length(), maxCanalLengthMM)
+		if s.length() > MaxCanalLengthMM {
+			return fmt.Errorf("arc length %g mm is over %g mm", s.length(), MaxCanalLengthMM)
 		}
 	default:
 		return fmt.Errorf("field \"kind\" = %q: want \"straight\" or \"arc\"", s.Kind)
@@ -213,99 +308,4 @@ func (s CanalSegment) length() float64 {
 		return s.Radius * s.Angle * math.Pi / 180
 	}
 	return s.Length
-}
-
-func parseCanalSegment(raw json.RawMessage) (CanalSegment, error) {
-	var fields map[string]json.RawMessage
-	if err := json.Unmarshal(raw, &fields); err != nil || fields == nil {
-		return CanalSegment{}, fmt.Errorf("want an object {\"kind\": ...}")
-	}
-	if err := canalCheckFields(fields, canalSegmentFields); err != nil {
-		return CanalSegment{}, err
-	}
-	var s CanalSegment
-	kind, ok := fields["kind"]
-	if !ok {
-		return s, fmt.Errorf("missing field \"kind\"")
-	}
-	if err := json.Unmarshal(kind, &s.Kind); err != nil || string(kind) == "null" {
-		return s, fmt.Errorf("field \"kind\": want \"straight\" or \"arc\"")
-	}
-	var err error
-	switch s.Kind {
-	case "straight":
-		for _, f := range []string{"radius", "angle", "plane_turn"} {
-			if _, ok := fields[f]; ok {
-				return s, fmt.Errorf("field %q does not apply to a straight segment (it takes \"length\")", f)
-			}
-		}
-		s.Length, err = canalNumber(fields, "length", true)
-	case "arc":
-		if _, ok := fields["length"]; ok {
-			return s, fmt.Errorf("field \"length\" does not apply to an arc (it takes \"radius\" and \"angle\")")
-		}
-		if s.Radius, err = canalNumber(fields, "radius", true); err != nil {
-			return s, err
-		}
-		if s.Angle, err = canalNumber(fields, "angle", true); err != nil {
-			return s, err
-		}
-		s.PlaneTurn, err = canalNumber(fields, "plane_turn", false)
-	default:
-		return s, fmt.Errorf("field \"kind\" = %q: want \"straight\" or \"arc\"", s.Kind)
-	}
-	if err != nil {
-		return s, err
-	}
-	return s, s.check()
-}
-
-// canalCheckFields reports the first unknown field in sorted order, so the message is stable.
-func canalCheckFields(fields map[string]json.RawMessage, known []string) error {
-	var unknown []string
-	for k := range fields {
-		if !slices.Contains(known, k) {
-			unknown = append(unknown, k)
-		}
-	}
-	if len(unknown) == 0 {
-		return nil
-	}
-	sort.Strings(unknown)
-	return fmt.Errorf("unknown field %q (known: %s)", unknown[0], strings.Join(known, ", "))
-}
-
-// canalNumber reads a number; a missing optional field is 0.
-func canalNumber(fields map[string]json.RawMessage, name string, required bool) (float64, error) {
-	raw, ok := fields[name]
-	if !ok {
-		if required {
-			return 0, fmt.Errorf("missing field %q", name)
-		}
-		return 0, nil
-	}
-	var v float64
-	if err := json.Unmarshal(raw, &v); err != nil || string(raw) == "null" {
-		return 0, fmt.Errorf("field %q: want a number, got %s", name, canalClip(string(raw), 40))
-	}
-	return v, nil
-}
-
-func canalClip(s string, n int) string {
-	if len(s) > n {
-		return s[:n] + "..."
-	}
-	return s
-}
-
-// canalLineColumn turns a byte offset into a 1-based line and column.
-func canalLineColumn(data []byte, offset int64) (line, col int) {
-	offset = min(max(offset, 0), int64(len(data)))
-	before := data[:offset]
-	line = bytes.Count(before, []byte("\n")) + 1
-	col = int(offset) - (bytes.LastIndexByte(before, '\n') + 1)
-	if col == 0 {
-		col = 1
-	}
-	return line, col
 }

@@ -99,18 +99,40 @@ func TestApicalWiderThanOrificeIsAllowed(t *testing.T) {
 	}
 }
 
-func TestIsCanalSpec(t *testing.T) {
+// TestLooksLikeJSON: JSON of any shape, broken or in UTF-16, is answered as JSON; an STL (ASCII
+// "solid" or a binary header, ISO/IEC-free but common practice of the format) is not.
+func TestLooksLikeJSON(t *testing.T) {
+	utf16 := func(s string, bigEndian bool) string {
+		var b []byte
+		for _, r := range s {
+			if bigEndian {
+				b = append(b, 0, byte(r))
+			} else {
+				b = append(b, byte(r), 0)
+			}
+		}
+		return string(b)
+	}
 	for data, want := range map[string]bool{
-		canalGoodSpec:             true,
-		"\n\t  {\"name\": 1}":     true,
-		"\xef\xbb\xbf{}":          true,
-		"solid canal\nfacet ...":  false,
-		"\x00\x00\x00binary head": false,
-		"":                        false,
-		"   ":                     false,
+		canalGoodSpec:                          true,
+		"\n\t  {\"name\": 1}":                  true,
+		"\xef\xbb\xbf{}":                       true,
+		"{\"name\": ,,":                        true, // broken JSON is still JSON to be answered as such
+		"null":                                 true,
+		" [1, 2] ":                             true,
+		"\"a string\"":                         true,
+		"17.5\n":                               true,
+		utf16(`{"name": "x"}`, false):          true,
+		utf16(`{"name": "x"}`, true):           true,
+		"\xff\xfe" + utf16("{}", false):        true,
+		"solid canal\nfacet ...":               false,
+		"\x00\x00\x00binary head":              false,
+		"nullify" + strings.Repeat("\x00", 90): false,
+		"":                                     false,
+		"   ":                                  false,
 	} {
-		if got := IsCanalSpec([]byte(data)); got != want {
-			t.Errorf("IsCanalSpec(%q) = %v, want %v", data, got, want)
+		if got := LooksLikeJSON([]byte(data)); got != want {
+			t.Errorf("LooksLikeJSON(%q) = %v, want %v", data, got, want)
 		}
 	}
 }
@@ -147,7 +169,7 @@ func FuzzParseCanalSpec(f *testing.F) {
 			return
 		}
 		l := c.Length()
-		if !(l > 0) || l > maxCanalLengthMM {
+		if !(l > 0) || l > MaxCanalLengthMM {
 			t.Fatalf("length %g", l)
 		}
 		pts, _, _ := c.Centerline(l / 50)

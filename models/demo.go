@@ -69,7 +69,7 @@ func (e ExampleCanal) SpecJSON() ([]byte, error) {
 
 func exampleSpec(name string, orifice, apical, oval float64, segs ...CanalSegment) *CanalSpec {
 	c := &CanalSpec{Name: name, Segments: segs, OrificeD: orifice, ApicalD: apical, Oval: oval}
-	if err := c.check(); err != nil {
+	if err := c.Validate(); err != nil {
 		panic(fmt.Sprintf("example canal %s: %v", name, err))
 	}
 	c.path = buildCanalPath(c)

@@ -85,6 +85,25 @@ func checkAbsoluteDepth(v float64) (Depth, error) {
 	return DepthMM(v), nil
 }
 
+// Validate checks a depth built in code as ParseDepth checks a written one.
+func (d Depth) Validate() error {
+	if !d.FromWL {
+		_, err := checkAbsoluteDepth(d.MM)
+		return err
+	}
+	switch {
+	case math.IsNaN(d.MM) || math.IsInf(d.MM, 0):
+		return fmt.Errorf("the offset from WL must be a finite number")
+	case math.Abs(d.MM) > MaxDepthMM:
+		return fmt.Errorf("offset from WL: %g mm is more than %g mm", math.Abs(d.MM), MaxDepthMM)
+	}
+	return nil
+}
+
+// LengthTolerance is how close two lengths in mm must be to count as the same: sums of arc
+// lengths differ by rounding, far below any scan's resolution.
+const LengthTolerance = 1e-9
+
 // Resolve returns the depth in mm from the orifice for a canal of the given working length.
 func (d Depth) Resolve(workingLength float64) float64 {
 	if d.FromWL {

@@ -36,6 +36,14 @@ const (
 	DefaultMaxFluteD     = 1.2  // mm
 )
 
+// Taper limits. CommonMaxTaper is the steepest taper files are commonly made with (orifice
+// shapers); a steeper one is accepted with a warning, since a typed 0.6 for .06 is the likelier
+// story. MaxTaper is refused: no file is made that steep.
+const (
+	CommonMaxTaper = 0.12
+	MaxTaper       = 0.2
+)
+
 // DefaultMaxFluteFor returns the default flute cap for a size: DefaultMaxFluteD, or the tip
 // diameter where that is larger, so that large sizes keep their tip.
 func DefaultMaxFluteFor(size int) float64 {

@@ -16,7 +16,7 @@ func ScanLike(c *CanalSpec, voxel, noise float64, seed int64) (*mesh.Mesh, error
 	if c == nil {
 		return nil, fmt.Errorf("scan-like canal: no spec")
 	}
-	if err := c.check(); err != nil {
+	if err := c.Validate(); err != nil {
 		return nil, fmt.Errorf("scan-like canal %q: %v", c.Name, err)
 	}
 	if !(voxel > 0) {

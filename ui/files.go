@@ -201,7 +201,7 @@ func (w *mainWindow) openPath(path string) {
 
 // isCanalFile tells a canal spec or an STL from a sequence by the start of the file.
 func isCanalFile(head []byte) bool {
-	if !models.IsCanalSpec(head) {
+	if !models.LooksLikeJSON(head) {
 		return true // not JSON: an STL
 	}
 	return bytes.Contains(head, []byte(`"segments"`))

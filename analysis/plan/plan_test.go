@@ -73,7 +73,7 @@ func TestPlanBeatsSingleFileAndSameTaperSeries(t *testing.T) {
 			seen := map[string]bool{}
 			for k, s := range pl.Result.Steps {
 				m := s.Metrics
-				key := instrumentKey(s.Step.Instrument)
+				key := s.Step.Instrument.Identity()
 				if seen[key] {
 					t.Errorf("step %d uses %s a second time", k+1, m.Label)
 				}

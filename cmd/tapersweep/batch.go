@@ -45,10 +45,10 @@ func batchCommand() command {
 					return usageError(stderr, "batch", "--out is required")
 				case *jobs < 1:
 					return usageError(stderr, "batch", "--jobs must be at least 1")
-				case *scale <= 0:
-					return usageError(stderr, "batch", "--scale must be above 0")
-				case *wl < 0:
-					return usageError(stderr, "batch", "--working-length must not be negative")
+				case scaleFlagError(*scale) != "":
+					return usageError(stderr, "batch", "%s", scaleFlagError(*scale))
+				case workingLengthFlagError(*wl) != "":
+					return usageError(stderr, "batch", "%s", workingLengthFlagError(*wl))
 				}
 				si, sn, err := parseShard(*shard)
 				if err != nil {

@@ -89,15 +89,34 @@ func point(s string) (*mgl64.Vec3, error) {
 	return &p, nil
 }
 
+// scaleFlagError words a --scale no surface can use (flag.Float64 also takes NaN and Inf).
+func scaleFlagError(k float64) string {
+	if !(k > 0) || math.IsInf(k, 0) {
+		return fmt.Sprintf("--scale must be a number above 0, not %g", k)
+	}
+	return ""
+}
+
+// workingLengthFlagError words a --working-length that is not a length (0 is the default).
+func workingLengthFlagError(mm float64) string {
+	switch {
+	case math.IsNaN(mm) || math.IsInf(mm, 0):
+		return fmt.Sprintf("--working-length must be a number of mm, not %g", mm)
+	case mm < 0:
+		return "--working-length must not be negative"
+	}
+	return ""
+}
+
 func (cf *canalFlags) check(stderr io.Writer, cmd string) int {
 	if *cf.path == "" {
 		return usageError(stderr, cmd, "--canal is required")
 	}
-	if *cf.scale <= 0 {
-		return usageError(stderr, cmd, "--scale must be above 0")
+	if msg := scaleFlagError(*cf.scale); msg != "" {
+		return usageError(stderr, cmd, "%s", msg)
 	}
-	if *cf.workingLength < 0 {
-		return usageError(stderr, cmd, "--working-length must not be negative")
+	if msg := workingLengthFlagError(*cf.workingLength); msg != "" {
+		return usageError(stderr, cmd, "%s", msg)
 	}
 	if *cf.shell < 0 {
 		return usageError(stderr, cmd, "--shell counts from 1")

@@ -64,7 +64,7 @@ func planCommand() command {
 				opt := plan.Options{Target: tg, MaxSteps: *maxSteps, MaxEngagedMM: *maxEngaged,
 					MaxFatigue: *maxFatigue, AllowSameTaper: *sameTaper, Weights: w}
 				if *instruments != "" {
-					ins, warns, err := plan.LoadInstruments(*instruments)
+					ins, warns, err := models.LoadInstruments(*instruments)
 					if err != nil {
 						return inputError(stderr, "plan", err)
 					}

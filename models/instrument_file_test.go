@@ -1,4 +1,4 @@
-package plan
+package models
 
 import (
 	"strings"
@@ -44,27 +44,8 @@ func TestParseInstruments(t *testing.T) {
 			t.Errorf("%s: got %v, want %q", b.data, err, b.want)
 		}
 	}
-	many := "[" + strings.Repeat(`{"size": 20, "taper": 0.06},`, maxInstruments) + `{"size": 20, "taper": 0.06}]`
+	many := "[" + strings.Repeat(`{"size": 20, "taper": 0.06},`, MaxInstruments) + `{"size": 20, "taper": 0.06}]`
 	if _, _, err := ParseInstruments("shelf.json", []byte(many)); err == nil || !strings.Contains(err.Error(), "more than") {
 		t.Errorf("too many instruments: %v", err)
-	}
-}
-
-// TestParseTarget reads sizes and tapers the way the trade writes them (ISO 3630-1 sizes,
-// tapers in mm per mm).
-func TestParseTarget(t *testing.T) {
-	good := map[string]Target{"30/.04": {30, 0.04}, "30/0.04": {30, 0.04}, " 25 / .06 ": {25, 0.06}, "40/04": {40, 0.04}}
-	for s, want := range good {
-		if got, err := ParseTarget(s); err != nil || got != want {
-			t.Errorf("%q: got %+v, %v", s, got, err)
-		}
-	}
-	for _, s := range []string{"30", "x/.04", "30/", "30/-.04", "30/1e-2", "0/.04", "30/NaN", "30/2.0"} {
-		if _, err := ParseTarget(s); err == nil {
-			t.Errorf("%q: no error", s)
-		}
-	}
-	if l := (Target{30, 0.04}).Label(); l != "30/.04" {
-		t.Errorf("label %q", l)
 	}
 }
