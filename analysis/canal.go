@@ -48,13 +48,26 @@ type CanalOptions struct {
 	WorkingLength float64 // mm; 0 = the spec's or the centerline's length
 }
 
-// NewCanal measures a closed canal mesh (in mm).
+// NewCanal measures a closed canal mesh whose units are not known to be mm (a scan): a size no
+// canal has in mm is refused with a *UnitsError. Errors are *CanalError naming the file.
 func NewCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions) (*Canal, error) {
-	if len(m.Triangles) == 0 {
-		return nil, fmt.Errorf("%s: the mesh has no triangles", name)
+	c, err := newCanal(ctx, name, m, opt, true)
+	if err != nil {
+		return nil, &CanalError{File: name, Err: err}
 	}
-	if err := checkUnits(m); err != nil {
-		return nil, fmt.Errorf("%s: %w", name, err)
+	return c, nil
+}
+
+// newCanal measures a mesh; checkSize refuses a size no canal has in mm (a spec's mesh is in mm
+// by definition and bounded by its own limits).
+func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, checkSize bool) (*Canal, error) {
+	if len(m.Triangles) == 0 {
+		return nil, fmt.Errorf("the mesh has no triangles")
+	}
+	if checkSize {
+		if err := checkUnits(m); err != nil {
+			return nil, err
+		}
 	}
 	c := &Canal{Name: name, Mesh: m, Angles: opt.Angles}
 	if c.Angles <= 0 {
@@ -64,13 +77,13 @@ func NewCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions) 
 	c.Wall = mesh.NewBVH(m)
 	pts, info, err := extractCenterline(ctx, m, c.Wall, opt.Extract)
 	if err != nil {
-		return nil, fmt.Errorf("%s: centerline: %w", name, err)
+		return nil, fmt.Errorf("centerline: %w", err)
 	}
 	c.Voxel = info.voxel
 	c.SurfaceDetail = info.noise
 	c.Warnings = append(c.Warnings, info.warnings...)
 	if len(pts) < 4 {
-		return nil, fmt.Errorf("%s: the canal is shorter than %.2f mm", name, 3*StationSpacing)
+		return nil, fmt.Errorf("the canal is shorter than %.2f mm", 3*StationSpacing)
 	}
 	c.Line = NewCenterline(pts, StationSpacing, curvatureWindow(info.noise), info.measuredFrom, info.measuredTo)
 	c.Measures = Measure(c.Line)
@@ -83,7 +96,7 @@ func NewCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions) 
 	if over := c.WorkingLength - c.Line.Length(); over > 0 && over < 0.1 {
 		c.WorkingLength = c.Line.Length()
 	}
-	if c.WorkingLength > c.Line.Length()+1e-9 {
+	if c.WorkingLength > c.Line.Length()+models.LengthTolerance {
 		c.Warnings = append(c.Warnings, fmt.Sprintf(
 			"working length %.2f mm is longer than the canal's centerline (%.2f mm)", c.WorkingLength, c.Line.Length()))
 	}
@@ -102,9 +115,9 @@ func CanalFromSpec(ctx context.Context, name string, spec *models.CanalSpec, opt
 	if opt.WorkingLength == 0 {
 		opt.WorkingLength = spec.WorkingLength()
 	}
-	c, err := NewCanal(ctx, name, m, opt)
+	c, err := newCanal(ctx, name, m, opt, false)
 	if err != nil {
-		return nil, err
+		return nil, &CanalError{File: name, Err: err}
 	}
 	if spec.Name != "" {
 		c.Name = spec.Name
@@ -145,24 +158,15 @@ func (c *Canal) MeanRadius(i int) float64 {
 	return sum / float64(c.Angles)
 }
 
-// Sizes a root canal can have, in mm: a whole tooth is under 35 mm long and no canal is
-// narrower than a few micrometres.
-const (
-	maxCanalExtent = 100.0
-	minCanalExtent = 0.5
-)
-
-// checkUnits refuses a mesh whose size says it is not in millimetres, naming the fix.
+// checkUnits refuses a mesh whose size says it is not in millimetres.
 func checkUnits(m *mesh.Mesh) error {
 	lo, hi := m.Bounds()
 	size := hi.Sub(lo).Len()
 	switch {
 	case math.IsNaN(size) || math.IsInf(size, 0):
 		return fmt.Errorf("the mesh has coordinates that are not numbers")
-	case size > maxCanalExtent:
-		return fmt.Errorf("the mesh spans %.0f units, far more than a tooth in mm: if it is in micrometres, use --scale 0.001", size)
-	case size < minCanalExtent:
-		return fmt.Errorf("the mesh spans only %.3g units, far less than a canal in mm: if it is in metres, use --scale 1000; in centimetres, --scale 10", size)
+	case size > maxCanalExtent || size < minCanalExtent:
+		return &UnitsError{Extent: size}
 	}
 	return nil
 }

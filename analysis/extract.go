@@ -19,9 +19,6 @@ type ExtractOptions struct {
 	Apex    *mgl64.Vec3 // optional: a point near the apical end
 }
 
-// maxVoxels bounds the grid so memory stays modest on a laptop.
-const maxVoxels = 30_000_000
-
 // extraction is what centerline extraction learns besides the line itself.
 type extraction struct {
 	voxel    float64
@@ -66,8 +63,11 @@ func extractCenterline(ctx context.Context, m *mesh.Mesh, bvh *mesh.BVH, opt Ext
 	if h <= 0 {
 		h = meanR / 8
 	}
-	if bound := math.Cbrt((ext[0] + 4*h) * (ext[1] + 4*h) * (ext[2] + 4*h) / maxVoxels); h < bound {
+	if bound := math.Cbrt((ext[0] + 4*h) * (ext[1] + 4*h) * (ext[2] + 4*h) / mesh.MaxGridVoxels); h < bound {
 		h = bound
+	}
+	for mesh.GridCells(ext, h, 2) > mesh.MaxGridVoxels { // the padding and rounding up can still tip it over
+		h *= 1.01
 	}
 	info.voxel = h
 	info.noise = medianEdge(m)

@@ -38,10 +38,10 @@ func LoadCanalBytes(ctx context.Context, name string, data []byte, opt LoadOptio
 			return nil, err
 		}
 		if opt.Scale != 0 && opt.Scale != 1 {
-			return nil, fmt.Errorf("%s: --scale applies to STL surfaces; a canal spec is already in mm", name)
+			return nil, &CanalError{File: name, Err: &SpecOptionError{Option: "scale"}}
 		}
 		if opt.Shell != 0 {
-			return nil, fmt.Errorf("%s: --shell applies to STL surfaces; a canal spec has one", name)
+			return nil, &CanalError{File: name, Err: &SpecOptionError{Option: "shell"}}
 		}
 		return CanalFromSpec(ctx, name, spec, opt.Canal)
 	}
@@ -59,7 +59,7 @@ func LoadCanalBytes(ctx context.Context, name string, data []byte, opt LoadOptio
 	if opt.Shell > 0 {
 		shells := mesh.Shells(m)
 		if opt.Shell > len(shells) {
-			return nil, fmt.Errorf("%s: surface %d asked for, but the file holds %d", name, opt.Shell, len(shells))
+			return nil, &CanalError{File: name, Err: fmt.Errorf("surface %d asked for, but the file holds %d", opt.Shell, len(shells))}
 		}
 		m = m.Subset(shells[opt.Shell-1])
 		notes = append(notes, fmt.Sprintf("surface %d of %d kept", opt.Shell, len(shells)))

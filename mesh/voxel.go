@@ -10,8 +10,30 @@ import (
 	"github.com/go-gl/mathgl/mgl64"
 )
 
-// MaxGridVoxels bounds the size of a grid that Voxelize will build (one byte per voxel).
-const MaxGridVoxels = 60_000_000
+// MaxGridVoxels bounds the size of a grid that Voxelize will build (one byte per voxel, and the
+// distance transform's float32 per voxel on top), so memory stays modest on a laptop.
+const MaxGridVoxels = 30_000_000
+
+// GridTooLargeError is a grid Voxelize refuses: more than MaxGridVoxels voxels.
+type GridTooLargeError struct {
+	Voxel float64    // the edge asked for, mm
+	Box   mgl64.Vec3 // the mesh's extent, mm
+}
+
+func (e *GridTooLargeError) Error() string {
+	return fmt.Sprintf("voxelize: a %g mm voxel over a %.3g x %.3g x %.3g mm box needs more than %d voxels",
+		e.Voxel, e.Box[0], e.Box[1], e.Box[2], MaxGridVoxels)
+}
+
+// GridCells is the number of voxels Voxelize makes for a box of extent ext at the given voxel
+// edge and padding: what MaxGridVoxels is compared with.
+func GridCells(ext mgl64.Vec3, voxel float64, pad int) float64 {
+	total := 1.0
+	for a := range 3 {
+		total *= max(math.Ceil(ext[a]/voxel)+float64(2*pad), 1)
+	}
+	return total
+}
 
 // Grid is a boolean voxel grid. Voxel (i, j, k) is stored at i + NX*(j + NY*k) and its
 // centre lies at Origin + (i+0.5, j+0.5, k+0.5)*Voxel.
@@ -33,7 +55,7 @@ func (g *Grid) Center(i, j, k int) mgl64.Vec3 {
 // Voxelize marks the voxels whose centres lie inside the closed mesh m: for every z column
 // through voxel centres it counts the crossings of the mesh below each centre (odd = inside).
 // The grid spans the mesh's bounds plus pad empty voxels on every side. It fails when the
-// grid would hold more than MaxGridVoxels voxels, so the caller can pick a coarser voxel.
+// grid would hold more than MaxGridVoxels voxels (a *GridTooLargeError).
 func Voxelize(m *Mesh, voxel float64, pad int) (*Grid, error) {
 	if m == nil || len(m.Triangles) == 0 {
 		return nil, fmt.Errorf("voxelize: empty mesh")
@@ -50,17 +72,12 @@ func Voxelize(m *Mesh, voxel float64, pad int) (*Grid, error) {
 		}
 	}
 	lo, hi := m.Bounds()
+	if GridCells(hi.Sub(lo), voxel, pad) > MaxGridVoxels {
+		return nil, &GridTooLargeError{Voxel: voxel, Box: hi.Sub(lo)}
+	}
 	var n [3]int
-	total := 1.0
 	for a := range 3 {
-		cells := math.Ceil((hi[a]-lo[a])/voxel) + float64(2*pad)
-		cells = max(cells, 1)
-		total *= cells
-		if total > MaxGridVoxels {
-			return nil, fmt.Errorf("voxelize: a %g mm voxel over a %.3g x %.3g x %.3g mm box needs more than %d voxels; choose a coarser voxel",
-				voxel, hi[0]-lo[0], hi[1]-lo[1], hi[2]-lo[2], MaxGridVoxels)
-		}
-		n[a] = int(cells)
+		n[a] = int(max(math.Ceil((hi[a]-lo[a])/voxel)+float64(2*pad), 1))
 	}
 	for _, t := range m.Triangles {
 		for _, v := range t {

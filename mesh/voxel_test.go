@@ -1,6 +1,7 @@
 package mesh
 
 import (
+	"errors"
 	"math"
 	"runtime"
 	"slices"
@@ -170,8 +171,9 @@ func TestVoxelizeRejects(t *testing.T) {
 		big.Vertices[i] = big.Vertices[i].Mul(1000)
 	}
 	_, err := Voxelize(big, 0.01, 1)
-	if err == nil || !strings.Contains(err.Error(), "coarser") {
-		t.Errorf("a 10^15-voxel grid: err %v, want a request for a coarser voxel", err)
+	var ge *GridTooLargeError
+	if !errors.As(err, &ge) || ge.Voxel != 0.01 || !strings.Contains(err.Error(), "more than 30000000 voxels") {
+		t.Errorf("a 10^15-voxel grid: err %v, want a grid too large", err)
 	}
 	bad := &Mesh{Vertices: box.Vertices, Triangles: [][3]int32{{0, 1, 99}}}
 	if _, err := Voxelize(bad, 0.1, 1); err == nil {

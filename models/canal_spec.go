@@ -61,11 +61,16 @@ type segmentJSON struct {
 // cannot make the program allocate without bound.
 const (
 	maxCanalSegments = 1000
-	// MaxCanalLengthMM is the longest centerline a spec may describe.
-	MaxCanalLengthMM = 500.0
-	maxCanalDiamMM   = 50.0
-	maxCanalOval     = 100.0
-	maxArcAngleDeg   = 360.0
+	// MaxCanalLengthMM is the longest canal there is, with room to spare (a whole tooth is
+	// under 35 mm long): the longest centerline a spec may describe, and the largest extent a
+	// scanned surface in mm may have.
+	MaxCanalLengthMM = 100.0
+	minCanalLengthMM = 1.0
+	// Diameters: from below what a scan resolves to wider than any tooth.
+	minCanalDiamMM = 0.05
+	maxCanalDiamMM = 10.0
+	maxCanalOval   = 100.0
+	maxArcAngleDeg = 360.0
 	// MaxSpecBytes: the largest valid spec (maxCanalSegments segments) is far below this; a
 	// bigger file is not a canal spec and is not read into memory.
 	MaxSpecBytes = 1 << 20
@@ -248,8 +253,8 @@ func (c *CanalSpec) Validate() error {
 		name string
 		v    float64
 	}{{"orifice_d", c.OrificeD}, {"apical_d", c.ApicalD}} {
-		if !(f.v > 0) || f.v > maxCanalDiamMM {
-			return fmt.Errorf("field %q = %g: want a diameter in mm above 0 and at most %g", f.name, f.v, maxCanalDiamMM)
+		if !(f.v >= minCanalDiamMM) || f.v > maxCanalDiamMM {
+			return fmt.Errorf("field %q = %g: want a diameter in mm from %g to %g", f.name, f.v, minCanalDiamMM, maxCanalDiamMM)
 		}
 	}
 	if c.Oval != 0 && (c.Oval < 1 || c.Oval > maxCanalOval) {
@@ -265,8 +270,11 @@ func (c *CanalSpec) Validate() error {
 	if total > MaxCanalLengthMM {
 		return fmt.Errorf("centerline length %g mm is over %g mm", total, MaxCanalLengthMM)
 	}
+	if total < minCanalLengthMM {
+		return fmt.Errorf("centerline length %g mm is under %g mm, shorter than any canal", total, minCanalLengthMM)
+	}
 	if c.GivenWorkingLength < 0 || math.IsNaN(c.GivenWorkingLength) || c.GivenWorkingLength > MaxCanalLengthMM {
-		return fmt.Errorf("field \"working_length\" = %g: want a length in mm above 0", c.GivenWorkingLength)
+		return fmt.Errorf("field \"working_length\" = %g: want a length in mm above 0 and at most %g", c.GivenWorkingLength, MaxCanalLengthMM)
 	}
 	return nil
 }
@@ -278,14 +286,14 @@ func (s CanalSegment) check() error {
 			return fmt.Errorf("a straight segment takes only \"length\"")
 		}
 		if !(s.Length > 0) || s.Length > MaxCanalLengthMM {
-			return fmt.Errorf("field \"length\" = %g: want a length in mm above 0", s.Length)
+			return fmt.Errorf("field \"length\" = %g: want a length in mm above 0 and at most %g", s.Length, MaxCanalLengthMM)
 		}
 	case "arc":
 		if s.Length != 0 {
 			return fmt.Errorf("an arc takes \"radius\" and \"angle\", not \"length\"")
 		}
 		if !(s.Radius > 0) || s.Radius > MaxCanalLengthMM {
-			return fmt.Errorf("field \"radius\" = %g: want a radius in mm above 0", s.Radius)
+			return fmt.Errorf("field \"radius\" = %g: want a radius in mm above 0 and at most %g", s.Radius, MaxCanalLengthMM)
 		}
 		if !(s.Angle > 0) || s.Angle > maxArcAngleDeg {
 			return fmt.Errorf("field \"angle\" = %g: want degrees above 0 and at most %g", s.Angle, maxArcAngleDeg)

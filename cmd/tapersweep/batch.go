@@ -251,7 +251,7 @@ func batchCanal(ctx context.Context, path, file string, seq *models.Sequence, op
 	errorRow := func(e error) [][]string {
 		row := make([]string, width)
 		row[0] = file
-		row[width-1] = oneLine(e.Error())
+		row[width-1] = oneLine(describe(e))
 		return [][]string{row}
 	}
 	defer func() {
@@ -315,7 +315,7 @@ func newProgress(w io.Writer, terminal bool) func(done, total, failed int, file 
 		if !terminal {
 			status := "ok"
 			if err != nil {
-				status = "failed: " + oneLine(err.Error())
+				status = "failed: " + oneLine(describe(err))
 			}
 			fmt.Fprintf(w, "batch: %d/%d %s %s\n", done, total, file, status)
 			return

@@ -6,6 +6,8 @@ import (
 	"fmt"
 	"io"
 	"strings"
+
+	"tapersweep/analysis"
 )
 
 // command is one headless subcommand. Every command parses its flags the same way, prints
@@ -62,6 +64,24 @@ func usageError(stderr io.Writer, cmd, format string, a ...any) int {
 
 // inputError reports bad input (a file that cannot be read or understood).
 func inputError(stderr io.Writer, cmd string, err error) int {
-	fmt.Fprintf(stderr, "tapersweep %s: %v\n", cmd, err)
+	fmt.Fprintf(stderr, "tapersweep %s: %s\n", cmd, describe(err))
 	return exitBadInput
+}
+
+// describe words an error for the command line. The library's messages name no options; the
+// fixes that are options of this program are added here.
+func describe(err error) string {
+	msg := err.Error()
+	var units *analysis.UnitsError
+	var specOpt *analysis.SpecOptionError
+	switch {
+	case errors.As(err, &units) && units.TooLarge():
+		msg += ": if it is in micrometres, use --scale 0.001"
+	case errors.As(err, &units):
+		msg += ": if it is in metres, use --scale 1000; in centimetres, --scale 10"
+	case errors.As(err, &specOpt):
+		_, why, _ := strings.Cut(specOpt.Error(), "; ")
+		msg = strings.Replace(msg, specOpt.Error(), "--"+specOpt.Option+" applies to STL surfaces; "+why, 1)
+	}
+	return msg
 }
