@@ -3,6 +3,8 @@ package analysis
 import (
 	"strconv"
 	"strings"
+
+	"tapersweep/models"
 )
 
 // Column is one per-step figure as every output states it: its name in the JSON and the CSV,
@@ -140,7 +142,10 @@ var stepColumns = func() []Column {
 	cols := []Column{
 		textColumn("step", "step", "step", func(m *StepMetrics, _ string) string { return strconv.Itoa(m.Step) }),
 		textColumn("label", "file (size/taper)", "file", func(m *StepMetrics, _ string) string { return m.Label }),
-		textColumn("alloy", "alloy", "alloy", func(m *StepMetrics, _ string) string { return m.Alloy }),
+		// An alloy's name comes from the sequence file: shown printable.
+		textColumn("alloy", "alloy", "alloy", func(m *StepMetrics, _ string) string {
+			return models.Printable(m.Alloy, models.MaxNameRunes)
+		}),
 		scalar("tip_depth_mm", "tip depth from orifice, mm", "tip\nmm", "mm", 3, 2,
 			func(m *StepMetrics) *float64 { return &m.TipDepthMM }),
 		scalar("tip_from_apex_mm", "tip from apical end, mm", "tip to\nend mm", "mm", 3, 2,

@@ -232,9 +232,9 @@ func mostEngagedStep(res *analysis.Result) int {
 }
 
 func runStatus(res *analysis.Result) string {
-	s := fmt.Sprintf("%d steps analysed in %s.", len(res.Steps), res.Canal.Name)
+	s := fmt.Sprintf("%d steps analysed in %s.", len(res.Steps), models.Printable(res.Canal.Name, models.MaxNameRunes))
 	if len(res.Warnings) > 0 {
-		s += " " + res.Warnings[0]
+		s += " " + models.Printable(res.Warnings[0], models.MaxMessageRunes)
 	}
 	return s
 }

@@ -10,6 +10,7 @@ import (
 	"fyne.io/fyne/v2/widget"
 
 	"tapersweep/analysis"
+	"tapersweep/models"
 )
 
 // canalPanel states the canal's measures and holds the working length.
@@ -58,7 +59,7 @@ func canalText(c *analysis.Canal) string {
 		lines = append(lines, "Mesh: no warnings")
 	}
 	for _, wn := range s.Warnings {
-		lines = append(lines, "⚠ "+wn)
+		lines = append(lines, "⚠ "+models.Printable(wn, models.MaxMessageRunes))
 	}
 	return strings.Join(lines, "\n")
 }
@@ -68,7 +69,7 @@ func (p *canalPanel) refresh() {
 	if c == nil {
 		return
 	}
-	p.title.SetText("Canal: " + c.Name)
+	p.title.SetText("Canal: " + models.Printable(c.Name, models.MaxNameRunes))
 	p.text.SetText(canalText(c))
 	p.loading = true
 	p.wl.SetText(strconv.FormatFloat(round2(c.WorkingLength), 'f', -1, 64))

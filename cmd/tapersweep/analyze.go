@@ -98,7 +98,7 @@ func writeTabbed(w io.Writer, rows [][]string) {
 // writeStepsTable prints the steps for a person at a terminal.
 func writeStepsTable(w io.Writer, res *analysis.Result) {
 	sum := res.Canal.Summary(false)
-	fmt.Fprintf(w, "%s: length %.2f mm, working length %.2f mm", sum.Name, sum.LengthMM, sum.WorkingLengthMM)
+	fmt.Fprintf(w, "%s: length %.2f mm, working length %.2f mm", models.Printable(sum.Name, models.MaxNameRunes), sum.LengthMM, sum.WorkingLengthMM)
 	if r := sum.MaxCurvature.RadiusMM; r != nil {
 		fmt.Fprintf(w, ", tightest bend r %.2f mm at %.2f mm from the apical end", *r, sum.MaxCurvature.FromApexMM)
 	}
@@ -114,7 +114,7 @@ func writeStepsTable(w io.Writer, res *analysis.Result) {
 		}
 	}
 	for _, warn := range append(sum.Warnings, res.Warnings...) {
-		fmt.Fprintf(w, "\nnote: %s", warn)
+		fmt.Fprintf(w, "\nnote: %s", models.Printable(warn, models.MaxMessageRunes))
 	}
 	fmt.Fprintf(w, "\n\n%s\n", analysis.Caution)
 }

@@ -250,7 +250,7 @@ func batchCanal(ctx context.Context, path, file string, seq *models.Sequence, op
 	width := len(batchColumns())
 	errorRow := func(e error) [][]string {
 		row := make([]string, width)
-		row[0] = file
+		row[0] = models.Printable(file, models.MaxNameRunes)
 		row[width-1] = oneLine(describe(e))
 		return [][]string{row}
 	}
@@ -283,9 +283,13 @@ func canalRows(file string, res *analysis.Result) [][]string {
 		}
 		return f(*v)
 	}
-	canal := []string{file, sum.Name, f(sum.LengthMM), f(sum.WorkingLengthMM), p(sum.MaxCurvature.RadiusMM),
+	canal := []string{models.Printable(file, models.MaxNameRunes), models.Printable(sum.Name, models.MaxNameRunes), f(sum.LengthMM), f(sum.WorkingLengthMM), p(sum.MaxCurvature.RadiusMM),
 		f(sum.MaxCurvature.FromApexMM), f(sum.SchneiderDeg), f(sum.Arc.AngleDeg)}
-	warnings := oneLine(strings.Join(append(sum.Warnings, res.Warnings...), " | "))
+	var notes []string
+	for _, w := range append(sum.Warnings, res.Warnings...) {
+		notes = append(notes, models.Printable(w, models.MaxMessageRunes))
+	}
+	warnings := oneLine(strings.Join(notes, " | "))
 	var rows [][]string
 	for _, st := range res.Steps {
 		row := append(append([]string{}, canal...), st.Metrics.Row()...)
@@ -317,7 +321,7 @@ func newProgress(w io.Writer, terminal bool) func(done, total, failed int, file 
 			if err != nil {
 				status = "failed: " + oneLine(describe(err))
 			}
-			fmt.Fprintf(w, "batch: %d/%d %s %s\n", done, total, file, status)
+			fmt.Fprintf(w, "batch: %d/%d %s %s\n", done, total, models.Printable(file, models.MaxNameRunes), status)
 			return
 		}
 		const width = 30

@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"tapersweep/analysis"
+	"tapersweep/models"
 )
 
 // command is one headless subcommand. Every command parses its flags the same way, prints
@@ -83,5 +84,5 @@ func describe(err error) string {
 		_, why, _ := strings.Cut(specOpt.Error(), "; ")
 		msg = strings.Replace(msg, specOpt.Error(), "--"+specOpt.Option+" applies to STL surfaces; "+why, 1)
 	}
-	return msg
+	return models.Printable(msg, models.MaxMessageRunes)
 }

@@ -88,7 +88,7 @@ func planCommand() command {
 				if err != nil {
 					var inf *plan.InfeasibleError
 					if errors.As(err, &inf) {
-						fmt.Fprintf(stderr, "tapersweep plan: %s: %v\n", c.Name, err)
+						fmt.Fprintf(stderr, "tapersweep plan: %s: %s\n", models.Printable(c.Name, models.MaxNameRunes), describe(err))
 						return exitBadInput
 					}
 					return inputError(stderr, "plan", err)
@@ -145,7 +145,7 @@ func parseWeights(s string) (plan.Weights, error) {
 // writePlanTable prints the plan and the sequence it is compared with, step by step, then both
 // overall, then why the plan was chosen.
 func writePlanTable(w io.Writer, c *analysis.Canal, pl *plan.Plan, other *analysis.Result, otherName string) {
-	fmt.Fprintf(w, "%s: working length %.2f mm\n", c.Name, c.WorkingLength)
+	fmt.Fprintf(w, "%s: working length %.2f mm\n", models.Printable(c.Name, models.MaxNameRunes), c.WorkingLength)
 	compared := plan.ComparedColumns()
 	steps := func(title string, res *analysis.Result) {
 		fmt.Fprintf(w, "\n%s\n", title)

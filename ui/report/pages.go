@@ -188,7 +188,7 @@ func modelSection(pdf *fpdf.Fpdf, res *analysis.Result, sum analysis.ResultSumma
 		}
 		pairs = append(pairs, [2]string{"alloy", fmt.Sprintf(
 			"%s: E %g GPa, shear ultimate %g MPa, recoverable strain %.4g %%, strain-life C %g, b %g, %g cycles above the recoverable strain (%s)",
-			a.Name, a.ElasticModulusGPa, a.ShearUltimateMPa, 100*a.RecoverableStrain, a.StrainLifeC, a.StrainLifeB, a.CyclesAboveLimit, src)})
+			models.Printable(a.Name, models.MaxNameRunes), a.ElasticModulusGPa, a.ShearUltimateMPa, 100*a.RecoverableStrain, a.StrainLifeC, a.StrainLifeB, a.CyclesAboveLimit, src)})
 	}
 	keyValue(pdf, margin, 42, bodyW-42, pairs)
 }
@@ -233,7 +233,7 @@ func stepPage(pdf *fpdf.Fpdf, res *analysis.Result, st *analysis.StepResult, opt
 	m := st.Metrics
 	pdf.AddPage()
 	pdf.SetFont(fontBold, "", 13)
-	pdf.CellFormat(bodyW, 7, fmt.Sprintf("Step %d of %d: %s, %s", st.Number, len(res.Steps), m.Label, m.Alloy), "", 1, "L", false, 0, "")
+	pdf.CellFormat(bodyW, 7, fmt.Sprintf("Step %d of %d: %s, %s", st.Number, len(res.Steps), m.Label, models.Printable(m.Alloy, models.MaxNameRunes)), "", 1, "L", false, 0, "")
 	pdf.SetFont(fontRegular, "", sizeBody)
 	pdf.MultiCell(bodyW, lineBody, fmt.Sprintf("Target depth %s: the tip at %.2f mm from the orifice, %.2f mm from the apical end "+
 		"(working length %.2f mm). Wall shaded by depth of cut against the canal as the earlier steps left it.",

@@ -13,6 +13,7 @@ import (
 	"codeberg.org/go-pdf/fpdf"
 
 	"tapersweep/analysis"
+	"tapersweep/models"
 	"tapersweep/ui/scene"
 )
 
@@ -31,6 +32,10 @@ func (o Options) withDefaults(res *analysis.Result) Options {
 	if o.Title == "" {
 		o.Title = res.Canal.Name
 	}
+	// Names come from files: printable and short on every page.
+	o.Title = models.Printable(o.Title, models.MaxNameRunes)
+	o.CanalFile = models.Printable(o.CanalFile, models.MaxNameRunes)
+	o.SequenceFile = models.Printable(o.SequenceFile, models.MaxNameRunes)
 	if o.View == "" {
 		o.View = scene.Views[0].Name
 	}
@@ -66,6 +71,13 @@ func WritePDF(w io.Writer, res *analysis.Result, opt Options) error {
 	}
 	pdf := newDocument(opt)
 	sum := res.Summary()
+	sum.Canal.Name = models.Printable(sum.Canal.Name, models.MaxNameRunes)
+	for i, w := range sum.Canal.Warnings {
+		sum.Canal.Warnings[i] = models.Printable(w, models.MaxMessageRunes)
+	}
+	for i, w := range sum.Warnings {
+		sum.Warnings[i] = models.Printable(w, models.MaxMessageRunes)
+	}
 	summaryPage(pdf, res, sum, opt)
 	for _, st := range res.Steps {
 		if err := stepPage(pdf, res, st, opt); err != nil {
