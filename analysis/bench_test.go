@@ -54,7 +54,7 @@ func BenchmarkRadiusMap(b *testing.B) {
 	cc := *c
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
-		cc.buildRadiusMap()
+		cc.buildRadiusMap(0)
 	}
 }
 

@@ -28,11 +28,11 @@ func TestBranchLeftOutIsReported(t *testing.T) {
 		lo[k], hi[k] = math.Min(lo[k], slo[k]), math.Max(hi[k], shi[k])
 	}
 	// One grid for both: voxelise each on the union's box.
-	ga, err := mesh.Voxelize(withBox(main, lo, hi), h, 2)
+	ga, err := mesh.Voxelize(withBox(main, lo, hi), h, 2, 0)
 	if err != nil {
 		t.Fatal(err)
 	}
-	gb, err := mesh.Voxelize(withBox(side, lo, hi), h, 2)
+	gb, err := mesh.Voxelize(withBox(side, lo, hi), h, 2, 0)
 	if err != nil {
 		t.Fatal(err)
 	}

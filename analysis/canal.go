@@ -46,6 +46,9 @@ type CanalOptions struct {
 	Extract       ExtractOptions
 	Angles        int     // 0 = DefaultAngles
 	WorkingLength float64 // mm; 0 = the spec's or the centerline's length
+	// Workers is the number of goroutines the measuring may keep busy; 0 uses every core. The
+	// canal does not depend on it.
+	Workers int
 }
 
 // NewCanal measures a closed canal mesh whose units are not known to be mm (a scan): a size no
@@ -75,7 +78,7 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	}
 	c.Warnings = append(c.Warnings, mesh.Validate(m).Warnings()...)
 	c.Wall = mesh.NewBVH(m)
-	pts, info, err := extractCenterline(ctx, m, c.Wall, opt.Extract)
+	pts, info, err := extractCenterline(ctx, m, c.Wall, opt.Extract, opt.Workers)
 	if err != nil {
 		return nil, fmt.Errorf("centerline: %w", err)
 	}
@@ -103,8 +106,8 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	c.buildRadiusMap()
-	c.placeVertices()
+	c.buildRadiusMap(opt.Workers)
+	c.placeVertices(opt.Workers)
 	return c, nil
 }
 

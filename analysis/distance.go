@@ -2,16 +2,16 @@ package analysis
 
 import (
 	"math"
-	"runtime"
-	"sync"
 
 	"tapersweep/mesh"
+	"tapersweep/mesh/parallel"
 )
 
 // squaredDistance returns, for every voxel of g, the squared Euclidean distance in voxel
 // units from its centre to the centre of the nearest outside voxel (0 outside). It is the
-// exact transform of Felzenszwalb and Huttenlocher, one axis at a time, lines in parallel.
-func squaredDistance(g *mesh.Grid) []float32 {
+// exact transform of Felzenszwalb and Huttenlocher, one axis at a time, lines in parallel on
+// workers goroutines (0: all cores).
+func squaredDistance(g *mesh.Grid, workers int) []float32 {
 	n := g.NX * g.NY * g.NZ
 	d := make([]float32, n)
 	const far = 1e20
@@ -21,43 +21,36 @@ func squaredDistance(g *mesh.Grid) []float32 {
 		}
 	}
 	// Axis x: lines indexed by (j,k); stride 1.
-	parallelLines(g.NY*g.NZ, g.NX, func(line int, f, out []float64, v []int, z []float64) {
+	parallelLines(workers, g.NY*g.NZ, g.NX, func(line int, f, out []float64, v []int, z []float64) {
 		base := line * g.NX
 		edt1D(d, base, 1, g.NX, f, out, v, z)
 	})
-	parallelLines(g.NX*g.NZ, g.NY, func(line int, f, out []float64, v []int, z []float64) {
+	parallelLines(workers, g.NX*g.NZ, g.NY, func(line int, f, out []float64, v []int, z []float64) {
 		i, k := line%g.NX, line/g.NX
 		edt1D(d, i+g.NX*g.NY*k, g.NX, g.NY, f, out, v, z)
 	})
-	parallelLines(g.NX*g.NY, g.NZ, func(line int, f, out []float64, v []int, z []float64) {
+	parallelLines(workers, g.NX*g.NY, g.NZ, func(line int, f, out []float64, v []int, z []float64) {
 		edt1D(d, line, g.NX*g.NY, g.NZ, f, out, v, z)
 	})
 	return d
 }
 
-// parallelLines runs fn over lines 0..lines-1 on all cores, giving each worker its own scratch.
-func parallelLines(lines, length int, fn func(line int, f, out []float64, v []int, z []float64)) {
-	workers := runtime.GOMAXPROCS(0)
-	var wg sync.WaitGroup
-	chunk := (lines + workers - 1) / workers
-	for w := 0; w < workers; w++ {
-		lo, hi := w*chunk, min((w+1)*chunk, lines)
-		if lo >= hi {
-			break
-		}
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			f := make([]float64, length)
-			out := make([]float64, length)
-			v := make([]int, length)
-			z := make([]float64, length+1)
-			for line := lo; line < hi; line++ {
-				fn(line, f, out, v, z)
-			}
-		}()
+// parallelLines runs fn over lines 0..lines-1 on workers goroutines (0: all cores), giving
+// each its own scratch.
+func parallelLines(workers, lines, length int, fn func(line int, f, out []float64, v []int, z []float64)) {
+	type scratch struct {
+		f, out, z []float64
+		v         []int
 	}
-	wg.Wait()
+	bufs := make([]*scratch, parallel.Workers(workers, lines))
+	parallel.For(workers, lines, func(w, line int) {
+		b := bufs[w]
+		if b == nil {
+			b = &scratch{f: make([]float64, length), out: make([]float64, length), z: make([]float64, length+1), v: make([]int, length)}
+			bufs[w] = b
+		}
+		fn(line, b.f, b.out, b.v, b.z)
+	})
 }
 
 // edt1D is the lower envelope of parabolas along one line of d (start, stride, n).

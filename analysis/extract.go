@@ -10,6 +10,7 @@ import (
 	"github.com/go-gl/mathgl/mgl64"
 
 	"tapersweep/mesh"
+	"tapersweep/mesh/parallel"
 )
 
 // ExtractOptions tune centerline extraction. Zero values pick the defaults of design.md.
@@ -50,7 +51,7 @@ func (e extension) add(pts []mgl64.Vec3, tail extension) []mgl64.Vec3 {
 // extractCenterline finds the canal's axis in a closed mesh: voxelise, distance transform,
 // the two ends of the longest geodesic path, a minimal path through the middle, smoothing,
 // ends carried to the wall by ray casts, and each station re-centred on its cross-section.
-func extractCenterline(ctx context.Context, m *mesh.Mesh, bvh *mesh.BVH, opt ExtractOptions) ([]mgl64.Vec3, extraction, error) {
+func extractCenterline(ctx context.Context, m *mesh.Mesh, bvh *mesh.BVH, opt ExtractOptions, workers int) ([]mgl64.Vec3, extraction, error) {
 	var info extraction
 	area, vol := mesh.Area(m), mesh.Volume(m)
 	if area <= 0 || vol <= 0 {
@@ -71,14 +72,14 @@ func extractCenterline(ctx context.Context, m *mesh.Mesh, bvh *mesh.BVH, opt Ext
 	}
 	info.voxel = h
 	info.noise = medianEdge(m)
-	grid, err := mesh.Voxelize(m, h, 2)
+	grid, err := mesh.Voxelize(m, h, 2, workers)
 	if err != nil {
 		return nil, info, err
 	}
 	if err := ctx.Err(); err != nil {
 		return nil, info, err
 	}
-	sq := squaredDistance(grid)
+	sq := squaredDistance(grid, workers)
 	vg := newVoxelGraph(grid, sq)
 	if len(vg.cells) < 8 {
 		return nil, info, fmt.Errorf("the canal is too thin for a %.3f mm voxel grid (only %d voxels inside)", h, len(vg.cells))
@@ -154,7 +155,7 @@ func extractCenterline(ctx context.Context, m *mesh.Mesh, bvh *mesh.BVH, opt Ext
 	if err := ctx.Err(); err != nil {
 		return nil, info, err
 	}
-	pts, moved := recentre(m, pts, bvh, ds)
+	pts, moved := recentre(m, pts, bvh, ds, workers)
 	// Stations whose cross-section met an end cap could not be re-centred: near a wide end
 	// they still lean toward the rim, so they are cut off too.
 	first, last := 0, len(pts)-1
@@ -252,7 +253,7 @@ const recentreRays = 128
 // plane, outlined by rays from the station. In an oval canal the distance ridge is a band, so
 // a medial path wanders across it; the centroid does not. Stations whose outline meets an end
 // cap (a hit face almost facing along the axis) keep their place.
-func recentre(m *mesh.Mesh, pts []mgl64.Vec3, bvh *mesh.BVH, ds float64) ([]mgl64.Vec3, []bool) {
+func recentre(m *mesh.Mesh, pts []mgl64.Vec3, bvh *mesh.BVH, ds float64, workers int) ([]mgl64.Vec3, []bool) {
 	out := append([]mgl64.Vec3(nil), pts...)
 	moved := make([]bool, len(pts))
 	d1, _ := derivatives(pts, ds, max(2, int(0.2/ds)))
@@ -261,7 +262,7 @@ func recentre(m *mesh.Mesh, pts []mgl64.Vec3, bvh *mesh.BVH, ds float64) ([]mgl6
 		a := 2 * math.Pi * float64(j) / recentreRays
 		dirs[j] = [2]float64{math.Cos(a), math.Sin(a)}
 	}
-	parallelFor(len(pts), func(i int) {
+	parallel.For(workers, len(pts), func(_, i int) {
 		t := d1[i].Normalize()
 		if t.Len() == 0 {
 			return

@@ -4,12 +4,14 @@ import (
 	"math"
 
 	"github.com/go-gl/mathgl/mgl64"
+
+	"tapersweep/mesh/parallel"
 )
 
 // buildRadiusMap casts, from every station, one ray per angle in the normal plane and keeps the
 // distance to the first wall hit. A ray that finds no wall (a hole, or the very end of the
 // canal) takes the value of the nearest station that found one.
-func (c *Canal) buildRadiusMap() {
+func (c *Canal) buildRadiusMap(workers int) {
 	n, na := c.Line.Len(), c.Angles
 	c.Rho = make([]float32, n*na)
 	cs, sn := make([]float64, na), make([]float64, na)
@@ -18,7 +20,7 @@ func (c *Canal) buildRadiusMap() {
 		cs[j], sn[j] = math.Cos(th), math.Sin(th)
 	}
 	reach := 4 * c.Measures.Length
-	parallelFor(n, func(i int) {
+	parallel.For(workers, n, func(_, i int) {
 		p, n1, n2 := c.Line.Points[i], c.Line.N1[i], c.Line.N2[i]
 		for j := 0; j < na; j++ {
 			dir := n1.Mul(cs[j]).Add(n2.Mul(sn[j]))
@@ -75,7 +77,7 @@ func (c *Canal) buildRadiusMap() {
 
 // placeVertices gives every wall vertex its own (s, theta): the nearest point of the
 // centerline, refined onto the neighbouring segment, and the angle in that station's frame.
-func (c *Canal) placeVertices() {
+func (c *Canal) placeVertices(workers int) {
 	line := c.Line
 	nv := len(c.Mesh.Vertices)
 	c.VertexS = make([]float32, nv)
@@ -86,7 +88,7 @@ func (c *Canal) placeVertices() {
 	}
 	cell := math.Max(maxR, 4*line.DS)
 	grid := newPointGrid(line.Points, cell)
-	parallelFor(nv, func(v int) {
+	parallel.For(workers, nv, func(_, v int) {
 		p := c.Mesh.Vertices[v]
 		i := grid.nearest(p)
 		s := line.S[i]

@@ -46,7 +46,7 @@ func TestCenterlineAgainstSkeleton(t *testing.T) {
 		t.Fatal(err)
 	}
 	h := 0.05
-	g, err := mesh.Voxelize(c.Mesh, h, 2)
+	g, err := mesh.Voxelize(c.Mesh, h, 2, 0)
 	if err != nil {
 		t.Fatal(err)
 	}

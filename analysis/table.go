@@ -107,7 +107,7 @@ func levelKey(x float64) string { return strconv.FormatFloat(x, 'f', -1, 64) }
 // transportColumns state Gambill's measures at each level, keyed as in the JSON.
 func transportColumns() []Column {
 	var out []Column
-	for _, x := range TransportLevels {
+	for _, x := range transportLevels {
 		k := levelKey(x)
 		out = append(out, Column{Key: "transportation_" + k + "_mm", Label: "transportation at " + k + " mm, mm",
 			Heading: "moved mm\nat " + k + " mm", Unit: "mm", Digits: 4, Shown: 3,
@@ -118,7 +118,7 @@ func transportColumns() []Column {
 				}
 			}})
 	}
-	for _, x := range TransportLevels {
+	for _, x := range transportLevels {
 		k := levelKey(x)
 		out = append(out, Column{Key: "centering_ratio_" + k, Label: "centring ratio at " + k + " mm",
 			Heading: "centring\nat " + k + " mm", Digits: 3, Shown: 2,

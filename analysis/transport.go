@@ -20,8 +20,12 @@ func Gambill(m1, m2, d1, d2 float64) (transportation float64, centering *float64
 	return transportation, &r
 }
 
-// TransportLevels are the distances from the apical end, mm, at which transportation is stated.
-var TransportLevels = []float64{1, 3, 5}
+// transportLevels are the distances from the apical end, mm, at which transportation is stated.
+var transportLevels = [...]float64{1, 3, 5}
+
+// TransportLevels returns the distances from the apical end, mm, at which transportation is
+// stated (a fresh copy).
+func TransportLevels() []float64 { return append([]float64(nil), transportLevels[:]...) }
 
 // Transport is how a preparation moved the canal: Gambill's measures at 1, 3 and 5 mm from the
 // apical end (keyed "1", "3", "5"), the shift of the canal's centre at the apical end, and where
@@ -48,7 +52,7 @@ type TransportPlace struct {
 func transportBetween(c *Canal, from, to []float32) Transport {
 	tr := Transport{TransportationMM: map[string]float64{}, CenteringRatio: map[string]*float64{}}
 	L := c.Line.Length()
-	for _, x := range TransportLevels {
+	for _, x := range transportLevels {
 		key := strconv.FormatFloat(x, 'f', -1, 64)
 		if x >= L {
 			tr.TransportationMM[key] = 0

@@ -229,7 +229,7 @@ print(measure.mesh_surface_area(verts, faces), vol)
 
 // BenchmarkExtractSurface: the boundary of a 200k-triangle curved canal voxelised at 0.02 mm.
 func BenchmarkExtractSurface(b *testing.B) {
-	g, err := Voxelize(tubeCanalLike(782, 128), 0.02, 2)
+	g, err := Voxelize(tubeCanalLike(782, 128), 0.02, 2, 0)
 	if err != nil {
 		b.Fatal(err)
 	}

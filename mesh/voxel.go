@@ -3,11 +3,11 @@ package mesh
 import (
 	"fmt"
 	"math"
-	"runtime"
 	"slices"
-	"sync"
 
 	"github.com/go-gl/mathgl/mgl64"
+
+	"tapersweep/mesh/parallel"
 )
 
 // MaxGridVoxels bounds the size of a grid that Voxelize will build (one byte per voxel, and the
@@ -55,8 +55,9 @@ func (g *Grid) Center(i, j, k int) mgl64.Vec3 {
 // Voxelize marks the voxels whose centres lie inside the closed mesh m: for every z column
 // through voxel centres it counts the crossings of the mesh below each centre (odd = inside).
 // The grid spans the mesh's bounds plus pad empty voxels on every side. It fails when the
-// grid would hold more than MaxGridVoxels voxels (a *GridTooLargeError).
-func Voxelize(m *Mesh, voxel float64, pad int) (*Grid, error) {
+// grid would hold more than MaxGridVoxels voxels (a *GridTooLargeError). The rows are filled
+// on workers goroutines (0: all cores); the grid does not depend on their number.
+func Voxelize(m *Mesh, voxel float64, pad, workers int) (*Grid, error) {
 	if m == nil || len(m.Triangles) == 0 {
 		return nil, fmt.Errorf("voxelize: empty mesh")
 	}
@@ -93,7 +94,7 @@ func Voxelize(m *Mesh, voxel float64, pad int) (*Grid, error) {
 		origin[a] = lo[a] - slack/2
 	}
 	g := &Grid{Origin: origin, Voxel: voxel, NX: n[0], NY: n[1], NZ: n[2], Inside: make([]bool, n[0]*n[1]*n[2])}
-	voxelFill(g, m)
+	voxelFill(g, m, workers)
 	return g, nil
 }
 
@@ -136,27 +137,13 @@ type voxelCrossing struct {
 }
 
 // voxelFill computes the rows in parallel; each row is independent, so the result does not
-// depend on the number of cores.
-func voxelFill(g *Grid, m *Mesh) {
+// depend on the number of workers.
+func voxelFill(g *Grid, m *Mesh, workers int) {
 	start, list := voxelRowsOf(g, m)
-	workers := max(1, min(runtime.GOMAXPROCS(0), g.NY))
-	var wg sync.WaitGroup
-	rows := make(chan int, workers)
-	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			var hits []voxelCrossing
-			for j := range rows {
-				hits = voxelRow(g, m, j, list[start[j]:start[j+1]], hits[:0])
-			}
-		}()
-	}
-	for j := range g.NY {
-		rows <- j
-	}
-	close(rows)
-	wg.Wait()
+	hits := make([][]voxelCrossing, parallel.Workers(workers, g.NY))
+	parallel.For(workers, g.NY, func(w, j int) {
+		hits[w] = voxelRow(g, m, j, list[start[j]:start[j+1]], hits[w][:0])
+	})
 }
 
 // voxelRow finds the crossings of every column of row j and fills the voxels between them.

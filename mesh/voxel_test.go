@@ -3,7 +3,6 @@ package mesh
 import (
 	"errors"
 	"math"
-	"runtime"
 	"slices"
 	"strings"
 	"testing"
@@ -46,7 +45,7 @@ func voxBox(diagonalUp bool) *Mesh {
 }
 
 func TestVoxelizeGridLayout(t *testing.T) {
-	g, err := Voxelize(voxBox(true), 0.125, 1)
+	g, err := Voxelize(voxBox(true), 0.125, 1, 0)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -74,7 +73,7 @@ func TestVoxelizeColumnsOnSharedEdges(t *testing.T) {
 					m.Triangles[i] = [3]int32{tr[0], tr[2], tr[1]}
 				}
 			}
-			g, err := Voxelize(m, 0.125, 1)
+			g, err := Voxelize(m, 0.125, 1, 0)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -101,7 +100,7 @@ func TestVoxelizeColumnsThroughVertices(t *testing.T) {
 	const lo, hi, mid, top = 0.0625, 0.9375, 0.5, 0.875
 	m := &Mesh{Vertices: []mgl64.Vec3{{lo, lo, 0}, {hi, lo, 0}, {hi, hi, 0}, {lo, hi, 0}, {mid, mid, top}},
 		Triangles: [][3]int32{{0, 2, 1}, {0, 3, 2}, {0, 1, 4}, {1, 2, 4}, {2, 3, 4}, {3, 0, 4}}}
-	g, err := Voxelize(m, 0.125, 0)
+	g, err := Voxelize(m, 0.125, 0, 0)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -139,7 +138,7 @@ func TestVoxelizeColumnsThroughVertices(t *testing.T) {
 func TestVoxelizeSphereVolume(t *testing.T) {
 	const r = 1.0
 	m := tubeSphere(mgl64.Vec3{0.013, -0.021, 0.007}, r, 64, 96)
-	g, err := Voxelize(m, 0.05, 2)
+	g, err := Voxelize(m, 0.05, 2, 0)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -150,19 +149,19 @@ func TestVoxelizeSphereVolume(t *testing.T) {
 	if math.Abs(got-want) > 0.01*want {
 		t.Errorf("voxel volume %.4f, mesh volume %.4f", got, want)
 	}
-	// Same grid on one core and on all cores.
-	prev := runtime.GOMAXPROCS(1)
-	g1, err := Voxelize(m, 0.05, 2)
-	runtime.GOMAXPROCS(prev)
-	if err != nil || !slices.Equal(g1.Inside, g.Inside) {
-		t.Errorf("result depends on the number of cores (err %v)", err)
+	// Same grid on one worker and on all cores, and on three.
+	for _, workers := range []int{1, 3} {
+		g1, err := Voxelize(m, 0.05, 2, workers)
+		if err != nil || !slices.Equal(g1.Inside, g.Inside) {
+			t.Errorf("result depends on the number of workers (%d, err %v)", workers, err)
+		}
 	}
 }
 
 func TestVoxelizeRejects(t *testing.T) {
 	box := voxBox(true)
 	for _, v := range []float64{0, -1, math.NaN(), math.Inf(1)} {
-		if _, err := Voxelize(box, v, 1); err == nil {
+		if _, err := Voxelize(box, v, 1, 0); err == nil {
 			t.Errorf("voxel %g accepted", v)
 		}
 	}
@@ -170,21 +169,21 @@ func TestVoxelizeRejects(t *testing.T) {
 	for i := range big.Vertices {
 		big.Vertices[i] = big.Vertices[i].Mul(1000)
 	}
-	_, err := Voxelize(big, 0.01, 1)
+	_, err := Voxelize(big, 0.01, 1, 0)
 	var ge *GridTooLargeError
 	if !errors.As(err, &ge) || ge.Voxel != 0.01 || !strings.Contains(err.Error(), "more than 30000000 voxels") {
 		t.Errorf("a 10^15-voxel grid: err %v, want a grid too large", err)
 	}
 	bad := &Mesh{Vertices: box.Vertices, Triangles: [][3]int32{{0, 1, 99}}}
-	if _, err := Voxelize(bad, 0.1, 1); err == nil {
+	if _, err := Voxelize(bad, 0.1, 1, 0); err == nil {
 		t.Error("triangle with an out-of-range vertex accepted")
 	}
 	nan := &Mesh{Vertices: slices.Clone(box.Vertices), Triangles: box.Triangles}
 	nan.Vertices[3][0] = math.NaN()
-	if _, err := Voxelize(nan, 0.1, 1); err == nil {
+	if _, err := Voxelize(nan, 0.1, 1, 0); err == nil {
 		t.Error("NaN vertex accepted")
 	}
-	if _, err := Voxelize(&Mesh{}, 0.1, 1); err == nil {
+	if _, err := Voxelize(&Mesh{}, 0.1, 1, 0); err == nil {
 		t.Error("empty mesh accepted")
 	}
 }
@@ -196,7 +195,7 @@ func BenchmarkVoxelize(b *testing.B) {
 	var g *Grid
 	for b.Loop() {
 		var err error
-		if g, err = Voxelize(m, 0.03, 2); err != nil {
+		if g, err = Voxelize(m, 0.03, 2, 0); err != nil {
 			b.Fatal(err)
 		}
 	}

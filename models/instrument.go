@@ -42,6 +42,9 @@ const (
 const (
 	CommonMaxTaper = 0.12
 	MaxTaper       = 0.2
+	// TaperTolerance: tapers closer than this are the same taper (decimal fractions such as
+	// 0.06 are not exact in binary).
+	TaperTolerance = 1e-9
 )
 
 // DefaultMaxFluteFor returns the default flute cap for a size: DefaultMaxFluteD, or the tip

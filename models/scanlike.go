@@ -30,7 +30,7 @@ func ScanLike(c *CanalSpec, voxel, noise float64, seed int64) (*mesh.Mesh, error
 		return nil, fmt.Errorf("scan-like canal %q: noise %g mm: want 0 to a quarter voxel (%g mm)", c.Name, noise, voxel/4)
 	}
 	exact := c.Mesh(min(0.05, voxel/2), 96)
-	grid, err := mesh.Voxelize(exact, voxel, 2)
+	grid, err := mesh.Voxelize(exact, voxel, 2, 0)
 	if err != nil {
 		return nil, fmt.Errorf("scan-like canal %q: %v", c.Name, err)
 	}

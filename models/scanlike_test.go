@@ -72,7 +72,7 @@ func BenchmarkVoxelizeCanal(b *testing.B) {
 	var g *mesh.Grid
 	for b.Loop() {
 		var err error
-		if g, err = mesh.Voxelize(m, 0.03, 2); err != nil {
+		if g, err = mesh.Voxelize(m, 0.03, 2, 0); err != nil {
 			b.Fatal(err)
 		}
 	}

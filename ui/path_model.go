@@ -87,7 +87,7 @@ func (w *mainWindow) setPathModel(model string) {
 // transportText states Gambill's measures in one short paragraph.
 func transportText(tr analysis.Transport) string {
 	var lev, mm, cen []string
-	for _, x := range analysis.TransportLevels {
+	for _, x := range analysis.TransportLevels() {
 		k := levelKey(x)
 		lev = append(lev, k)
 		mm = append(mm, fmt.Sprintf("%.3f", tr.TransportationMM[k]))

@@ -6,6 +6,7 @@ import (
 	"github.com/go-gl/mathgl/mgl64"
 
 	"tapersweep/analysis"
+	"tapersweep/models"
 )
 
 // coarse returns a copy of c sampled every ds mm along the centerline and at angles directions
@@ -18,7 +19,7 @@ import (
 func coarse(c *analysis.Canal, ds float64, angles int) *analysis.Canal {
 	src := c.Line
 	L := src.Length()
-	n := int(math.Floor(L/ds+1e-9)) + 1
+	n := int(math.Floor(L/ds+models.LengthTolerance)) + 1
 	s := make([]float64, 0, n+1)
 	for i := 0; i < n; i++ {
 		s = append(s, float64(i)*ds)

@@ -34,7 +34,7 @@ func depthChoices(c *analysis.Canal) []depthChoice {
 	var out []depthChoice
 	taken := func(d float64) bool {
 		for _, o := range out {
-			if math.Abs(o.depth.Resolve(wl)-d) < 0.5-1e-9 {
+			if math.Abs(o.depth.Resolve(wl)-d) < 0.5-models.LengthTolerance {
 				return true
 			}
 		}

@@ -1,6 +1,7 @@
 package plan
 
 import (
+	"context"
 	"fmt"
 	"strings"
 )
@@ -27,14 +28,14 @@ func (e *InfeasibleError) Error() string { return e.Msg }
 
 // infeasible finds which constraint binds: first whether lifting the taper rule alone would
 // allow a plan, then which limits the least-breaking plan breaks, at full resolution.
-func (p *planner) infeasible(rule bool) (*checked, error) {
+func (p *planner) infeasible(ctx context.Context, rule bool) (*checked, error) {
 	n := p.opt.MaxSteps
 	within := fmt.Sprintf("no plan within %d steps", n)
 	if n == 1 {
 		within = "the target file alone"
 	}
 	if rule && n > 1 {
-		plans, err := p.search(true, false)
+		plans, err := p.search(ctx, true, false)
 		if err != nil {
 			return nil, err
 		}
@@ -48,7 +49,7 @@ func (p *planner) infeasible(rule bool) (*checked, error) {
 					"taper in a row, this one does: %s", within, strings.Join(names, ", "))}
 		}
 	}
-	plans, err := p.search(false, rule)
+	plans, err := p.search(ctx, false, rule)
 	if err != nil {
 		return nil, err
 	}
@@ -76,7 +77,7 @@ func (p *planner) infeasible(rule bool) (*checked, error) {
 		}
 		clauses = append(clauses, text)
 	}
-	over := func(v, l float64) bool { return l > 0 && v > l*(1+1e-9) }
+	over := func(v, l float64) bool { return l > 0 && overCap(v, l) }
 	if over(m.engaged, lim.maxEngaged) {
 		note(ConstraintEngaged, lim.maxEngaged, m.engaged, m.engagedAt, fmt.Sprintf(
 			"%s keeps every file's engaged length under %.1f mm; the best found needs %.1f mm%s",

@@ -39,6 +39,9 @@ type Options struct {
 	CoarseAngles int     // directions around each station (DefaultCoarseAngles)
 	BeamWidth    int     // partial plans kept per number of steps (DefaultBeamWidth)
 	Recheck      int     // best plans re-checked at full resolution (DefaultRecheck)
+	// Workers is the number of goroutines the search keeps busy; 0 uses every core. The plan
+	// does not depend on it.
+	Workers int
 }
 
 // Target is the size and taper the preparation must end with at working length.
@@ -145,7 +148,7 @@ func DefaultShelf(t Target) []models.Instrument {
 		if in.Size < 10 || in.Size > t.Size {
 			continue
 		}
-		if tp := in.TaperAt(0); tp > 0.08+1e-9 && (in.Size < 20 || tp > 0.10+1e-9) {
+		if tp := in.TaperAt(0); tp > 0.08+models.TaperTolerance && (in.Size < 20 || tp > 0.10+models.TaperTolerance) {
 			continue
 		}
 		out = append(out, in)

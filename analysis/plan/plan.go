@@ -44,11 +44,10 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"runtime"
 	"strings"
-	"sync"
 
 	"tapersweep/analysis"
+	"tapersweep/mesh/parallel"
 	"tapersweep/models"
 )
 
@@ -77,7 +76,7 @@ func Propose(ctx context.Context, c *analysis.Canal, opt Options) (*Plan, error)
 	if c == nil || c.Line == nil || c.Line.Len() < 2 {
 		return nil, fmt.Errorf("plan: no measured canal")
 	}
-	if c.WorkingLength > c.Line.Length()+1e-9 {
+	if c.WorkingLength > c.Line.Length()+models.LengthTolerance {
 		return nil, fmt.Errorf("plan: %s: working length %.2f mm is beyond the canal's apical end at %.2f mm",
 			c.Name, c.WorkingLength, c.Line.Length())
 	}
@@ -85,26 +84,25 @@ func Propose(ctx context.Context, c *analysis.Canal, opt Options) (*Plan, error)
 	if ti < 0 {
 		return nil, fmt.Errorf("plan: the target %s is not among the %d instruments given", opt.Target.Label(), len(opt.Instruments))
 	}
-	p := &planner{ctx: ctx, full: c, opt: opt, targetInst: ti}
-	if err := p.prepare(); err != nil {
+	p := &planner{full: c, opt: opt, targetInst: ti}
+	if err := p.prepare(ctx); err != nil {
 		return nil, err
 	}
-	return p.propose()
+	return p.propose(ctx)
 }
 
 // findTarget returns the first constant-taper instrument of the target's size and taper.
 func findTarget(ins []models.Instrument, t Target) int {
 	for i, in := range ins {
-		if in.Size == t.Size && !in.IsVariableTaper() && math.Abs(in.TaperAt(0)-t.Taper) < 1e-9 {
+		if in.Size == t.Size && !in.IsVariableTaper() && math.Abs(in.TaperAt(0)-t.Taper) < models.TaperTolerance {
 			return i
 		}
 	}
 	return -1
 }
 
-// planner holds one call of Propose.
+// planner holds one call of Propose (its context is passed to each method that runs).
 type planner struct {
-	ctx        context.Context
 	full       *analysis.Canal
 	opt        Options
 	targetInst int
@@ -121,7 +119,7 @@ type planner struct {
 
 // prepare builds the coarse canal, lays out every (file, depth) move on it, finds each move's
 // fatigue use at full resolution, and measures the baseline.
-func (p *planner) prepare() error {
+func (p *planner) prepare(ctx context.Context) error {
 	c, opt := p.full, p.opt
 	ds := math.Max(opt.CoarseDS, c.Line.DS)
 	cc := coarse(c, ds, opt.CoarseAngles)
@@ -144,11 +142,11 @@ func (p *planner) prepare() error {
 	// search as in the final check. (Near an alloy's strain limit the coarse figure can be a
 	// quarter off or more; a file whose coarse figure is a quarter of the cap is taken to stay
 	// under it, and the final check at full resolution catches any that does not.)
-	if err := p.fatigueOn(cc, p.moves); err != nil {
+	if err := p.fatigueOn(ctx, cc, p.moves); err != nil {
 		return err
 	}
 	thin := fewAngles(c)
-	if err := p.fatigueOn(thin, []*move{p.target}); err != nil {
+	if err := p.fatigueOn(ctx, thin, []*move{p.target}); err != nil {
 		return err
 	}
 	if lim := p.fatigueCap(p.target.fatigue); lim > 0 {
@@ -158,11 +156,11 @@ func (p *planner) prepare() error {
 				near = append(near, mv)
 			}
 		}
-		if err := p.fatigueOn(thin, near); err != nil {
+		if err := p.fatigueOn(ctx, thin, near); err != nil {
 			return err
 		}
 	}
-	base, err := analysis.Run(p.ctx, c, &models.Sequence{Steps: []models.Step{targetStep}, PathModel: models.PathCentred,
+	base, err := analysis.Run(ctx, c, &models.Sequence{Steps: []models.Step{targetStep}, PathModel: models.PathCentred,
 		Name: "the target file alone"}, opt.Run)
 	if err != nil {
 		return err
@@ -203,10 +201,10 @@ func (p *planner) fatigueCap(targetUse float64) float64 {
 }
 
 // fatigueOn finds the moves' fatigue use on canal c, in parallel.
-func (p *planner) fatigueOn(c *analysis.Canal, moves []*move) error {
+func (p *planner) fatigueOn(ctx context.Context, c *analysis.Canal, moves []*move) error {
 	errs := make([]error, len(moves))
-	parallel(len(moves), func(i int) {
-		errs[i] = fatigueOf(p.ctx, c, moves[i], p.opt.Run)
+	parallel.For(p.opt.Workers, len(moves), func(_, i int) {
+		errs[i] = fatigueOf(ctx, c, moves[i], p.opt.Run)
 	})
 	for _, err := range errs {
 		if err != nil {
@@ -226,25 +224,9 @@ func fatigueOf(ctx context.Context, cc *analysis.Canal, mv *move, opt analysis.R
 	return nil
 }
 
-// parallel runs fn(i) for every i on all cores; each i once, results kept per index.
-func parallel(n int, fn func(i int)) {
-	var wg sync.WaitGroup
-	workers := min(runtime.GOMAXPROCS(0), n)
-	for w := 0; w < workers; w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for i := w; i < n; i += workers {
-				fn(i)
-			}
-		}()
-	}
-	wg.Wait()
-}
-
 func (p *planner) searcher(strict, taperRule bool) *searcher {
 	return &searcher{g: p.g, moves: p.moves, target: p.target, lim: p.coarseLim, beamWidth: p.opt.BeamWidth,
-		keep: p.opt.Recheck, maxSteps: p.opt.MaxSteps, sameTaper: taperRule, strict: strict}
+		keep: p.opt.Recheck, maxSteps: p.opt.MaxSteps, sameTaper: taperRule, strict: strict, workers: p.opt.Workers}
 }
 
 // checked is a plan found on the coarse canal and run at full resolution.
@@ -258,12 +240,12 @@ type checked struct {
 
 // recheck runs the plans through the full-resolution canal and returns them best first
 // (fewest broken constraints, then lowest cost, then the search's order).
-func (p *planner) recheck(found []*complete) ([]*checked, error) {
+func (p *planner) recheck(ctx context.Context, found []*complete) ([]*checked, error) {
 	out := make([]*checked, len(found))
 	errs := make([]error, len(found))
-	parallel(len(found), func(i int) {
+	parallel.For(p.opt.Workers, len(found), func(_, i int) {
 		seq := p.sequence(found[i].moves)
-		res, err := analysis.Run(p.ctx, p.full, seq, p.opt.Run)
+		res, err := analysis.Run(ctx, p.full, seq, p.opt.Run)
 		if err != nil {
 			errs[i] = err
 			return
@@ -311,32 +293,32 @@ func (p *planner) sequence(moves []*move) *models.Sequence {
 }
 
 // search runs one beam search and rechecks its best plans.
-func (p *planner) search(strict, taperRule bool) ([]*checked, error) {
+func (p *planner) search(ctx context.Context, strict, taperRule bool) ([]*checked, error) {
 	s := p.searcher(strict, taperRule)
-	found, err := s.run(p.ctx)
+	found, err := s.run(ctx)
 	p.evaluated += s.evaluated
 	p.rechecked += len(found)
 	if err != nil {
 		return nil, err
 	}
-	return p.recheck(found)
+	return p.recheck(ctx, found)
 }
 
-func (p *planner) propose() (*Plan, error) {
-	if f, lim := p.fullLim.ref.fatigue, p.fullLim.maxFatigue; lim > 0 && f > lim*(1+1e-9) {
+func (p *planner) propose(ctx context.Context) (*Plan, error) {
+	if f, lim := p.fullLim.ref.fatigue, p.fullLim.maxFatigue; lim > 0 && overCap(f, lim) {
 		return nil, &InfeasibleError{Constraint: ConstraintFatigue, Limit: lim, Needed: f, Msg: fmt.Sprintf(
 			"the %s taken to working length, which ends every plan, uses %.3g of its fatigue life, above the cap of %.3g",
 			p.opt.Target.Label(), f, lim)}
 	}
 	rule := !p.opt.AllowSameTaper
-	plans, err := p.search(true, rule)
+	plans, err := p.search(ctx, true, rule)
 	if err != nil {
 		return nil, err
 	}
 	if len(plans) > 0 && plans[0].excess == 0 {
 		return p.explain(plans[0]), nil
 	}
-	best, err := p.infeasible(rule)
+	best, err := p.infeasible(ctx, rule)
 	if err != nil {
 		return nil, err
 	}

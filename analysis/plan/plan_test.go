@@ -4,7 +4,6 @@ import (
 	"context"
 	"errors"
 	"math"
-	"runtime"
 	"strings"
 	"testing"
 
@@ -114,9 +113,8 @@ func TestPlanIsDeterministic(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	prev := runtime.GOMAXPROCS(1)
+	opt.Workers = 1 // one goroutine against every core
 	b, err := Propose(context.Background(), demo, opt)
-	runtime.GOMAXPROCS(prev)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -3,9 +3,10 @@ package plan
 import (
 	"context"
 	"math"
-	"runtime"
 	"slices"
-	"sync"
+
+	"tapersweep/mesh/parallel"
+	"tapersweep/models"
 )
 
 // measures are a plan's three figures: the largest of each over its files so far, and the step
@@ -65,7 +66,7 @@ func (l *limits) cost(m measures) float64 {
 // keeps them all).
 func (l *limits) excess(m measures) float64 {
 	over := func(v, lim float64) float64 {
-		if lim <= 0 || v <= lim*(1+1e-9) {
+		if lim <= 0 || !overCap(v, lim) {
 			return 0
 		}
 		return v/lim - 1
@@ -100,7 +101,7 @@ func (s *state) uses(inst int) bool {
 // reached, and shapes coronally with larger tapers instead.
 func (s *state) smallerTipWhereLargerWent(mv *move) bool {
 	for p := s; p != nil && p.mv != nil; p = p.parent {
-		if p.mv.depth >= mv.depth-1e-9 && p.mv.step.Instrument.Size > mv.step.Instrument.Size {
+		if p.mv.depth >= mv.depth-models.LengthTolerance && p.mv.step.Instrument.Size > mv.step.Instrument.Size {
 			return true
 		}
 	}
@@ -151,8 +152,12 @@ type searcher struct {
 	maxSteps  int
 	sameTaper bool // the rule: consecutive files differ in taper
 	strict    bool // drop plans that break a constraint; else rank them by how far they do
+	workers   int  // goroutines for expanding the beam (0: all cores)
 	evaluated int
 }
+
+// overCap tells a figure above its cap; one equal to it, give or take the rounding of sums, keeps it.
+func overCap(v, limit float64) bool { return v > limit*(1+1e-9) }
 
 // minEngagedMM is the least engaged length of a file before the target: one that touches
 // less wall does no real work and would only slip between two files of one taper.
@@ -276,30 +281,11 @@ func cmpF(a, b float64) int {
 // index, so the outcome does not depend on the number of cores.
 func (s *searcher) expand(ctx context.Context, beam []*state, cands []candidate, bound float64) error {
 	nm := len(s.moves)
-	workers := min(runtime.GOMAXPROCS(0), len(cands))
-	var next int64
-	var mu sync.Mutex
-	var wg sync.WaitGroup
-	const chunk = 64
-	for w := 0; w < workers; w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for {
-				mu.Lock()
-				lo := int(next)
-				next += chunk
-				mu.Unlock()
-				if lo >= len(cands) || ctx.Err() != nil {
-					return
-				}
-				for i := lo; i < min(lo+chunk, len(cands)); i++ {
-					s.evaluate(&cands[i], beam[i/nm], s.moves[i%nm], i, bound)
-				}
-			}
-		}()
-	}
-	wg.Wait()
+	parallel.For(s.workers, len(cands), func(_, i int) {
+		if ctx.Err() == nil {
+			s.evaluate(&cands[i], beam[i/nm], s.moves[i%nm], i, bound)
+		}
+	})
 	return ctx.Err()
 }
 
@@ -316,7 +302,7 @@ func (s *searcher) evaluate(c *candidate, p *state, mv *move, order int, bound f
 	if p.smallerTipWhereLargerWent(mv) {
 		return
 	}
-	if s.strict && (s.lim.maxFatigue > 0 && mv.fatigue > s.lim.maxFatigue*(1+1e-9) ||
+	if s.strict && (s.lim.maxFatigue > 0 && overCap(mv.fatigue, s.lim.maxFatigue) ||
 		s.lim.maxPrepFatigue > 0 && mv.fatigue > s.lim.maxPrepFatigue) {
 		return
 	}

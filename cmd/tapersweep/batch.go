@@ -187,9 +187,10 @@ func runBatch(ctx context.Context, w io.Writer, files []string, seq *models.Sequ
 	}
 	jobs := max(1, min(opt.Jobs, len(files)))
 	// --jobs bounds the cores the run uses, not only the canals in flight: each canal's own
-	// parallel parts share those cores, and one job means one core.
+	// parallel parts get their share of those cores (passed down, not set for the process),
+	// and one job means one core.
 	cores := max(1, min(opt.Jobs, runtime.NumCPU()))
-	defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(cores))
+	opt.Load.Canal.Workers = max(1, cores/jobs)
 	next := make(chan int)
 	results := make(chan done, jobs)
 	var wg sync.WaitGroup

@@ -38,8 +38,8 @@ func renderCommand() command {
 					return usageError(stderr, "render", "--out is required")
 				}
 				var w, h int
-				if _, err := fmt.Sscanf(*size, "%dx%d", &w, &h); err != nil || w < 64 || h < 64 || w > 8192 || h > 8192 {
-					return usageError(stderr, "render", "--size must be WxH between 64 and 8192, not %q", *size)
+				if _, err := fmt.Sscanf(*size, "%dx%d", &w, &h); err != nil || min(w, h) < scene.MinPictureSide || max(w, h) > scene.MaxPictureSide {
+					return usageError(stderr, "render", "--size must be WxH between %d and %d, not %q", scene.MinPictureSide, scene.MaxPictureSide, *size)
 				}
 				if *step < 0 || (*step > 0 && *seqPath == "") {
 					return usageError(stderr, "render", "--step needs --sequence and a step number from 1")

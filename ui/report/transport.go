@@ -34,12 +34,12 @@ const transportLevelsNote = "Gambill et al. (J Endod 1996): wall removed on one 
 // largest transportation with its place and direction.
 var transportRows = func() []transportRow {
 	var rows []transportRow
-	for _, x := range analysis.TransportLevels {
+	for _, x := range analysis.TransportLevels() {
 		key := num(x)
 		rows = append(rows, transportRow{"transportation at " + key + " mm, mm",
 			func(tr analysis.Transport) string { return num(tr.TransportationMM[key]) }})
 	}
-	for _, x := range analysis.TransportLevels {
+	for _, x := range analysis.TransportLevels() {
 		key := num(x)
 		rows = append(rows, transportRow{"centring ratio at " + key + " mm",
 			func(tr analysis.Transport) string { return numOrDash(tr.CenteringRatio[key]) }})
@@ -109,7 +109,7 @@ var summaryTransportRows = []transportRow{
 // levels joins a value per transportation level with " / ".
 func levels(value func(key string) string) string {
 	out := ""
-	for i, x := range analysis.TransportLevels {
+	for i, x := range analysis.TransportLevels() {
 		if i > 0 {
 			out += " / "
 		}

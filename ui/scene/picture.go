@@ -9,12 +9,19 @@ import (
 	"tapersweep/ui/render"
 )
 
+// Sizes of a picture, pixels per side: under the smallest there is no room for the legend; the
+// largest is more than any print needs and bounds the memory of the supersampled buffers.
+const (
+	MinPictureSide = 64
+	MaxPictureSide = 8192
+)
+
 // Picture renders one view of a step (or the canal alone) with its legend and title into a new
 // image of w x h pixels, supersampled for print. The window uses Build and the renderer
 // directly; the CLI and the report use this.
 func Picture(c *analysis.Canal, res *analysis.Result, opt Options, view string, w, h int) (*image.RGBA, error) {
-	if w < 64 || h < 64 || w > 8192 || h > 8192 {
-		return nil, fmt.Errorf("picture size %dx%d is outside 64..8192 pixels", w, h)
+	if w < MinPictureSide || h < MinPictureSide || w > MaxPictureSide || h > MaxPictureSide {
+		return nil, fmt.Errorf("picture size %dx%d is outside %d..%d pixels", w, h, MinPictureSide, MaxPictureSide)
 	}
 	b, err := Build(c, res, opt)
 	if err != nil {
