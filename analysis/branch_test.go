@@ -13,7 +13,7 @@ import (
 
 // TestBranchLeftOutIsReported: a canal with a lateral canal joined to it (the union of two
 // voxelised tubes, its surface extracted) is measured along the main canal, and the branch is
-// named in the warnings (design.md: report any branches left out).
+// named in the warnings (DEVELOPERS.md, "How the centerline is found": a branch left out is reported).
 func TestBranchLeftOutIsReported(t *testing.T) {
 	main := specJSON(t, `{"kind":"straight","length":14}`, 1.0, 0.4, 0).Mesh(0.1, 48)
 	side := specJSON(t, `{"kind":"straight","length":4}`, 0.35, 0.3, 0).Mesh(0.1, 32)

@@ -157,8 +157,8 @@ func TestSchneiderConstruction(t *testing.T) {
 }
 
 // TestFramesInnerSide checks theta = 0 points to the inner side of the main curve: at s* the
-// centre of curvature of an arc in the xz plane bending toward +x lies toward +x (design.md,
-// "Conventions"), and the frame stays orthonormal along the line.
+// centre of curvature of an arc in the xz plane bending toward +x lies toward +x (DEVELOPERS.md,
+// "How the centerline is found"), and the frame stays orthonormal along the line.
 func TestFramesInnerSide(t *testing.T) {
 	spec := specJSON(t, `{"kind":"straight","length":8},{"kind":"arc","radius":5,"angle":45},{"kind":"straight","length":3}`, 1, 0.3, 0)
 	c := exactLine(spec)

@@ -13,7 +13,7 @@ import (
 	"tapersweep/mesh/parallel"
 )
 
-// ExtractOptions tune centerline extraction. Zero values pick the defaults of design.md.
+// ExtractOptions tune centerline extraction. Zero values pick the defaults (DEVELOPERS.md, "How the centerline is found").
 type ExtractOptions struct {
 	Voxel   float64     // voxel edge in mm; 0 = about 1/8 of the median canal radius
 	Orifice *mgl64.Vec3 // optional: a point near the coronal end chosen by the user

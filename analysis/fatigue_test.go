@@ -63,7 +63,7 @@ func TestFatigueGrowsWithRpmCurvatureAndDiameter(t *testing.T) {
 	}
 }
 
-// TestInsertionSchedule checks the schedule against its definition (design.md): pecks of
+// TestInsertionSchedule checks the schedule against its definition (DEVELOPERS.md, "The model in code"): pecks of
 // peck_mm past the deepest point, withdrawals of retract_mm, then out to the orifice.
 func TestInsertionSchedule(t *testing.T) {
 	moves := insertionSchedule(3, 1, 2, 1.5)

@@ -94,7 +94,7 @@ func TestSecondFileEngagesSixMillimetres(t *testing.T) {
 // TestCurvedOneSidedEngagement: on a curved canal whose wall is close on the inner side of the
 // bend only, the engaged area and removed volume equal the integrals with the metric factor of
 // a surface about a curved axis, dA = r (1 - k r cos theta) dtheta ds (differential geometry
-// of tubes; design.md), within 2 %. Without the factor the area would be off by about 2kr/pi.
+// of tubes; DEVELOPERS.md, "The model in code"), within 2 %. Without the factor the area would be off by about 2kr/pi.
 func TestCurvedOneSidedEngagement(t *testing.T) {
 	R := 3.0
 	base := canalFor(t, fmt.Sprintf(`{"kind":"straight","length":8},{"kind":"arc","radius":%g,"angle":60},{"kind":"straight","length":3}`, R), 1.2, 1.2)

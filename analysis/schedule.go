@@ -9,10 +9,10 @@ type move struct {
 	speed    float64 // mm/s
 }
 
-// insertionSchedule lays out how a file reaches its target depth (design.md): it enters from
-// the orifice; each cycle advances peck past the deepest point reached so far, withdraws
-// retract and re-enters; after the target it withdraws to the orifice. The same speed serves
-// both ways.
+// insertionSchedule lays out how a file reaches its target depth (DEVELOPERS.md, "The model
+// in code"): it enters from the orifice; each cycle advances peck past the deepest point
+// reached so far, withdraws retract and re-enters; after the target it withdraws to the
+// orifice. The same speed serves both ways.
 func insertionSchedule(target, peck, retract, speed float64) []move {
 	var moves []move
 	if target <= 0 || peck <= 0 || speed <= 0 {

@@ -17,7 +17,7 @@ func TestCyclesToFailureRegimes(t *testing.T) {
 				t.Errorf("%s: eps %g -> N %g -> C N^-b = %g", a.Name, eps, n, back)
 			}
 		}
-		// At or above it life collapses to the stated count (design.md, two regimes).
+		// At or above it life collapses to the stated count (DEVELOPERS.md, "The model in code": two regimes).
 		for _, f := range []float64{1, 1.01, 2} {
 			if n := a.CyclesToFailure(f * a.RecoverableStrain); n != a.CyclesAboveLimit {
 				t.Errorf("%s: at %g x recoverable strain N = %g, want %g", a.Name, f, n, a.CyclesAboveLimit)

@@ -135,7 +135,7 @@ func TestCanalCurvatureAndDiameter(t *testing.T) {
 			t.Fatalf("discrete curvature %g at s=%g, want %g", k, s[i], want)
 		}
 	}
-	// design.md: the diameter varies linearly from orifice_d to apical_d.
+	// README, "Canal spec files": the diameter varies linearly from orifice_d to apical_d.
 	for _, tc := range []struct{ s, d float64 }{{0, 1.2}, {l, 0.3}, {l / 2, 0.75}, {l / 3, 1.2 - 0.9/3}, {-1, 1.2}, {l + 1, 0.3}} {
 		if got := c.Diameter(tc.s); math.Abs(got-tc.d) > 1e-12 {
 			t.Errorf("diameter at %g: %g, want %g", tc.s, got, tc.d)

@@ -19,7 +19,7 @@ func TestParseCanalSpecGood(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	// The format of design.md, "Input files": every field read as written.
+	// The format of the README, "Canal spec files": every field read as written.
 	if c.Name != "t" || len(c.Segments) != 4 || c.OrificeD != 1 || c.ApicalD != 0.25 || c.Oval != 1.4 ||
 		c.GivenWorkingLength != 15.5 || c.Segments[2].PlaneTurn != 180 || c.Segments[1].Radius != 5 {
 		t.Errorf("parsed %+v", c)
@@ -32,7 +32,7 @@ func TestParseCanalSpecGood(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	// design.md: working_length defaults to the centerline length.
+	// README, "Canal spec files": working_length defaults to the centerline length.
 	if c2.WorkingLength() != c2.Length() {
 		t.Errorf("default working length %g, want the length %g", c2.WorkingLength(), c2.Length())
 	}

@@ -6,7 +6,7 @@ import (
 )
 
 func TestParseDepth(t *testing.T) {
-	// design.md: a depth is mm from the orifice or "WL", "WL-1.5", "WL+0.5".
+	// README, "Sequence files": a depth is mm from the orifice or "WL", "WL-1.5", "WL+0.5".
 	const wl = 17.5
 	cases := []struct {
 		in      string

@@ -11,7 +11,7 @@ import (
 	"testing"
 )
 
-// designExample is the sequence example of design.md ("Input files").
+// designExample is the sequence example of the README ("Sequence files").
 const designExample = `{"alloys": {"my-alloy": {"elastic_modulus_gpa": 40, "shear_ultimate_mpa": 900, "recoverable_strain": 0.07,
                          "strain_life_c": 0.33, "strain_life_b": 0.3, "cycles_above_limit": 3}},
  "steps": [{"size": 25, "taper": 0.06, "depth": "WL-2"},
@@ -27,7 +27,7 @@ func TestParseSequenceDesignExample(t *testing.T) {
 	if len(seq.Steps) != 2 || seq.PathModel != PathCentred || len(seq.Warnings) != 0 {
 		t.Fatalf("steps %d, path %q, warnings %v", len(seq.Steps), seq.PathModel, seq.Warnings)
 	}
-	// Defaults stated in design.md: rpm 400, peck 1.0, retract 2.0, advance 1.5, superelastic
+	// Defaults stated in the README ("Sequence files"): rpm 400, peck 1.0, retract 2.0, advance 1.5, superelastic
 	// alloy, round section, 16 mm cutting length, 1.2 mm flute cap.
 	s1 := seq.Steps[0]
 	if s1.RPM != 400 || s1.PeckMM != 1 || s1.RetractMM != 2 || s1.AdvanceMMs != 1.5 || s1.TorqueLimitNcm != 0 ||

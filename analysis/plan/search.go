@@ -95,7 +95,6 @@ func (s *state) uses(inst int) bool {
 	return false
 }
 
-// path lists the moves from the first file on.
 // smallerTipWhereLargerWent: a file whose tip is smaller than one already taken as deep or
 // deeper enlarges nothing at its tip; common practice goes up in tip size where files have
 // reached, and shapes coronally with larger tapers instead.
@@ -108,6 +107,7 @@ func (s *state) smallerTipWhereLargerWent(mv *move) bool {
 	return false
 }
 
+// path lists the moves from the first file on.
 func (s *state) path() []*move {
 	var out []*move
 	for p := s; p != nil && p.mv != nil; p = p.parent {

@@ -1,6 +1,7 @@
 package parallel
 
 import (
+	"fmt"
 	"runtime"
 	"sync/atomic"
 	"testing"
@@ -52,4 +53,12 @@ func TestForUsesTheWorkersAskedFor(t *testing.T) {
 	if most.Load() != 1 {
 		t.Errorf("%d items ran at once with one worker", most.Load())
 	}
+}
+
+func ExampleFor() {
+	squares := make([]int, 5)
+	// Two goroutines; each result lands at its own index, so the order of work does not matter.
+	For(2, len(squares), func(_, i int) { squares[i] = i * i })
+	fmt.Println(squares)
+	// Output: [0 1 4 9 16]
 }
