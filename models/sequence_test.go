@@ -11,7 +11,7 @@ import (
 	"testing"
 )
 
-// designExample is the sequence example of the README ("Sequence files").
+// designExample uses every field of a sequence step (README, "Sequence files").
 const designExample = `{"alloys": {"my-alloy": {"elastic_modulus_gpa": 40, "shear_ultimate_mpa": 900, "recoverable_strain": 0.07,
                          "strain_life_c": 0.33, "strain_life_b": 0.3, "cycles_above_limit": 3}},
  "steps": [{"size": 25, "taper": 0.06, "depth": "WL-2"},

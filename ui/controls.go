@@ -37,7 +37,7 @@ const (
 func newViewControls(w *mainWindow) *viewControls {
 	vc := &viewControls{w: w}
 	vc.views = widget.NewSelect(scene.ViewNames(), func(name string) { w.view.aim(name) })
-	vc.views.SetSelected(scene.Views[0].Name)
+	vc.views.SetSelected(scene.DefaultView)
 	fit := widget.NewButton("Fit", w.view.fit)
 
 	vc.opacity = widget.NewSlider(0.1, 1)

@@ -70,7 +70,7 @@ type viewport struct {
 }
 
 func newViewport(ui *handOver) *viewport {
-	v := &viewport{wake: make(chan struct{}, 1), renderer: render.NewRenderer(), view: scene.Views[0].Name, ui: ui}
+	v := &viewport{wake: make(chan struct{}, 1), renderer: render.NewRenderer(), view: scene.DefaultView, ui: ui}
 	v.cam = *render.NewCamera()
 	v.raster = canvas.NewRaster(v.generate)
 	v.ExtendBaseWidget(v)

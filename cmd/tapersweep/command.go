@@ -25,6 +25,10 @@ func commands() []command {
 	return []command{centerlineCommand(), analyzeCommand(), renderCommand(), planCommand(), reportCommand(), batchCommand(), demoCommand()}
 }
 
+// filesHelp points every command's help to where the files a person writes are described.
+const filesHelp = "The files you write (canal spec, sequence, instruments list): every field, unit, default and\n" +
+	"allowed range, with an example of each, in the README, section \"Files you write\"."
+
 // run parses args and calls the command's body.
 func (c command) run(args []string, stdout, stderr io.Writer) int {
 	fs := flag.NewFlagSet(c.name, flag.ContinueOnError)
@@ -39,6 +43,7 @@ func (c command) run(args []string, stdout, stderr io.Writer) int {
 		fs.SetOutput(io.Discard)
 		io.WriteString(w, strings.ReplaceAll("\n"+defaults.String(), "\n  -", "\n  --")[1:])
 		fmt.Fprintf(w, "\nExample:\n  %s\n", c.example)
+		fmt.Fprintf(w, "\n%s\n", filesHelp)
 	}
 	if err := fs.Parse(args); err != nil {
 		if errors.Is(err, flag.ErrHelp) {

@@ -27,7 +27,7 @@ func renderCommand() command {
 			step := fs.Int("step", 0, "step `N` to draw, numbered from 1 (default: the canal alone)")
 			out := fs.String("out", "", "PNG `file` to write")
 			size := fs.String("size", "1280x800", "image size `WxH` in pixels")
-			view := fs.String("view", scene.Views[0].Name, "named `view`: "+strings.Join(scene.ViewNames(), ", "))
+			view := fs.String("view", scene.DefaultView, "named `view`: "+strings.Join(scene.ViewNames(), ", "))
 			before := fs.Bool("before", false, "draw the canal as the step meets it instead of as the step leaves it")
 			clip := fs.Bool("open", false, "open the canal lengthwise along the plane of its main curve")
 			return func(stdout, stderr io.Writer) int {

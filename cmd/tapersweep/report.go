@@ -25,7 +25,7 @@ func reportCommand() command {
 			cf.register(fs)
 			seqPath := fs.String("sequence", "", "sequence `file` (JSON)")
 			out := fs.String("out", "", "PDF `file` to write")
-			view := fs.String("view", scene.Views[0].Name, "named `view` of the step pictures: "+strings.Join(scene.ViewNames(), ", "))
+			view := fs.String("view", scene.DefaultView, "named `view` of the step pictures: "+strings.Join(scene.ViewNames(), ", "))
 			title := fs.String("title", "", "heading of the first page (default: the canal's name)")
 			pathModel := fs.String("path-model", "", "file path `model`: centred (files follow the centerline) or elastic (files straighten as beams); overrides the sequence file")
 			return func(stdout, stderr io.Writer) int {

@@ -22,7 +22,7 @@ type Options struct {
 	Title        string // heading of the first page; default: the canal's name
 	CanalFile    string // the canal file as the user named it, shown on the summary page
 	SequenceFile string // the sequence file, shown on the summary page
-	View         string // named view of the step pictures (scene.Views); default the first
+	View         string // named view of the step pictures (scene.ViewNames); default scene.DefaultView
 	// ImageWidth x ImageHeight is the size in pixels of each step's picture, printed 84 mm wide
 	// (at most 130 mm high); 0 = 520 x 780.
 	ImageWidth, ImageHeight int
@@ -37,7 +37,7 @@ func (o Options) withDefaults(res *analysis.Result) Options {
 	o.CanalFile = models.Printable(o.CanalFile, models.MaxNameRunes)
 	o.SequenceFile = models.Printable(o.SequenceFile, models.MaxNameRunes)
 	if o.View == "" {
-		o.View = scene.Views[0].Name
+		o.View = scene.DefaultView
 	}
 	if o.ImageWidth <= 0 || o.ImageHeight <= 0 {
 		o.ImageWidth, o.ImageHeight = 520, 780

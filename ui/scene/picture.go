@@ -56,7 +56,7 @@ func Decorate(img *image.RGBA, b *Built, c *analysis.Canal, view string) {
 		render.DrawLegend(img, rect, b.Scale, 0, b.LegendMax, "mm", "depth of cut", "no contact")
 	}
 	if view == "" {
-		view = Views[0].Name
+		view = DefaultView
 	}
 	note := fmt.Sprintf("view: %s", view)
 	if b.OwnPath {
