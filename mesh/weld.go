@@ -54,7 +54,10 @@ type welder struct {
 	recent [weldRecentSize]weldRecent
 }
 
-const weldRecentSize = 16384
+const (
+	weldRecentBits = 14
+	weldRecentSize = 1 << weldRecentBits
+)
 
 // weldSlot is one table entry: a 64-bit hash of the cell stands for the cell. Two cells that
 // share a hash share a chain, which costs a few distance checks and never a wrong merge.
@@ -175,7 +178,7 @@ func (w *welder) findIn(k [3]int64, p mgl64.Vec3) (int32, uint64) {
 
 func (w *welder) add(p mgl64.Vec3) int32 {
 	h := weldHash([3]int64{int64(math.Float64bits(p[0] + 0)), int64(math.Float64bits(p[1] + 0)), int64(math.Float64bits(p[2] + 0))})
-	rc := &w.recent[h>>52&(weldRecentSize-1)]
+	rc := &w.recent[h>>(64-weldRecentBits)]
 	if rc.v >= 0 && rc.p == p {
 		return rc.v
 	}

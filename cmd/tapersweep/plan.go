@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 	"text/tabwriter"
@@ -60,6 +59,11 @@ func planCommand() command {
 				if math.IsNaN(*maxFatigue) || *maxFatigue < 0 && *maxFatigue != -1 {
 					return usageError(stderr, "plan", "--max-fatigue must be above 0, 0 (the default cap) or -1 (no cap)")
 				}
+				if *out != "" {
+					if err := checkOutput(*out, *cf.path, *instruments, *compare); err != nil {
+						return inputError(stderr, "plan", err)
+					}
+				}
 				opt := plan.Options{Target: tg, MaxSteps: *maxSteps, MaxEngagedMM: *maxEngaged,
 					MaxFatigue: *maxFatigue, AllowSameTaper: *sameTaper, Weights: w}
 				if *instruments != "" {
@@ -83,6 +87,7 @@ func planCommand() command {
 				if err != nil {
 					return inputError(stderr, "plan", err)
 				}
+				printWarnings(stderr, "plan", c.Warnings)
 				pl, err := plan.Propose(ctx, c, opt)
 				if err != nil {
 					var inf *plan.InfeasibleError
@@ -105,7 +110,7 @@ func planCommand() command {
 				}
 				data = append(data, '\n')
 				if *out != "" {
-					if err := os.WriteFile(*out, data, 0o644); err != nil {
+					if err := writeOutput(*out, func(w io.Writer) error { _, err := w.Write(data); return err }); err != nil {
 						return inputError(stderr, "plan", err)
 					}
 				}

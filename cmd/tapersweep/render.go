@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"image/png"
 	"io"
-	"os"
 	"strings"
 
 	"tapersweep/analysis"
@@ -44,12 +43,11 @@ func renderCommand() command {
 				if *step < 0 || (*step > 0 && *seqPath == "") {
 					return usageError(stderr, "render", "--step needs --sequence and a step number from 1")
 				}
-				ok := false
-				for _, v := range scene.ViewNames() {
-					ok = ok || v == *view
-				}
-				if !ok {
+				if !isView(*view) {
 					return usageError(stderr, "render", "--view must be one of %s", strings.Join(scene.ViewNames(), ", "))
+				}
+				if err := checkOutput(*out, *cf.path, *seqPath); err != nil {
+					return inputError(stderr, "render", err)
 				}
 				ctx := context.Background()
 				c, err := cf.load(ctx)
@@ -66,19 +64,16 @@ func renderCommand() command {
 						return inputError(stderr, "render", err)
 					}
 				}
+				if res != nil {
+					printWarnings(stderr, "render", runWarnings(res))
+				} else {
+					printWarnings(stderr, "render", c.Warnings)
+				}
 				img, err := scene.Picture(c, res, scene.Options{Step: *step, Before: *before, Clip: *clip}, *view, w, h)
 				if err != nil {
 					return inputError(stderr, "render", err)
 				}
-				f, err := os.Create(*out)
-				if err != nil {
-					return inputError(stderr, "render", err)
-				}
-				if err := png.Encode(f, img); err != nil {
-					f.Close()
-					return inputError(stderr, "render", err)
-				}
-				if err := f.Close(); err != nil {
+				if err := writeOutput(*out, func(w io.Writer) error { return png.Encode(w, img) }); err != nil {
 					return inputError(stderr, "render", err)
 				}
 				return exitOK
