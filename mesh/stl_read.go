@@ -25,6 +25,9 @@ type LoadReport struct {
 	TrianglesRead     int
 	DegenerateRemoved int
 	Vertices          int
+	// Turned counts triangles that faced the other way from their neighbours (or a whole
+	// inside-out surface) and were turned over.
+	Turned int
 	// Solids is the number of "solid ... endsolid" blocks of an ASCII file (every one is read).
 	Solids int
 	// Surface is the check of the welded surface (closed, manifold, shells, orientation).
@@ -142,8 +145,12 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	if err := ctx.Err(); err != nil {
 		return nil, rep, fmt.Errorf("%s: loading stopped: %w", name, err)
 	}
-	rep.Notes = append(rd.notes(), loadNotes(m, rep)...)
 	rep.Surface = validate(m, false) // degenerate triangles are gone already
+	if rep.Surface.InconsistentOrientation > 0 || rep.Surface.Closed && Volume(m) < 0 {
+		rep.Turned = OrientConsistently(m)
+		rep.Surface = validate(m, false)
+	}
+	rep.Notes = append(rd.notes(), loadNotes(m, rep)...)
 	rep.Warnings = append(rep.Surface.Warnings(), rep.Notes...)
 	return m, rep, nil
 }
@@ -167,6 +174,10 @@ func weldAndClean(corners []mgl64.Vec3) (*Mesh, int) {
 // loadNotes states what reading found beyond the surface's shape, each with a way to fix it.
 func loadNotes(m *Mesh, rep LoadReport) []string {
 	var w []string
+	if rep.Turned > 0 {
+		w = append(w, fmt.Sprintf("%d triangles faced the other way from their neighbours (or the surface was inside out) "+
+			"and were turned over; nothing to fix unless other programs show the surface wrongly", rep.Turned))
+	}
 	if rep.DegenerateRemoved > 0 {
 		w = append(w, fmt.Sprintf("%d triangles with zero area or a repeated corner were removed; "+
 			"nothing to fix unless the surface now shows holes", rep.DegenerateRemoved))
