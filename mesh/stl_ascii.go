@@ -22,7 +22,7 @@ import (
 // (it is garbage anyway), so no line, however long, makes it allocate.
 type asciiLexer struct {
 	r        *bufio.Reader
-	line     int   // line of the last byte read (from 1)
+	line     int // line of the last byte read (from 1)
 	word     []byte
 	wordLine int   // line where the word starts
 	read     int64 // bytes consumed

@@ -27,7 +27,6 @@ const (
 	recentMax = 8
 )
 
-
 // loadProgress is the dialog shown while a canal is read and measured, with a cancel button.
 type loadProgress struct {
 	dlg    dialog.Dialog
