@@ -7,6 +7,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"strings"
 
 	"tapersweep/mesh"
 	"tapersweep/models"
@@ -169,7 +170,11 @@ func canalFromSurface(ctx context.Context, name string, m *mesh.Mesh, rep mesh.L
 	}
 	if why := untrusted(surface, rep); why != "" {
 		if !opt.Force {
-			return nil, fmt.Errorf("%s: %s, so %w", name, why, ErrUntrustedSurface)
+			also := ""
+			if len(rep.Notes) > 0 {
+				also = " (reading found: " + strings.Join(rep.Notes, "; ") + ")"
+			}
+			return nil, fmt.Errorf("%s: %s%s, so %w", name, why, also, ErrUntrustedSurface)
 		}
 		notes = append(notes, "measured although "+why+": treat every figure as doubtful")
 	}

@@ -71,7 +71,7 @@ func analyzeFiles(ctx context.Context, cf *canalFlags, seqPath string, opts ...a
 	if len(opts) > 0 {
 		opt = opts[0]
 	}
-	seq, err := models.LoadSequence(seqPath)
+	seq, err := loadSequence(seqPath)
 	if err != nil {
 		return nil, err
 	}

@@ -61,7 +61,7 @@ func batchCommand() command {
 				if err != nil {
 					return usageError(stderr, "batch", "--shard: %v", err)
 				}
-				seq, err := models.LoadSequence(*seqPath)
+				seq, err := loadSequence(*seqPath)
 				if err != nil {
 					return inputError(stderr, "batch", err)
 				}

@@ -8,8 +8,28 @@ import (
 	"os/signal"
 	"syscall"
 
+	"tapersweep/mesh"
+	"tapersweep/models"
 	"tapersweep/ui/report"
 )
+
+// checkInput refuses an input that is not a regular file before a reader opens it: opening a
+// named pipe blocks until someone writes to it, and a device never ends.
+func checkInput(path string) error {
+	f, _, err := mesh.OpenInput(path, 0)
+	if err != nil {
+		return err
+	}
+	return f.Close()
+}
+
+// loadSequence reads a sequence file after checking it is a regular file.
+func loadSequence(path string) (*models.Sequence, error) {
+	if err := checkInput(path); err != nil {
+		return nil, err
+	}
+	return models.LoadSequence(path)
+}
 
 // checkOutput refuses an output path that names one of the command's inputs (through any
 // link) or something that is not a regular file, before any work is done.

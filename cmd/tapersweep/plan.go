@@ -67,6 +67,9 @@ func planCommand() command {
 				opt := plan.Options{Target: tg, MaxSteps: *maxSteps, MaxEngagedMM: *maxEngaged,
 					MaxFatigue: *maxFatigue, AllowSameTaper: *sameTaper, Weights: w}
 				if *instruments != "" {
+					if err := checkInput(*instruments); err != nil {
+						return inputError(stderr, "plan", err)
+					}
 					ins, warns, err := plan.LoadInstruments(*instruments)
 					if err != nil {
 						return inputError(stderr, "plan", err)
@@ -78,7 +81,7 @@ func planCommand() command {
 				}
 				var cmp *models.Sequence
 				if *compare != "" {
-					if cmp, err = models.LoadSequence(*compare); err != nil {
+					if cmp, err = loadSequence(*compare); err != nil {
 						return inputError(stderr, "plan", err)
 					}
 				}

@@ -9,7 +9,6 @@ import (
 	"strings"
 
 	"tapersweep/analysis"
-	"tapersweep/models"
 	"tapersweep/ui/scene"
 )
 
@@ -56,7 +55,7 @@ func renderCommand() command {
 				}
 				var res *analysis.Result
 				if *seqPath != "" {
-					seq, err := models.LoadSequence(*seqPath)
+					seq, err := loadSequence(*seqPath)
 					if err != nil {
 						return inputError(stderr, "render", err)
 					}
