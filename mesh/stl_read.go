@@ -146,7 +146,7 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 		return nil, rep, fmt.Errorf("%s: loading stopped: %w", name, err)
 	}
 	rep.Surface = validate(m, false) // degenerate triangles are gone already
-	if rep.Surface.InconsistentOrientation > 0 || rep.Surface.Closed && Volume(m) < 0 {
+	if rep.Surface.InconsistentOrientation > 0 || rep.Surface.Closed && rep.Surface.SignedVolume < 0 {
 		rep.Turned = OrientConsistently(m)
 		rep.Surface = validate(m, false)
 	}

@@ -22,6 +22,9 @@ type Report struct {
 	// i.e. one of them faces the wrong side.
 	InconsistentOrientation int
 	Closed, Manifold        bool
+	// SignedVolume is the enclosed volume (mm3) by the divergence theorem, negative when the
+	// triangles face in; meaningful only for a closed surface.
+	SignedVolume float64
 }
 
 // Validate checks edges, orientation, degenerate triangles and connectivity.
@@ -46,6 +49,7 @@ func validate(m *Mesh, degenerate bool) Report {
 		}
 	}
 	r.BoundaryEdges, r.NonManifoldEdges, r.InconsistentOrientation = edgeCounts(m)
+	r.SignedVolume = signedVolume(m)
 	<-done
 	r.Closed = r.BoundaryEdges == 0 && len(m.Triangles) > 0
 	r.Manifold = r.NonManifoldEdges == 0

@@ -97,7 +97,7 @@ func checkSurface(ctx context.Context, path string, scale float64) (*surfaceRepo
 		BoundaryEdges: s.BoundaryEdges, NonManifoldEdges: s.NonManifoldEdges, OppositeEdges: s.InconsistentOrientation,
 		DegenerateRemoved: lr.DegenerateRemoved, Turned: lr.Turned, Warnings: lr.Warnings}
 	if s.Closed {
-		v := mesh.Volume(m)
+		v := s.SignedVolume
 		rep.VolumeMM3 = &v
 	}
 	if rep.Warnings == nil {

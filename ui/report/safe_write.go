@@ -215,6 +215,13 @@ func DiscardAllPending() {
 // CheckTarget tells, before any work is done, whether path can be written: a regular file, a
 // new name, or a symlink to either.
 func CheckTarget(path string) error {
-	_, _, err := resolveTarget(path)
-	return err
+	final, _, err := resolveTarget(path)
+	if err != nil {
+		return err
+	}
+	dir := filepath.Dir(final)
+	if st, err := os.Stat(dir); err != nil || !st.IsDir() {
+		return fmt.Errorf("%s: its folder %s does not exist", path, dir)
+	}
+	return nil
 }
