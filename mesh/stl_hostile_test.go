@@ -2,7 +2,9 @@ package mesh
 
 import (
 	"bytes"
+	"context"
 	"encoding/binary"
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -161,4 +163,37 @@ func (s sizedReader) Seek(off int64, whence int) (int64, error) {
 		return s.size, nil
 	}
 	return off, nil
+}
+
+// cancelAfter cancels a context once n bytes have been read: Cancel pressed during a read.
+type cancelAfter struct {
+	*bytes.Reader
+	n      int
+	cancel func()
+}
+
+func (c *cancelAfter) Read(p []byte) (int, error) {
+	k, err := c.Reader.Read(p)
+	if c.n -= k; c.n <= 0 {
+		c.cancel()
+	}
+	return k, err
+}
+
+// Cancelling while the file is being read stops the read itself (binary and ASCII), not only
+// the steps after it.
+func TestLoadCancelDuringRead(t *testing.T) {
+	src := shapeCylinder(1, 4, 64, 200)
+	var ascii bytes.Buffer
+	if err := WriteASCIISTL(&ascii, src, "demo"); err != nil {
+		t.Fatal(err)
+	}
+	for name, data := range map[string][]byte{"binary": shapeBinarySTL(t, src), "ascii": ascii.Bytes()} {
+		ctx, cancel := context.WithCancel(t.Context())
+		r := &cancelAfter{Reader: bytes.NewReader(data), n: len(data) / 4, cancel: cancel}
+		_, _, err := Load(ctx, name+".stl", r, int64(len(data)), LoadOptions{})
+		if !errors.Is(err, context.Canceled) || r.Len() < len(data)/2 {
+			t.Errorf("%s: %v, %d of %d bytes left unread", name, err, r.Len(), len(data))
+		}
+	}
 }
