@@ -279,6 +279,8 @@ func hostileFixture(t *testing.T, dir string) []hostileCase {
 		{name: "analyze json on a full disk", args: []string{"analyze", "--canal", canal, "--sequence", seq}, stdout: "/dev/full", code: fail, say: []string{"no space left"}},
 		{name: "centerline csv on a full disk", args: []string{"centerline", "--canal", canal, "--format", "csv"}, stdout: "/dev/full", code: fail, say: []string{"no space left"}},
 		{name: "centerline json on a full disk", args: cl(canal), stdout: "/dev/full", code: fail, say: []string{"no space left"}},
+		{name: "plan on a full disk", args: []string{"plan", "--canal", canal, "--target", "25/.04", "--max-steps", "2"}, stdout: "/dev/full", code: fail, say: []string{"writing the output failed", "no space"}},
+		{name: "demo into a file", args: []string{"demo", "--out", seq}, code: fail, say: []string{"seq.json"}},
 		{name: "surface on a full disk", args: []string{"surface", "--canal", canal}, stdout: "/dev/full", code: fail, say: []string{"no space left"}},
 		{name: "batch to standard output on a full disk", args: []string{"batch", "--canals", foldered, "--sequence", seq, "--out", "-"}, stdout: "/dev/full", code: fail, say: []string{"no space"}},
 		{name: "batch with a sequence among the canals", args: []string{"batch", "--canals", foldered, "--sequence", seq, "--out", filepath.Join(out, "b.csv")}, code: fail, say: []string{"plan.json", "this is a sequence, not a canal", "1 of 2 canals failed"}},
