@@ -42,13 +42,7 @@ var loadBenchFiles = sync.OnceValues(func() (ordered, scattered string) {
 //
 //	go test ./mesh -run XXX -bench LoadVsAdmesh -benchtime 3x
 func BenchmarkLoadVsAdmesh(b *testing.B) {
-	bin, err := exec.LookPath("admesh")
-	if err != nil {
-		if os.Getenv("CI") != "" {
-			b.Fatal("admesh is not installed (apt-get install admesh)")
-		}
-		b.Skip("admesh not installed")
-	}
+	bin := admeshPath(b)
 	ordered, scattered := loadBenchFiles()
 	st, err := os.Stat(ordered)
 	if err != nil {
