@@ -2,6 +2,8 @@ package mesh
 
 import (
 	"math"
+	"runtime"
+	"sync"
 	"unsafe"
 
 	"github.com/go-gl/mathgl/mgl64"
@@ -117,10 +119,21 @@ func firstOccurrences(corners []mgl64.Vec3) []int32 {
 	} else {
 		count[1] = int32(len(missed))
 	}
-	table := make([]int32, 2*dedupBlock*2)
-	for b := 0; b < 1<<bits; b++ {
-		dedupInto(first, recs[count[b]:count[b+1]], table)
+	// Blocks are independent and each sets only its own corners' entries, so they split
+	// across cores with the same result on any number.
+	workers := min(runtime.GOMAXPROCS(0), 1<<bits, 4)
+	var wg sync.WaitGroup
+	for w := range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			table := make([]int32, 2*dedupBlock*2)
+			for b := w; b < 1<<bits; b += workers {
+				dedupInto(first, recs[count[b]:count[b+1]], table)
+			}
+		}()
 	}
+	wg.Wait()
 	return first
 }
 
@@ -199,6 +212,9 @@ type weldSlot struct {
 	head int32 // -1 = empty
 }
 
+// weldCellTols is the grid cell of the tolerance search in multiples of the tolerance.
+const weldCellTols = 64
+
 // weldMaxCell keeps cell indices far inside int64 whatever the coordinates.
 const weldMaxCell = 1 << 40
 
@@ -220,14 +236,15 @@ func newWelder(corners []mgl64.Vec3, tol, relTol float64, expect int) *welder {
 	if !(tol > 0) || math.IsInf(tol, 0) {
 		w.exact = true
 	} else {
-		// A cell 16*tol wide means the tol-box around a point touches at most two cells per
-		// axis and usually one; widen it further when coordinates are huge so indices stay small.
-		cell := math.Max(16*tol, maxAbs/weldMaxCell)
+		// A cell weldCellTols*tol wide means the tol-box around a point touches at most two
+		// cells per axis and seldom more than one, so few points look into a neighbour cell;
+		// widen it further when coordinates are huge so indices stay small.
+		cell := math.Max(weldCellTols*tol, maxAbs/weldMaxCell)
 		w.tol, w.tol2, w.inv = tol, tol*tol, 1/cell
 	}
-	// Room for the expected vertices at half load.
+	// Room for the expected vertices under half load, so the table never grows.
 	size := 1024
-	for size < 2*expect {
+	for size <= 2*expect {
 		size <<= 1
 	}
 	w.alloc(size)

@@ -45,7 +45,7 @@ func TestWeldRecoversIndexedMesh(t *testing.T) {
 func TestWeldToleranceNearCellBorders(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 2))
 	const tol = 0.01
-	cell := 16 * tol // the grid the welder uses; points are put right at its borders
+	cell := weldCellTols * tol // the grid the welder uses; points are put right at its borders
 	var pts []mgl64.Vec3
 	var cluster []int
 	nClusters := 300

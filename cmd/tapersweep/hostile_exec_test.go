@@ -14,7 +14,9 @@ import (
 const hostileTimeLimit = 10 * time.Minute
 
 // hostileRunProcess runs a case as a process of the -hostile.exec binary and measures its peak
-// memory (resident set, from the kernel's accounting of the child).
+// memory (resident set, from the kernel's accounting of the child). The figure is an upper
+// bound: the child starts as a copy of this test process (Linux counts that memory until the
+// exec), so a quick refusal shows the test's own size.
 func hostileRunProcess(t *testing.T, c hostileCase) hostileResult {
 	t.Helper()
 	ctx, cancel := context.WithTimeout(context.Background(), hostileTimeLimit)
