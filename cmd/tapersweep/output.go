@@ -64,8 +64,11 @@ func stopOnSignal(stderr io.Writer) {
 	signal.Notify(ch, os.Interrupt, syscall.SIGTERM)
 	go func() {
 		sig := <-ch
-		report.DiscardAllPending()
-		fmt.Fprintf(stderr, "tapersweep: stopped (%v); unfinished output files were removed\n", sig)
+		if n := report.DiscardAllPending(); n > 0 {
+			fmt.Fprintf(stderr, "tapersweep: stopped (%v); %d unfinished output files were removed, the old ones stay\n", sig, n)
+		} else {
+			fmt.Fprintf(stderr, "tapersweep: stopped (%v)\n", sig)
+		}
 		code := 130
 		if sig == syscall.SIGTERM {
 			code = 143

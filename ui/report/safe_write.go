@@ -201,15 +201,17 @@ func WriteFile(path string, write func(io.Writer) error) error {
 
 // DiscardAllPending removes every temporary not yet committed and stops later commits: for a
 // signal handler that is about to end the program. A commit already renaming finishes first
-// (its file is whole); any later one fails.
-func DiscardAllPending() {
+// (its file is whole); any later one fails. It returns how many temporaries it removed.
+func DiscardAllPending() int {
 	pendingMu.Lock()
 	defer pendingMu.Unlock()
 	exiting = true
+	n := len(pendingTmps)
 	for tmp := range pendingTmps {
 		os.Remove(tmp)
 		delete(pendingTmps, tmp)
 	}
+	return n
 }
 
 // CheckTarget tells, before any work is done, whether path can be written: a regular file, a
