@@ -61,12 +61,6 @@ func unsafeFlatten(t [][3]int32) []int32 {
 // table stay in the L2 cache.
 const dedupBlock = 16384
 
-// dedupRec is a corner copied into its block with its index.
-type dedupRec struct {
-	p mgl64.Vec3
-	i int32
-}
-
 // firstOccurrences returns, for every corner, the index of an earlier corner (or itself) with
 // the same coordinates (-0 equal to 0; a NaN only equal to itself), such that following it once
 // more (first[first[i]]) gives the first corner of that position.
@@ -81,7 +75,9 @@ func firstOccurrences(corners []mgl64.Vec3) []int32 {
 	for i := range recent {
 		recent[i].i = -1
 	}
-	missed := make([]dedupRec, 0, n/4)
+	// Only indices are kept: copying the corners into the blocks would be faster on a file
+	// whose triangles are scattered, but would triple the memory of the weld.
+	missed := make([]int32, 0, n/4)
 	for i, c := range corners {
 		r := &recent[exactHash(c)>>(64-weldRecentBits)]
 		if r.i >= 0 && r.p == c {
@@ -90,7 +86,7 @@ func firstOccurrences(corners []mgl64.Vec3) []int32 {
 		}
 		// Provisionally its own first; the exact pass below finds an earlier twin if any.
 		first[i] = int32(i)
-		missed = append(missed, dedupRec{c, int32(i)})
+		missed = append(missed, int32(i))
 		if finiteVec(c) {
 			r.p, r.i = c, int32(i)
 		}
@@ -103,17 +99,17 @@ func firstOccurrences(corners []mgl64.Vec3) []int32 {
 	count := make([]int32, 1<<bits+1)
 	recs := missed
 	if bits > 0 {
-		for _, r := range missed {
-			count[exactHash(r.p)>>shift+1]++
+		for _, i := range missed {
+			count[exactHash(corners[i])>>shift+1]++
 		}
 		for b := 1; b <= 1<<bits; b++ {
 			count[b] += count[b-1]
 		}
-		recs = make([]dedupRec, len(missed))
+		recs = make([]int32, len(missed))
 		fill := append([]int32(nil), count[:1<<bits]...)
-		for _, r := range missed {
-			b := exactHash(r.p) >> shift
-			recs[fill[b]] = r
+		for _, i := range missed {
+			b := exactHash(corners[i]) >> shift
+			recs[fill[b]] = i
 			fill[b]++
 		}
 	} else {
@@ -129,7 +125,7 @@ func firstOccurrences(corners []mgl64.Vec3) []int32 {
 			defer wg.Done()
 			table := make([]int32, 2*dedupBlock*2)
 			for b := w; b < 1<<bits; b += workers {
-				dedupInto(first, recs[count[b]:count[b+1]], table)
+				dedupInto(first, corners, recs[count[b]:count[b+1]], table)
 			}
 		}()
 	}
@@ -149,9 +145,9 @@ const (
 	weldRecentSize = 1 << weldRecentBits
 )
 
-// dedupInto sets first[] for one block (records in ascending index order) through an
-// open-addressing table of positions in the block (table is scratch space, large enough).
-func dedupInto(first []int32, blk []dedupRec, table []int32) {
+// dedupInto sets first[] for one block of corner indices (ascending) through an
+// open-addressing table of positions in the block (table is scratch space).
+func dedupInto(first []int32, corners []mgl64.Vec3, blk []int32, table []int32) {
 	size := 16
 	for size < 2*len(blk) {
 		size <<= 1
@@ -164,22 +160,22 @@ func dedupInto(first []int32, blk []dedupRec, table []int32) {
 		table[i] = -1
 	}
 	mask := uint64(size - 1)
-	for k, r := range blk {
-		if !finiteVec(r.p) {
-			first[r.i] = r.i
+	for _, ci := range blk {
+		p := corners[ci]
+		if !finiteVec(p) {
+			first[ci] = ci
 			continue
 		}
-		h := exactHash(r.p)
-		j := h & mask
+		j := exactHash(p) & mask
 		for {
 			e := table[j]
 			if e < 0 {
-				table[j] = int32(k)
-				first[r.i] = r.i
+				table[j] = ci
+				first[ci] = ci
 				break
 			}
-			if blk[e].p == r.p {
-				first[r.i] = blk[e].i
+			if corners[e] == p {
+				first[ci] = e
 				break
 			}
 			j = (j + 1) & mask
