@@ -24,11 +24,10 @@ func Weld(corners []mgl64.Vec3, tol float64) *Mesh {
 // weld is Weld with, when relTol > 0, the tolerance relTol times the largest coordinate
 // magnitude (float32 rounding grows with the magnitude, not with the model's size).
 //
-// It works in two stages so that its memory traffic does not depend on the order of the
-// triangles. First the identical corners (an STL lists each vertex about six times) are found
-// by partitioning the corners on a hash of their bits into blocks small enough for the cache
-// and deduplicating each block with a small table. Then only the distinct positions, in order
-// of first appearance, go through the grid welder for the tolerance.
+// It works in two stages, so that a file whose triangles are scattered costs little more than
+// one in building order. First the identical corners (an STL lists each vertex about six
+// times) are found (firstOccurrences). Then only the distinct positions, about a sixth of the
+// corners, go through the grid welder for the tolerance, in order of first appearance.
 func weld(corners []mgl64.Vec3, tol, relTol float64) *Mesh {
 	nt := len(corners) / 3
 	corners = corners[:3*nt]
