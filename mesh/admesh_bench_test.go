@@ -18,8 +18,9 @@ var loadBenchTriangles int
 var loadBenchFiles = sync.OnceValues(func() (ordered, scattered string) {
 	m := shapeCanalLike(512, 1000)
 	loadBenchTriangles = len(m.Triangles)
-	dir, err := os.MkdirTemp("", "tapersweep-loadbench")
-	if err != nil {
+	// One folder reused by every run, so runs do not pile up 100 MB each.
+	dir := filepath.Join(os.TempDir(), "tapersweep-loadbench")
+	if err := os.MkdirAll(dir, 0o755); err != nil {
 		panic(err)
 	}
 	ordered = filepath.Join(dir, "ordered.stl")
