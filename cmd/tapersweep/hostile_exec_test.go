@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"context"
+	"flag"
 	"os"
 	"os/exec"
 	"syscall"
@@ -11,7 +12,7 @@ import (
 )
 
 // hostileTimeLimit is how long one case may run before it counts as a hang.
-const hostileTimeLimit = 10 * time.Minute
+var hostileTimeLimit = flag.Duration("hostile.timeout", 10*time.Minute, "how long one hostile case may run before it counts as a hang")
 
 // hostileRunProcess runs a case as a process of the -hostile.exec binary and measures its peak
 // memory (resident set, from the kernel's accounting of the child). The figure is an upper
@@ -19,7 +20,7 @@ const hostileTimeLimit = 10 * time.Minute
 // exec), so a quick refusal shows the test's own size.
 func hostileRunProcess(t *testing.T, c hostileCase) hostileResult {
 	t.Helper()
-	ctx, cancel := context.WithTimeout(context.Background(), hostileTimeLimit)
+	ctx, cancel := context.WithTimeout(context.Background(), *hostileTimeLimit)
 	defer cancel()
 	cmd := exec.CommandContext(ctx, *hostileExec, c.args...)
 	var out, errOut bytes.Buffer
@@ -35,7 +36,7 @@ func hostileRunProcess(t *testing.T, c hostileCase) hostileResult {
 	}
 	err := cmd.Run()
 	if ctx.Err() != nil {
-		t.Fatalf("no answer within %v: a hang", hostileTimeLimit)
+		t.Fatalf("no answer within %v: a hang", *hostileTimeLimit)
 	}
 	code := 0
 	if ee, ok := err.(*exec.ExitError); ok {
