@@ -53,6 +53,13 @@ func TestHostileBigInputs(t *testing.T) {
 		t.Fatal(err)
 	}
 	t.Logf("at_cap.stl: %d triangles", len(m.Triangles))
+	// The same in scattered order, the weld's worst case for memory.
+	rng := rand.New(rand.NewPCG(21, 22))
+	rng.Shuffle(len(m.Triangles), func(i, j int) { m.Triangles[i], m.Triangles[j] = m.Triangles[j], m.Triangles[i] })
+	atCapScattered := filepath.Join(dir, "at_cap_scattered.stl")
+	if err := mesh.WriteSTLFile(atCapScattered, m); err != nil {
+		t.Fatal(err)
+	}
 	m = nil
 	noise := filepath.Join(dir, "noise.stl")
 	if f, err := os.Create(noise); err == nil {
@@ -71,6 +78,7 @@ func TestHostileBigInputs(t *testing.T) {
 		{name: "100 MB of ASCII without a facet", args: []string{"centerline", "--canal", noise},
 			code: exitBadInput, say: []string{"noise.stl", "no triangle", "lines 2-"}},
 		{name: "surface at the triangle cap", args: []string{"surface", "--canal", atCap}, code: exitOK, say: []string{"slow"}},
+		{name: "surface at the triangle cap, scattered", args: []string{"surface", "--canal", atCapScattered}, code: exitOK, say: []string{"slow"}},
 		{name: "centerline at the triangle cap", args: []string{"centerline", "--canal", atCap, "--format", "csv"}, code: exitOK, say: []string{"slow"}},
 	}
 	for _, c := range cases {
