@@ -6,6 +6,7 @@ require (
 	codeberg.org/go-pdf/fpdf v0.11.1
 	fyne.io/fyne/v2 v2.7.1
 	github.com/go-gl/mathgl v1.2.0
+	github.com/hschendel/stl v1.0.4
 	golang.org/x/image v0.30.0
 	gonum.org/v1/plot v0.17.0
 )
