@@ -94,8 +94,11 @@ func (e *SpecError) Error() string {
 // LoadCanalSpec reads and parses a canal spec file.
 func LoadCanalSpec(path string) (*CanalSpec, error) {
 	data, err := readInput(path, MaxSpecBytes)
+	if err == errTooLarge {
+		return nil, &SpecError{File: path, Msg: fmt.Sprintf("more than the %d bytes a canal spec can need", MaxSpecBytes)}
+	}
 	if err != nil {
-		return nil, &SpecError{File: path, Msg: err.Error()}
+		return nil, err
 	}
 	return ParseCanalSpec(path, data)
 }
@@ -105,8 +108,8 @@ func LoadCanalSpec(path string) (*CanalSpec, error) {
 // segment (from 1) and the field; broken JSON is reported with its line and column.
 func ParseCanalSpec(name string, data []byte) (*CanalSpec, error) {
 	fail := func(format string, a ...any) error { return &SpecError{File: name, Msg: fmt.Sprintf(format, a...)} }
-	if len(data) > MaxSpecBytes {
-		return nil, fail("%d bytes, more than a canal spec can need (%d)", len(data), MaxSpecBytes)
+	if err := CheckSpecSize(name, int64(len(data))); err != nil {
+		return nil, err
 	}
 	var f canalSpecJSON
 	if err := decodeJSON(data, &f); err != nil {
@@ -217,7 +220,7 @@ func specProblem(file string, err error) error {
 	case jsonUnknown:
 		e.Msg = fmt.Sprintf("%sunknown field %q (known: %s)", where, p.key, strings.Join(p.known, ", "))
 		if len(p.path) == 0 && slices.Contains(fieldNames(reflect.TypeFor[sequenceJSON]()), p.key) {
-			e.Msg = fmt.Sprintf("this is a sequence file (it has %q), not a canal spec", p.key)
+			e.Msg = fmt.Sprintf("this is a sequence, not a canal (it has %q); give it as the sequence", p.key)
 		}
 	case jsonRepeated:
 		e.Line, e.Column = p.line, p.col
@@ -227,7 +230,7 @@ func specProblem(file string, err error) error {
 	case jsonWrongKind:
 		switch {
 		case len(p.path) == 0:
-			e.Msg = "want a JSON object {\"name\": ..., \"segments\": [...], ...}"
+			e.Msg = "JSON, but not a canal spec: a canal spec is one JSON object {\"name\": ..., \"segments\": [...], ...}"
 		case len(p.path) == 1 && field == "segments":
 			e.Msg = "field \"segments\": want a list of segments"
 		case len(p.path) == 2:
@@ -316,4 +319,12 @@ func (s CanalSegment) length() float64 {
 		return s.Radius * s.Angle * math.Pi / 180
 	}
 	return s.Length
+}
+
+// CheckSpecSize refuses a canal spec of more than MaxSpecBytes before it is read.
+func CheckSpecSize(name string, size int64) error {
+	if size > MaxSpecBytes {
+		return &SpecError{File: name, Msg: fmt.Sprintf("%d bytes, more than a canal spec can need (%d)", size, MaxSpecBytes)}
+	}
+	return nil
 }

@@ -37,8 +37,11 @@ func instrumentFieldNames() []string {
 // LoadInstruments reads the files on a shelf from a JSON file; see ParseInstruments.
 func LoadInstruments(path string) ([]Instrument, []string, error) {
 	data, err := readInput(path, maxInstrumentsBytes)
+	if err == errTooLarge {
+		return nil, nil, &SequenceError{File: path, Msg: fmt.Sprintf("larger than %d MB: not an instruments file", maxInstrumentsBytes>>20)}
+	}
 	if err != nil {
-		return nil, nil, &SequenceError{File: path, Msg: err.Error()}
+		return nil, nil, err
 	}
 	return ParseInstruments(path, data)
 }

@@ -187,7 +187,7 @@ func TestEmptyAlloysReadBackTheSame(t *testing.T) {
 // TestASequenceIsNotACanal: a sequence file given where a canal belongs says so.
 func TestASequenceIsNotACanal(t *testing.T) {
 	_, err := ParseCanalSpec("plan.json", DemoSequenceJSON())
-	if err == nil || !strings.Contains(err.Error(), "this is a sequence file") {
+	if err == nil || !strings.Contains(err.Error(), "this is a sequence, not a canal") {
 		t.Errorf("%v", err)
 	}
 	big := append([]byte(canalGoodSpec), make([]byte, MaxSpecBytes)...)

@@ -2,13 +2,15 @@ package models
 
 import (
 	"encoding/json"
+	"errors"
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"sort"
 	"strconv"
 	"strings"
+
+	"tapersweep/mesh"
 )
 
 // Sequence is a planned series of files, read from or written to the sequence JSON.
@@ -148,25 +150,31 @@ type stepJSON struct {
 // LoadSequence reads and checks a sequence file.
 func LoadSequence(path string) (*Sequence, error) {
 	data, err := readInput(path, maxSequenceBytes)
+	if err == errTooLarge {
+		return nil, &SequenceError{File: path, Msg: fmt.Sprintf("larger than %d MB: not a sequence file", maxSequenceBytes>>20)}
+	}
 	if err != nil {
-		return nil, &SequenceError{File: path, Msg: err.Error()}
+		return nil, err
 	}
 	return ParseSequence(path, data)
 }
 
-// readInput reads a file a person wrote, refusing one larger than limit bytes unread.
+var errTooLarge = errors.New("larger than a file of this kind can be")
+
+// readInput reads a file a person wrote: a regular file (a pipe or a device is refused, not
+// waited on), of at most limit bytes (errTooLarge, unread beyond). Other errors name the file.
 func readInput(path string, limit int64) ([]byte, error) {
-	f, err := os.Open(path)
+	f, _, err := mesh.OpenInput(path, 0)
 	if err != nil {
 		return nil, err
 	}
 	defer f.Close()
 	data, err := io.ReadAll(io.LimitReader(f, limit+1))
 	if err != nil {
-		return nil, err
+		return nil, fmt.Errorf("%s: %w", path, err)
 	}
 	if int64(len(data)) > limit {
-		return nil, fmt.Errorf("larger than %d MB: not a file of this kind", limit>>20)
+		return nil, errTooLarge
 	}
 	return data, nil
 }

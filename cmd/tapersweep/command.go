@@ -22,7 +22,7 @@ type command struct {
 }
 
 func commands() []command {
-	return []command{centerlineCommand(), analyzeCommand(), renderCommand(), planCommand(), reportCommand(), batchCommand(), demoCommand()}
+	return []command{surfaceCommand(), centerlineCommand(), analyzeCommand(), renderCommand(), planCommand(), reportCommand(), batchCommand(), demoCommand()}
 }
 
 // filesHelp points every command's help to where the files a person writes are described.
@@ -59,7 +59,12 @@ func (c command) run(args []string, stdout, stderr io.Writer) int {
 		help(stderr)
 		return exitUsage
 	}
-	return body(stdout, stderr)
+	out := &checkedWriter{w: stdout}
+	code := body(out, stderr)
+	if out.err != nil && code == exitOK {
+		return outputFailed(stderr, c.name, out.err)
+	}
+	return code
 }
 
 // usageError reports a missing or wrong flag value.
@@ -70,17 +75,19 @@ func usageError(stderr io.Writer, cmd, format string, a ...any) int {
 
 // inputError reports bad input (a file that cannot be read or understood).
 func inputError(stderr io.Writer, cmd string, err error) int {
-	fmt.Fprintf(stderr, "tapersweep %s: %s\n", cmd, describe(err))
+	fmt.Fprintf(stderr, "tapersweep %s: %s\n", cmd, explain(err))
 	return exitBadInput
 }
 
-// describe words an error for the command line. The library's messages name no options; the
-// fixes that are options of this program are added here.
-func describe(err error) string {
+// explain words an error for the command line. The library's messages name no options; the
+// flags that get past an error are added here. Text from files is made printable.
+func explain(err error) string {
 	msg := err.Error()
 	var units *analysis.UnitsError
 	var specOpt *analysis.SpecOptionError
 	switch {
+	case errors.Is(err, analysis.ErrUntrustedSurface):
+		msg += "; repair the surface, or run again with --force to measure it anyway"
 	case errors.As(err, &units) && units.TooLarge():
 		msg += ": if it is in micrometres, use --scale 0.001"
 	case errors.As(err, &units):
@@ -90,4 +97,12 @@ func describe(err error) string {
 		msg = strings.Replace(msg, specOpt.Error(), "--"+specOpt.Option+" applies to STL surfaces; "+why, 1)
 	}
 	return models.Printable(msg, models.MaxMessageRunes)
+}
+
+// printWarnings puts every warning on standard error, whatever the output format, so a
+// warning is never lost in a CSV or a picture.
+func printWarnings(stderr io.Writer, cmd string, warnings []string) {
+	for _, w := range warnings {
+		fmt.Fprintf(stderr, "tapersweep %s: warning: %s\n", cmd, models.Printable(w, models.MaxMessageRunes))
+	}
 }
