@@ -57,7 +57,7 @@ func LoadCanal(ctx context.Context, path string, opt LoadOptions) (*Canal, error
 		}
 		return loadSpec(ctx, path, data, opt)
 	}
-	lo := mesh.LoadOptions{Scale: opt.Scale}
+	lo := mesh.LoadOptions{Scale: opt.Scale, Workers: opt.Canal.Workers}
 	if opt.Progress != nil {
 		lo.Progress = func(done, total int64) { opt.Progress("reading", done, total) }
 	}
@@ -73,7 +73,7 @@ func LoadCanalBytes(ctx context.Context, name string, data []byte, opt LoadOptio
 	if models.LooksLikeJSON(data[:min(len(data), sniffBytes)]) {
 		return loadSpec(ctx, name, data, opt)
 	}
-	lo := mesh.LoadOptions{Scale: opt.Scale}
+	lo := mesh.LoadOptions{Scale: opt.Scale, Workers: opt.Canal.Workers}
 	if opt.Progress != nil {
 		lo.Progress = func(done, total int64) { opt.Progress("reading", done, total) }
 	}

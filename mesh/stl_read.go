@@ -17,6 +17,9 @@ type LoadOptions struct {
 	Scale float64
 	// Progress, if set, is called now and then with the bytes read so far and the total.
 	Progress func(doneBytes, totalBytes int64)
+	// Workers is the number of goroutines the weld may keep busy; 0 uses every core. The mesh
+	// does not depend on it.
+	Workers int
 }
 
 // LoadReport tells what was read and what looked wrong.
@@ -135,7 +138,7 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	if err := ctx.Err(); err != nil {
 		return nil, rep, fmt.Errorf("%s: loading stopped: %w", name, err)
 	}
-	m, removed := weldAndClean(rd.corners)
+	m, removed := weldAndClean(rd.corners, opt.Workers)
 	rd.corners = nil
 	rep.DegenerateRemoved = removed
 	if len(m.Triangles) == 0 {
@@ -156,8 +159,8 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 }
 
 // weldAndClean welds the soup, drops degenerate triangles and the vertices only they used.
-func weldAndClean(corners []mgl64.Vec3) (*Mesh, int) {
-	m := weld(corners, 0, weldRelTol)
+func weldAndClean(corners []mgl64.Vec3, workers int) (*Mesh, int) {
+	m := weld(corners, 0, weldRelTol, workers)
 	keep := make([]int32, 0, len(m.Triangles))
 	for t := range m.Triangles {
 		if !isDegenerate(m, t) {

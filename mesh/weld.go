@@ -2,11 +2,11 @@ package mesh
 
 import (
 	"math"
-	"runtime"
-	"sync"
 	"unsafe"
 
 	"github.com/go-gl/mathgl/mgl64"
+
+	"tapersweep/mesh/parallel"
 )
 
 // Weld turns a triangle soup (three corners per triangle, in input order) into an indexed
@@ -18,7 +18,7 @@ import (
 // core count. tol <= 0 merges only identical points. Non-finite corners are never merged.
 // Corners past a multiple of three are ignored.
 func Weld(corners []mgl64.Vec3, tol float64) *Mesh {
-	return weld(corners, tol, 0)
+	return weld(corners, tol, 0, 0)
 }
 
 // weld is Weld with, when relTol > 0, the tolerance relTol times the largest coordinate
@@ -26,16 +26,16 @@ func Weld(corners []mgl64.Vec3, tol float64) *Mesh {
 //
 // It works in two stages, so that a file whose triangles are scattered costs little more than
 // one in building order. First the identical corners (an STL lists each vertex about six
-// times) are found (firstOccurrences). Then only the distinct positions, about a sixth of the
+// times) are found (firstOccurrences, on up to workers goroutines; 0: every core). Then only the distinct positions, about a sixth of the
 // corners, go through the grid welder for the tolerance, in order of first appearance.
-func weld(corners []mgl64.Vec3, tol, relTol float64) *Mesh {
+func weld(corners []mgl64.Vec3, tol, relTol float64, workers int) *Mesh {
 	nt := len(corners) / 3
 	corners = corners[:3*nt]
 	m := &Mesh{Triangles: make([][3]int32, nt)}
 	if nt == 0 {
 		return m
 	}
-	first := firstOccurrences(corners)
+	first := firstOccurrences(corners, workers)
 	w := newWelder(corners, tol, relTol, len(corners)/6)
 	// out[i] is corner i's vertex; first[i] <= i, so a repeat finds its vertex already set
 	// (through its stand-in, whose own vertex was set from its first corner).
@@ -60,6 +60,10 @@ func unsafeFlatten(t [][3]int32) []int32 {
 // table stay in the L2 cache.
 const dedupBlock = 16384
 
+// maxDedupWorkers: the exact dedup reads memory more than it computes; more goroutines than
+// this gain nothing.
+const maxDedupWorkers = 4
+
 // firstOccurrences returns, for every corner, the index of an earlier corner (or itself) with
 // the same coordinates (-0 equal to 0; a NaN only equal to itself), such that following it once
 // more (first[first[i]]) gives the first corner of that position.
@@ -67,7 +71,7 @@ const dedupBlock = 16384
 // Most repeats are near their first corner in the file, so a small cache of recent positions
 // (it stays in L1/L2) answers them; the corners it misses, which include every first
 // occurrence, are deduplicated exactly in cache-sized blocks.
-func firstOccurrences(corners []mgl64.Vec3) []int32 {
+func firstOccurrences(corners []mgl64.Vec3, workers int) []int32 {
 	n := len(corners)
 	first := make([]int32, n)
 	var recent [weldRecentSize]weldRecent
@@ -116,19 +120,15 @@ func firstOccurrences(corners []mgl64.Vec3) []int32 {
 	}
 	// Blocks are independent and each sets only its own corners' entries, so they split
 	// across cores with the same result on any number.
-	workers := min(runtime.GOMAXPROCS(0), 1<<bits, 4)
-	var wg sync.WaitGroup
-	for w := range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			table := make([]int32, 2*dedupBlock*2)
-			for b := w; b < 1<<bits; b += workers {
-				dedupInto(first, corners, recs[count[b]:count[b+1]], table)
-			}
-		}()
-	}
-	wg.Wait()
+	blocks := 1 << bits
+	k := min(parallel.Workers(workers, blocks), maxDedupWorkers)
+	tables := make([][]int32, k)
+	parallel.For(k, blocks, func(w, b int) {
+		if tables[w] == nil {
+			tables[w] = make([]int32, 2*dedupBlock*2)
+		}
+		dedupInto(first, corners, recs[count[b]:count[b+1]], tables[w])
+	})
 	return first
 }
 

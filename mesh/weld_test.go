@@ -161,7 +161,7 @@ func TestWeldOrderIndependent(t *testing.T) {
 	for _, t := range perm {
 		shuffled = append(shuffled, soup[3*t:3*t+3]...)
 	}
-	a, b := weld(soup, 0, weldRelTol), weld(shuffled, 0, weldRelTol)
+	a, b := weld(soup, 0, weldRelTol, 0), weld(shuffled, 0, weldRelTol, 1)
 	if len(a.Vertices) != len(b.Vertices) || len(a.Vertices) != len(src.Vertices) {
 		t.Fatalf("%d and %d vertices, the surface has %d", len(a.Vertices), len(b.Vertices), len(src.Vertices))
 	}

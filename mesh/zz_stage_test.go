@@ -22,10 +22,10 @@ func TestZZStages(t *testing.T) {
 			t1 := time.Now()
 			rd.checkOutliers()
 			t2 := time.Now()
-			first := firstOccurrences(rd.corners)
+			first := firstOccurrences(rd.corners, 0)
 			t3 := time.Now()
 			_ = first
-			m := weld(rd.corners, 0, weldRelTol)
+			m := weld(rd.corners, 0, weldRelTol, 0)
 			t4 := time.Now()
 			keep := 0
 			for i := range m.Triangles {

@@ -208,15 +208,11 @@ func specProblem(file string, err error) error {
 			field = k
 		}
 	}
+	if line, col, msg, ok := p.fileWords(); ok {
+		e.Line, e.Column, e.Msg = line, col, msg
+		return e
+	}
 	switch p.kind {
-	case jsonSyntax:
-		e.Line, e.Column, e.Msg = p.line, p.col, "broken JSON: "+p.err.Error()
-	case jsonEncoding:
-		if p.offset == 0 {
-			e.Msg = "UTF-16 text: save the file as UTF-8"
-		} else {
-			e.Line, e.Column, e.Msg = p.line, p.col, "not UTF-8 text: save the file as UTF-8"
-		}
 	case jsonUnknown:
 		e.Msg = fmt.Sprintf("%sunknown field %q (known: %s)", where, p.key, strings.Join(p.known, ", "))
 		if len(p.path) == 0 && slices.Contains(fieldNames(reflect.TypeFor[sequenceJSON]()), p.key) {

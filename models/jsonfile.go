@@ -68,6 +68,20 @@ func (p *jsonProblem) at() string {
 	return b.String()
 }
 
+// fileWords words the problems that belong to the whole file (not JSON, not UTF-8), the same
+// in every format; ok is false for the others.
+func (p *jsonProblem) fileWords() (line, col int, msg string, ok bool) {
+	switch {
+	case p.kind == jsonSyntax:
+		return p.line, p.col, "broken JSON: " + p.err.Error(), true
+	case p.kind == jsonEncoding && p.offset == 0:
+		return 0, 0, "UTF-16 text: save the file as UTF-8", true
+	case p.kind == jsonEncoding:
+		return p.line, p.col, "not UTF-8 text: save the file as UTF-8", true
+	}
+	return 0, 0, "", false
+}
+
 func (p *jsonProblem) Error() string { return p.at() + ": problem " + strconv.Itoa(int(p.kind)) }
 
 // utf8BOM starts some files written on Windows; it is not part of the JSON.
@@ -192,6 +206,17 @@ func (w *jsonWalker) next() (json.Token, int64) {
 	return tok, off
 }
 
+// key reads an object's next key, refusing one already in seen (the offsets of the keys so far).
+func (w *jsonWalker) key(path []any, seen map[string]int64) (string, *jsonProblem) {
+	k, off := w.next()
+	key := k.(string)
+	if first, dup := seen[key]; dup {
+		return key, &jsonProblem{kind: jsonRepeated, path: path, key: key, offset: off, first: first}
+	}
+	seen[key] = off
+	return key, nil
+}
+
 // skip consumes the rest of a value that opened with tok, still refusing repeated keys.
 func (w *jsonWalker) skip(tok json.Token, path []any) *jsonProblem {
 	d, ok := tok.(json.Delim)
@@ -201,12 +226,10 @@ func (w *jsonWalker) skip(tok json.Token, path []any) *jsonProblem {
 	seen := map[string]int64{}
 	for i := 0; w.dec.More(); i++ {
 		if d == '{' {
-			k, off := w.next()
-			key := k.(string)
-			if first, dup := seen[key]; dup {
-				return &jsonProblem{kind: jsonRepeated, path: path, key: key, offset: off, first: first}
+			key, p := w.key(path, seen)
+			if p != nil {
+				return p
 			}
-			seen[key] = off
 			t, _ := w.next()
 			if p := w.skip(t, with(path, key)); p != nil {
 				return p
@@ -289,13 +312,11 @@ func (w *jsonWalker) value(t reflect.Type, path []any) *jsonProblem {
 		}
 		seen := map[string]int64{}
 		for w.dec.More() {
-			k, koff := w.next()
-			key := k.(string)
-			if first, dup := seen[key]; dup {
-				return &jsonProblem{kind: jsonRepeated, path: path, key: key, offset: koff, first: first}
+			key, p := w.key(path, seen)
+			if p == nil {
+				p = w.value(t.Elem(), with(path, key))
 			}
-			seen[key] = koff
-			if p := w.value(t.Elem(), with(path, key)); p != nil {
+			if p != nil {
 				return p
 			}
 		}
@@ -375,12 +396,10 @@ func (w *jsonWalker) object(t reflect.Type, path []any, open int64) *jsonProblem
 	fields := jsonFields(t)
 	seen := map[string]int64{}
 	for w.dec.More() {
-		k, koff := w.next()
-		key := k.(string)
-		if first, dup := seen[key]; dup {
-			return &jsonProblem{kind: jsonRepeated, path: path, key: key, offset: koff, first: first}
+		key, p := w.key(path, seen)
+		if p != nil {
+			return p
 		}
-		seen[key] = koff
 		var field *jsonField
 		for i := range fields {
 			if fields[i].name == key { // exact case, unlike encoding/json
@@ -389,7 +408,7 @@ func (w *jsonWalker) object(t reflect.Type, path []any, open int64) *jsonProblem
 			}
 		}
 		if field == nil {
-			return &jsonProblem{kind: jsonUnknown, path: path, key: key, offset: koff, known: fieldNames(t)}
+			return &jsonProblem{kind: jsonUnknown, path: path, key: key, offset: seen[key], known: fieldNames(t)}
 		}
 		if p := w.value(field.typ, with(path, key)); p != nil {
 			return p

@@ -668,15 +668,11 @@ func listProblem(file, item, listKey string, err error) error {
 		}
 		return a + ": " + b
 	}
+	if line, col, msg, ok := p.fileWords(); ok {
+		e.Line, e.Column, e.Msg = line, col, msg
+		return e
+	}
 	switch p.kind {
-	case jsonSyntax:
-		e.Line, e.Column, e.Msg = p.line, p.col, "broken JSON: "+p.err.Error()
-	case jsonEncoding:
-		if p.offset == 0 {
-			e.Msg = "UTF-16 text: save the file as UTF-8"
-		} else {
-			e.Line, e.Column, e.Msg = p.line, p.col, "not UTF-8 text: save the file as UTF-8"
-		}
 	case jsonUnknown:
 		e.Field, e.Msg = join(where, strconv.Quote(p.key)), "unknown field (known: "+strings.Join(p.known, ", ")+")"
 	case jsonRepeated:
