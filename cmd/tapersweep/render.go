@@ -66,7 +66,7 @@ func renderCommand() command {
 						return inputError(stderr, "render", err)
 					}
 				}
-				img, err := scene.Picture(c, res, scene.Options{Step: *step, Before: *before, Clip: *clip}, *view, w, h)
+				img, err := scene.Picture(c, res, scene.Options{Step: *step, Before: *before, Clip: *clip}, *view, w, h, 0)
 				if err != nil {
 					return inputError(stderr, "render", err)
 				}

@@ -12,14 +12,16 @@ type Scale struct {
 	Neutral color.RGBA
 }
 
-// DepthScale is a sequential scale for depth of cut: pale yellow (shallow) through orange
-// and red to a dark violet (deep), lightness falling steadily. Its neutral is a light warm grey.
+// DepthScale is a sequential scale for depth of cut: a pale aqua (shallow) through teal to a
+// deep petrol (deep), lightness falling steadily. Its hues (about 190 to 215 degrees in OKLCh)
+// lie in the widest gap between the ISO 3630-1 size colours (green and blue), so no file's
+// colour reads as cutting; its neutral is a light warm grey.
 func DepthScale() *Scale {
 	return newSequential(
 		func(t float64) (l, c, h float64) {
-			l = 0.94 - 0.60*t
-			c = 0.07 + 0.13*math.Sin(math.Pi*math.Min(1, t*1.15))
-			h = 100 - 135*t // degrees: yellow, orange, red, magenta-violet
+			l = 0.95 - 0.62*t
+			c = 0.035 + 0.085*math.Sin(math.Pi*math.Min(1, 0.2+t*0.8))
+			h = 188 + 27*t
 			return
 		},
 		okLabToSRGB(0.87, 0.006, 0.014),

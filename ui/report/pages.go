@@ -248,7 +248,9 @@ func stepPage(pdf *fpdf.Fpdf, res *analysis.Result, st *analysis.StepResult, opt
 	if imgH > pictureMaxHMM {
 		imgW, imgH = imgW*pictureMaxHMM/imgH, pictureMaxHMM
 	}
-	img, err := scene.Picture(c, res, scene.Options{Step: st.Number}, opt.View, opt.ImageWidth, opt.ImageHeight)
+	// Printed 84 mm wide: text about 2.4 times its screen size reads at 7 to 8 points.
+	img, err := scene.Picture(c, res, scene.Options{Step: st.Number}, opt.View, opt.ImageWidth, opt.ImageHeight,
+		2.4*float64(opt.ImageWidth)/1040)
 	if err != nil {
 		return err
 	}

@@ -23,7 +23,7 @@ type Options struct {
 	SequenceFile string // the sequence file, shown on the summary page
 	View         string // named view of the step pictures (scene.Views); default the first
 	// ImageWidth x ImageHeight is the size in pixels of each step's picture, printed 84 mm wide
-	// (at most 130 mm high); 0 = 520 x 780.
+	// (at most 130 mm high); 0 = 1040 x 1560.
 	ImageWidth, ImageHeight int
 }
 
@@ -35,7 +35,7 @@ func (o Options) withDefaults(res *analysis.Result) Options {
 		o.View = scene.Views[0].Name
 	}
 	if o.ImageWidth <= 0 || o.ImageHeight <= 0 {
-		o.ImageWidth, o.ImageHeight = 520, 780
+		o.ImageWidth, o.ImageHeight = 1040, 1560
 	}
 	return o
 }

@@ -63,7 +63,7 @@ func busiestStep(res *analysis.Result) int {
 // absorbs rounding differences but not a moved band, a lost file or a changed colour scale.
 func TestDemoPictureGolden(t *testing.T) {
 	c, res := demo(t)
-	img, err := Picture(c, res, Options{Step: busiestStep(res)}, "side", 480, 640)
+	img, err := Picture(c, res, Options{Step: busiestStep(res)}, "side", 480, 640, 0)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -163,7 +163,7 @@ func TestViewsAndBadStep(t *testing.T) {
 	if _, err := Build(c, nil, Options{Step: 1}); err == nil {
 		t.Error("a step without a run accepted")
 	}
-	img, err := Picture(c, nil, Options{}, "down", 200, 200)
+	img, err := Picture(c, nil, Options{}, "down", 200, 200, 0)
 	if err != nil || img.Bounds() != image.Rect(0, 0, 200, 200) {
 		t.Errorf("canal alone: %v %v", err, img.Bounds())
 	}
