@@ -230,7 +230,7 @@ func (v *viewport) work() {
 				v.mu.Lock()
 				if v.fitBuilt {
 					v.fitBuilt = false
-					v.cam.Fit(v.built.Lo, v.built.Hi, v.aspectLocked())
+					scene.Frame(&v.cam, v.built, v.pxW, v.pxH, 1)
 				}
 				cam = v.cam
 				view := v.view

@@ -135,7 +135,7 @@ func DrawLegendScaled(dst *image.RGBA, rect image.Rectangle, s *Scale, min, max 
 	}
 	strokeRect(dst, image.Rect(x0-1, top-1, x0+barW+1, bottom+2), legendInk)
 
-	ticks, dec := legendTicks(min, max, int(math.Max(2, math.Min(11, float64(bottom-top)/float64(lineH+4)))))
+	ticks, dec := legendTicks(min, max, int(math.Max(2, math.Min(6, float64(bottom-top)/float64(lineH+4)))))
 	tick := int(math.Round(4 * k))
 	place := func(v float64) int {
 		if max == min {

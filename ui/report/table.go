@@ -3,6 +3,7 @@ package report
 import (
 	"encoding/csv"
 	"io"
+	"strconv"
 	"strings"
 
 	"tapersweep/analysis"
@@ -31,6 +32,52 @@ var columnLabels = map[string]string{
 	"advice":                       "advice",
 }
 
+// columnDecimals is how many decimals each number is printed with: what the measurement
+// supports (stations are 0.05 mm apart, ISO 3630-1 holds tip diameters to about 0.02 mm), not
+// the digits the JSON keeps. Columns not listed print as the JSON writes them.
+var columnDecimals = map[string]int{
+	"tip_depth_mm":                 2,
+	"tip_from_apex_mm":             2,
+	"engaged_length_mm":            2,
+	"engaged_area_mm2":             2,
+	"removed_volume_mm3":           3,
+	"max_depth_of_cut_mm":          3,
+	"untouched_wall_pct":           1,
+	"diameter_at_max_curvature_mm": 2,
+	"strain_at_max_curvature_pct":  2,
+	"peak_strain_pct":              2,
+	"fatigue_damage":               3,
+	"fracture_from_tip_mm":         2,
+	"torsion_margin":               1,
+	"peak_torque_index":            3,
+}
+
+// cell is a value of column col as Row writes it, printed with the column's decimals; an
+// empty value (null in the JSON) is "–".
+func cell(col, v string) string {
+	if v == "" {
+		return "–"
+	}
+	d, ok := columnDecimals[col]
+	if !ok {
+		return v
+	}
+	f, err := strconv.ParseFloat(v, 64)
+	if err != nil {
+		return v
+	}
+	return fixed(f, d)
+}
+
+// fixed writes v with d decimals, never "-0".
+func fixed(v float64, d int) string {
+	s := strconv.FormatFloat(v, 'f', d, 64)
+	if strings.Trim(s, "-0.") == "" {
+		s = strings.TrimPrefix(s, "-")
+	}
+	return s
+}
+
 // ColumnLabel is the plain-words heading of one of analysis.StepColumns.
 func ColumnLabel(col string) string {
 	if l, ok := columnLabels[col]; ok {
@@ -41,9 +88,10 @@ func ColumnLabel(col string) string {
 
 // StepTable lays the run's steps out as the report prints them: one row per column of
 // analysis.StepColumns (label first), then the transportation rows, advice last; one column
-// per step. The cells are the same strings the CSV holds (StepMetrics.Row of the run's
-// summary) and the transportation figures as the JSON writes them, so the PDF, the CSV and
-// the JSON agree; a value that does not exist is "–".
+// per step. The cells are the numbers the CSV holds (StepMetrics.Row of the run's summary)
+// and the transportation figures of the JSON, printed with the decimals the measurement
+// supports (columnDecimals), so the PDF, the CSV and the JSON agree; a value that does not
+// exist is "–".
 func StepTable(sum analysis.ResultSummary) (labels []string, cells [][]string) {
 	// The transportation columns of the CSV are stated by the report's own rows
 	// (summaryTransportRows), which also give the largest transportation and its direction.
@@ -78,9 +126,7 @@ func StepTable(sum analysis.ResultSummary) (labels []string, cells [][]string) {
 			if skip(cols[i]) {
 				continue
 			}
-			if v == "" {
-				v = "–"
-			}
+			v = cell(cols[i], v)
 			at := row
 			if i == advice {
 				at = len(labels) - 1

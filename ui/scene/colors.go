@@ -42,12 +42,12 @@ func DepthScale() *render.Scale { return depthScale }
 // DepthColor is the colour of a depth of cut of e mm on a scale whose top is max mm.
 func DepthColor(e, max float64) color.RGBA { return depthScale.At(e / max) }
 
-// EngagedBand is the pale tint of the engaged zone in profile plots: the light end of the
-// depth-of-cut scale, since it is where the file cuts.
+// EngagedBand is the pale tint of the engaged zone in profile plots: a depth-of-cut colour
+// faded into the paper, since it is where the file cuts.
 func EngagedBand() color.RGBA {
-	c := depthScale.At(0.08)
-	c.A = 255
-	return c
+	c := depthScale.At(0.35)
+	mix := func(a, b uint8) uint8 { return uint8((int(a) + 4*int(b)) / 5) }
+	return color.RGBA{mix(c.R, Background.R), mix(c.G, Background.G), mix(c.B, Background.B), 255}
 }
 
 // FileColor is the ISO 3630-1 size colour, with white drawn as a light grey so it shows

@@ -27,7 +27,7 @@ func Picture(c *analysis.Canal, res *analysis.Result, opt Options, view string, 
 	if err := Aim(cam, c, view, float64(w)/float64(h)); err != nil {
 		return nil, err
 	}
-	Frame(cam, b, float64(w)/float64(h))
+	Frame(cam, b, w, h, textScale)
 	img := image.NewRGBA(image.Rect(0, 0, w, h))
 	r := render.NewRenderer()
 	defer r.Close()
@@ -37,13 +37,32 @@ func Picture(c *analysis.Canal, res *analysis.Result, opt Options, view string, 
 }
 
 // Frame fits the camera, keeping its direction, to the canal and the file (the handle above the
-// orifice too), with room above for the title and below for the view's note.
-func Frame(cam *render.Camera, b *Built, aspect float64) {
+// orifice too) in a w x h picture, with room above for the title, below for the view's note and
+// on the left for the legend drawn k times its screen size (DecorateScaled).
+func Frame(cam *render.Camera, b *Built, w, h int, k float64) {
 	var file []mgl64.Vec3
 	if b.File != nil {
 		file = b.File.Vertices
 	}
-	cam.FitPoints(aspect, 0.06, b.Wall.Vertices, file)
+	left := 0
+	if hasLegend(b) {
+		left = min(w/3, legendRect(w, h, math.Max(1, k)).Max.X)
+	}
+	cam.FitPoints(float64(w-left)/float64(h), 0.06, b.Wall.Vertices, file)
+	cam.Pan(-float64(left)/2/float64(h), 0)
+}
+
+// hasLegend says whether the picture carries the depth-of-cut legend: when a step is shown.
+func hasLegend(b *Built) bool { return b.FileIndex >= 0 || b.Title != "canal" }
+
+// legendRect is where the legend goes in a w x h picture at text scale k.
+func legendRect(w, h int, k float64) image.Rectangle {
+	px := func(v float64) int { return int(math.Round(v * k)) }
+	lw, lh := px(138), px(210)
+	if h < px(330) {
+		lh = h - px(60)
+	}
+	return image.Rect(px(10), px(32), px(10)+lw, px(32)+lh)
 }
 
 // Decorate draws the title, the legend (when a step is shown) and the view's name on a frame.
@@ -60,12 +79,8 @@ func DecorateScaled(img *image.RGBA, b *Built, c *analysis.Canal, view string, k
 		size = 11
 	}
 	render.DrawText(img, px(10), px(8), b.Title, Ink, size*k)
-	if b.FileIndex >= 0 || b.Title != "canal" {
-		lw, lh := px(138), px(210)
-		if img.Bounds().Dy() < px(330) {
-			lh = img.Bounds().Dy() - px(60)
-		}
-		rect := image.Rect(px(10), px(32), px(10)+lw, px(32)+lh)
+	if hasLegend(b) {
+		rect := legendRect(img.Bounds().Dx(), img.Bounds().Dy(), k)
 		render.DrawLegendScaled(img, rect, b.Scale, 0, b.LegendMax, "mm", "depth of cut", "no contact", k)
 	}
 	if view == "" {

@@ -53,14 +53,14 @@ type Built struct {
 	Scene  *render.Scene
 	Lo, Hi mgl64.Vec3 // bounds of the canal
 	// Legend: the depth-of-cut scale, from 0 to LegendMax mm.
-	Scale      *render.Scale
-	LegendMax  float64
-	Title      string
-	WallIndex  int // index of the wall among Scene.Objects
-	FileIndex  int // -1 when no file is drawn
+	Scale     *render.Scale
+	LegendMax float64
+	Title     string
+	WallIndex int // index of the wall among Scene.Objects
+	FileIndex int // -1 when no file is drawn
 	// FileInWallIndex is the see-through part of the file inside the wall, -1 when none.
 	FileInWallIndex int
-	Wall, File *mesh.Mesh
+	Wall, File      *mesh.Mesh
 	// OwnPath: the file is drawn on its own (elastic) path, off the centerline.
 	OwnPath bool
 	// PatchMM is the size of the patch the depth of cut is averaged over for the colours of a
