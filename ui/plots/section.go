@@ -207,7 +207,10 @@ func drawSection(dc draw.Canvas, s *analysis.Section, at func(x, y float64) vg.P
 		bx, by := s.Before.Centroid()
 		th := s.TowardDeg * math.Pi / 180
 		ex, ey := bx+s.TransportationMM*math.Cos(th), by+s.TransportationMM*math.Sin(th)
-		arrow(dc, at(bx, by), at(ex, ey), scene.TransportInk)
+		// Shorter than a few points it would read as a speck: the figure above says it.
+		if a, b := at(bx, by), at(ex, ey); math.Hypot(float64(b.X-a.X), float64(b.Y-a.Y)) >= float64(vg.Points(4)) {
+			arrow(dc, a, b, scene.TransportInk)
+		}
 	}
 }
 
