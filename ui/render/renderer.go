@@ -76,6 +76,7 @@ type frameObject struct {
 	vertBase   int
 	cull       bool // back faces cannot be seen: closed, opaque, camera outside, not clipped
 	clip       bool
+	clipDist   []float32 // per-vertex distances to the cut; nil: the scene's plane
 	seeThrough bool
 	alpha      int32 // 0..256
 	outline    bool
@@ -265,11 +266,14 @@ func (r *Renderer) prepareObjects(s *Scene) {
 			mesh:       o.Mesh,
 			src:        o,
 			vertBase:   nv,
-			clip:       o.Clip && r.hasPlane,
+			clip:       o.Clip && r.hasPlane || len(o.ClipDistance) == len(o.Mesh.Vertices),
 			seeThrough: o.seeThrough(),
 			outline:    o.Outline,
 			normals:    mc.normals,
 			colors:     len(o.Colors) == len(o.Mesh.Vertices),
+		}
+		if len(o.ClipDistance) == len(o.Mesh.Vertices) {
+			fo.clipDist = o.ClipDistance
 		}
 		fo.alpha = 256
 		if fo.seeThrough {

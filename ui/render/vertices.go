@@ -88,7 +88,12 @@ func (r *Renderer) transformVertices(o *frameObject, v0, v1 int) {
 			code |= outNear
 		}
 		if o.clip {
-			d := r.plane[0]*p[0] + r.plane[1]*p[1] + r.plane[2]*p[2] + r.plane[3]
+			var d float64
+			if o.clipDist != nil {
+				d = float64(o.clipDist[i])
+			} else {
+				d = r.plane[0]*p[0] + r.plane[1]*p[1] + r.plane[2]*p[2] + r.plane[3]
+			}
 			pv.d = float32(d)
 			if d < 0 {
 				code |= outPlane

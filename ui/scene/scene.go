@@ -24,8 +24,9 @@ type Options struct {
 	Before      bool
 	HideFile    bool    // leave the file out
 	WallOpacity float64 // 0 = default see-through; 1 = opaque wall
-	// Clip opens the canal lengthwise with the plane of its main curve; ClipOffset moves the
-	// plane across the canal in mm.
+	// Clip opens the canal lengthwise along its own centerline, removing the half that faces
+	// the default (side) view, so the file shows inside all the way to the apical end;
+	// ClipOffset moves the cut across the canal in mm.
 	Clip       bool
 	ClipOffset float64
 	Centerline bool // draw the centerline coloured by curvature
@@ -157,9 +158,12 @@ func Build(c *analysis.Canal, res *analysis.Result, opt Options) (*Built, error)
 		b.CenterlineIndex = len(s.Objects) - 1
 	}
 	if opt.Clip {
-		star := c.Line.Station(c.Measures.MaxCurvatureS)
-		n := c.Line.N2[star]
-		s.ClipPlane = &render.Plane{Point: c.Line.Points[star].Add(n.Mul(opt.ClipOffset)), Normal: n}
+		d := cutDistances(c, b.Wall, opt.ClipOffset)
+		for i := range s.Objects {
+			if s.Objects[i].Clip && s.Objects[i].Mesh != nil && len(s.Objects[i].Mesh.Vertices) == len(d) {
+				s.Objects[i].ClipDistance = d
+			}
+		}
 	}
 	b.Scene = s
 	return b, nil
@@ -296,4 +300,17 @@ func wallColors(c *analysis.Canal, cut []float64, scale *render.Scale, max float
 		cols[v] = scale.At(math.Min(1, e/max))
 	}
 	return cols
+}
+
+// cutDistances is each wall vertex's signed distance to a cut along the canal: the surface
+// through the centerline at every station, square to N2 there, moved offset mm toward -N2. A
+// single plane would leave the canal where it bends out of the plane of its main curve (and
+// hide the apical end of a scan whose frame turns a little); this cut follows the canal.
+func cutDistances(c *analysis.Canal, wall *mesh.Mesh, offset float64) []float32 {
+	d := make([]float32, len(wall.Vertices))
+	for v, p := range wall.Vertices {
+		q, _, _, n2 := c.Line.At(float64(c.VertexS[v]))
+		d[v] = float32(offset - p.Sub(q).Dot(n2))
+	}
+	return d
 }
