@@ -66,6 +66,7 @@ func (w *mainWindow) loadCanal(name string, withDialog bool, load canalLoader) {
 		lp.dlg.Show()
 	}
 	w.setStatus("Measuring " + name + "…")
+	w.summary.showLoading(name)
 
 	var lastShown atomic.Int64
 	progress := func(stage string, done, total int64) {
@@ -99,9 +100,13 @@ func (w *mainWindow) loadCanal(name string, withDialog bool, load canalLoader) {
 			}
 			switch {
 			case errors.Is(err, context.Canceled) || ctx.Err() != nil:
+				if w.canal != nil {
+					w.summary.showMeasures(w.canal)
+				}
 				return
 			case err != nil:
 				w.setStatus("Could not open the canal: " + err.Error())
+				w.summary.showFailure(name, err, w.canal)
 				dialog.ShowError(err, w.win)
 				return
 			}
@@ -170,10 +175,8 @@ func (w *mainWindow) takeSequence(seq *models.Sequence) {
 	w.seq = seq
 	w.selected = 0
 	w.res = nil
-	w.path.sync()
-	w.path.refresh()
-	w.table.refresh()
-	w.editor.load()
+	w.path.show(seq.PathModel, nil)
+	w.showStepState()
 	w.rerun()
 }
 

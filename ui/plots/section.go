@@ -5,6 +5,7 @@ import (
 	"image"
 	"image/color"
 	"math"
+	"strings"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/text"
@@ -29,6 +30,12 @@ type SectionOptions struct {
 	Key bool
 	// Selected marks one of the sections (by index) with a frame; -1 for none.
 	Selected int
+	// Columns is how many sections stand side by side; 0 chooses the number that draws them
+	// largest in the space given.
+	Columns int
+	// Compact states each level's figures on the title line and puts the scale bar in the
+	// corner (for the window's narrow column).
+	Compact bool
 }
 
 // Section geometry on the page: the sections are seen from the orifice looking toward the apex,
@@ -58,17 +65,10 @@ func SectionsImage(secs []*analysis.Section, w, h int, opt SectionOptions) *imag
 	body := ink(opt.TextPt, scene.Ink)
 	small := ink(0.9*opt.TextPt, scene.ScannedInk)
 	lineH := body.FontExtents().Height
+	W, H := dc.Max.X-dc.Min.X, dc.Max.Y-dc.Min.Y
 	keyH := vg.Length(0)
 	if opt.Key {
-		keyH = 2.6 * lineH
-	}
-	W, H := dc.Max.X-dc.Min.X, dc.Max.Y-dc.Min.Y
-	cellW := W / vg.Length(len(secs))
-	// Room in each cell: two lines of text on top, the scale bar below.
-	picH := H - keyH - 2.4*lineH - 1.8*lineH
-	picW := cellW - 2*pt
-	if picH <= 0 || picW <= 0 {
-		return toRGBA(c)
+		keyH = keyHeight(W, lineH, small)
 	}
 	extent := 0.0
 	for _, s := range secs {
@@ -77,15 +77,43 @@ func SectionsImage(secs []*analysis.Section, w, h int, opt SectionOptions) *imag
 	if !(extent > 0) {
 		extent = 1
 	}
-	scale := math.Min(float64(picW), float64(picH)) / (2 * extent * 1.05) // points per mm
+	// Above each section its level (and figures), below it the scale bar.
+	textH := 2.4 * lineH
+	barH := 1.8 * lineH
+	if opt.Compact {
+		textH, barH = 2.2*lineH, 0.2*lineH
+	}
+	layout := func(cols int) (cellW, cellH, picW, picH vg.Length, scale float64) {
+		rows := (len(secs) + cols - 1) / cols
+		cellW, cellH = W/vg.Length(cols), (H-keyH)/vg.Length(rows)
+		picW, picH = cellW-2*pt, cellH-textH-barH
+		return cellW, cellH, picW, picH, math.Min(float64(picW), float64(picH)) / (2 * extent * 1.05)
+	}
+	cols := opt.Columns
+	if cols <= 0 || cols > len(secs) {
+		cols = len(secs)
+		if opt.Columns <= 0 {
+			best := 0.0
+			for k := 1; k <= len(secs); k++ {
+				if _, _, _, _, sc := layout(k); sc > best {
+					best, cols = sc, k
+				}
+			}
+		}
+	}
+	cellW, cellH, picW, picH, scale := layout(cols) // scale: points per mm
+	if picH <= 0 || picW <= 0 {
+		return toRGBA(c)
+	}
 	for i, s := range secs {
-		x0 := dc.Min.X + vg.Length(i)*cellW
+		x0 := dc.Min.X + vg.Length(i%cols)*cellW
+		y0 := dc.Max.Y - vg.Length(i/cols+1)*cellH // the cell's bottom
 		cx := x0 + cellW/2
-		cy := dc.Min.Y + keyH + 1.8*lineH + picH/2
+		cy := y0 + barH + picH/2
 		if i == opt.Selected {
-			frame := []vg.Point{{X: x0 + 1, Y: dc.Min.Y + keyH + 1}, {X: x0 + cellW - 1, Y: dc.Min.Y + keyH + 1},
-				{X: x0 + cellW - 1, Y: dc.Max.Y - 1}, {X: x0 + 1, Y: dc.Max.Y - 1}, {X: x0 + 1, Y: dc.Min.Y + keyH + 1}}
-			dc.StrokeLines(draw.LineStyle{Color: scene.ScannedInk, Width: vg.Points(0.8)}, frame)
+			frame := []vg.Point{{X: x0 + 1, Y: y0 + 1}, {X: x0 + cellW - 1, Y: y0 + 1},
+				{X: x0 + cellW - 1, Y: y0 + cellH - 1}, {X: x0 + 1, Y: y0 + cellH - 1}, {X: x0 + 1, Y: y0 + 1}}
+			dc.StrokeLines(draw.LineStyle{Color: scene.TransportInk, Width: vg.Points(1)}, frame)
 		}
 		at := func(x, y float64) vg.Point {
 			sx, sy := toScreen(x, y)
@@ -93,18 +121,27 @@ func SectionsImage(secs []*analysis.Section, w, h int, opt SectionOptions) *imag
 		}
 		drawSection(dc, s, at, scale, opt)
 		// Level and figures above.
-		top := dc.Max.Y - 0.3*lineH
+		top := y0 + cellH - 0.3*lineH
 		title := body
 		title.XAlign, title.YAlign = draw.XCenter, draw.YTop
-		dc.FillText(title, vg.Point{X: cx, Y: top}, fmt.Sprintf("%s mm from the apical end", trim(s.FromApexMM)))
 		sub := small
 		sub.XAlign, sub.YAlign = draw.XCenter, draw.YTop
-		dc.FillText(sub, vg.Point{X: cx, Y: top - 1.15*lineH}, sectionFigures(s))
-		// Scale bar below.
+		if opt.Compact {
+			dc.FillText(sub, vg.Point{X: cx, Y: top}, trim(s.FromApexMM)+" mm from the apical end")
+			dc.FillText(sub, vg.Point{X: cx, Y: top - 1.0*lineH}, strings.ReplaceAll(sectionFigures(s), " mm ·", ","))
+		} else {
+			dc.FillText(title, vg.Point{X: cx, Y: top}, fmt.Sprintf("%s mm from the apical end", trim(s.FromApexMM)))
+			dc.FillText(sub, vg.Point{X: cx, Y: top - 1.15*lineH}, sectionFigures(s))
+		}
+		// The scale bar below, or in the lower left corner.
 		bar := niceLength(extent * 0.8)
 		bw := vg.Length(bar * scale)
-		by := dc.Min.Y + keyH + 0.6*lineH
-		bx := cx - bw/2
+		by, bx := y0+0.6*lineH, cx-bw/2
+		if opt.Compact {
+			bar = niceLength(extent * 0.5)
+			bw = vg.Length(bar * scale)
+			by, bx = y0+0.5*lineH, x0+pt
+		}
 		dc.StrokeLines(draw.LineStyle{Color: scene.Ink, Width: vg.Points(1.2)},
 			[]vg.Point{{X: bx, Y: by + 2}, {X: bx, Y: by}, {X: bx + bw, Y: by}, {X: bx + bw, Y: by + 2}})
 		lab := small
@@ -230,36 +267,71 @@ func arrow(dc draw.Canvas, a, b vg.Point, col color.Color) {
 	dc.FillPolygon(col, []vg.Point{b, p(head, head*0.45), p(head, -head*0.45)})
 }
 
-// drawKey says what the lines mean, in one or two lines under the sections.
+// keyItems are what the lines and fills of a section mean, in the order the key lists them.
+var keyItems = []string{"as scanned", "after earlier steps", "after this step", "removed by this step (shade: depth of cut)",
+	"the file's section", "transportation (to scale)", "seen from the orifice, inner side of the main curve to the right"}
+
+// keySwatch is the width of a key's sample line.
+var keySwatch = vg.Points(14)
+
+// keyLines lays the key's items out in lines no wider than w.
+func keyLines(w vg.Length, sty draw.TextStyle) [][]int {
+	var lines [][]int
+	x := w // start a new line at once
+	for i, label := range keyItems {
+		iw := keySwatch + vg.Points(11) + sty.Width(label)
+		if i == len(keyItems)-1 {
+			iw = sty.Width(label) + vg.Points(8) // the last is a note, without a swatch
+		}
+		if x+iw > w && (len(lines) == 0 || len(lines[len(lines)-1]) > 0) {
+			lines = append(lines, nil)
+			x = vg.Points(4)
+		}
+		lines[len(lines)-1] = append(lines[len(lines)-1], i)
+		x += iw
+	}
+	return lines
+}
+
+func keyHeight(w, lineH vg.Length, sty draw.TextStyle) vg.Length {
+	return vg.Length(len(keyLines(w, sty)))*1.2*lineH + 0.4*lineH
+}
+
+// drawKey says what the lines mean, under the sections.
 func drawKey(dc draw.Canvas, opt SectionOptions, lineH vg.Length, sty draw.TextStyle) {
 	sty.XAlign, sty.YAlign = draw.XLeft, draw.YCenter
-	x := dc.Min.X + vg.Points(4)
-	y := dc.Min.Y + 1.9*lineH
-	sw := vg.Points(14)
-	item := func(draw func(x, y vg.Length), label string) {
-		draw(x, y)
-		dc.FillText(sty, vg.Point{X: x + sw + vg.Points(3), Y: y}, label)
-		x += sw + vg.Points(8) + sty.Width(label)
-	}
 	line := func(ls draw.LineStyle) func(x, y vg.Length) {
-		return func(x, y vg.Length) { dc.StrokeLine2(ls, x, y, x+sw, y) }
+		return func(x, y vg.Length) { dc.StrokeLine2(ls, x, y, x+keySwatch, y) }
 	}
 	box := func(c color.Color) func(x, y vg.Length) {
 		return func(x, y vg.Length) {
 			h := vg.Points(3)
-			dc.FillPolygon(c, []vg.Point{{X: x, Y: y - h}, {X: x + sw, Y: y - h}, {X: x + sw, Y: y + h}, {X: x, Y: y + h}})
+			dc.FillPolygon(c, []vg.Point{{X: x, Y: y - h}, {X: x + keySwatch, Y: y - h}, {X: x + keySwatch, Y: y + h}, {X: x, Y: y + h}})
 		}
 	}
-	item(line(draw.LineStyle{Color: scene.ScannedInk, Width: vg.Points(0.9), Dashes: []vg.Length{vg.Points(2.5), vg.Points(1.5)}}), "as scanned")
-	item(line(draw.LineStyle{Color: scene.EarlierInk, Width: vg.Points(0.8)}), "after earlier steps")
-	item(line(draw.LineStyle{Color: scene.Ink, Width: vg.Points(1.1)}), "after this step")
-	item(box(scene.DepthColor(0.6, 1)), "removed by this step (shade: depth of cut)")
-	x = dc.Min.X + vg.Points(4)
-	y = dc.Min.Y + 0.7*lineH
 	m := scene.FileMetal
-	item(box(color.NRGBA{m.R, m.G, m.B, 110}), "the file's section")
-	item(func(x, y vg.Length) { arrow(dc, vg.Point{X: x, Y: y}, vg.Point{X: x + sw, Y: y}, scene.TransportInk) }, "transportation (to scale)")
-	dc.FillText(sty, vg.Point{X: x, Y: y}, "seen from the orifice; inner side of the main curve to the right")
+	swatches := []func(x, y vg.Length){
+		line(draw.LineStyle{Color: scene.ScannedInk, Width: vg.Points(0.9), Dashes: []vg.Length{vg.Points(2.5), vg.Points(1.5)}}),
+		line(draw.LineStyle{Color: scene.EarlierInk, Width: vg.Points(0.8)}),
+		line(draw.LineStyle{Color: scene.Ink, Width: vg.Points(1.1)}),
+		box(scene.DepthColor(0.6, 1)),
+		box(color.NRGBA{m.R, m.G, m.B, 110}),
+		func(x, y vg.Length) { arrow(dc, vg.Point{X: x, Y: y}, vg.Point{X: x + keySwatch, Y: y}, scene.TransportInk) },
+		nil,
+	}
+	lines := keyLines(dc.Max.X-dc.Min.X, sty)
+	for k, items := range lines {
+		y := dc.Min.Y + 0.4*lineH + (vg.Length(len(lines)-1-k)+0.5)*1.2*lineH
+		x := dc.Min.X + vg.Points(4)
+		for _, i := range items {
+			if swatches[i] != nil {
+				swatches[i](x, y)
+				x += keySwatch + vg.Points(3)
+			}
+			dc.FillText(sty, vg.Point{X: x, Y: y}, keyItems[i])
+			x += sty.Width(keyItems[i]) + vg.Points(8)
+		}
+	}
 }
 
 // niceLength is a round length (1, 2, 2.5 or 5 times a power of ten) no longer than v.
