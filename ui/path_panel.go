@@ -56,7 +56,7 @@ func (p *pathPanel) show(model string, moved *analysis.Transport) {
 		p.moved.SetText("")
 		return
 	}
-	p.moved.SetText("The whole sequence " + transportText(*moved))
+	p.moved.SetText("Whole sequence: " + transportText(*moved))
 }
 
 func (p *pathPanel) chosen(text string) {
@@ -90,10 +90,10 @@ func transportText(tr analysis.Transport) string {
 		mm = append(mm, fmt.Sprintf("%.3f", tr.TransportationMM[k]))
 		cen = append(cen, optional(tr.CenteringRatio[k], "%.2f"))
 	}
-	s := fmt.Sprintf("moved %s mm at %s mm from the apical end (centring %s), foramen %.3f mm",
+	s := fmt.Sprintf("transportation %s mm at %s mm from the apical end (centring %s), foramen shift %.3f mm",
 		strings.Join(mm, " / "), strings.Join(lev, " / "), strings.Join(cen, " / "), tr.ForamenShiftMM)
 	if tr.Largest.MM > 0 {
-		s += fmt.Sprintf("; most %.3f mm, %.2f mm up, %s", tr.Largest.MM, tr.Largest.FromApexMM, towardText(tr.Largest.TowardDeg))
+		s += fmt.Sprintf("; largest %.3f mm, %.2f mm up, %s", tr.Largest.MM, tr.Largest.FromApexMM, towardText(tr.Largest.TowardDeg))
 	}
 	return s + "."
 }
