@@ -66,8 +66,9 @@ func optional(v *float64, format string) string {
 // stepTable lists the steps of a run, one row per step. show gives it the run and the shown
 // step; OnSelect and OnAdvice report the user's choice.
 type stepTable struct {
-	table *widget.Table
-	res   *analysis.Result
+	table  *widget.Table
+	res    *analysis.Result
+	widths []float32 // as set on the table, per column
 
 	OnSelect func(step int)                 // a row was chosen (step from 1)
 	OnAdvice func(st *analysis.StepResult) // the advice marker was tapped
@@ -111,6 +112,7 @@ func (t *stepTable) fitColumns() {
 		if i == 0 {
 			w = 8 // the colour swatch
 		}
+		t.widths = append(t.widths[:i], w+pad)
 		t.table.SetColumnWidth(i, w+pad)
 	}
 }
