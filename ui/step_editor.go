@@ -44,7 +44,7 @@ type stepEditor struct {
 	add, remove, up, down   *widget.Button
 	fields                  *fyne.Container
 
-	OnEdit  func(st models.Step) error                        // the shown step as edited
+	OnEdit  func(st models.Step) error                  // the shown step as edited
 	OnSteps func(cand *models.Sequence, show int) error // steps added, removed or moved
 }
 

@@ -70,7 +70,7 @@ type stepTable struct {
 	res    *analysis.Result
 	widths []float32 // as set on the table, per column
 
-	OnSelect func(step int)                 // a row was chosen (step from 1)
+	OnSelect func(step int)                // a row was chosen (step from 1)
 	OnAdvice func(st *analysis.StepResult) // the advice marker was tapped
 }
 

@@ -44,7 +44,7 @@ type viewport struct {
 	dirty    bool // a new frame is wanted
 	busy     bool // the worker is working
 	hoverAt  *image.Point
-	pickAt   *image.Point // a click to answer with the level of the wall under it
+	pickAt   *image.Point  // a click to answer with the level of the wall under it
 	front    *image.RGBA   // latest finished frame
 	handed   *image.RGBA   // frame the raster last returned (may still be on its way to the screen)
 	spare    []*image.RGBA // buffers free to render into
@@ -59,8 +59,8 @@ type viewport struct {
 	buildErr error
 
 	ui      *handOver
-	onHover func(text string)       // called on the UI goroutine
-	onError func(err error)         // scene could not be built
+	onHover func(text string)      // called on the UI goroutine
+	onError func(err error)        // scene could not be built
 	onPick  func(fromApex float64) // the wall was clicked this far from the apical end
 
 	// input state (UI goroutine)

@@ -316,7 +316,9 @@ func drawKey(dc draw.Canvas, opt SectionOptions, lineH vg.Length, sty draw.TextS
 		line(draw.LineStyle{Color: scene.Ink, Width: vg.Points(1.1)}),
 		box(scene.DepthColor(0.6, 1)),
 		box(color.NRGBA{m.R, m.G, m.B, 110}),
-		func(x, y vg.Length) { arrow(dc, vg.Point{X: x, Y: y}, vg.Point{X: x + keySwatch, Y: y}, scene.TransportInk) },
+		func(x, y vg.Length) {
+			arrow(dc, vg.Point{X: x, Y: y}, vg.Point{X: x + keySwatch, Y: y}, scene.TransportInk)
+		},
 		nil,
 	}
 	lines := keyLines(dc.Max.X-dc.Min.X, sty)
