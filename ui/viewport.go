@@ -238,7 +238,8 @@ func (v *viewport) work() {
 				view := v.view
 				v.mu.Unlock()
 				if dirty && dst != nil {
-					v.renderer.Render(dst, v.built.Scene, &cam, render.Options{Supersample: ss})
+					// While the view turns, a huge scan is drawn from a simplified copy.
+					v.renderer.Render(dst, v.built.Scene, &cam, render.Options{Supersample: ss, Turning: ss == 1})
 					scene.Decorate(dst, v.built, in.canal, view)
 				}
 			} else if dirty && dst != nil {

@@ -102,5 +102,11 @@ func BenchmarkRenderCanal243kOpaque(b *testing.B) {
 
 func BenchmarkRenderCanal4MTurning(b *testing.B) {
 	s, cam := canalOfSize(10000, 200, 0.35)
+	benchScene(b, s, cam, Options{Turning: true})
+}
+
+// The same canal drawn whole, as a still is (for comparison).
+func BenchmarkRenderCanal4MStill(b *testing.B) {
+	s, cam := canalOfSize(10000, 200, 0.35)
 	benchScene(b, s, cam, Options{})
 }

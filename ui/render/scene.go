@@ -48,6 +48,9 @@ type Options struct {
 	Supersample int
 	// Workers is the number of goroutines; 0 uses GOMAXPROCS. The image does not depend on it.
 	Workers int
+	// Turning draws objects of more than TurningTriangles triangles from a simplified copy,
+	// for the frames of a view being turned; Pick answers nothing on them.
+	Turning bool
 }
 
 func (o Object) seeThrough() bool { return o.Opacity > 0 && o.Opacity < 1 }
