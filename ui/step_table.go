@@ -29,7 +29,7 @@ const adviceColumn = 3
 // frozenColumns stay in place while the others scroll: the colour, the number and the file.
 const frozenColumns = 3
 
-// The figures to the decimals the measurements support, as the report prints them.
+// The figures with the headings and decimals of analysis's step columns, as every output.
 var stepColumns = []stepColumn{
 	{"", nil}, // ISO colour swatch
 	{"#", func(st *analysis.StepResult) string { return fmt.Sprint(st.Number) }},
@@ -41,19 +41,28 @@ var stepColumns = []stepColumn{
 		}
 		return ""
 	}},
-	{"tip\nmm", func(st *analysis.StepResult) string { return fmt.Sprintf("%.2f", st.Metrics.TipDepthMM) }},
-	{"engaged\nmm", func(st *analysis.StepResult) string { return fmt.Sprintf("%.2f", st.Metrics.EngagedLengthMM) }},
-	{"area\nmm²", func(st *analysis.StepResult) string { return fmt.Sprintf("%.2f", st.Metrics.EngagedAreaMM2) }},
-	{"Ø at s*\nmm", func(st *analysis.StepResult) string { return optional(st.Metrics.DiameterAtMaxCurvatureMM, "%.2f") }},
-	{"strain\nat s* %", func(st *analysis.StepResult) string { return optional(st.Metrics.StrainAtMaxCurvaturePct, "%.2f") }},
+	metricColumn("tip_depth_mm"),
+	metricColumn("engaged_length_mm"),
+	metricColumn("engaged_area_mm2"),
+	metricColumn("diameter_at_max_curvature_mm"),
+	metricColumn("strain_at_max_curvature_pct"),
 	// Fatigue use as every output states it: Miner's sum, 1 = fracture.
-	{"fatigue use\n1 = fracture", func(st *analysis.StepResult) string { return fmt.Sprintf("%.3f", st.Metrics.FatigueDamage) }},
-	{"torsion\nmargin", func(st *analysis.StepResult) string { return optional(st.Metrics.TorsionMargin, "%.1f×") }},
+	metricColumn("fatigue_damage"),
+	metricColumn("torsion_margin"),
 	// Gambill's measures 1 mm from the apical end, where transportation matters for the seal.
-	{"moved, mm\n1 mm up", func(st *analysis.StepResult) string {
-		return fmt.Sprintf("%.3f", st.Metrics.TransportationMM["1"])
-	}},
-	{"centring\n1 mm up", func(st *analysis.StepResult) string { return optional(st.Metrics.CenteringRatio["1"], "%.2f") }},
+	metricColumn("transportation_1_mm"),
+	metricColumn("centering_ratio_1"),
+}
+
+// metricColumn shows one of the step figures analysis describes, as every output shows it.
+func metricColumn(key string) stepColumn {
+	c := analysis.PickColumns(key)[0]
+	return stepColumn{c.Heading, func(st *analysis.StepResult) string {
+		if v := c.Format(st.Metrics); v != "" {
+			return v
+		}
+		return "–"
+	}}
 }
 
 func optional(v *float64, format string) string {

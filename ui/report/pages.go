@@ -140,7 +140,7 @@ func caution(pdf *fpdf.Fpdf, text string) {
 // stepTable prints labels down the left and one column per step, in blocks of at most
 // stepsPerBlock columns so a long sequence still fits the page width.
 func stepTable(pdf *fpdf.Fpdf, labels []string, cells [][]string) {
-	const labelW, stepsPerBlock, maxColW = 56.0, 8, 28.0
+	const labelW, stepsPerBlock, maxColW = 50.0, 8, 34.0
 	steps := 0
 	if len(cells) > 0 {
 		steps = len(cells[0])

@@ -94,7 +94,8 @@ func TestDemoReportHasSummaryAndOnePagePerStep(t *testing.T) {
 		// Printed with the decimals the measurement supports: the JSON's numbers rounded.
 		for col, v := range map[string]float64{"engaged_length_mm": m.EngagedLengthMM, "engaged_area_mm2": m.EngagedAreaMM2,
 			"removed_volume_mm3": m.RemovedVolumeMM3, "max_depth_of_cut_mm": m.MaxDepthOfCutMM, "fatigue_damage": m.FatigueDamage} {
-			s := strconv.FormatFloat(v, 'f', columnDecimals[col], 64)
+			c, _ := analysis.StepColumn(col)
+			s := strconv.FormatFloat(v, 'f', c.Shown, 64)
 			if !strings.Contains(pages[0], s) {
 				t.Errorf("summary page lacks step %d's %s", m.Step, s)
 			}
@@ -109,6 +110,13 @@ func TestDemoReportHasSummaryAndOnePagePerStep(t *testing.T) {
 			if !strings.Contains(squash(page), squash(a.Text)) {
 				t.Errorf("step %d's page lacks the advice %q", m.Step, a.Text)
 			}
+		}
+	}
+	// A reader sees words, not the JSON's field names (the step pages once listed
+	// transportation_1_mm ... above the section that states them in words).
+	for _, c := range append(analysis.StepColumns(), analysis.StepDetails()...) {
+		if strings.Contains(c.Key, "_") && strings.Contains(text, c.Key) {
+			t.Errorf("the report shows the field name %s", c.Key)
 		}
 	}
 	if !strings.Contains(squash(pages[0]), squash(analysis.Caution)) {
@@ -146,9 +154,9 @@ func TestStepTableHoldsTheJSONNumbers(t *testing.T) {
 	sum := res.Summary()
 	labels, cells := StepTable(sum)
 	// The CSV's transportation columns are stated by the report's own transportation rows.
-	var cols []string
-	for _, c := range analysis.StepColumns {
-		if !strings.HasPrefix(c, "transportation_") && !strings.HasPrefix(c, "centering_ratio_") && c != "foramen_shift_mm" {
+	var cols []analysis.Column
+	for _, c := range analysis.StepColumns() {
+		if !strings.HasPrefix(c.Key, "transportation_") && !strings.HasPrefix(c.Key, "centering_ratio_") && c.Key != "foramen_shift_mm" {
 			cols = append(cols, c)
 		}
 	}
@@ -167,8 +175,9 @@ func TestStepTableHoldsTheJSONNumbers(t *testing.T) {
 	if err := json.Unmarshal(js, &back); err != nil {
 		t.Fatal(err)
 	}
-	for _, col := range cols {
-		i, ok := rowOf[ColumnLabel(col)]
+	for _, c := range cols {
+		col := c.Key
+		i, ok := rowOf[c.Label]
 		if !ok {
 			t.Fatalf("no row for %s", col)
 		}
@@ -187,8 +196,8 @@ func TestStepTableHoldsTheJSONNumbers(t *testing.T) {
 				// The table prints the JSON's number with the decimals the measurement supports.
 				got, err := strconv.ParseFloat(cell, 64)
 				tol := 1e-12
-				if d, ok := columnDecimals[col]; ok {
-					tol = 0.5*math.Pow10(-d) + 1e-12
+				if c.Shown >= 0 {
+					tol = 0.5*math.Pow10(-c.Shown) + 1e-12
 				}
 				if err != nil || math.Abs(got-v) > tol {
 					t.Errorf("step %d %s: JSON %v, table %q", j+1, col, v, cell)
@@ -350,7 +359,7 @@ func TestWriteCSVHasAHeaderAndARowPerStep(t *testing.T) {
 	if len(rows) != 1+len(res.Steps) {
 		t.Fatalf("%d rows, want 1 + %d", len(rows), len(res.Steps))
 	}
-	if strings.Join(rows[0], ",") != strings.Join(analysis.StepColumns, ",") {
+	if strings.Join(rows[0], ",") != strings.Join(analysis.StepColumnKeys(), ",") {
 		t.Errorf("header %v", rows[0])
 	}
 	for k, st := range res.Steps {

@@ -2,7 +2,6 @@ package report
 
 import (
 	"fmt"
-	"strings"
 
 	"codeberg.org/go-pdf/fpdf"
 
@@ -18,16 +17,21 @@ func numbersAndAdvice(pdf *fpdf.Fpdf, st *analysis.StepResult, x float64) {
 	pdf.SetX(x)
 	pdf.SetFont(fontBold, "", 9.5)
 	pdf.CellFormat(colW, 5, "Numbers", "", 1, "L", false, 0, "")
-	row := m.Row()
 	var pairs [][2]string
-	for i, col := range analysis.StepColumns {
-		switch {
-		case col == "step", col == "label", col == "alloy", col == "advice", col == "tip_depth_mm", col == "tip_from_apex_mm",
-			// stated under "How this step moved the canal" below
-			strings.HasPrefix(col, "transportation_"), strings.HasPrefix(col, "centering_ratio_"), col == "foramen_shift_mm":
+	for _, c := range analysis.StepColumns() {
+		switch c.Key {
+		case "step", "label", "alloy", "advice", "tip_depth_mm", "tip_from_apex_mm":
 			continue
 		}
-		pairs = append(pairs, [2]string{ColumnLabel(col), cell(col, row[i])})
+		if isTransportColumn(c) {
+			continue // stated below, under "How this step moved the canal"
+		}
+		// To the decimals the measurement supports (the column's Shown), as the summary's table.
+		v := c.Format(m)
+		if v == "" {
+			v = "–"
+		}
+		pairs = append(pairs, [2]string{c.Label, v})
 	}
 	opt := func(v *float64, d int) string {
 		if v == nil {
