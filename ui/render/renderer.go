@@ -41,8 +41,8 @@ type Renderer struct {
 	// simpler holds the simplified copies of huge meshes drawn while turning.
 	simpler map[*mesh.Mesh]*simplified
 	turning bool
-	verts  []packedVert
-	vjobs  []vertexJob
+	verts   []packedVert
+	vjobs   []vertexJob
 	// marks[v] == stamp: vertex v belongs to a triangle that survived culling this frame.
 	marks []uint32
 	stamp uint32
