@@ -74,6 +74,10 @@ func (r *Renderer) cullChunk(c int) {
 			mark(tri[2])
 			continue
 		}
+		// Facing away or edge-on: no need to set it up (setupGeometry decides the rest).
+		if area := int64(b.s.x-a.s.x)*int64(cc.s.y-a.s.y) - int64(b.s.y-a.s.y)*int64(cc.s.x-a.s.x); area == 0 || o.cull && area > 0 {
+			continue
+		}
 		swapped, ok := r.setupGeometry(&a.s, &b.s, &cc.s, o.cull, &ts)
 		if !ok {
 			continue

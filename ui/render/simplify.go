@@ -15,7 +15,7 @@ import (
 const TurningTriangles = 600_000
 
 // turningTarget is about how many triangles the simplified copy keeps.
-const turningTarget = 300_000
+const turningTarget = 200_000
 
 // simplified is a copy of a mesh with its vertices merged on a grid (vertex clustering): each
 // new vertex stands for the original vertices of one cell, at their mean, and carries the
@@ -130,14 +130,18 @@ func (r *Renderer) evictSimpler(s *Scene) {
 	if len(r.simpler) == 0 {
 		return
 	}
-	inScene := map[*mesh.Mesh]bool{}
-	if s != nil {
-		for i := range s.Objects {
-			inScene[s.Objects[i].Mesh] = true
+	inScene := func(m *mesh.Mesh) bool {
+		if s != nil {
+			for i := range s.Objects {
+				if s.Objects[i].Mesh == m {
+					return true
+				}
+			}
 		}
+		return false
 	}
 	for m, c := range r.simpler {
-		if !c.used && !inScene[m] {
+		if !c.used && !inScene(m) {
 			delete(r.simpler, m)
 		}
 		c.used = false

@@ -6,7 +6,7 @@ import (
 )
 
 // TestTurningDrawsASimplifiedCopy: a wall of 1M triangles drawn while turning comes from a copy
-// of about 300k triangles that covers the same pixels (the outline of a tube does not depend on
+// of about 200k triangles that covers the same pixels (the outline of a tube does not depend on
 // its tessellation once triangles are far below a pixel: within 1 % of the covered pixels), and
 // Pick answers nothing on it, since its triangles are not the scene's.
 func TestTurningDrawsASimplifiedCopy(t *testing.T) {
