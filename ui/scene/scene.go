@@ -42,6 +42,9 @@ const DefaultWallOpacity = 0.35
 // the step meets it) see-through, so the cut wall shows through it.
 const fileInWallOpacity = 0.3
 
+// fileCutOpenOpacity lets the far wall's cut show through the file when the canal is cut open.
+const fileCutOpenOpacity = 0.45
+
 // fileOnPathOpacity lets the centerline show through a file that runs off it.
 const fileOnPathOpacity = 0.7
 
@@ -134,7 +137,12 @@ func Build(c *analysis.Canal, res *analysis.Result, opt Options) (*Built, error)
 			inside, inWall = splitFileAtWall(c, b.File, in, st.TipDepth, st.Before)
 		}
 		body := render.Object{Mesh: inside, Colors: cols, Outline: true}
-		if ownPath {
+		switch {
+		case opt.Clip:
+			// Cut open, the far wall lies behind the file: the file is drawn see-through so
+			// the cut on the far wall shows through it.
+			body.Opacity = fileCutOpenOpacity
+		case ownPath:
 			body.Opacity = fileOnPathOpacity
 		}
 		s.Objects = append(s.Objects, body)
