@@ -12,16 +12,18 @@ type Scale struct {
 	Neutral color.RGBA
 }
 
-// DepthScale is a sequential scale for depth of cut: a pale aqua (shallow) through teal to a
+// DepthScale is a sequential scale for depth of cut: a light teal (shallow) through teal to a
 // deep petrol (deep), lightness falling steadily. Its hues (about 190 to 215 degrees in OKLCh)
 // lie in the widest gap between the ISO 3630-1 size colours (green and blue), so no file's
 // colour reads as cutting; its neutral is a light warm grey.
 func DepthScale() *Scale {
 	return newSequential(
 		func(t float64) (l, c, h float64) {
-			l = 0.95 - 0.62*t
-			c = 0.035 + 0.085*math.Sin(math.Pi*math.Min(1, 0.2+t*0.8))
-			h = 188 + 27*t
+			// The shallowest contact is already a clear teal, never mistaken for the neutral
+			// wall: lightness starts below the neutral's and chroma well above it.
+			l = 0.84 - 0.50*t
+			c = 0.085 + 0.04*math.Sin(math.Pi*t)
+			h = 190 + 25*t
 			return
 		},
 		okLabToSRGB(0.87, 0.006, 0.014),
