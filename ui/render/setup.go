@@ -138,7 +138,12 @@ func (r *Renderer) setupColour(ts *triSetup) {
 	if ts.v[0] < 0 {
 		return
 	}
-	a, b, c := &r.verts[ts.v[0]].s, &r.verts[ts.v[1]].s, &r.verts[ts.v[2]].s
+	colourPlanes(ts, &r.verts[ts.v[0]].s, &r.verts[ts.v[1]].s, &r.verts[ts.v[2]].s)
+}
+
+// colourPlanes fills the colour planes of ts from its corners' colours, a, b and c in the
+// order of ts's corners.
+func colourPlanes(ts *triSetup, a, b, c *screenVert) {
 	const inv = 1.0 / subOne
 	dx1, dy1 := float32(ts.x1-ts.x0)*inv, float32(ts.y1-ts.y0)*inv
 	dx2, dy2 := float32(ts.x2-ts.x0)*inv, float32(ts.y2-ts.y0)*inv
@@ -166,21 +171,7 @@ func (r *Renderer) setup(a, b, c *screenVert, cull bool, ts *triSetup) bool {
 	if swapped {
 		b, c = c, b
 	}
-	const inv = 1.0 / subOne
-	dx1, dy1 := float32(b.x-a.x)*inv, float32(b.y-a.y)*inv
-	dx2, dy2 := float32(c.x-a.x)*inv, float32(c.y-a.y)*inv
-	id := 1 / (dx1*dy2 - dy1*dx2)
-	ox := float32(ts.minX) + 0.5 - float32(a.x)*inv
-	oy := float32(ts.minY) + 0.5 - float32(a.y)*inv
-	plane := func(va, vb, vc float32) (base, gx, gy float32) {
-		d1, d2 := vb-va, vc-va
-		gx = (d1*dy2 - d2*dy1) * id
-		gy = (d2*dx1 - d1*dx2) * id
-		return va + gx*ox + gy*oy, gx, gy
-	}
-	ts.r, ts.rdx, ts.rdy = plane(a.r, b.r, c.r)
-	ts.g, ts.gdx, ts.gdy = plane(a.g, b.g, c.g)
-	ts.b, ts.bdx, ts.bdy = plane(a.b, b.b, c.b)
+	colourPlanes(ts, a, b, c)
 	ts.v = [3]int32{-1, -1, -1}
 	return true
 }
