@@ -26,6 +26,17 @@ func (o Outline) Point(j int) (x, y float64) {
 	return o.R[j%n] * c, o.R[j%n] * s
 }
 
+// PointAt is the outline's point at the fractional sample index f (theta = 2 pi f / len(R)), the
+// distance interpolated linearly between samples as the maps are read.
+func (o Outline) PointAt(f float64) (x, y float64) {
+	n := len(o.R)
+	j := int(math.Floor(f))
+	a := f - float64(j)
+	r := o.R[((j%n)+n)%n]*(1-a) + o.R[(((j+1)%n)+n)%n]*a
+	s, c := math.Sincos(2 * math.Pi * f / float64(n))
+	return r * c, r * s
+}
+
 // Area is the area inside the outline, mm²: the integral of r²/2 over theta with r linear
 // between samples.
 func (o Outline) Area() float64 {

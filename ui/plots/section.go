@@ -196,8 +196,11 @@ func drawSection(dc draw.Canvas, s *analysis.Section, at func(x, y float64) vg.P
 			if !ok {
 				continue
 			}
-			a, b := at(inner.Point(j)), at(inner.Point(j+1))
-			d, e := at(outer.Point(j+1)), at(outer.Point(j))
+			// Each wedge reaches a little into its neighbours, so no seam of background shows
+			// between wedges where their antialiased edges meet.
+			f0, f1 := float64(j)-0.2, float64(j)+1.2
+			a, b := at(inner.PointAt(f0)), at(inner.PointAt(f1))
+			d, e := at(outer.PointAt(f1)), at(outer.PointAt(f0))
 			dc.FillPolygon(c, []vg.Point{a, b, d, e})
 		}
 	}
