@@ -29,6 +29,7 @@ type simplified struct {
 	distOf   *float32
 	dist     []float32
 	used     bool
+	obj      Object // the object drawn in the source's place (kept here: no allocation per frame)
 }
 
 // simplify merges the vertices of m on a grid whose cells are sized from the surface's area so
@@ -97,7 +98,8 @@ func (r *Renderer) turningObject(o *Object) *Object {
 		r.simpler[o.Mesh] = s
 	}
 	s.used = true
-	sub := *o
+	s.obj = *o
+	sub := &s.obj
 	sub.Mesh = s.mesh
 	sub.Normals = nil
 	sub.Colors, sub.ClipDistance = nil, nil
@@ -121,7 +123,7 @@ func (r *Renderer) turningObject(o *Object) *Object {
 		}
 		sub.ClipDistance = s.dist
 	}
-	return &sub
+	return sub
 }
 
 // evictSimpler forgets the simplified copies of meshes that are no longer in the scene; a copy
