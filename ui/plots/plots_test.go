@@ -132,3 +132,28 @@ func TestProfilesGolden(t *testing.T) {
 	}
 	golden(t, "demo_profiles.png", img)
 }
+
+// TestAnalyticSectionGolden draws the analytic case of analysis's section test: a round canal of
+// radius 0.3 mm prepared by a round file of radius 0.42 mm whose axis lies 0.07 mm off the
+// canal's toward 30° (the inner side of the curve is to the right). Looked at: the file's circle
+// holds the canal's, the removed crescent is deepest toward 30° (up and to the right, the picture
+// being seen from the orifice: y along -N2 is drawn up), and the arrow, 2 x 0.07 = 0.14 mm long
+// by Gambill's measure, points that way at the scale of the bar.
+func TestAnalyticSectionGolden(t *testing.T) {
+	const n, a, b, e = 128, 0.3, 0.42, 0.07
+	phi := -30 * math.Pi / 180 // toward 30° on screen: the picture's y is -N2
+	scanned, after := analysis.Outline{R: make([]float64, n)}, analysis.Outline{R: make([]float64, n)}
+	for j := 0; j < n; j++ {
+		th := 2 * math.Pi * float64(j) / n
+		c, s := math.Cos(th-phi), math.Sin(th-phi)
+		scanned.R[j] = a
+		after.R[j] = math.Max(a, e*c+math.Sqrt(b*b-e*e*s*s))
+	}
+	sec := &analysis.Section{FromApexMM: 3, Step: 1, Scanned: scanned, Before: scanned, After: after,
+		File: &analysis.FileSection{X: e * math.Cos(phi), Y: e * math.Sin(phi), RadiusMM: b},
+		TransportationMM: 2 * e, TowardDeg: phi * 180 / math.Pi}
+	sec.ScannedAreaMM2, sec.AfterAreaMM2 = scanned.Area(), after.Area()
+	sec.RemovedMM2 = sec.AfterAreaMM2 - sec.ScannedAreaMM2
+	img := SectionsImage([]*analysis.Section{sec}, 420, 420, SectionOptions{LegendTop: b + e - a, ContactMM: 0.005, DPI: 96, Key: true, Selected: -1})
+	golden(t, "analytic_section.png", img)
+}

@@ -220,18 +220,20 @@ func drawSection(dc draw.Canvas, s *analysis.Section, at func(x, y float64) vg.P
 	for _, o := range s.Earlier {
 		dc.StrokeLines(draw.LineStyle{Color: scene.EarlierInk, Width: vg.Points(0.6)}, outline(o))
 	}
-	// The file's section: metal grey, see-through, so the outline under it still shows.
+	// The file's section: its outline in the file's steel grey and a dot on its axis, unfilled,
+	// so the wall it removed keeps its colour and the canal inside stays paper.
 	if f := s.File; f != nil {
 		var pts []vg.Point
 		for k := 0; k <= 72; k++ {
 			th := 2 * math.Pi * float64(k) / 72
 			pts = append(pts, at(f.X+f.RadiusMM*math.Cos(th), f.Y+f.RadiusMM*math.Sin(th)))
 		}
-		m := scene.FileMetal
-		dc.FillPolygon(color.NRGBA{m.R, m.G, m.B, 110}, pts)
-		dc.StrokeLines(draw.LineStyle{Color: scene.FileInk, Width: vg.Points(0.7)}, pts)
+		dc.StrokeLines(draw.LineStyle{Color: scene.FileInk, Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(5), vg.Points(1.5)}}, pts)
+		c := at(f.X, f.Y)
+		r := vg.Points(1.3)
+		dc.FillPolygon(scene.FileInk, []vg.Point{{X: c.X - r, Y: c.Y}, {X: c.X, Y: c.Y - r}, {X: c.X + r, Y: c.Y}, {X: c.X, Y: c.Y + r}})
 	}
-	dc.StrokeLines(draw.LineStyle{Color: scene.ScannedInk, Width: vg.Points(0.9), Dashes: []vg.Length{vg.Points(2.5), vg.Points(1.5)}}, outline(s.Scanned))
+	dc.StrokeLines(draw.LineStyle{Color: scene.ScannedInk, Width: vg.Points(1), Dashes: []vg.Length{vg.Points(1), vg.Points(1.6)}}, outline(s.Scanned))
 	if s.Step > 0 {
 		dc.StrokeLines(draw.LineStyle{Color: scene.Ink, Width: vg.Points(1.1)}, outline(s.After))
 	}
@@ -312,13 +314,12 @@ func drawKey(dc draw.Canvas, opt SectionOptions, lineH vg.Length, sty draw.TextS
 			dc.FillPolygon(c, []vg.Point{{X: x, Y: y - h}, {X: x + keySwatch, Y: y - h}, {X: x + keySwatch, Y: y + h}, {X: x, Y: y + h}})
 		}
 	}
-	m := scene.FileMetal
 	swatches := []func(x, y vg.Length){
-		line(draw.LineStyle{Color: scene.ScannedInk, Width: vg.Points(0.9), Dashes: []vg.Length{vg.Points(2.5), vg.Points(1.5)}}),
+		line(draw.LineStyle{Color: scene.ScannedInk, Width: vg.Points(1), Dashes: []vg.Length{vg.Points(1), vg.Points(1.6)}}),
 		line(draw.LineStyle{Color: scene.EarlierInk, Width: vg.Points(0.8)}),
 		line(draw.LineStyle{Color: scene.Ink, Width: vg.Points(1.1)}),
 		box(scene.DepthColor(0.6, 1)),
-		box(color.NRGBA{m.R, m.G, m.B, 110}),
+		line(draw.LineStyle{Color: scene.FileInk, Width: vg.Points(1.2), Dashes: []vg.Length{vg.Points(5), vg.Points(1.5)}}),
 		func(x, y vg.Length) {
 			arrow(dc, vg.Point{X: x, Y: y}, vg.Point{X: x + keySwatch, Y: y}, scene.TransportInk)
 		},
