@@ -150,7 +150,7 @@ func TestAnalyticSectionGolden(t *testing.T) {
 		after.R[j] = math.Max(a, e*c+math.Sqrt(b*b-e*e*s*s))
 	}
 	sec := &analysis.Section{FromApexMM: 3, Step: 1, Scanned: scanned, Before: scanned, After: after,
-		File: &analysis.FileSection{X: e * math.Cos(phi), Y: e * math.Sin(phi), RadiusMM: b},
+		File:             &analysis.FileSection{X: e * math.Cos(phi), Y: e * math.Sin(phi), RadiusMM: b},
 		TransportationMM: 2 * e, TowardDeg: phi * 180 / math.Pi}
 	sec.ScannedAreaMM2, sec.AfterAreaMM2 = scanned.Area(), after.Area()
 	sec.RemovedMM2 = sec.AfterAreaMM2 - sec.ScannedAreaMM2
