@@ -7,12 +7,10 @@ import (
 	"image"
 	"image/png"
 	"io"
-	"os"
 	"strconv"
 	"strings"
 
 	"tapersweep/analysis"
-	"tapersweep/models"
 	"tapersweep/ui/plots"
 	"tapersweep/ui/scene"
 )
@@ -49,12 +47,11 @@ func renderCommand() command {
 				if *step < 0 || (*step > 0 && *seqPath == "") {
 					return usageError(stderr, "render", "--step needs --sequence and a step number from 1")
 				}
-				ok := false
-				for _, v := range scene.ViewNames() {
-					ok = ok || v == *view
-				}
-				if !ok {
+				if !isView(*view) {
 					return usageError(stderr, "render", "--view must be one of %s", strings.Join(scene.ViewNames(), ", "))
+				}
+				if err := checkOutput(*out, *cf.path, *seqPath); err != nil {
+					return inputError(stderr, "render", err)
 				}
 				ctx := context.Background()
 				c, err := cf.load(ctx)
@@ -63,13 +60,18 @@ func renderCommand() command {
 				}
 				var res *analysis.Result
 				if *seqPath != "" {
-					seq, err := models.LoadSequence(*seqPath)
+					seq, err := loadSequence(*seqPath)
 					if err != nil {
 						return inputError(stderr, "render", err)
 					}
 					if res, err = analysis.Run(ctx, c, seq, analysis.RunOptions{}); err != nil {
 						return inputError(stderr, "render", err)
 					}
+				}
+				if res != nil {
+					printWarnings(stderr, "render", runWarnings(res))
+				} else {
+					printWarnings(stderr, "render", c.Warnings)
 				}
 				levels, err := sectionLevels(*section)
 				if err != nil {
@@ -84,15 +86,7 @@ func renderCommand() command {
 				if err != nil {
 					return inputError(stderr, "render", err)
 				}
-				f, err := os.Create(*out)
-				if err != nil {
-					return inputError(stderr, "render", err)
-				}
-				if err := png.Encode(f, img); err != nil {
-					f.Close()
-					return inputError(stderr, "render", err)
-				}
-				if err := f.Close(); err != nil {
+				if err := writeOutput(*out, func(w io.Writer) error { return png.Encode(w, img) }); err != nil {
 					return inputError(stderr, "render", err)
 				}
 				return exitOK
