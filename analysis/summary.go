@@ -15,6 +15,8 @@ type CanalSummary struct {
 	Orifice         [3]float64  `json:"orifice"`
 	ApicalEnd       [3]float64  `json:"apical_end"`
 	Warnings        []string    `json:"warnings"`
+	// Unresolved lists the stretches a scan does not resolve (empty for surfaces and specs).
+	Unresolved []UnresolvedSummary `json:"unresolved"`
 	// Points run from the orifice to the apical end: x, y, z in the file's own coordinates and s.
 	Points [][4]float64 `json:"points,omitempty"`
 }
@@ -56,6 +58,10 @@ func (c *Canal) Summary(withPoints bool) CanalSummary {
 		Orifice:      [3]float64(c.Line.Points[0]),
 		ApicalEnd:    [3]float64(c.Line.Points[n-1]),
 		Warnings:     append([]string{}, c.Warnings...),
+		Unresolved:   []UnresolvedSummary{},
+	}
+	for _, u := range c.Unresolved {
+		s.Unresolved = append(s.Unresolved, UnresolvedSummary{FromApexMM: round(m.Length-u.From, 3), ToApexMM: round(m.Length-u.To, 3)})
 	}
 	if withPoints {
 		s.Points = make([][4]float64, n)

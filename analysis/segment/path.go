@@ -18,24 +18,24 @@ const (
 	costSteepness = 30
 	costFloor     = 0.01
 	// Bone and the periodontal space are darker than a blurred narrow canal. What sets a
-	// canal apart is dentine all around it: a grey sample counts as dark only as far as it is
-	// darker than the brightest sample within topHatRadius (a black top-hat). Very dark
-	// samples (n below clearlyDark) are canal whatever surrounds them, so a canal wider than
-	// the top-hat stays cheap in its middle.
-	topHatRadius = 0.3 // mm
-	clearlyDark  = 0.3
+	// canal apart is dentine all around it: a sample counts as dark only as far as it is
+	// darker than what lies on both sides of it across two of the three axes (within
+	// sideReach). A sheet (the periodontal space: dentine on one side, bone on the other) or
+	// bone next to the root does not pass; a line inside dentine does, and so does the middle
+	// of a canal up to twice sideReach wide.
+	sideReach  = 0.8 // mm, and at least sideVoxels samples
+	sideVoxels = 2.5
 )
 
 // pathCost is the cost per mm of each sample of the box.
 func pathCost(b *box, dark, bright float64) []float32 {
-	top := maxFilter(b, topHatRadius)
+	sp := b.spacing()
+	walls := enclosure(b, math.Max(sideReach, sideVoxels*math.Max(sp[0], math.Max(sp[1], sp[2]))))
 	c := make([]float32, len(b.val))
 	analysis.ParallelFor(len(c), func(q int) {
 		span := bright - dark
 		n := clamp01((float64(b.val[q]) - dark) / span)
-		if n >= clearlyDark {
-			n = math.Max(n, 1-clamp01((float64(top[q])-float64(b.val[q]))/span))
-		}
+		n = math.Max(n, 1-clamp01((float64(walls[q])-float64(b.val[q]))/span))
 		c[q] = float32(costFloor + math.Exp(costSteepness*(n-1)))
 	})
 	return c
@@ -43,36 +43,88 @@ func pathCost(b *box, dark, bright float64) []float32 {
 
 func clamp01(x float64) float64 { return math.Max(0, math.Min(1, x)) }
 
-// maxFilter is the largest sample within r mm along each axis (a box-shaped grey dilation,
-// one axis at a time).
-func maxFilter(b *box, r float64) []float32 {
+// enclosure is, per sample, the brightness that closes it in: along each axis the lower of
+// the brightest samples within r mm on either side, and of the three axes the second
+// highest (a line is closed in across two axes, a sheet across one).
+func enclosure(b *box, r float64) []float32 {
 	sp := b.spacing()
-	cur := append([]float32(nil), b.val...)
-	tmp := make([]float32, len(cur))
+	n := len(b.val)
+	first := make([]float32, n)  // highest so far
+	second := make([]float32, n) // second highest so far
+	inf := float32(math.Inf(-1))
+	for q := range n {
+		first[q], second[q] = inf, inf
+	}
 	dims := [3]int{b.nx, b.ny, b.nz}
 	strides := [3]int{1, b.nx, b.nx * b.ny}
 	for a := range 3 {
-		w := int(math.Round(r / sp[a]))
-		if w < 1 {
-			continue
-		}
-		n, st := dims[a], strides[a]
-		analysis.ParallelFor(len(cur)/n, func(line int) {
-			// the line's first sample: all samples whose coordinate along a is 0
-			lo := line % st
-			hi := line / st
-			start := lo + hi*st*n
-			for q := range n {
-				m := cur[start+q*st]
-				for d := max(0, q-w); d <= min(n-1, q+w); d++ {
-					m = max(m, cur[start+d*st])
+		w := max(1, int(math.Round(r/sp[a])))
+		cnt, st := dims[a], strides[a]
+		lines := n / cnt
+		workers := min(lines, 64)
+		analysis.ParallelFor(workers, func(wk int) {
+			line := make([]float32, cnt)
+			win := make([]float32, cnt+2*w)
+			scratch := make([]float32, 2*(cnt+2*w))
+			for l := wk; l < lines; l += workers {
+				start := l%st + (l/st)*st*cnt
+				for q := range cnt {
+					line[q] = b.val[start+q*st]
 				}
-				tmp[start+q*st] = m
+				windowMax(line, w, win, scratch)
+				for q := range cnt {
+					lo := win[q+w-1] // max of line[q-w .. q-1]
+					hi := win[q+2*w] // max of line[q+1 .. q+w]
+					m := min(lo, hi)
+					at := start + q*st
+					if m > first[at] {
+						first[at], second[at] = m, first[at]
+					} else if m > second[at] {
+						second[at] = m
+					}
+				}
 			}
 		})
-		cur, tmp = tmp, cur
 	}
-	return cur
+	return second
+}
+
+// windowMax works on x padded by w values of -Inf on either side (padded index i holds
+// x[i-w]) and sets out[j] to the largest of the w padded values ending at j, so out[q+w-1]
+// is the largest of x[q-w .. q-1] and out[q+2w] of x[q+1 .. q+w]. Linear time: running maxima
+// within blocks of w from the left and from the right (van Herk M, Pattern Recognit Lett
+// 1992;13:517-521).
+func windowMax(x []float32, w int, out, scratch []float32) {
+	n := len(x) + 2*w
+	inf := float32(math.Inf(-1))
+	pad := func(i int) float32 {
+		if i < w || i >= w+len(x) {
+			return inf
+		}
+		return x[i-w]
+	}
+	g, h := scratch[:n], scratch[n:2*n]
+	for i := range n {
+		if i%w == 0 {
+			g[i] = pad(i)
+		} else {
+			g[i] = max(g[i-1], pad(i))
+		}
+	}
+	for i := n - 1; i >= 0; i-- {
+		if i == n-1 || (i+1)%w == 0 {
+			h[i] = pad(i)
+		} else {
+			h[i] = max(h[i+1], pad(i))
+		}
+	}
+	for j := range n {
+		if j < w-1 {
+			out[j] = inf
+			continue
+		}
+		out[j] = max(h[j-w+1], g[j])
+	}
 }
 
 // minimalPath is the path of least summed cost between two samples of the box, over its 26

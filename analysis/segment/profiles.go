@@ -113,23 +113,21 @@ func (res *Result) classify(p *profiles, dark, bright, tube float64) {
 		res.DentineLevel[i] = math.Max(d, typical-0.15*(typical-dark))
 	}
 	// The canal's own intensity: the darkest centre along the path (the widest part, where
-	// the blur does not reach the middle).
-	res.CanalLevel = percentile(append([]float64(nil), centre...), 0.02)
+	// the blur does not reach the middle), or the pulp chamber's next to the orifice when that
+	// is darker (a canal narrower than a few voxels never shows its own intensity).
+	res.CanalLevel = math.Min(dark, percentile(append([]float64(nil), centre...), 0.02))
 	analysis.ParallelFor(ns, func(i int) {
 		id, ic := res.DentineLevel[i], res.CanalLevel
 		if id-ic <= 0 {
 			return
 		}
 		half := 0.5 * (ic + id)
-		// Integrate the darkness out to three voxels past the half-way outline.
-		reach := 0
-		for r := range p.rays {
-			reach = max(reach, firstAbove(p.ray(i, r), 0, within, half))
-		}
-		reach = min(p.n-1, reach+3*near)
+		// Integrate the darkness along each ray out to three voxels past where it crosses the
+		// half-way level (within the tube).
 		area := 0.0
 		for r := range p.rays {
 			ray := p.ray(i, r)
+			reach := min(p.n-1, firstAbove(ray, 0, within, half)+3*near)
 			area += (id - float64(ray[0])) / (id - ic) * p.h * p.h / 8 // the sector of the centre cell
 			for q := 1; q <= reach; q++ {
 				area += (id - float64(ray[q])) / (id - ic) * float64(q) * p.h * p.h
@@ -163,9 +161,10 @@ func (res *Result) classify(p *profiles, dark, bright, tube float64) {
 				closed++
 			}
 		}
-		// A lumen is dentine all round: a dark region that opens on several sides is bone,
-		// soft tissue or the periodontal space, not the canal.
-		res.Resolved[i] = res.Diameter[i] >= 2*res.Voxel && 4*closed >= 3*p.rays && centre[i] < res.Threshold[i]
+		// Resolved: at least two voxels across, its middle darker than half-way between canal
+		// and dentine (a narrower canal is blurred above it), and dentine all round (a dark
+		// region that opens on a side is bone, soft tissue or the periodontal space).
+		res.Resolved[i] = res.Diameter[i] >= 2*res.Voxel && centre[i] < half && 10*closed >= 9*p.rays
 	})
 	res.Resolved = majority(res.Resolved, 2)
 	res.Threshold = runningMedian(res.Threshold, 2)
@@ -182,7 +181,7 @@ func (res *Result) classify(p *profiles, dark, bright, tube float64) {
 	analysis.ParallelFor(ns, func(i int) {
 		root := make([]float64, p.rays)
 		for r := range p.rays {
-			root[r] = rootEdge(p.ray(i, r), res.LumenRadius[i][r]/p.h, res.DentineLevel[i], res.CanalLevel, near) * p.h
+			root[r] = rootEdge(p.ray(i, r), res.LumenRadius[i][r]/p.h, res.DentineLevel[i], res.CanalLevel) * p.h
 		}
 		res.RootRadius[i] = root
 	})
@@ -215,11 +214,15 @@ func crossing(ray []float32, q int, t float64) float64 {
 
 // rootEdge finds the root's outer surface along a ray starting from the lumen's edge q0
 // (fractional sample): past the dentine, the profile falls to the periodontal space (often
-// not resolved: then to the bone or soft tissue around); the edge lies where it crosses
-// half-way between the dentine's level and the lowest value of that fall. NaN if none.
-func rootEdge(ray []float32, q0, dentine, dark float64, near int) float64 {
+// not resolved: then to the bone or soft tissue around); the edge lies where the fall
+// crosses the level below. NaN if none.
+func rootEdge(ray []float32, q0, dentine, dark float64) float64 {
 	drop := dentine - 0.3*(dentine-dark)
-	q := int(math.Ceil(q0)) + near
+	q := int(math.Ceil(q0))
+	for q < len(ray) && float64(ray[q]) < drop { // out of the canal's own blur
+		q++
+	}
+	inDentine := q
 	for q < len(ray) && float64(ray[q]) >= drop {
 		q++
 	}
@@ -231,8 +234,13 @@ func rootEdge(ray []float32, q0, dentine, dark float64, near int) float64 {
 	for m+1 < len(ray) && ray[m+1] <= ray[m] {
 		m++
 	}
-	level := 0.5 * (dentine + float64(ray[m]))
-	for k := m; k > int(q0); k-- {
+	// The periodontal space is soft tissue (as dark as the canal) but mostly thinner than the
+	// blur, so the fall bottoms out above that. Half-way from dentine to soft tissue puts the
+	// edge too far out, half-way down the fall too far in (by about a third to half a voxel
+	// either way on the phantoms of the tests); the edge is taken at the mean of the two.
+	bottom := float64(ray[m])
+	level := 0.5*(dentine+math.Min(dark, bottom))*0.5 + 0.5*(dentine+bottom)*0.5
+	for k := m; k > inDentine; k-- {
 		if float64(ray[k-1]) >= level && float64(ray[k]) < level {
 			a, b := float64(ray[k-1]), float64(ray[k])
 			return float64(k-1) + (a-level)/(a-b)

@@ -48,7 +48,7 @@ type Options struct {
 // Result is one canal found in a scan.
 type Result struct {
 	// Path runs from the orifice to the apical end through the canal, every DS mm (world
-	// coordinates), smoothed over about one voxel.
+	// coordinates), smoothed over about three voxels (a chain of voxel steps is longer than the canal).
 	Path []mgl64.Vec3
 	DS   float64
 	// Resolved tells, per path station, whether the scan shows the canal's lumen there.
@@ -104,7 +104,7 @@ func Find(ctx context.Context, v *volume.Volume, pts Points, opt Options) (*Resu
 	progress("lumen", 0.4)
 	res := &Result{DS: v.MinSpacing(), Voxel: v.MaxSpacing(), CanalLevel: dark, Rays: profileRays}
 	line := analysis.ResamplePolyline(raw, res.DS)
-	line = analysis.ResamplePolyline(analysis.SmoothPolyline(line, 1.5), res.DS)
+	line = analysis.ResamplePolyline(analysis.SmoothPolyline(line, 3), res.DS)
 	if len(line) < 4 {
 		return nil, fmt.Errorf("%s: the path between the two points is too short", v.Info.Label)
 	}
@@ -148,7 +148,7 @@ func findPath(ctx context.Context, v *volume.Volume, pts Points) ([]mgl64.Vec3, 
 	if err != nil {
 		return nil, 0, 0, err
 	}
-	start := darkestNear(bx, bx.sampleOf(pts.Orifice), 2)
+	start := intoCanal(bx, bx.sampleOf(pts.Orifice), 0.5*(dark+bright))
 	goal := bx.sampleOf(pts.Apex)
 	path, err := minimalPath(ctx, bx, start, goal, dark, bright, nil)
 	if err != nil {
@@ -165,7 +165,7 @@ func findPath(ctx context.Context, v *volume.Volume, pts Points) ([]mgl64.Vec3, 
 		fine := newBox(v, lo, hi, 1, true)
 		allowed := make([]bool, len(fine.val))
 		markNear(fine, coarse, reach, func(n int, _ int, _ float64) { allowed[n] = true })
-		start, goal = darkestNear(fine, fine.sampleOf(pts.Orifice), 2), fine.sampleOf(pts.Apex)
+		start, goal = intoCanal(fine, fine.sampleOf(pts.Orifice), 0.5*(dark+bright)), fine.sampleOf(pts.Apex)
 		allowed[start], allowed[goal] = true, true
 		path, err = minimalPath(ctx, fine, start, goal, dark, bright, allowed)
 		if err != nil {
@@ -177,7 +177,7 @@ func findPath(ctx context.Context, v *volume.Volume, pts Points) ([]mgl64.Vec3, 
 	for i, n := range path {
 		out[i] = bx.world(n)
 	}
-	out[len(out)-1] = pts.Apex // the user's end, not its voxel's centre
+	out[0], out[len(out)-1] = pts.Orifice, pts.Apex // the user's ends, not their voxels' centres
 	return out, dark, bright, nil
 }
 
@@ -197,6 +197,31 @@ func canalAndDentine(b *box, orifice mgl64.Vec3) (float64, float64, error) {
 		return 0, 0, fmt.Errorf("no contrast between a dark canal and bright dentine around the orifice point")
 	}
 	return dark, bright, nil
+}
+
+// intoCanal is n when it is darker than t, else the nearest sample within two that is (a
+// click a voxel off the canal), else n.
+func intoCanal(b *box, n int, t float64) int {
+	if float64(b.val[n]) < t {
+		return n
+	}
+	i, j, k := b.ijk(n)
+	best, bd := n, math.Inf(1)
+	for dk := -2; dk <= 2; dk++ {
+		for dj := -2; dj <= 2; dj++ {
+			for di := -2; di <= 2; di++ {
+				ii, jj, kk := i+di, j+dj, k+dk
+				if ii < 0 || jj < 0 || kk < 0 || ii >= b.nx || jj >= b.ny || kk >= b.nz {
+					continue
+				}
+				q := b.index(ii, jj, kk)
+				if d := float64(di*di + dj*dj + dk*dk); float64(b.val[q]) < t && d < bd {
+					best, bd = q, d
+				}
+			}
+		}
+	}
+	return best
 }
 
 // darkestNear is the darkest sample within r samples of n.

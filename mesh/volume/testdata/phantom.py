@@ -10,7 +10,8 @@ Geometry (mm, phantom coordinates = the scan's patient/world coordinates):
   35 degrees bending toward +x, straight 4 mm (length L = 13.665 mm). Cross-section: an
   ellipse in the normal plane, semi-axis a along y (0.55 -> 0.12 mm) and b in the plane of
   the curve (0.35 -> 0.10 mm), both linear in arc length s: apical diameters 0.24 x 0.20 mm.
-  Above the origin the canal and root go on straight to the top of the scan.
+  Above the origin the root goes on straight to the top of the scan and the canal widens
+  over 0.8 mm into a pulp chamber of semi-axes 1.6 (y) and 1.3 mm.
   root: around the same centerline, an ellipse of semi-axes 3.0 -> 1.0 mm (y) and
   2.2 -> 0.9 mm (in the plane), with a groove on the outer side of the curve (-x at the
   orifice) 0.6 -> 0.2 mm deep and 0.45 rad wide, rounded over the last 1.2 mm to close at
@@ -32,6 +33,7 @@ from scipy import ndimage
 L1, RC, THETA, L3 = 6.0, 6.0, np.radians(35.0), 4.0
 L = L1 + RC * THETA + L3
 A0, A1 = 0.55, 0.12   # canal semi-axis along y
+CHAMBER_A, CHAMBER_B, CHAMBER_RISE = 1.6, 1.3, 0.8
 B0, B1 = 0.35, 0.10   # canal semi-axis in the plane of the curve
 RA0, RA1 = 3.0, 1.0   # root semi-axis along y
 RB0, RB1 = 2.2, 0.9   # root semi-axis in the plane
@@ -120,7 +122,10 @@ def labels(x, y, z):
     r = np.hypot(u, v)
     psi = np.arctan2(v, u)
     root = (r <= root_radius(sc, psi)) & (s <= L)
-    canal = ((u / lerp(B0, B1, sc)) ** 2 + (v / lerp(A0, A1, sc)) ** 2 <= 1.0) & (s <= L)
+    up = np.clip(-s / CHAMBER_RISE, 0.0, 1.0)  # 0 at the orifice, 1 in the chamber
+    ca = lerp(A0, A1, sc) + (CHAMBER_A - A0) * up
+    cb = lerp(B0, B1, sc) + (CHAMBER_B - B0) * up
+    canal = ((u / cb) ** 2 + (v / ca) ** 2 <= 1.0) & (s <= L)
     out = np.where(z < CREST, 1, 0).astype(np.uint8)
     out[root] = 3
     out[canal] = 4
