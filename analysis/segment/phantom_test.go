@@ -5,71 +5,17 @@ import (
 	"encoding/json"
 	"math"
 	"os"
-	"os/exec"
 	"path/filepath"
-	"runtime"
-	"strings"
-	"sync"
 	"testing"
 
 	"github.com/go-gl/mathgl/mgl64"
 
 	"tapersweep/mesh"
 	"tapersweep/mesh/volume"
+	"tapersweep/mesh/volume/volumetest"
 )
 
-// debianPython sees Debian's python3-pydicom, python3-nibabel, python3-pil and python3-scipy.
-const debianPython = "/usr/bin/python3"
-
-// phantomScript writes synthetic scans from exactly known geometry; it lives with the readers.
-func phantomScript() string {
-	_, file, _, _ := runtime.Caller(0)
-	return filepath.Join(filepath.Dir(file), "..", "..", "mesh", "volume", "testdata", "phantom.py")
-}
-
-type phantomRun struct {
-	once sync.Once
-	dir  string
-	err  error
-	out  string
-}
-
-var phantoms sync.Map
-
-// phantom writes the scans named by args once per test binary and returns their folder.
-func phantom(t testing.TB, args ...string) string {
-	t.Helper()
-	if out, err := exec.Command(debianPython, "-c", "import pydicom, nibabel, PIL, scipy").CombinedOutput(); err != nil {
-		if os.Getenv("CI") != "" {
-			t.Fatalf("python3-pydicom, python3-nibabel, python3-pil and python3-scipy are needed: %v %s", err, out)
-		}
-		t.Skipf("reference python libraries missing: %s", out)
-	}
-	v, _ := phantoms.LoadOrStore(strings.Join(args, " "), &phantomRun{})
-	r := v.(*phantomRun)
-	r.once.Do(func() {
-		if r.dir, r.err = os.MkdirTemp("", "phantom-"); r.err != nil {
-			return
-		}
-		out, err := exec.Command(debianPython, append([]string{phantomScript(), "--out", r.dir}, args...)...).CombinedOutput()
-		r.err, r.out = err, string(out)
-	})
-	if r.err != nil {
-		t.Fatalf("phantom %v: %v\n%s", args, r.err, r.out)
-	}
-	return r.dir
-}
-
-func TestMain(m *testing.M) {
-	code := m.Run()
-	phantoms.Range(func(_, v any) bool {
-		if r := v.(*phantomRun); r.dir != "" {
-			os.RemoveAll(r.dir)
-		}
-		return true
-	})
-	os.Exit(code)
-}
+func phantom(t testing.TB, args ...string) string { return volumetest.Phantom(t, args...) }
 
 // exactPhantom is the geometry the scans were made from (see phantom.py).
 type exactPhantom struct {
