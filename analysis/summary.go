@@ -6,6 +6,7 @@ import "math"
 // Values that do not exist (the radius of a straight canal) are null, never Inf.
 type CanalSummary struct {
 	Name            string      `json:"name"`
+	Source          string      `json:"source,omitempty"` // the scan a canal was found in
 	LengthMM        float64     `json:"length_mm"`
 	WorkingLengthMM float64     `json:"working_length_mm"`
 	MaxCurvature    PlaceRadius `json:"max_curvature"`
@@ -48,6 +49,7 @@ func (c *Canal) Summary(withPoints bool) CanalSummary {
 	n := c.Line.Len()
 	s := CanalSummary{
 		Name:            c.Name,
+		Source:          c.Source,
 		LengthMM:        round(m.Length, 3),
 		WorkingLengthMM: round(c.WorkingLength, 3),
 		MaxCurvature: PlaceRadius{SMM: round(m.MaxCurvatureS, 3), FromApexMM: round(m.Length-m.MaxCurvatureS, 3),

@@ -19,7 +19,7 @@ type command struct {
 }
 
 func commands() []command {
-	return []command{centerlineCommand(), analyzeCommand(), renderCommand(), planCommand(), reportCommand(), batchCommand(), demoCommand()}
+	return []command{segmentCommand(), centerlineCommand(), analyzeCommand(), renderCommand(), planCommand(), reportCommand(), batchCommand(), demoCommand()}
 }
 
 // run parses args and calls the command's body.

@@ -49,8 +49,12 @@ func reportCommand() command {
 					return inputError(stderr, "report", err)
 				}
 				var buf bytes.Buffer
-				err = report.WritePDF(&buf, res, report.Options{Title: *title, CanalFile: *cf.path,
-					SequenceFile: *seqPath, View: *view})
+				canalFile := *cf.path
+				if cf.scan.set() {
+					canalFile = res.Canal.Name // the scan's label, not a path that may name the patient
+				}
+				err = report.WritePDF(&buf, res, report.Options{Title: *title, CanalFile: canalFile,
+					SequenceFile: *seqPath, View: *view, Patient: cf.scan.patient})
 				if err != nil {
 					return inputError(stderr, "report", err)
 				}

@@ -46,10 +46,10 @@ type Patient struct {
 	Name, ID, BirthDate, Institution string
 }
 
-// Describe is a one-line description for titles and reports: label, dimensions, voxel size
-// and series date. It never names the patient.
+// Describe is a one-line description for titles and reports: label, format, dimensions,
+// voxel size and series date. It never names the patient.
 func (v *Volume) Describe() string {
-	s := fmt.Sprintf("%s: %d x %d x %d voxels of %s mm", v.Info.Label, v.NX, v.NY, v.NZ, v.voxelText())
+	s := fmt.Sprintf("%s (%s): %d x %d x %d voxels of %s mm", v.Info.Label, v.Info.Format, v.NX, v.NY, v.NZ, v.voxelText())
 	if v.Info.SeriesDate != "" {
 		s += ", series of " + v.Info.SeriesDate
 	}
