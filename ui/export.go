@@ -74,6 +74,6 @@ func (w *mainWindow) exportPDF() {
 		return
 	}
 	_, view := w.view.camera()
-	opt := report.Options{View: view, SequenceFile: res.Sequence.Name, CanalFile: res.Canal.Name}
+	opt := report.Options{View: view, SequenceFile: res.Sequence.Name, CanalFile: res.Canal.Name, Patient: w.scanPatient}
 	w.saveDialog("report.pdf", []string{".pdf"}, func(out io.Writer) error { return report.WritePDF(out, res, opt) })
 }

@@ -19,8 +19,9 @@ import (
 const unresolvedRadius = 0.6
 
 // maxFineSamples bounds the grid the lumen is surfaced on; below it the grid is twice as fine
-// as the scan, so the thin unresolved stretch keeps its shape.
-const maxFineSamples = 40_000_000
+// as the scan, so the thin unresolved stretch keeps its shape (a large region means fine
+// voxels, where the scan's own grid is fine enough).
+const maxFineSamples = 8_000_000
 
 // surfaceLumen finds the lumen around the path and surfaces it.
 func surfaceLumen(ctx context.Context, v *volume.Volume, res *Result, tube float64) (*mesh.Mesh, error) {
@@ -181,7 +182,7 @@ func upsample(f []float32, nx, ny, nz, up int) ([]float32, int, int, int) {
 // addUnresolvedTube raises the field to a thin tube along the path where the lumen is not
 // resolved, so the canal stays one piece and its course is kept.
 func (res *Result) addUnresolvedTube(v *volume.Volume, b *box, fine []float32, fx, fy, fz, up int) {
-	r := unresolvedRadius * res.Voxel
+	r := math.Max(unresolvedRadius, 1/float64(up)) * res.Voxel // at least one sample of the grid
 	o := b.volIndex(0, 0, 0)
 	toFine := func(w mgl64.Vec3) mgl64.Vec3 {
 		p := v.IndexOf(w)

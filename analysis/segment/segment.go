@@ -277,12 +277,16 @@ func markNear(b *box, pts []mgl64.Vec3, r float64, fn func(n, point int, d float
 			lo[a] = max(0, int(math.Floor(f-m)))
 			hi[a] = min(dims[a]-1, int(math.Ceil(f+m)))
 		}
+		// The axes are orthonormal, so distances come from index steps times the spacing.
+		r2 := r * r
 		for k := lo[2]; k <= hi[2]; k++ {
+			dz := (float64(o[2]+k*b.step) + cs - c[2]) * b.vol.Spacing[2]
 			for j := lo[1]; j <= hi[1]; j++ {
+				dy := (float64(o[1]+j*b.step) + cs - c[1]) * b.vol.Spacing[1]
 				for i := lo[0]; i <= hi[0]; i++ {
-					w := b.vol.World(b.volIndex(i, j, k))
-					if d := w.Sub(p).Len(); d <= r {
-						fn(b.index(i, j, k), pi, d)
+					dx := (float64(o[0]+i*b.step) + cs - c[0]) * b.vol.Spacing[0]
+					if d2 := dx*dx + dy*dy + dz*dz; d2 <= r2 {
+						fn(b.index(i, j, k), pi, math.Sqrt(d2))
 					}
 				}
 			}

@@ -119,13 +119,6 @@ func writeFileAtomically(path string, write func(w io.Writer) error) error {
 
 // writeSTL writes meshes as one binary STL (each mesh a separate surface), named in its header.
 func writeSTL(path, name string, meshes []*mesh.Mesh) error {
-	all := &mesh.Mesh{}
-	for _, m := range meshes {
-		base := int32(len(all.Vertices))
-		all.Vertices = append(all.Vertices, m.Vertices...)
-		for _, t := range m.Triangles {
-			all.Triangles = append(all.Triangles, [3]int32{t[0] + base, t[1] + base, t[2] + base})
-		}
-	}
+	all := mesh.Join(meshes...)
 	return writeFileAtomically(path, func(w io.Writer) error { return mesh.WriteSTL(w, all, name) })
 }
