@@ -69,6 +69,7 @@ type scanWindow struct {
 	cancelButton        *widget.Button
 	cancel              context.CancelFunc
 	showPatient         bool
+	syncing             bool // controls are being set from the state: their callbacks do nothing
 }
 
 // openScanPath opens a scan in its own window (the scan is read in the background).
@@ -87,7 +88,12 @@ func (sw *scanWindow) build() {
 	sw.long2 = newSliceView(sw.clicked)
 	sw.sliceSlider = widget.NewSlider(0, 1)
 	sw.sliceSlider.Step = 1
-	sw.sliceSlider.OnChanged = func(v float64) { sw.slice = int(v); sw.redraw() }
+	sw.sliceSlider.OnChanged = func(v float64) {
+		if !sw.syncing {
+			sw.slice = int(v)
+			sw.redraw()
+		}
+	}
 	sw.levelSlider = widget.NewSlider(-2000, 5000)
 	sw.windowSlider = widget.NewSlider(10, 8000)
 	sw.levelSlider.OnChanged = func(v float64) { sw.levels.level = v; sw.redraw() }
@@ -100,6 +106,9 @@ func (sw *scanWindow) build() {
 		sw.load(true)
 	})
 	sw.canalSelect = widget.NewSelect(nil, func(s string) {
+		if sw.syncing {
+			return
+		}
 		var n int
 		if _, err := fmt.Sscanf(s, "Canal %d", &n); err == nil && n >= 1 && n <= len(sw.canals) {
 			sw.current = n - 1
@@ -264,8 +273,10 @@ func (sw *scanWindow) setEnd(which int, p mgl64.Vec3) {
 	c.ends[which] = &q
 	c.res, c.canal = nil, nil
 	sw.focus = p
-	sw.slice = int(math.Round(sw.vol.IndexOf(p)[2]))
+	sw.slice = max(0, min(sw.vol.NZ-1, int(math.Round(sw.vol.IndexOf(p)[2]))))
+	sw.syncing = true
 	sw.sliceSlider.SetValue(float64(sw.slice))
+	sw.syncing = false
 	sw.refreshControls()
 }
 
@@ -274,8 +285,10 @@ func (sw *scanWindow) refreshControls() {
 	for i := range sw.canals {
 		names = append(names, fmt.Sprintf("Canal %d", i+1))
 	}
+	sw.syncing = true
 	sw.canalSelect.Options = names
 	sw.canalSelect.SetSelectedIndex(sw.current)
+	sw.syncing = false
 	c := sw.canals[sw.current]
 	point := func(p *mgl64.Vec3) string {
 		if p == nil {
@@ -358,6 +371,11 @@ func (sw *scanWindow) find() {
 			}
 			sc := sw.canals[n]
 			sc.res, sc.canal = res, canal
+			// Show a slice a third of the way down, where the lumen is outlined.
+			sw.slice = max(0, min(sw.vol.NZ-1, int(math.Round(sw.vol.IndexOf(res.Path[len(res.Path)/3])[2]))))
+			sw.syncing = true
+			sw.sliceSlider.SetValue(float64(sw.slice))
+			sw.syncing = false
 			sw.status.SetText("Found. The canal is measured in the main window; the outlines show here.")
 			sw.current = n
 			sw.showCurrent()
