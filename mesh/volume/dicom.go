@@ -37,6 +37,9 @@ func parseDICOM(path string, withPixels bool) (ds dicom.Dataset, err error) {
 	if err != nil {
 		return ds, err
 	}
+	if err := checkDICOMLengths(path, f, st.Size()); err != nil {
+		return ds, err
+	}
 	opt := dicom.SkipPixelData()
 	if withPixels {
 		opt = dicom.SkipProcessingPixelDataValue()

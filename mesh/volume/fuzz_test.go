@@ -4,6 +4,7 @@ import (
 	"context"
 	"os"
 	"path/filepath"
+	"runtime"
 	"testing"
 )
 
@@ -31,7 +32,14 @@ func FuzzDICOM(f *testing.F) {
 			t.Fatal(err)
 		}
 		check := func(path string) {
+			var before, after runtime.MemStats
+			runtime.ReadMemStats(&before)
 			v, err := Open(context.Background(), path, Options{MemoryLimit: fuzzLimit})
+			runtime.ReadMemStats(&after)
+			// A hostile length must not allocate: what one open may take is bounded by the file.
+			if grew := after.TotalAlloc - before.TotalAlloc; grew > 16<<20+64*uint64(len(data)) {
+				t.Fatalf("opening %d bytes allocated %d MB", len(data), grew>>20)
+			}
 			if err == nil {
 				if len(v.Data) != v.NX*v.NY*v.NZ || v.checkGeometry(path) != nil {
 					t.Fatalf("inconsistent volume %d x %d x %d, %d values", v.NX, v.NY, v.NZ, len(v.Data))
