@@ -1,6 +1,9 @@
 package mesh
 
-import "testing"
+import (
+	"math"
+	"testing"
+)
 
 // Joined meshes keep their surfaces apart: two tetrahedra give two shells of 4 faces, and the
 // joined volume is the sum (divergence theorem on each closed surface: 1/6 each).
@@ -17,7 +20,7 @@ func TestJoinKeepsSurfaces(t *testing.T) {
 	if s := Shells(j); len(s) != 2 {
 		t.Errorf("%d shells", len(s))
 	}
-	if v, want := Volume(j), Volume(a)+Volume(b); v != want {
+	if v, want := Volume(j), Volume(a)+Volume(b); math.Abs(v-want) > 1e-12 {
 		t.Errorf("volume %g, want %g", v, want)
 	}
 }

@@ -2,7 +2,6 @@ package ui
 
 import (
 	"bytes"
-	"encoding/json"
 	"fmt"
 	"image/png"
 	"os"
@@ -13,7 +12,6 @@ import (
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/test"
-	"github.com/go-gl/mathgl/mgl64"
 
 	"tapersweep/mesh"
 	"tapersweep/mesh/volume/volumetest"
@@ -27,17 +25,7 @@ func openPatientScan(t *testing.T) (*mainWindow, *scanWindow) {
 	t.Helper()
 	dir := volumetest.Phantom(t, "--voxel", "0.3", "--sigma", "1.0", "--factor", "2", "--formats", "series,multiframe",
 		"--patient", volumetest.MadeUpPatient)
-	b, err := os.ReadFile(filepath.Join(dir, "exact.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	var e struct {
-		Stations [][6]float64 `json:"stations"`
-	}
-	if err := json.Unmarshal(b, &e); err != nil {
-		t.Fatal(err)
-	}
-	at := func(st [6]float64) *mgl64.Vec3 { return &mgl64.Vec3{st[1], st[2], st[3]} }
+	o, x := volumetest.Ends(t, dir)
 	a := test.NewApp()
 	t.Cleanup(a.Quit)
 	w := newMainWindow(a, queuedHandOver())
@@ -45,8 +33,7 @@ func openPatientScan(t *testing.T) (*mainWindow, *scanWindow) {
 	w.start(Options{})
 	w.wait()
 	t.Cleanup(w.view.close)
-	sw := &scanWindow{main: w, opt: ScanOptions{Path: filepath.Join(dir, "series"), Orifice: at(e.Stations[0]),
-		Apex: at(e.Stations[len(e.Stations)-1])}, canals: []*scanCanal{{}}}
+	sw := &scanWindow{main: w, opt: ScanOptions{Path: filepath.Join(dir, "series"), Orifice: &o, Apex: &x}, canals: []*scanCanal{{}}}
 	sw.build()
 	sw.load(false)
 	w.wait()

@@ -94,7 +94,7 @@ func point(s string) (*mgl64.Vec3, error) {
 func (cf *canalFlags) check(stderr io.Writer, cmd string) int {
 	switch {
 	case *cf.path == "" && !cf.scan.set():
-		return usageError(stderr, cmd, "--canal or --scan is required")
+		return usageError(stderr, cmd, "--canal is required (or --scan, with --orifice and --apical-end)")
 	case *cf.path != "" && cf.scan.set():
 		return usageError(stderr, cmd, "give --canal or --scan, not both")
 	case cf.scan.set() && (*cf.orifice == "" || *cf.apex == ""):

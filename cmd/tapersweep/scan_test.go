@@ -11,6 +11,8 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/go-gl/mathgl/mgl64"
+
 	"tapersweep/mesh"
 	"tapersweep/mesh/volume/volumetest"
 )
@@ -21,18 +23,9 @@ func patientPhantom(t *testing.T) (dir string, ends []string) {
 	t.Helper()
 	dir = volumetest.Phantom(t, "--voxel", "0.3", "--sigma", "1.0", "--factor", "2", "--formats", "series,multiframe",
 		"--patient", volumetest.MadeUpPatient)
-	b, err := os.ReadFile(filepath.Join(dir, "exact.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	var e struct {
-		Stations [][6]float64 `json:"stations"`
-	}
-	if err := json.Unmarshal(b, &e); err != nil {
-		t.Fatal(err)
-	}
-	at := func(st [6]float64) string { return fmt.Sprintf("%g,%g,%g", st[1], st[2], st[3]) }
-	return dir, []string{"--orifice", at(e.Stations[0]), "--apical-end", at(e.Stations[len(e.Stations)-1])}
+	o, x := volumetest.Ends(t, dir)
+	at := func(p mgl64.Vec3) string { return fmt.Sprintf("%g,%g,%g", p[0], p[1], p[2]) }
+	return dir, []string{"--orifice", at(o), "--apical-end", at(x)}
 }
 
 // The segment command writes closed canal and root surfaces and states the unresolved

@@ -8,9 +8,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
-	"runtime"
 	"slices"
-	"sync"
 
 	"github.com/go-gl/mathgl/mgl64"
 	"github.com/suyashkumar/dicom"
@@ -123,51 +121,19 @@ func readDICOMSeries(ctx context.Context, dir string, files []string, opt Option
 	v.Info.Files = len(headers)
 	// Fill the slices in parallel, one file at a time per worker.
 	plane := v.NX * v.NY
-	workers := max(1, min(runtime.GOMAXPROCS(0), len(places)))
-	var wg sync.WaitGroup
-	var mu sync.Mutex
-	var firstErr error
-	next := make(chan int)
-	done := 0
-	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for k := range next {
-				p := places[k]
-				err := ctx.Err()
-				if err == nil {
-					var raw []byte
-					raw, err = readRawPixels(p.h)
-					if err == nil {
-						err = convertFrame(p.h, raw, 0, v.Data[k*plane:(k+1)*plane])
-					}
-				}
-				mu.Lock()
-				if err != nil && firstErr == nil {
-					firstErr = err
-				}
-				done++
-				if opt.Progress != nil {
-					opt.Progress(len(files)+done, 2*len(files))
-				}
-				mu.Unlock()
-			}
-		}()
-	}
-	for k := range places {
-		mu.Lock()
-		stop := firstErr != nil
-		mu.Unlock()
-		if stop {
-			break
+	err = fillSlices(ctx, len(places), func(k int) error {
+		raw, err := readRawPixels(places[k].h)
+		if err != nil {
+			return err
 		}
-		next <- k
-	}
-	close(next)
-	wg.Wait()
-	if firstErr != nil {
-		return nil, firstErr
+		return convertFrame(places[k].h, raw, 0, v.Data[k*plane:(k+1)*plane])
+	}, func(done int) {
+		if opt.Progress != nil {
+			opt.Progress(len(files)+done, 2*len(files))
+		}
+	})
+	if err != nil {
+		return nil, err
 	}
 	return v, nil
 }

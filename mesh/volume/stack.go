@@ -10,9 +10,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
-	"runtime"
 	"strings"
-	"sync"
 
 	"github.com/go-gl/mathgl/mgl64"
 	"golang.org/x/image/bmp"
@@ -46,46 +44,15 @@ func readStack(ctx context.Context, dir string, files []string, opt Options) (*V
 	v.Info.Files = len(files)
 	v.Data = make([]uint16, w*h*len(files))
 	plane := w * h
-	workers := max(1, min(runtime.GOMAXPROCS(0), len(files)))
-	var mu sync.Mutex
-	var firstErr error
-	done := 0
-	next := make(chan int)
-	var wg sync.WaitGroup
-	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for k := range next {
-				err := ctx.Err()
-				if err == nil {
-					err = readSlice(files[k], w, h, v.Data[k*plane:(k+1)*plane])
-				}
-				mu.Lock()
-				if err != nil && firstErr == nil {
-					firstErr = err
-				}
-				done++
-				if opt.Progress != nil {
-					opt.Progress(done, len(files))
-				}
-				mu.Unlock()
-			}
-		}()
-	}
-	for k := range files {
-		mu.Lock()
-		stop := firstErr != nil
-		mu.Unlock()
-		if stop {
-			break
+	err = fillSlices(ctx, len(files), func(k int) error {
+		return readSlice(files[k], w, h, v.Data[k*plane:(k+1)*plane])
+	}, func(done int) {
+		if opt.Progress != nil {
+			opt.Progress(done, len(files))
 		}
-		next <- k
-	}
-	close(next)
-	wg.Wait()
-	if firstErr != nil {
-		return nil, firstErr
+	})
+	if err != nil {
+		return nil, err
 	}
 	if err := v.checkGeometry(dir); err != nil {
 		return nil, err

@@ -7,6 +7,7 @@ package volumetest
 import (
 	"crypto/sha256"
 	"encoding/hex"
+	"encoding/json"
 	"fmt"
 	"os"
 	"os/exec"
@@ -14,6 +15,8 @@ import (
 	"runtime"
 	"strings"
 	"testing"
+
+	"github.com/go-gl/mathgl/mgl64"
 )
 
 // Python is the system interpreter, which sees Debian's python3-pydicom, python3-nibabel,
@@ -79,4 +82,22 @@ func Phantom(t testing.TB, args ...string) string {
 		}
 	}
 	return dir
+}
+
+// Ends are the exact orifice and apical end of the phantom's canal in a folder Phantom wrote
+// (the first and last station of its exact.json), in the scan's coordinates (mm).
+func Ends(t testing.TB, dir string) (orifice, apex mgl64.Vec3) {
+	t.Helper()
+	b, err := os.ReadFile(filepath.Join(dir, "exact.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var e struct {
+		Stations [][6]float64 `json:"stations"` // s, x, y, z, a, b
+	}
+	if err := json.Unmarshal(b, &e); err != nil || len(e.Stations) < 2 {
+		t.Fatalf("%s: %v", dir, err)
+	}
+	at := func(st [6]float64) mgl64.Vec3 { return mgl64.Vec3{st[1], st[2], st[3]} }
+	return at(e.Stations[0]), at(e.Stations[len(e.Stations)-1])
 }
