@@ -116,6 +116,9 @@ func Find(ctx context.Context, v *volume.Volume, pts Points, opt Options) (*Resu
 		return nil, err
 	}
 	res.classify(prof, dark, bright, opt.TubeRadius)
+	if len(res.Unresolved) == 1 && res.Unresolved[0].From == 0 && res.Unresolved[0].To >= s[len(s)-1] {
+		res.Warnings = append(res.Warnings, "the scan shows this canal's lumen nowhere between the two points: its course is the darkest path only; check that both points lie in the canal")
+	}
 	progress("surface", 0.6)
 	res.Lumen, err = surfaceLumen(ctx, v, res, opt.TubeRadius)
 	if err != nil {
@@ -192,9 +195,21 @@ func canalAndDentine(b *box, orifice mgl64.Vec3) (float64, float64, error) {
 	if len(vals) < 8 {
 		return 0, 0, fmt.Errorf("too few voxels around the orifice point")
 	}
-	dark, bright, _ := classLevels(vals)
-	if !(bright > dark) {
-		return 0, 0, fmt.Errorf("no contrast between a dark canal and bright dentine around the orifice point")
+	dark, bright, t := classLevels(vals)
+	// The bright class's own spread (median absolute deviation, scaled to a standard
+	// deviation) is the noise; a canal stands out from dentine by many times that.
+	var hi []float64
+	for _, v := range vals {
+		if float64(v) >= t {
+			hi = append(hi, float64(v))
+		}
+	}
+	for i := range hi {
+		hi[i] = math.Abs(hi[i] - bright)
+	}
+	noise := 1.4826 * median(hi)
+	if !(bright-dark > 5*noise) {
+		return 0, 0, fmt.Errorf("around the orifice point the scan shows no dark canal inside brighter dentine (levels %.0f and %.0f, noise %.0f): is the point in the canal?", dark, bright, noise)
 	}
 	return dark, bright, nil
 }

@@ -214,3 +214,13 @@ func TestPointsOutsideTheScan(t *testing.T) {
 		t.Fatalf("error %v", err)
 	}
 }
+
+// Points in bone, far from any canal: refused, not a thin tube through nothing.
+func TestPointsInBoneAreRefused(t *testing.T) {
+	dir := phantom(t, "--voxel", "0.3", "--sigma", "1.0", "--factor", "1", "--formats", "nifti")
+	v := openScan(t, filepath.Join(dir, "scan.nii.gz"), volume.Options{})
+	_, err := Find(context.Background(), v, Points{Orifice: mgl64.Vec3{-3, 3, -10}, Apex: mgl64.Vec3{-3, 3, -13}}, Options{})
+	if err == nil || !strings.Contains(err.Error(), "no dark canal") {
+		t.Fatalf("error %v", err)
+	}
+}
