@@ -1,11 +1,9 @@
 package main
 
 import (
-	"bytes"
 	"context"
 	"flag"
 	"io"
-	"os"
 	"strings"
 
 	"tapersweep/analysis"
@@ -44,21 +42,23 @@ func reportCommand() command {
 				if *pathModel != "" && *pathModel != models.PathCentred && *pathModel != models.PathElastic {
 					return usageError(stderr, "report", "--path-model must be %s or %s, not %q", models.PathCentred, models.PathElastic, *pathModel)
 				}
+				if err := checkOutput(*out, *cf.path, *seqPath); err != nil {
+					return inputError(stderr, "report", err)
+				}
 				res, err := analyzeFiles(context.Background(), &cf, *seqPath, analysis.RunOptions{PathModel: *pathModel})
 				if err != nil {
 					return inputError(stderr, "report", err)
 				}
-				var buf bytes.Buffer
+				printWarnings(stderr, "report", runWarnings(res))
 				canalFile := *cf.path
 				if cf.scan.set() {
 					canalFile = res.Canal.Name // the scan's label, not a path that may name the patient
 				}
-				err = report.WritePDF(&buf, res, report.Options{Title: *title, CanalFile: canalFile,
-					SequenceFile: *seqPath, View: *view, Patient: cf.scan.patient})
+				err = writeOutput(*out, func(w io.Writer) error {
+					return report.WritePDF(w, res, report.Options{Title: *title, CanalFile: canalFile,
+						SequenceFile: *seqPath, View: *view, Patient: cf.scan.patient})
+				})
 				if err != nil {
-					return inputError(stderr, "report", err)
-				}
-				if err := os.WriteFile(*out, buf.Bytes(), 0o644); err != nil {
 					return inputError(stderr, "report", err)
 				}
 				return exitOK

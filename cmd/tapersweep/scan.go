@@ -6,8 +6,6 @@ import (
 	"flag"
 	"fmt"
 	"io"
-	"os"
-	"path/filepath"
 	"strings"
 
 	"github.com/go-gl/mathgl/mgl64"
@@ -94,31 +92,8 @@ func loadScanCanal(ctx context.Context, sf *scanFlags, orifice, apex *mgl64.Vec3
 	return c, nil
 }
 
-// writeFileAtomically writes a file through a temporary one in the same folder, so a reader
-// never sees half of it.
-func writeFileAtomically(path string, write func(w io.Writer) error) error {
-	tmp, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".partial-*")
-	if err != nil {
-		return err
-	}
-	if err := write(tmp); err != nil {
-		tmp.Close()
-		os.Remove(tmp.Name())
-		return fmt.Errorf("%s: %w", path, err)
-	}
-	if err := tmp.Close(); err != nil {
-		os.Remove(tmp.Name())
-		return fmt.Errorf("%s: %w", path, err)
-	}
-	if err := os.Rename(tmp.Name(), path); err != nil {
-		os.Remove(tmp.Name())
-		return err
-	}
-	return nil
-}
-
 // writeSTL writes meshes as one binary STL (each mesh a separate surface), named in its header.
 func writeSTL(path, name string, meshes []*mesh.Mesh) error {
 	all := mesh.Join(meshes...)
-	return writeFileAtomically(path, func(w io.Writer) error { return mesh.WriteSTL(w, all, name) })
+	return writeOutput(path, func(w io.Writer) error { return mesh.WriteSTL(w, all, name) })
 }

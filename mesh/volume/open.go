@@ -33,6 +33,9 @@ func Open(ctx context.Context, path string, opt Options) (*Volume, error) {
 	if err != nil {
 		return nil, err
 	}
+	if !st.IsDir() && !st.Mode().IsRegular() {
+		return nil, fmt.Errorf("%s: not a regular file or folder", path)
+	}
 	var v *Volume
 	if st.IsDir() {
 		v, err = openFolder(ctx, path, opt)
@@ -80,8 +83,8 @@ func openFolder(ctx context.Context, dir string, opt Options) (*Volume, error) {
 			subfolders++
 			continue
 		}
-		if strings.HasPrefix(e.Name(), ".") {
-			continue
+		if strings.HasPrefix(e.Name(), ".") || !e.Type().IsRegular() {
+			continue // hidden files, and pipes or devices a read would wait on
 		}
 		switch {
 		case isImageSlice(e.Name()):
