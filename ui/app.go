@@ -27,7 +27,8 @@ import (
 type Options struct {
 	CanalPath    string
 	SequencePath string
-	Scale        float64 // multiplies STL coordinates (0.001 for micrometres); 0 = 1
+	Scale        float64      // multiplies STL coordinates (0.001 for micrometres); 0 = 1
+	Scan         *ScanOptions // a scan to open in its own window (scan_window.go)
 }
 
 // Open builds the main window on app a and shows it. The canal and sequence are measured and
@@ -37,6 +38,9 @@ func Open(a fyne.App, opt Options) fyne.Window {
 	w := newMainWindow(a, &handOver{})
 	w.win.Show()
 	w.start(opt)
+	if opt.Scan != nil {
+		w.openScanPath(*opt.Scan)
+	}
 	return w.win
 }
 
@@ -69,6 +73,9 @@ type mainWindow struct {
 	status   *widget.Label
 	hover    *widget.Label
 	loader   *loadProgress
+	// scanPatient names the patient on saved reports, set only while a scan window's switch
+	// asks for it (by default nothing names the patient).
+	scanPatient string
 }
 
 func newMainWindow(a fyne.App, ui *handOver) *mainWindow {

@@ -168,6 +168,10 @@ func (w *mainWindow) takeSequence(seq *models.Sequence) {
 
 // openPath opens any file the program reads, told apart by its name and content.
 func (w *mainWindow) openPath(path string) {
+	if isScanPath(path) {
+		w.openScanPath(ScanOptions{Path: path})
+		return
+	}
 	if strings.EqualFold(filepath.Ext(path), ".stl") {
 		w.loadCanalPath(path)
 		return

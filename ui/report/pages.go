@@ -61,6 +61,9 @@ func summaryPage(pdf *fpdf.Fpdf, res *analysis.Result, sum analysis.ResultSummar
 	if opt.CanalFile != "" {
 		src = append(src, "canal file: "+opt.CanalFile)
 	}
+	if res.Canal.Source != "" {
+		src = append(src, "found in the scan: "+res.Canal.Source)
+	}
 	if opt.SequenceFile != "" {
 		src = append(src, "sequence file: "+opt.SequenceFile)
 	}

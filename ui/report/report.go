@@ -25,6 +25,9 @@ type Options struct {
 	// ImageWidth x ImageHeight is the size in pixels of each step's picture, printed 84 mm wide
 	// (at most 130 mm high); 0 = 1040 x 1560.
 	ImageWidth, ImageHeight int
+	// Patient names the patient at the top of every page; only when the user asked for it
+	// (by default no output carries a patient identifier).
+	Patient string
 }
 
 func (o Options) withDefaults(res *analysis.Result) Options {
@@ -107,6 +110,13 @@ func newDocument(opt Options) *fpdf.Fpdf {
 	pdf.SetTitle("tapersweep report: "+opt.Title, true)
 	pdf.SetCreator("tapersweep", true)
 	pdf.AliasNbPages("{pages}")
+	if opt.Patient != "" {
+		pdf.SetHeaderFunc(func() {
+			pdf.SetFont(fontBold, "", 8)
+			pdf.CellFormat(bodyW, 4, "Named at the user's request: "+opt.Patient, "", 1, "L", false, 0, "")
+			pdf.Ln(1)
+		})
+	}
 	pdf.SetFooterFunc(func() {
 		pdf.SetY(-bottomM)
 		pdf.SetFont(fontRegular, "", 7.5)
