@@ -456,6 +456,15 @@ func (s *Sequence) validateStep(st Step, n int) error {
 			return s.fail(n, r.field, "%s", msg)
 		}
 	}
+	// The alloy by its name: the file's own or a built-in, or the step's own alloy, which
+	// MarshalJSON writes into "alloys".
+	name := st.AlloyName
+	if name == "" {
+		name = in.Alloy.Name
+	}
+	if _, known := s.Alloy(name); !known && in.Alloy.Name != name {
+		return s.fail(n, "alloy", "unknown alloy %q (known: %s)", name, strings.Join(knownAlloyNames(s), ", "))
+	}
 	if err := in.Alloy.Validate(); err != nil {
 		return s.fail(n, "alloy", "%q: %v", in.Alloy.Name, err)
 	}

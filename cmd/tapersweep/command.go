@@ -22,7 +22,7 @@ type command struct {
 }
 
 func commands() []command {
-	return []command{surfaceCommand(), centerlineCommand(), analyzeCommand(), renderCommand(), planCommand(), reportCommand(), batchCommand(), demoCommand()}
+	return []command{segmentCommand(), surfaceCommand(), centerlineCommand(), analyzeCommand(), renderCommand(), planCommand(), reportCommand(), batchCommand(), demoCommand()}
 }
 
 // filesHelp points every command's help to where the files a person writes are described.

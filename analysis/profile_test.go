@@ -1,4 +1,4 @@
-package report
+package analysis_test
 
 import (
 	"context"
@@ -9,11 +9,11 @@ import (
 	"tapersweep/models"
 )
 
-// TestStepProfileOfAStraightCone checks the profiles against analytic geometry: in a straight
+// TestProfileOfAStraightCone checks the profiles against analytic geometry: in a straight
 // round cone the canal's diameter narrows linearly from the orifice to the apical end (the spec's
 // diameters), a file of tip size d0 and taper k with its tip at depth D has the diameter
 // d0 + k (D - s) at arc length s, and a straight canal bends nothing.
-func TestStepProfileOfAStraightCone(t *testing.T) {
+func TestProfileOfAStraightCone(t *testing.T) {
 	ex := models.ExampleCanals()[0]
 	if ex.File != "straight" {
 		t.Fatalf("the first example canal is %s, not the straight cone", ex.File)
@@ -32,7 +32,7 @@ func TestStepProfileOfAStraightCone(t *testing.T) {
 		t.Fatal(err)
 	}
 	st := res.Steps[0]
-	pr := StepProfile(c, st)
+	pr := analysis.ProfileOf(c, st)
 	L, D := c.Line.Length(), st.TipDepth
 	n := c.Line.Len()
 	if len(pr.FromApexMM) != n || pr.FromApexMM[0] != L || pr.FromApexMM[n-1] != 0 {
@@ -67,5 +67,41 @@ func TestStepProfileOfAStraightCone(t *testing.T) {
 		if e > 0.2 { // the extracted centerline keeps a trace of curvature; a 10 mm bend gives 2.5 % at 0.5 mm
 			t.Fatalf("%.2f mm from the tip: strain %.3f %% in a straight canal", pr.FromTipMM[k], e)
 		}
+	}
+}
+
+// The engaged zone of the profile is the step's own (engaged_from_tip_mm above its tip), and the
+// canal alone has no step's series.
+func TestProfileEngagedZoneAndCanalAlone(t *testing.T) {
+	ctx := context.Background()
+	c, err := analysis.CanalFromSpec(ctx, "demo", models.DemoCanal(), analysis.CanalOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	seq, err := models.ParseSequence("demo", models.DemoSequenceJSON())
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := analysis.Run(ctx, c, seq, analysis.RunOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	L := c.Line.Length()
+	for _, st := range res.Steps {
+		pr := analysis.ProfileOf(c, st)
+		m := st.Metrics
+		if m.EngagedLengthMM == 0 {
+			continue
+		}
+		if got, want := pr.EngagedFromApexMM[1]-pr.EngagedFromApexMM[0], m.EngagedFromTipMM[1]-m.EngagedFromTipMM[0]; math.Abs(got-want) > 1e-9 {
+			t.Errorf("step %d: engaged zone %.3f mm long in the profile, %.3f in the metrics", st.Number, got, want)
+		}
+		if tip := L - st.TipDepth; pr.EngagedFromApexMM[0] < tip-1e-9 {
+			t.Errorf("step %d: engaged zone starts %.3f mm from the apical end, below the tip at %.3f", st.Number, pr.EngagedFromApexMM[0], tip)
+		}
+	}
+	alone := analysis.ProfileOf(c, nil)
+	if alone.Step != 0 || alone.FileDMM != nil || len(alone.CurvaturePerMM) != c.Line.Len() {
+		t.Errorf("canal alone: step %d, file %v, %d curvatures", alone.Step, alone.FileDMM != nil, len(alone.CurvaturePerMM))
 	}
 }

@@ -12,6 +12,7 @@ import (
 	"fyne.io/fyne/v2/theme"
 	"fyne.io/fyne/v2/widget"
 
+	"tapersweep/analysis"
 	"tapersweep/models"
 )
 
@@ -26,31 +27,36 @@ const (
 )
 
 // stepEditor edits the shown step, checking as the user types: a bad value shows its error
-// under the field and the last valid analysis stays on screen.
+// under the field and the last valid analysis stays on screen. show gives it the sequence and
+// the shown step; OnEdit and OnSteps hand the user's changes to the window, which answers with
+// the error to show (nil when it took them).
 type stepEditor struct {
-	w   *mainWindow
 	box fyne.CanvasObject
 
+	seq                     *models.Sequence
+	n                       int // step shown, from 1; 0: none
 	title                   *widget.Label
 	detail                  *widget.Label // how the shown step moved the canal
-	size, alloy             *widget.Select
+	size, alloy             *selectList
 	taper, depth, rpm, peck *widget.Entry
 	errs                    map[string]*widget.Label
 	general                 *widget.Label
 	add, remove, up, down   *widget.Button
-	loading                 bool
 	fields                  *fyne.Container
+
+	OnEdit  func(st models.Step) error                  // the shown step as edited
+	OnSteps func(cand *models.Sequence, show int) error // steps added, removed or moved
 }
 
-func newStepEditor(w *mainWindow) *stepEditor {
-	e := &stepEditor{w: w, errs: map[string]*widget.Label{}}
+func newStepEditor() *stepEditor {
+	e := &stepEditor{errs: map[string]*widget.Label{}}
 	e.title = sectionTitle("Shown file")
 	sizes := make([]string, 0, 24)
 	for _, s := range models.ISOSizes() {
 		sizes = append(sizes, strconv.Itoa(s))
 	}
-	e.size = widget.NewSelect(sizes, func(string) { e.edited() })
-	e.alloy = widget.NewSelect(nil, func(string) { e.edited() })
+	e.size = newSelectList(sizes, func(string) { e.edited() })
+	e.alloy = newSelectList(nil, func(string) { e.edited() })
 	entry := func(placeholder string) *widget.Entry {
 		en := widget.NewEntry()
 		en.SetPlaceHolder(placeholder)
@@ -58,7 +64,7 @@ func newStepEditor(w *mainWindow) *stepEditor {
 		return en
 	}
 	e.taper = entry("0.04")
-	e.depth = entry("mm from the orifice, or WL, WL-1.5")
+	e.depth = entry("mm, WL or WL-1.5")
 	e.rpm = entry("400")
 	e.peck = entry("1.0")
 	for _, f := range []string{fieldSize, fieldTaper, fieldDepth, fieldRPM, fieldPeck, fieldAlloy} {
@@ -73,17 +79,19 @@ func newStepEditor(w *mainWindow) *stepEditor {
 	e.general.Wrapping = fyne.TextWrapWord
 	e.general.Hide()
 
-	row := func(label string, field string, o fyne.CanvasObject) fyne.CanvasObject {
+	// Two fields a row, each with its label on the left and its error under it, so the whole
+	// editor is seen without scrolling.
+	field := func(label string, name string, o fyne.CanvasObject) fyne.CanvasObject {
 		return container.NewVBox(container.NewBorder(nil, nil,
-			container.NewGridWrap(fyne.NewSize(210, o.MinSize().Height), widget.NewLabel(label)), nil, o), e.errs[field])
+			container.NewGridWrap(fyne.NewSize(96, o.MinSize().Height), widget.NewLabel(label)), nil, o), e.errs[name])
 	}
-	e.fields = container.NewVBox(
-		row("ISO size", fieldSize, e.size),
-		row("Taper (mm/mm)", fieldTaper, e.taper),
-		row("Depth", fieldDepth, e.depth),
-		row("Speed (rpm)", fieldRPM, e.rpm),
-		row("Advance per insertion (mm)", fieldPeck, e.peck),
-		row("Alloy", fieldAlloy, e.alloy),
+	e.fields = container.NewGridWithColumns(2,
+		field("ISO size", fieldSize, e.size),
+		field("Taper", fieldTaper, e.taper),
+		field("Depth", fieldDepth, e.depth),
+		field("Speed, rpm", fieldRPM, e.rpm),
+		field("Advance, mm", fieldPeck, e.peck),
+		field("Alloy", fieldAlloy, e.alloy),
 	)
 	e.add = widget.NewButtonWithIcon("Add a file", theme.ContentAddIcon(), e.addStep)
 	e.remove = widget.NewButtonWithIcon("Remove", theme.DeleteIcon(), e.removeStep)
@@ -92,18 +100,18 @@ func newStepEditor(w *mainWindow) *stepEditor {
 	e.detail = widget.NewLabel("")
 	e.detail.Wrapping = fyne.TextWrapWord
 	e.detail.Hide()
-	e.box = container.NewVBox(widget.NewSeparator(), container.NewHBox(e.title, e.add, e.remove, e.up, e.down), e.detail, e.fields, e.general)
-	e.load()
+	e.box = container.NewVBox(widget.NewSeparator(), container.NewHBox(e.title, e.add, e.remove, e.up, e.down), e.fields, e.general, e.detail)
+	e.show(nil, 0, nil)
 	return e
 }
 
-// load fills the fields from the shown step of the last valid sequence.
-func (e *stepEditor) load() {
-	w := e.w
-	e.loading = true
-	defer func() { e.loading = false }()
+// show fills the fields from step n (from 1) of seq, the last valid sequence, and states how
+// the step moved the canal in the last run (st, nil while none is in).
+func (e *stepEditor) show(seq *models.Sequence, n int, st *analysis.StepResult) {
+	e.seq, e.n = seq, n
 	e.clearErrors()
-	if w.seq == nil || w.selected == 0 || w.selected > len(w.seq.Steps) {
+	if seq == nil || n < 1 || n > len(seq.Steps) {
+		e.n = 0
 		e.title.SetText("Shown file: none")
 		e.detail.Hide()
 		e.fields.Hide()
@@ -111,44 +119,52 @@ func (e *stepEditor) load() {
 		return
 	}
 	e.fields.Show()
-	st := w.seq.Steps[w.selected-1]
-	e.title.SetText(fmt.Sprintf("Step %d", w.selected))
-	e.showDetail()
+	step := seq.Steps[n-1]
+	e.title.SetText(fmt.Sprintf("Step %d", n))
+	if st != nil {
+		e.detail.SetText("This step: " + transportText(st.Metrics.Transport))
+		e.detail.Show()
+	} else {
+		e.detail.Hide()
+	}
 	sizes := e.size.Options
-	cur := strconv.Itoa(st.Instrument.Size)
-	if !models.IsISOSize(st.Instrument.Size) && !contains(sizes, cur) {
+	cur := strconv.Itoa(step.Instrument.Size)
+	if !models.IsISOSize(step.Instrument.Size) && !contains(sizes, cur) {
 		e.size.Options = append(sizes, cur)
 	}
-	e.size.SetSelected(cur)
-	t := st.Instrument.Taper
-	if len(st.Instrument.Tapers) > 0 {
-		t = st.Instrument.Tapers[0].Taper
+	quietSelect(e.size, cur)
+	t := step.Instrument.Taper
+	if len(step.Instrument.Tapers) > 0 {
+		t = step.Instrument.Tapers[0].Taper
 	}
-	e.taper.SetText(strconv.FormatFloat(t, 'f', -1, 64))
-	e.depth.SetText(st.Depth.String())
-	e.rpm.SetText(strconv.FormatFloat(st.RPM, 'f', -1, 64))
-	e.peck.SetText(strconv.FormatFloat(st.PeckMM, 'f', -1, 64))
-	e.alloy.Options = alloyNames(w.seq)
-	e.alloy.SetSelected(st.AlloyName)
+	quietText(e.taper, strconv.FormatFloat(t, 'f', -1, 64))
+	quietText(e.depth, step.Depth.String())
+	quietText(e.rpm, strconv.FormatFloat(step.RPM, 'f', -1, 64))
+	quietText(e.peck, strconv.FormatFloat(step.PeckMM, 'f', -1, 64))
+	e.alloy.Options = alloyNames(seq)
+	quietSelect(e.alloy, step.AlloyName)
 	e.setButtons()
 }
 
-// showDetail states how the shown step moved the canal, from the last valid run.
-func (e *stepEditor) showDetail() {
-	w := e.w
-	if w.res == nil || w.selected > len(w.res.Steps) {
-		e.detail.Hide()
-		return
-	}
-	e.detail.SetText("This step, " + transportText(w.res.Steps[w.selected-1].Metrics.Transport))
-	e.detail.Show()
+// quietText and quietSelect show a value without calling OnChanged: a value shown, not typed.
+func quietText(en *widget.Entry, s string) {
+	f := en.OnChanged
+	en.OnChanged = nil
+	en.SetText(s)
+	en.OnChanged = f
+}
+
+func quietSelect(s *selectList, v string) {
+	f := s.OnChanged
+	s.OnChanged = nil
+	s.SetSelected(v)
+	s.OnChanged = f
 }
 
 func (e *stepEditor) setButtons() {
-	w := e.w
 	n := 0
-	if w.seq != nil {
-		n = len(w.seq.Steps)
+	if e.seq != nil {
+		n = len(e.seq.Steps)
 	}
 	enable := func(b *widget.Button, ok bool) {
 		if ok {
@@ -158,9 +174,9 @@ func (e *stepEditor) setButtons() {
 		}
 	}
 	enable(e.add, n > 0)
-	enable(e.remove, n > 1 && w.selected > 0)
-	enable(e.up, w.selected > 1)
-	enable(e.down, w.selected > 0 && w.selected < n)
+	enable(e.remove, n > 1 && e.n > 0)
+	enable(e.up, e.n > 1)
+	enable(e.down, e.n > 0 && e.n < n)
 }
 
 func contains(list []string, s string) bool {
@@ -188,11 +204,9 @@ func alloyNames(seq *models.Sequence) []string {
 	return append(out, own...)
 }
 
-// setDepthText shows a depth the insertion slider set, without editing again.
-func (e *stepEditor) setDepthText(s string) {
-	e.loading = true
-	e.depth.SetText(s)
-	e.loading = false
+// showDepth shows a depth the Tip slider set, without editing again.
+func (e *stepEditor) showDepth(d models.Depth) {
+	quietText(e.depth, d.String())
 	e.clearErrors()
 }
 
@@ -207,8 +221,8 @@ func (e *stepEditor) clearErrors() {
 	e.general.Hide()
 }
 
-// showError puts an error at its field (or under the form when it belongs to none).
-func (e *stepEditor) showError(field string, err error) {
+// showFieldError puts an error at a field (or under the form when field is none of them).
+func (e *stepEditor) showFieldError(field string, err error) {
 	if l, ok := e.errs[field]; ok {
 		l.SetText(err.Error())
 		l.Show()
@@ -228,41 +242,34 @@ func (e *stepEditor) showError(field string, err error) {
 	e.general.Show()
 }
 
-// fieldError is an error at one field of the editor.
-func (e *stepEditor) fieldError(err error) {
+// showError puts an error of step n (a SequenceError names its field) at its field of the
+// editor, or under the form when it belongs to none.
+func (e *stepEditor) showError(err error, n int) {
 	var se *models.SequenceError
-	if errors.As(err, &se) && (se.Step == 0 || se.Step == e.w.selected) {
+	if errors.As(err, &se) && (se.Step == 0 || se.Step == n) {
 		field := se.Field
 		if _, ok := e.errs[field]; !ok && strings.HasPrefix(field, "tapers") {
 			field = fieldTaper
 		}
-		e.showError(field, errors.New(se.Msg))
+		e.showFieldError(field, errors.New(se.Msg))
 		return
 	}
-	e.showError("", err)
+	e.showFieldError("", err)
 }
 
-// showRunError shows an analysis that could not run (the last valid one stays).
-func (e *stepEditor) showRunError(err error) { e.fieldError(err) }
-
-// edited reads the fields as the user types; a valid step re-runs the analysis.
+// edited reads the fields as the user types; a valid step goes to the window.
 func (e *stepEditor) edited() {
-	w := e.w
-	if e.loading || w.seq == nil || w.selected == 0 || w.selected > len(w.seq.Steps) {
+	if e.seq == nil || e.n == 0 || e.OnEdit == nil {
 		return
 	}
 	e.clearErrors()
-	st, bad := e.readStep(w.seq.Steps[w.selected-1])
+	st, bad := e.readStep(e.seq.Steps[e.n-1])
 	if bad {
 		return
 	}
-	cand := copySequence(w.seq)
-	cand.Steps[w.selected-1] = st
-	if err := w.trySequence(cand); err != nil {
-		e.fieldError(err)
-		return
+	if err := e.OnEdit(st); err != nil {
+		e.showError(err, e.n)
 	}
-	e.w.controls.stepChanged()
 }
 
 // readStep applies the fields to a copy of st; bad is set when a field did not parse (its
@@ -270,7 +277,7 @@ func (e *stepEditor) edited() {
 func (e *stepEditor) readStep(st models.Step) (models.Step, bool) {
 	bad := false
 	fail := func(field string, err error) {
-		e.showError(field, err)
+		e.showFieldError(field, err)
 		bad = true
 	}
 	in := st.Instrument
@@ -310,7 +317,7 @@ func (e *stepEditor) readStep(st models.Step) (models.Step, bool) {
 		return st, true
 	}
 	name := e.alloy.Selected
-	if a, ok := e.w.seq.Alloy(name); ok {
+	if a, ok := e.seq.Alloy(name); ok {
 		in.Alloy = a
 	}
 	st.Instrument, st.Depth, st.RPM, st.PeckMM, st.AlloyName = in, depth, rpm, peck, name
@@ -332,51 +339,46 @@ func parseNumber(s string) (float64, error) {
 
 // addStep puts a copy of the shown step after it.
 func (e *stepEditor) addStep() {
-	w := e.w
-	if w.seq == nil || len(w.seq.Steps) == 0 {
+	if e.seq == nil || len(e.seq.Steps) == 0 {
 		return
 	}
-	at := w.selected
+	at := e.n
 	if at == 0 {
-		at = len(w.seq.Steps)
+		at = len(e.seq.Steps)
 	}
-	cand := copySequence(w.seq)
+	cand := copySequence(e.seq)
 	st := cand.Steps[at-1]
 	cand.Steps = append(cand.Steps[:at], append([]models.Step{st}, cand.Steps[at:]...)...)
 	e.changeSteps(cand, at+1)
 }
 
 func (e *stepEditor) removeStep() {
-	w := e.w
-	if w.seq == nil || len(w.seq.Steps) < 2 || w.selected == 0 {
+	if e.seq == nil || len(e.seq.Steps) < 2 || e.n == 0 {
 		return
 	}
-	cand := copySequence(w.seq)
-	i := w.selected - 1
+	cand := copySequence(e.seq)
+	i := e.n - 1
 	cand.Steps = append(cand.Steps[:i], cand.Steps[i+1:]...)
-	e.changeSteps(cand, min(w.selected, len(cand.Steps)))
+	e.changeSteps(cand, min(e.n, len(cand.Steps)))
 }
 
 // moveStep moves the shown step earlier (-1) or later (+1).
 func (e *stepEditor) moveStep(by int) {
-	w := e.w
-	i, j := w.selected-1, w.selected-1+by
-	if w.seq == nil || i < 0 || j < 0 || j >= len(w.seq.Steps) {
+	i, j := e.n-1, e.n-1+by
+	if e.seq == nil || i < 0 || j < 0 || j >= len(e.seq.Steps) {
 		return
 	}
-	cand := copySequence(w.seq)
+	cand := copySequence(e.seq)
 	cand.Steps[i], cand.Steps[j] = cand.Steps[j], cand.Steps[i]
 	e.changeSteps(cand, j+1)
 }
 
-// changeSteps takes a sequence with steps added, removed or moved and shows step sel.
+// changeSteps hands steps added, removed or moved to the window, showing step sel after.
 func (e *stepEditor) changeSteps(cand *models.Sequence, sel int) {
-	w := e.w
-	if err := w.trySequence(cand); err != nil {
-		e.fieldError(err)
+	if e.OnSteps == nil {
 		return
 	}
-	w.selected = sel
-	e.load()
-	w.controls.stepChanged()
+	if err := e.OnSteps(cand, sel); err != nil {
+		e.showError(err, e.n)
+	}
 }

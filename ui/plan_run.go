@@ -27,7 +27,7 @@ type planRun struct {
 
 	// the form
 	form                            dialog.Dialog
-	size, steps                     *widget.Select
+	size, steps                     *selectList
 	taper, maxEngaged, maxFatigue   *widget.Entry
 	weights                         [3]*widget.Entry // engaged length, torque, fatigue use
 	sameTaper                       *widget.Check
@@ -66,14 +66,14 @@ func (w *mainWindow) proposeDialog() {
 	for _, s := range models.ISOSizes() {
 		sizes = append(sizes, strconv.Itoa(s))
 	}
-	pr.size = widget.NewSelect(sizes, func(string) { pr.targetChanged() })
+	pr.size = newSelectList(sizes, func(string) { pr.targetChanged() })
 	pr.taper = widget.NewEntry()
 	pr.taper.OnChanged = func(string) { pr.targetChanged() }
 	var counts []string
 	for n := 1; n <= 12; n++ {
 		counts = append(counts, strconv.Itoa(n))
 	}
-	pr.steps = widget.NewSelect(counts, nil)
+	pr.steps = newSelectList(counts, nil)
 	pr.steps.SetSelected(strconv.Itoa(plan.DefaultMaxSteps))
 	pr.maxEngaged = widget.NewEntry()
 	pr.maxEngaged.SetPlaceHolder("no limit")
@@ -112,7 +112,12 @@ func (w *mainWindow) proposeDialog() {
 		row("Longest engaged length per file (mm)", pr.maxEngaged),
 		row("Highest fatigue use per file (1 = fracture)", pr.maxFatigue),
 		pr.sameTaper,
-		row("How much counts: engaged length, torque, fatigue use", container.NewGridWithColumns(3, pr.weights[0], pr.weights[1], pr.weights[2])),
+		// The three weights under their own names, the question above them.
+		widget.NewLabel("How much each counts in the choice (0 = not at all):"),
+		container.NewGridWithColumns(3,
+			container.NewBorder(nil, nil, widget.NewLabel("engaged length"), nil, pr.weights[0]),
+			container.NewBorder(nil, nil, widget.NewLabel("torque"), nil, pr.weights[1]),
+			container.NewBorder(nil, nil, widget.NewLabel("fatigue use"), nil, pr.weights[2])),
 		pr.objective,
 		pr.formErr,
 		container.NewHBox(layout.NewSpacer(), pr.formCancelButton, pr.proposeButton),
@@ -293,7 +298,7 @@ func (pr *planRun) done(p *plan.Plan, mineRes, proposed *analysis.Result, err er
 		return
 	}
 	pr.plan, pr.mineRes, pr.proposed = p, mineRes, proposed
-	w.setStatus(fmt.Sprintf("A sequence of %d files is proposed for the %s.", len(p.Sequence.Steps), pr.target.Label()))
+	w.setStatus(fmt.Sprintf("A sequence of %s is proposed for the %s.", files(len(p.Sequence.Steps)), pr.target.Label()))
 	pr.showPlan()
 }
 
@@ -343,22 +348,19 @@ func (pr *planRun) showPlan() {
 func (pr *planRun) adoptPlan() {
 	w := pr.w
 	pr.answer.Hide()
-	seq := *pr.plan.Sequence
+	seq := copySequence(pr.plan.Sequence)
 	seq.PathModel = pr.mine.PathModel
-	data, err := seq.MarshalJSON()
-	var parsed *models.Sequence
+	seq.Name = "proposed for the " + pr.target.Label()
+	err := seq.Validate()
 	if err == nil {
-		parsed, err = models.ParseSequence("proposed for the "+pr.target.Label(), data)
-	}
-	if err == nil {
-		err = parsed.CheckDepths(w.canal.Line.Length(), w.canal.WorkingLength)
+		err = seq.CheckDepths(w.canal.Line.Length(), w.canal.WorkingLength)
 	}
 	if err != nil {
 		dialog.ShowError(fmt.Errorf("the proposed sequence cannot be used: %w", err), w.win)
 		return
 	}
-	w.takeSequence(parsed)
-	w.setStatus(fmt.Sprintf("Using the proposed sequence of %d files; save it from the File menu to keep it.", len(parsed.Steps)))
+	w.takeSequence(seq)
+	w.setStatus(fmt.Sprintf("Using the proposed sequence of %s; save it from the File menu to keep it.", files(len(seq.Steps))))
 }
 
 // comparisonRows are the per-step figures the plan is judged by and, last, the largest of
@@ -398,4 +400,12 @@ func comparisonGrid(rows [][]string) fyne.CanvasObject {
 		}
 	}
 	return g
+}
+
+// files counts files in words: "1 file", "4 files".
+func files(n int) string {
+	if n == 1 {
+		return "1 file"
+	}
+	return fmt.Sprintf("%d files", n)
 }

@@ -20,57 +20,54 @@ const (
 )
 
 // pathPanel chooses how the file runs in the canal and states how the whole sequence moved
-// the canal. The choice is the sequence's path_model, so a saved sequence keeps it.
+// the canal. The choice is the sequence's path_model, so a saved sequence keeps it. show gives
+// it the model and the last run's transportation; OnModel reports a new choice.
 type pathPanel struct {
-	w       *mainWindow
-	box     fyne.CanvasObject
-	choice  *widget.RadioGroup
-	moved   *widget.Label
-	syncing bool
+	box    fyne.CanvasObject
+	choice *widget.RadioGroup
+	moved  *widget.Label
+
+	OnModel func(model string)
 }
 
-func newPathPanel(w *mainWindow) *pathPanel {
-	p := &pathPanel{w: w}
+func newPathPanel() *pathPanel {
+	p := &pathPanel{}
 	p.choice = widget.NewRadioGroup([]string{pathCentredText, pathElasticText}, p.chosen)
 	p.choice.Horizontal = true
 	p.choice.Required = true
 	p.moved = widget.NewLabel("")
 	p.moved.Wrapping = fyne.TextWrapWord
-	p.sync()
 	p.box = container.NewVBox(container.NewHBox(widget.NewLabel("File path:"), p.choice), p.moved)
+	p.show(models.PathCentred, nil)
 	return p
 }
 
-// sync shows the current sequence's path model.
-func (p *pathPanel) sync() {
+// show selects the path model and states the whole sequence's transportation (nil: no run yet).
+func (p *pathPanel) show(model string, moved *analysis.Transport) {
 	text := pathCentredText
-	if p.w.seq != nil && p.w.seq.PathModel == models.PathElastic {
+	if model == models.PathElastic {
 		text = pathElasticText
 	}
-	p.syncing = true
+	f := p.choice.OnChanged
+	p.choice.OnChanged = nil
 	p.choice.SetSelected(text)
-	p.syncing = false
+	p.choice.OnChanged = f
+	if moved == nil {
+		p.moved.SetText("")
+		return
+	}
+	p.moved.SetText("Whole sequence: " + transportText(*moved))
 }
 
 func (p *pathPanel) chosen(text string) {
-	if p.syncing || text == "" {
+	if text == "" || p.OnModel == nil {
 		return
 	}
 	model := models.PathCentred
 	if text == pathElasticText {
 		model = models.PathElastic
 	}
-	p.w.setPathModel(model)
-}
-
-// refresh states the whole sequence's transportation of the last run.
-func (p *pathPanel) refresh() {
-	res := p.w.res
-	if res == nil {
-		p.moved.SetText("")
-		return
-	}
-	p.moved.SetText("Whole sequence, against the canal as scanned, " + transportText(res.Moved))
+	p.OnModel(model)
 }
 
 // setPathModel runs the sequence again with the file centred or bending as a beam.
@@ -84,7 +81,7 @@ func (w *mainWindow) setPathModel(model string) {
 	w.rerun()
 }
 
-// transportText states Gambill's measures in one short paragraph.
+// transportText states Gambill's measures in one short sentence.
 func transportText(tr analysis.Transport) string {
 	var lev, mm, cen []string
 	for _, x := range analysis.TransportLevels() {
@@ -93,11 +90,10 @@ func transportText(tr analysis.Transport) string {
 		mm = append(mm, fmt.Sprintf("%.3f", tr.TransportationMM[k]))
 		cen = append(cen, optional(tr.CenteringRatio[k], "%.2f"))
 	}
-	s := fmt.Sprintf("at %s mm from the apical end: transportation %s mm, centring ratio %s; apical foramen shift %.3f mm",
-		strings.Join(lev, " / "), strings.Join(mm, " / "), strings.Join(cen, " / "), tr.ForamenShiftMM)
+	s := fmt.Sprintf("transportation %s mm at %s mm from the apical end (centring %s), foramen shift %.3f mm",
+		strings.Join(mm, " / "), strings.Join(lev, " / "), strings.Join(cen, " / "), tr.ForamenShiftMM)
 	if tr.Largest.MM > 0 {
-		s += fmt.Sprintf("; largest %.3f mm, %.2f mm from the apical end, %s",
-			tr.Largest.MM, tr.Largest.FromApexMM, towardText(tr.Largest.TowardDeg))
+		s += fmt.Sprintf("; largest %.3f mm, %.2f mm up, %s", tr.Largest.MM, tr.Largest.FromApexMM, towardText(tr.Largest.TowardDeg))
 	}
 	return s + "."
 }
@@ -115,9 +111,9 @@ func towardText(deg float64) string {
 	side := "across the curve"
 	switch {
 	case d <= 45 || d >= 315:
-		side = "toward the inner side of the curve"
+		side = "to the inner side"
 	case d >= 135 && d <= 225:
-		side = "toward the outer side of the curve"
+		side = "to the outer side"
 	}
 	return fmt.Sprintf("%s (%.0f°)", side, d)
 }
