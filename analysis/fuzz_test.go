@@ -14,8 +14,9 @@ import (
 )
 
 // fuzzSpec writes a canal spec from fuzzed numbers, bounded so that one run of the whole
-// pipeline stays short (a canal 2-25 mm long and at least 0.15 mm wide): the target is every
-// shape the format allows at that scale, not every size.
+// pipeline stays short: straights of at most 15 and 10 mm, arcs of radius 0.5 to 30 mm and
+// at most 180 degrees (the spec's own limit of 100 mm in all refuses the longest), at least
+// 0.15 mm wide: the target is every shape the format allows at a canal's scale, not every size.
 func fuzzSpec(straight1, radius, angle, turn, radius2, angle2, straight2, orifice, apical, oval float64) string {
 	clamp := func(v, lo, hi float64) float64 {
 		if math.IsNaN(v) || math.IsInf(v, 0) {

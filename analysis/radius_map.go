@@ -139,12 +139,23 @@ func (g *pointGrid) key(p mgl64.Vec3) [3]int {
 	return [3]int{int(math.Floor(d[0])), int(math.Floor(d[1])), int(math.Floor(d[2]))}
 }
 
-// nearest searches rings of cells outward until a ring cannot hold anything closer.
+// nearest searches rings of cells outward until a ring cannot hold anything closer. A ring
+// costs its (2r+1)^3 cells, so once that is more than the points themselves a full scan is
+// cheaper and exact: a point far from every station (a centerline that covers only part of the
+// canal) then costs one scan, not millions of cells.
 func (g *pointGrid) nearest(p mgl64.Vec3) int {
 	k := g.key(p)
 	best, bd := 0, math.Inf(1)
 	for r := 0; r < 1<<20; r++ {
 		if float64(r-1)*g.cell > bd {
+			break
+		}
+		if side := 2*r + 1; side*side*side > len(g.pts) {
+			for i, q := range g.pts {
+				if d := q.Sub(p).Len(); d < bd || (d == bd && i < best) {
+					best, bd = i, d
+				}
+			}
 			break
 		}
 		for dx := -r; dx <= r; dx++ {
@@ -160,15 +171,6 @@ func (g *pointGrid) nearest(p mgl64.Vec3) int {
 					}
 				}
 			}
-		}
-		if r > 64 && math.IsInf(bd, 1) {
-			// Far from every station: fall back to a full scan.
-			for i, q := range g.pts {
-				if d := q.Sub(p).Len(); d < bd {
-					best, bd = i, d
-				}
-			}
-			break
 		}
 	}
 	return best
