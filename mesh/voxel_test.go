@@ -266,4 +266,3 @@ func TestVoxelizeSymmetryPlaneOnCentres(t *testing.T) {
 		t.Fatalf("set-up: only %d grids had a row of centres on y = 0", rows)
 	}
 }
-
