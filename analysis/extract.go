@@ -284,38 +284,62 @@ func trimBent(pts []mgl64.Vec3, sec []section, tol float64, endRadius [2]float64
 		m = m.Add(outer(row, row))
 	}
 	inv := m.Inv()
-	var w [bentFit]float64
-	for k, x := range xs {
-		w[k] = inv.Mul3x1(mgl64.Vec3{1, x, x * x})[0]
-	}
-	// The width trend: a line through the widths (diameters of equal area) further in.
-	var wl [bentFit]float64
-	var sx, sxx float64
-	for _, x := range xs {
-		sx += x
-		sxx += x * x
-	}
-	for k, x := range xs {
-		wl[k] = (sxx - sx*x) / (bentFit*sxx - sx*sx)
-	}
 	width := func(i int) float64 { return 2 * math.Sqrt(sec[i].area/math.Pi) }
-	stray := func(start int, at func(int) int) int {
-		for k := start; k >= 0; k-- {
-			var pred mgl64.Vec3
-			wPred := 0.0
-			for j := range w {
-				i := at(k + bentGap + 1 + j)
-				pred = pred.Add(pts[i].Mul(w[j]))
-				wPred += width(i) * wl[j]
+	// fitAt fits, over the window that starts bentGap+1 stations in from station k, a
+	// quadratic to the positions and a line to the widths, and returns both at k with the
+	// scatter (root mean square residual) of each about its fit.
+	fitAt := func(k int, at func(int) int) (pos mgl64.Vec3, posScatter, wid, widScatter float64) {
+		var coef [3]mgl64.Vec3
+		var wx, wxx, ww, wxw float64
+		for j, x := range xs {
+			i := at(k + bentGap + 1 + j)
+			row := mgl64.Vec3{1, x, x * x}
+			for a := range 3 {
+				coef[a] = coef[a].Add(row.Mul(pts[i][a]))
 			}
-			if i := at(k); pts[i].Sub(pred).Len() > tol && math.Abs(width(i)-wPred) > bentNarrowing*wPred {
+			wx += x
+			wxx += x * x
+			ww += width(i)
+			wxw += x * width(i)
+		}
+		for a := range 3 {
+			coef[a] = inv.Mul3x1(coef[a])
+		}
+		slope := (bentFit*wxw - wx*ww) / (bentFit*wxx - wx*wx)
+		icpt := (ww - slope*wx) / bentFit
+		var sp, sw float64
+		for j, x := range xs {
+			i := at(k + bentGap + 1 + j)
+			q := mgl64.Vec3{coef[0].Dot(mgl64.Vec3{1, x, x * x}), coef[1].Dot(mgl64.Vec3{1, x, x * x}), coef[2].Dot(mgl64.Vec3{1, x, x * x})}
+			sp += pts[i].Sub(q).LenSqr()
+			d := width(i) - (icpt + slope*x)
+			sw += d * d
+		}
+		return mgl64.Vec3{coef[0][0], coef[1][0], coef[2][0]}, math.Sqrt(sp / bentFit), icpt, math.Sqrt(sw / bentFit)
+	}
+	strays := func(k int, at func(int) int) (bool, bool) {
+		pred, ps, wPred, ws := fitAt(k, at)
+		i := at(k)
+		return pts[i].Sub(pred).Len() > math.Max(tol, 4*ps), math.Abs(width(i)-wPred) > math.Max(bentNarrowing*wPred, 4*ws)
+	}
+	// cut walks outward to the first station that strays and whose width is off its trend;
+	// the straying stations just inside it belong to the same bend and go too.
+	cut := func(start int, at func(int) int) int {
+		for k := start; k >= 0; k-- {
+			if off, wide := strays(k, at); off && wide {
+				for k < start {
+					if off, _ := strays(k+1, at); !off {
+						break
+					}
+					k++
+				}
 				return k + 1
 			}
 		}
 		return 0
 	}
-	first := stray(reach(endRadius[0]), func(i int) int { return i })
-	last := n - 1 - stray(reach(endRadius[1]), func(i int) int { return n - 1 - i })
+	first := cut(reach(endRadius[0]), func(i int) int { return i })
+	last := n - 1 - cut(reach(endRadius[1]), func(i int) int { return n - 1 - i })
 	return pts[first : last+1]
 }
 
