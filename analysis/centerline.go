@@ -118,22 +118,34 @@ func NewCenterline(pts []mgl64.Vec3, ds, window, trustFrom, trustTo, zoneStart, 
 }
 
 // steadiestScale is the first of the two neighbouring fits where the tightest bend's
-// curvature changes least per step of log half-width, the wider of the two no wider than
-// one and a half times the bend (the narrowest fit when no pair qualifies).
+// curvature changes least per step of log half-width, among the pairs whose wider fit is no
+// wider than one and a half times the bend and whose narrower fit holds the line's wander
+// under steadyNoise of the reading (any pair when none does; the narrowest fit when no pair
+// qualifies at all).
 func steadiestScale(fits []scaleFit) int {
-	best, bestSlope := 0, math.Inf(1)
-	for i := 0; i+1 < len(fits); i++ {
-		a, b := fits[i], fits[i+1]
-		if b.window > 1.5*a.width || a.peak <= 0 {
-			continue
+	pick := func(quiet bool) int {
+		best, bestSlope := -1, math.Inf(1)
+		for i := 0; i+1 < len(fits); i++ {
+			a, b := fits[i], fits[i+1]
+			if b.window > 1.5*a.width || a.peak <= 0 || (quiet && a.noise > steadyNoise*a.peak) {
+				continue
+			}
+			slope := math.Abs(a.peak-b.peak) / a.peak / math.Log(b.window/a.window)
+			if slope < bestSlope {
+				best, bestSlope = i, slope
+			}
 		}
-		slope := math.Abs(a.peak-b.peak) / a.peak / math.Log(b.window/a.window)
-		if slope < bestSlope {
-			best, bestSlope = i, slope
-		}
+		return best
 	}
-	return best
+	if i := pick(true); i >= 0 {
+		return i
+	}
+	return max(pick(false), 0)
 }
+
+// steadyNoise is the most of the reading the line's wander may make at a fit the steadiest
+// pair starts from.
+const steadyNoise = 0.1
 
 // tightest is the tightest bend's curvature (1/mm) read at the chosen pair of fits.
 func (c *Centerline) tightest() float64 {

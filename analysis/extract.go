@@ -261,7 +261,6 @@ const bentReach = 2.5
 // the cap cuts it, wider where the line already leans and its plane crosses the canal aslant.
 const bentNarrowing = 0.02
 
-
 // trimBent drops the stations at either end of a line spaced StationSpacing apart whose
 // section is cut by an end cap: narrower than the trend of the sections further in by
 // bentNarrowing, and straying more than tol mm from the course the line holds further in.
