@@ -133,3 +133,47 @@ func TestNearlyUniformEndsWarn(t *testing.T) {
 		t.Errorf("tapered canal: orifice at %v, warnings %q", c.Line.Points[0], c.Warnings)
 	}
 }
+
+// TestMeasureWarnings: a wide band and a tightest bend next to an end are said in plain
+// words; a narrow band in the middle of the canal says nothing.
+func TestMeasureWarnings(t *testing.T) {
+	quiet := Measures{Length: 16, MaxCurvatureS: 10, MaxCurvatureR: 3, RadiusRange: [2]float64{2.8, 3.2},
+		SRange: [2]float64{9.5, 10.5}, SchneiderRange: [2]float64{30, 33}}
+	if w := quiet.Warnings(); len(w) != 0 {
+		t.Errorf("narrow bands: %q", w)
+	}
+	wide := quiet
+	wide.RadiusRange = [2]float64{2.6, 3.6}
+	wide.SchneiderRange = [2]float64{25, 36}
+	wide.SRange = [2]float64{7, 11}
+	got := strings.Join(wide.Warnings(), " | ")
+	for _, want := range []string{"better than r 2.6-3.6 mm", "5.0-9.0 mm from the apical end", "25-36 degrees"} {
+		if !strings.Contains(got, want) {
+			t.Errorf("wide bands: %q lacks %q", got, want)
+		}
+	}
+	straightish := quiet
+	straightish.RadiusRange = [2]float64{2.5, math.Inf(1)}
+	if got := strings.Join(straightish.Warnings(), " | "); !strings.Contains(got, "cannot tell the tightest bend") {
+		t.Errorf("open band: %q", got)
+	}
+	near := quiet
+	near.MaxCurvatureS = 15.4
+	if got := strings.Join(near.Warnings(), " | "); !strings.Contains(got, "0.6 mm from the apical end") {
+		t.Errorf("bend near the apical end: %q", got)
+	}
+}
+
+// TestBendAtTheForamenWarns: an arc of 2 mm radius and 30 degrees ending at the foramen has its
+// middle 0.52 mm from the apical end (analytic geometry): the canal says the tightest bend lies
+// within 1 mm of the end.
+func TestBendAtTheForamenWarns(t *testing.T) {
+	spec := specJSON(t, `{"kind":"straight","length":10},{"kind":"arc","radius":2,"angle":30}`, 1.0, 0.4, 0)
+	c, err := CanalFromSpec(context.Background(), "foramen", spec, CanalOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := strings.Join(c.Warnings, " | "); !strings.Contains(got, "from the apical end, where the end of the scan") {
+		t.Errorf("s* %.2f of %.2f mm: warnings %q", c.Measures.MaxCurvatureS, c.Measures.Length, got)
+	}
+}

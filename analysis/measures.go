@@ -130,8 +130,9 @@ func (c *Centerline) placeBand(star int, klo float64) [2]float64 {
 }
 
 // schneiderBand is how well the construction pins the angle down: the construction again
-// with half and twice the tolerance, each widened by the angle a tolerance's sideways shift
-// of the apical end makes seen from the departure point.
+// with half and twice the tolerance, widened by the angles the tolerance subtends seen from
+// the departure point to the apical end (where the apical end lies) and over the length of
+// the coronal axis (which way the axis runs).
 func schneiderBand(c *Centerline, tol, deg float64) [2]float64 {
 	lo, hi := deg, deg
 	for _, f := range []float64{0.5, 2} {
@@ -139,10 +140,13 @@ func schneiderBand(c *Centerline, tol, deg float64) [2]float64 {
 		lo, hi = math.Min(lo, d), math.Max(hi, d)
 	}
 	dep, _ := schneider(c, tol)
-	reach := c.Points[len(c.Points)-1].Sub(c.Points[c.Station(dep)]).Len()
 	slack := 0.0
-	if reach > 0 {
-		slack = mgl64.RadToDeg(math.Atan(tol / reach))
+	if reach := c.Points[len(c.Points)-1].Sub(c.Points[c.Station(dep)]).Len(); reach > 0 {
+		slack += mgl64.RadToDeg(math.Atan(tol / reach))
+	}
+	z := c.zone[0]
+	if _, _, end := coronalAxis(c.Points[z:c.zone[1]+1], tol/2); end > 0 {
+		slack += mgl64.RadToDeg(math.Atan(tol / (c.S[z+end] - c.S[z])))
 	}
 	return [2]float64{math.Max(0, lo-slack), math.Min(180, hi+slack)}
 }
