@@ -102,44 +102,44 @@ func extractCenterline(ctx context.Context, m *mesh.Mesh, bvh *mesh.BVH, opt Ext
 			seed = int32(n)
 		}
 	}
-	fromSeed, _ := vg.dijkstra([]int32{seed}, nil)
-	unreached := 0
-	for _, d := range fromSeed {
-		if math.IsInf(d, 1) {
-			unreached++
-		}
-	}
-	if unreached > 0 {
+	canal, reached := vg.component(seed)
+	if unreached := len(vg.cells) - reached; unreached > 0 {
 		info.warnings = append(info.warnings, fmt.Sprintf(
 			"%.1f%% of the enclosed volume is in pieces separate from the widest canal and was left out",
 			100*float64(unreached)/float64(len(vg.cells))))
 	}
-	a, _ := farthest(fromSeed)
-	fromA, _ := vg.dijkstra([]int32{a}, nil)
-	b, _ := farthest(fromA)
+	// The far ends by a double sweep on a grid twice as coarse: the ends are cut off and
+	// re-made later, and the searches over the whole canal cost an eighth.
+	cg := vg.coarsen(canal)
+	farFrom := func(n int32) int32 {
+		d, _ := cg.dijkstra([]int32{n})
+		far, _ := farthest(d)
+		return far
+	}
+	aC := farFrom(cg.up[seed])
+	bC := farFrom(aC)
+	a, b := cg.rep[aC], cg.rep[bC]
 	if opt.Orifice != nil {
-		a = vg.nearest(*opt.Orifice, fromSeed)
+		a = vg.nearest(*opt.Orifice, canal)
 	}
 	if opt.Apex != nil {
-		b = vg.nearest(*opt.Apex, fromSeed)
+		b = vg.nearest(*opt.Apex, canal)
 	}
 	if opt.Orifice == nil && opt.Apex != nil {
-		fromB, _ := vg.dijkstra([]int32{b}, nil)
-		a, _ = farthest(fromB)
+		a = cg.rep[farFrom(cg.up[b])]
 	} else if opt.Apex == nil && opt.Orifice != nil {
-		fromOrifice, _ := vg.dijkstra([]int32{a}, nil)
-		b, _ = farthest(fromOrifice)
+		b = cg.rep[farFrom(cg.up[a])]
 	}
 	if err := ctx.Err(); err != nil {
 		return nil, info, err
 	}
 	// Minimal path through the middle: cost 1/(DT^2 + eps) keeps it on the distance ridge.
 	eps := h * h * 0.25
-	_, prev := vg.dijkstra([]int32{a}, func(p, q int32) float64 {
-		dp, dq := vg.dist[p], vg.dist[q]
-		return 0.5 * (1/(dp*dp+eps) + 1/(dq*dq+eps))
-	})
-	path := tracePath(prev, b)
+	cost := make([]float64, len(vg.cells))
+	for n, d := range vg.dist {
+		cost[n] = 1 / (d*d + eps)
+	}
+	path := vg.minimalPath(a, b, cost)
 	if len(path) < 2 || path[0] != a {
 		return nil, info, errors.New("no path joins the two ends of the canal")
 	}
@@ -175,7 +175,7 @@ func extractCenterline(ctx context.Context, m *mesh.Mesh, bvh *mesh.BVH, opt Ext
 	}
 	pts, sec = pts[first:last+1], sec[first:last+1]
 	fillUnmoved(pts, sec)
-	info.warnings = append(info.warnings, vg.branchWarnings(path, sec)...)
+	info.warnings = append(info.warnings, cg.branchWarnings(path, sec)...)
 	if opt.Orifice == nil && opt.Apex == nil {
 		// The orifice is the wider end, judged by the mean width of the sections over the
 		// last 2 mm at each end (one wide section at a rim cannot decide it).
@@ -205,11 +205,11 @@ func extractCenterline(ctx context.Context, m *mesh.Mesh, bvh *mesh.BVH, opt Ext
 	return pts, info, nil
 }
 
-// nearest returns the reached node closest to p.
-func (vg *voxelGraph) nearest(p mgl64.Vec3, reach []float64) int32 {
+// nearest returns the node of the canal closest to p.
+func (vg *voxelGraph) nearest(p mgl64.Vec3, canal []bool) int32 {
 	best, bd := int32(0), math.Inf(1)
 	for n := range vg.cells {
-		if math.IsInf(reach[n], 1) {
+		if !canal[n] {
 			continue
 		}
 		if d := vg.center(int32(n)).Sub(p).Len(); d < bd {
@@ -219,20 +219,28 @@ func (vg *voxelGraph) nearest(p mgl64.Vec3, reach []float64) int32 {
 	return best
 }
 
-// branchWarnings reports inside volume that reaches far from the chosen path: a lateral canal
-// or a second root canal joined to this one. Its own sections (sec) say how far the canal
-// itself reaches from its axis: an oval's long semi-axis is no branch.
-func (vg *voxelGraph) branchWarnings(path []int32, sec []section) []string {
-	fromPath, _ := vg.dijkstra(path, nil)
-	maxR := 0.0
+// branchWarnings reports inside volume that reaches far from the chosen path (fine nodes): a
+// lateral canal or a second root canal joined to this one, measured on the coarse grid. Its
+// own sections (sec) say how far the canal itself reaches from its axis: an oval's long
+// semi-axis is no branch.
+func (cg *coarseGraph) branchWarnings(path []int32, sec []section) []string {
+	var from []int32
 	for _, n := range path {
-		maxR = math.Max(maxR, vg.dist[n])
+		if m := cg.up[n]; m >= 0 && (len(from) == 0 || from[len(from)-1] != m) {
+			from = append(from, m)
+		}
+	}
+	fromPath, _ := cg.dijkstra(from)
+	maxR := 0.0
+	for _, n := range from {
+		maxR = math.Max(maxR, cg.dist[n])
 	}
 	for _, sc := range sec {
 		if sc.ok {
 			maxR = math.Max(maxR, 0.75*sc.far)
 		}
 	}
+	vg := cg.voxelGraph
 	reach := 0.0
 	for n, d := range fromPath {
 		if !math.IsInf(d, 1) && d-vg.dist[n] > reach {
