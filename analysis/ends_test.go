@@ -177,3 +177,21 @@ func TestBendAtTheForamenWarns(t *testing.T) {
 		t.Errorf("s* %.2f of %.2f mm: warnings %q", c.Measures.MaxCurvatureS, c.Measures.Length, got)
 	}
 }
+
+// TestSchneiderGentleThenSharp: with a gentle coronal curve before a sharp apical one,
+// Schneider's construction (Oral Surg Oral Med Oral Pathol 1971;32:271) departs where the
+// canal first leaves its coronal axis, at the start of the gentle curve, not at the sharp
+// one. Analytic geometry of the spec gives the angle (models.CanalSpec.SchneiderAngle).
+func TestSchneiderGentleThenSharp(t *testing.T) {
+	spec := specJSON(t, `{"kind":"straight","length":5},{"kind":"arc","radius":15,"angle":15},{"kind":"straight","length":3},{"kind":"arc","radius":3,"angle":40},{"kind":"straight","length":1}`, 1.2, 0.35, 0)
+	c, err := CanalFromSpec(context.Background(), "gentle then sharp", spec, CanalOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := spec.SchneiderAngle()
+	m := c.Measures
+	if math.Abs(m.SchneiderDeg-want) > 2 || math.Abs(m.DepartureS-5) > 0.5 {
+		t.Errorf("Schneider %.2f deg departing at %.2f mm, want %.2f deg at 5 mm", m.SchneiderDeg, m.DepartureS, want)
+	}
+	t.Logf("Schneider %.2f (exact %.2f) in %v, departure %.2f", m.SchneiderDeg, want, m.SchneiderRange, m.DepartureS)
+}

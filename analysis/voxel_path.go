@@ -272,17 +272,7 @@ func (vg *voxelGraph) search(sources []int32, cost []float64, bound float64, tar
 		dist[s] = 0
 		h.update(s)
 	}
-	relax := func(p, m int32, d, step float64) {
-		w := step
-		if cost != nil {
-			w *= 0.5 * (cost[p] + cost[m])
-		}
-		if nd := d + w; nd < dist[m] && nd <= bound {
-			dist[m] = nd
-			prev[m] = p
-			h.update(m)
-		}
-	}
+	g := vg.g
 	node, cells, nbr := vg.node, vg.cells, &vg.nbr
 	for len(h.items) > 0 {
 		p := h.pop()
@@ -290,18 +280,25 @@ func (vg *voxelGraph) search(sources []int32, cost []float64, bound float64, tar
 		if p == target {
 			break
 		}
-		if !vg.interior {
-			vg.neighbours(p, func(m int32, step float64) { relax(p, m, d, step) })
-			continue
-		}
-		// The 26 neighbours, inlined: this loop is most of the time a canal takes.
+		// The 26 neighbours, inlined: this loop is most of the time a canal takes. Off the
+		// grid's border (the usual case: grids are padded) no bounds are checked.
 		c := cells[p]
-		for k := range nbr {
-			m := node[c+nbr[k].off]
+		var i, j, k int
+		if !vg.interior {
+			i, j, k = vg.ijk(p)
+		}
+		for q := range nbr {
+			if !vg.interior {
+				ii, jj, kk := i+nbr[q].di, j+nbr[q].dj, k+nbr[q].dk
+				if ii < 0 || jj < 0 || kk < 0 || ii >= g.NX || jj >= g.NY || kk >= g.NZ {
+					continue
+				}
+			}
+			m := node[c+nbr[q].off]
 			if m < 0 {
 				continue
 			}
-			w := nbr[k].step
+			w := nbr[q].step
 			if cost != nil {
 				w *= 0.5 * (cost[p] + cost[m])
 			}
