@@ -59,9 +59,10 @@ func (c *Centerline) At(s float64) (p, t, n1, n2 mgl64.Vec3) {
 }
 
 // curvatureWindow is the narrowest half-width, in mm, of the local fit that gives tangents and
-// curvature: a few times the surface's own detail (a scan's voxel), and no less than 0.3 mm.
+// curvature: twice the surface's own detail (about a scan's voxel), and no less than 0.3 mm;
+// the line's measured wander decides how much wider the fit must be (see NewCenterline).
 func curvatureWindow(noiseScale float64) float64 {
-	return math.Max(0.3, 5*noiseScale)
+	return math.Max(0.3, 2*noiseScale)
 }
 
 // curvatureScales are the half-widths (mm) the curvature fit may take, narrowest first.
@@ -108,11 +109,13 @@ type scaleFit struct {
 func NewCenterline(pts []mgl64.Vec3, ds, window, trustFrom, trustTo, zoneStart, zoneEnd float64) *Centerline {
 	c := &Centerline{Points: pts, S: arcLengths(pts), DS: ds}
 	c.setZone(zoneStart, zoneEnd)
-	trustFrom = math.Max(trustFrom, c.S[c.zone[0]]-window)
-	trustTo = math.Min(trustTo, c.S[c.zone[1]]+window)
 	c.fits = c.scaleFits(window)
 	c.scale = steadiestScale(c.fits)
-	d2 := c.fit(c.fits[c.scale].window, c.fits[c.scale].noise, trustFrom, trustTo)
+	w := c.fits[c.scale].window
+	c.zone[0], c.zone[1] = whole(c.zone[0], c.zone[1], max(1, int(math.Round(w/ds))), len(pts))
+	trustFrom = math.Max(trustFrom, c.S[c.zone[0]]-w)
+	trustTo = math.Min(trustTo, c.S[c.zone[1]]+w)
+	d2 := c.fit(w, c.fits[c.scale].noise, trustFrom, trustTo)
 	c.frames(d2)
 	return c
 }
@@ -202,19 +205,22 @@ func (c *Centerline) scaleFits(window float64) []scaleFit {
 		// exponential, with median 2 sigma^2 ln 2.
 		slices.Sort(sq)
 		noise := math.Sqrt(sq[len(sq)/2] / math.Ln2)
-		arg := lo
+		// The peak is read only where the whole window lies on the line: near an end the fit
+		// shrinks to what is left, and a short fit there reads the end's wander.
+		wlo, whi := whole(lo, hi, m, n)
+		arg := wlo
 		for i := lo; i <= hi; i++ {
 			k[i] = math.Sqrt(math.Max(k[i]*k[i]-noise*noise, 0))
-			if k[i] > k[arg] {
+			if i >= wlo && i <= whi && k[i] > k[arg] {
 				arg = i
 			}
 		}
 		stretch := func(frac float64) (int, int) {
 			a, b := arg, arg
-			for a > lo && k[a-1] >= frac*k[arg] {
+			for a > wlo && k[a-1] >= frac*k[arg] {
 				a--
 			}
-			for b < hi && k[b+1] >= frac*k[arg] {
+			for b < whi && k[b+1] >= frac*k[arg] {
 				b++
 			}
 			return a, b
@@ -228,6 +234,16 @@ func (c *Centerline) scaleFits(window float64) []scaleFit {
 		out = append(out, scaleFit{window: w, noise: noise, peak: sum / float64(b-a+1), width: c.S[b8] - c.S[a8]})
 	}
 	return out
+}
+
+// whole narrows the stations lo..hi of a line of n to those where a fit of half-width m
+// stations lies whole on the line (all of lo..hi when none does).
+func whole(lo, hi, m, n int) (int, int) {
+	a, b := max(lo, m), min(hi, n-1-m)
+	if a > b {
+		return lo, hi
+	}
+	return a, b
 }
 
 // smoothQuadratic is each point's local quadratic fit over a half-width of m points (the
