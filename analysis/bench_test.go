@@ -3,6 +3,7 @@ package analysis
 import (
 	"context"
 	"sync"
+	"syscall"
 	"testing"
 
 	"tapersweep/mesh"
@@ -79,4 +80,59 @@ func BenchmarkSequenceRun(b *testing.B) {
 			}
 		})
 	}
+}
+
+// benchMeshes are canals of the sizes the speed targets name: a typical scan-derived canal
+// (the demo canal segmented at 0.06 mm, about 30k triangles), a fine scan (0.02 mm, about 240k)
+// and a 4M-triangle surface (the demo canal's own mesh, 4000 rings of 512).
+var benchMeshes = struct {
+	sync.Once
+	typical, fine, huge *mesh.Mesh
+}{}
+
+func benchMeshSet(b *testing.B) (typical, fine, huge *mesh.Mesh) {
+	benchMeshes.Do(func() {
+		c := models.DemoCanal()
+		var err error
+		if benchMeshes.typical, err = models.ScanLike(c, 0.06, 0.01, 1); err != nil {
+			b.Fatal(err)
+		}
+		if benchMeshes.fine, err = models.ScanLike(c, 0.02, 0.005, 1); err != nil {
+			b.Fatal(err)
+		}
+		benchMeshes.huge = c.Mesh(c.Length()/4000, 512)
+	})
+	return benchMeshes.typical, benchMeshes.fine, benchMeshes.huge
+}
+
+// BenchmarkMeasureCanal measures a canal from its mesh (BVH, centerline, measures, radius
+// map, each vertex's place). Targets (issue: speed for scans as they come): typical <= 0.1 s,
+// fine <= 0.25 s, 4M triangles <= 2 s.
+func BenchmarkMeasureCanal(b *testing.B) {
+	typical, fine, huge := benchMeshSet(b)
+	for _, tc := range []struct {
+		name string
+		m    *mesh.Mesh
+	}{{"typical", typical}, {"fine", fine}, {"4M", huge}} {
+		b.Run(tc.name, func(b *testing.B) {
+			b.ReportMetric(float64(len(tc.m.Triangles)), "triangles")
+			cpu0 := cpuSeconds()
+			for b.Loop() {
+				if _, err := NewCanal(context.Background(), "bench", tc.m, CanalOptions{}); err != nil {
+					b.Fatal(err)
+				}
+			}
+			// CPU time over all cores: steadier than the wall clock on a shared machine.
+			b.ReportMetric((cpuSeconds()-cpu0)/float64(b.N), "cpu-s/op")
+		})
+	}
+}
+
+// cpuSeconds is the CPU time this process has used, user and system.
+func cpuSeconds() float64 {
+	var ru syscall.Rusage
+	if err := syscall.Getrusage(syscall.RUSAGE_SELF, &ru); err != nil {
+		return 0
+	}
+	return float64(ru.Utime.Sec+ru.Stime.Sec) + float64(ru.Utime.Usec+ru.Stime.Usec)/1e6
 }

@@ -94,8 +94,10 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	if len(pts) < 4 {
 		return nil, fmt.Errorf("the canal is shorter than %.2f mm", 3*StationSpacing)
 	}
-	c.Line = NewCenterline(pts, StationSpacing, curvatureWindow(info.noise), info.measuredFrom, info.measuredTo)
-	c.Measures = Measure(c.Line)
+	c.Line = NewCenterline(pts, StationSpacing, curvatureWindow(info.noise), info.measuredFrom, info.measuredTo,
+		endZone*info.endRadius[0], endZone*info.endRadius[1])
+	c.Measures = Measure(c.Line, schneiderTolerance(c.Voxel, c.SurfaceDetail))
+	c.Warnings = append(c.Warnings, c.Measures.Warnings()...)
 	c.WorkingLength = c.Line.Length()
 	if opt.WorkingLength > 0 {
 		c.WorkingLength = opt.WorkingLength
@@ -117,12 +119,18 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	return c, nil
 }
 
-// CanalFromSpec builds the mesh of a parametric canal and measures it exactly as a scan would
-// be measured; the exact centerline is kept alongside for checks.
+// CanalFromSpec builds the mesh of a parametric canal and measures it as a scan would be
+// measured, except that the spec states its ends: s = 0 is the orifice whatever the
+// diameters, so the ends are never guessed. The exact centerline is kept alongside for checks.
 func CanalFromSpec(ctx context.Context, name string, spec *models.CanalSpec, opt CanalOptions) (*Canal, error) {
 	m := spec.Mesh(StationSpacing, 96)
 	if opt.WorkingLength == 0 {
 		opt.WorkingLength = spec.WorkingLength()
+	}
+	if opt.Extract.Orifice == nil && opt.Extract.Apex == nil {
+		orifice, _, _ := spec.At(0)
+		apex, _, _ := spec.At(spec.Length())
+		opt.Extract.Orifice, opt.Extract.Apex = &orifice, &apex
 	}
 	c, err := newCanal(ctx, name, m, opt, false)
 	if err != nil {

@@ -2,6 +2,7 @@ package analysis
 
 import (
 	"math"
+	"slices"
 
 	"github.com/go-gl/mathgl/mgl64"
 )
@@ -23,7 +24,12 @@ type Centerline struct {
 	// inner side of the local bend where KN1 cos(theta) + KN2 sin(theta) > 0.
 	KN1, KN2 []float64
 	DS       float64
-	window   int // half-width of the curvature fit, in stations
+	window   int        // half-width of the curvature fit, in stations
+	fits     []scaleFit // the fits at every admissible half-width, narrowest first
+	scale    int        // the one taken
+	// zone holds the first and last station of the stretch the measures use: about one and a
+	// half end radii at each end take no part (an end cap bends the sections there).
+	zone [2]int
 }
 
 // Length is the arc length from the orifice to the apical end.
@@ -52,45 +58,249 @@ func (c *Centerline) At(s float64) (p, t, n1, n2 mgl64.Vec3) {
 	return
 }
 
-// curvatureWindow is the half-width, in mm, of the local fit that gives tangents and curvature.
-// It is wide enough to calm voxel noise of a scan and narrow enough to keep the peak of a
-// 20 degree curve on a 3 mm radius (about 1 mm of arc).
+// curvatureWindow is the narrowest half-width, in mm, of the local fit that gives tangents and
+// curvature: twice the surface's own detail (about a scan's voxel), and no less than 0.3 mm;
+// the line's measured wander decides how much wider the fit must be (see NewCenterline).
 func curvatureWindow(noiseScale float64) float64 {
-	return math.Max(0.3, 5*noiseScale)
+	return math.Max(0.3, 2*noiseScale)
+}
+
+// curvatureScales are the half-widths (mm) the curvature fit may take, narrowest first.
+var curvatureScales = []float64{0.3, 0.4, 0.5, 0.6, 0.75, 0.9, 1.1, 1.3, 1.6}
+
+// noiseReference is the half-width (mm) of the wide fit whose residual is taken as the
+// line's own wander (the noise a scan leaves in it).
+const noiseReference = 2.0
+
+// Terms of the band on the tightest bend's curvature (see curvatureBand).
+const (
+	bandFloor = 0.03 // what the line's own making may shift it by, as a share
+	bandBlur  = 0.2  // how much a fit as wide as the bend may flatten it, per window over width
+)
+
+// scaleFit is what the fit of one half-width finds along the measured stretch.
+type scaleFit struct {
+	window float64 // half-width, mm
+	// noise is the curvature the line's wander alone puts into the fit (1/mm, root mean
+	// square), already taken out of the curvature below.
+	noise float64
+	// peak is the mean curvature over the stretch around the greatest where it is within 10 %
+	// of the greatest; width is the length of the stretch within 20 % (mm).
+	peak, width float64
 }
 
 // NewCenterline builds a centerline from points already spaced ds apart (the last step may be
-// shorter): tangents and curvature from a local quadratic fit of half-width window mm, frames
-// transported both ways from the point of greatest curvature. Curvature is trusted only between
-// trustFrom and trustTo (mm of arc length): beyond, where an end was carried straight to the
-// wall, each end keeps the curvature found at its edge of the trusted stretch.
-func NewCenterline(pts []mgl64.Vec3, ds, window, trustFrom, trustTo float64) *Centerline {
+// shorter): tangents and curvature from a local quadratic fit, frames transported both ways
+// from the point of greatest curvature.
+//
+// The fit's half-width is chosen from the line itself. The line is fitted at every
+// half-width of curvatureScales from window mm up, the share of its wander (its residual
+// from a wide fit, differentiated as the fit differentiates) taken out of each curvature
+// (|k|^2 - noise^2, so noise does not inflate it), and the tightest bend's curvature read at
+// each. Too narrow a fit follows the wander and too wide a one flattens the bend; between
+// them the reading holds still. The two neighbouring half-widths where it changes least are
+// taken (the wider no wider than one and a half times the bend), the narrower for the
+// curvature along the line, their mean for the tightest bend.
+//
+// Curvature is trusted only between trustFrom and trustTo (mm of arc length): beyond, where
+// an end was carried straight to the wall, each end keeps the curvature found at its edge of
+// the trusted stretch. The end zones (zoneStart mm from the orifice, zoneEnd mm from the
+// apical end) are trusted no more and take no part in the measures.
+func NewCenterline(pts []mgl64.Vec3, ds, window, trustFrom, trustTo, zoneStart, zoneEnd float64) *Centerline {
 	c := &Centerline{Points: pts, S: arcLengths(pts), DS: ds}
-	// A first wide fit finds the main curve; the final fit is as wide as a sixth of that
-	// curved stretch allows (so its peak holds) and no narrower than the noise asks for. A wide
-	// fit calms the facets of a mesh and the steps of a voxelised scan.
-	c.fit(math.Max(window, 1.0), trustFrom, trustTo)
-	w := window
-	if lo, hi := c.peakStretch(0.5); c.K[(lo+hi)/2] > straightCurvature {
-		w = math.Max(window, math.Min((c.S[hi]-c.S[lo])/6, 1.0))
-		// A "curve" that hardly turns the canal is noise: fit as wide as for a long curve.
-		a, b := max(0, lo-c.window), min(len(c.T)-1, hi+c.window)
-		if turn := math.Acos(math.Max(-1, math.Min(1, c.T[a].Dot(c.T[b])))); turn < mgl64.DegToRad(minCurveDeg) {
-			w = math.Max(window, 1.0)
-		}
-	}
-	d2 := c.fit(w, trustFrom, trustTo)
+	c.setZone(zoneStart, zoneEnd)
+	c.fits = c.scaleFits(window)
+	c.scale = steadiestScale(c.fits)
+	w := c.fits[c.scale].window
+	c.zone[0], c.zone[1] = whole(c.zone[0], c.zone[1], max(1, int(math.Round(w/ds))), len(pts))
+	trustFrom = math.Max(trustFrom, c.S[c.zone[0]]-w)
+	trustTo = math.Min(trustTo, c.S[c.zone[1]]+w)
+	d2 := c.fit(w, c.fits[c.scale].noise, trustFrom, trustTo)
 	c.frames(d2)
 	return c
 }
 
-// fit sets tangents and curvature from a local quadratic fit of half-width window mm and
-// returns the second derivatives.
-func (c *Centerline) fit(window, trustFrom, trustTo float64) []mgl64.Vec3 {
+// steadiestScale is the first of the two neighbouring fits where the tightest bend's
+// curvature changes least per step of log half-width, among the pairs whose wider fit is no
+// wider than one and a half times the bend and whose narrower fit holds the line's wander
+// under steadyNoise of the reading (any pair when none does; the narrowest fit when no pair
+// qualifies at all).
+func steadiestScale(fits []scaleFit) int {
+	pick := func(quiet bool) int {
+		best, bestSlope := -1, math.Inf(1)
+		for i := 0; i+1 < len(fits); i++ {
+			a, b := fits[i], fits[i+1]
+			if b.window > 1.5*a.width || a.peak <= 0 || (quiet && a.noise > steadyNoise*a.peak) {
+				continue
+			}
+			slope := math.Abs(a.peak-b.peak) / a.peak / math.Log(b.window/a.window)
+			if slope < bestSlope {
+				best, bestSlope = i, slope
+			}
+		}
+		return best
+	}
+	if i := pick(true); i >= 0 {
+		return i
+	}
+	return max(pick(false), 0)
+}
+
+// steadyNoise is the most of the reading the line's wander may make at a fit the steadiest
+// pair starts from.
+const steadyNoise = 0.1
+
+// tightest is the tightest bend's curvature (1/mm) read at the chosen pair of fits.
+func (c *Centerline) tightest() float64 {
+	a := c.fits[c.scale]
+	if c.scale+1 < len(c.fits) {
+		return (a.peak + c.fits[c.scale+1].peak) / 2
+	}
+	return a.peak
+}
+
+// curvatureBand is how well the line pins down the tightest bend's curvature, [low, high]
+// in 1/mm: the readings of the chosen pair of fits, widened by the wander's share at that
+// half-width (one standard deviation), by bandFloor for what the making of the line may
+// shift, and upward by bandBlur times how far the wider fit exceeds half the bend's width
+// (a fit as wide as a short bend flattens it).
+func (c *Centerline) curvatureBand() (lo, hi float64) {
+	a := c.fits[c.scale]
+	b := a
+	if c.scale+1 < len(c.fits) {
+		b = c.fits[c.scale+1]
+	}
+	blur := bandBlur * math.Max(0, b.window/(a.width+c.DS)-0.5)
+	lo = math.Min(a.peak, b.peak)*(1-bandFloor) - a.noise
+	hi = math.Max(a.peak, b.peak)*(1+bandFloor+blur) + a.noise
+	return math.Max(lo, 0), hi
+}
+
+// scaleFits fits the line at every admissible half-width.
+func (c *Centerline) scaleFits(window float64) []scaleFit {
+	n := len(c.Points)
+	// The wander: the line less its wide quadratic fit.
+	ref := smoothQuadratic(c.Points, max(1, int(math.Round(noiseReference/c.DS))))
+	wander := make([]mgl64.Vec3, n)
+	for i := range wander {
+		wander[i] = c.Points[i].Sub(ref[i])
+	}
+	lo, hi := c.zone[0], c.zone[1]
+	var out []scaleFit
+	sq := make([]float64, 0, hi-lo+1)
+	for _, w := range curvatureScales {
+		if w < window && w != curvatureScales[len(curvatureScales)-1] {
+			continue
+		}
+		m := max(1, int(math.Round(w/c.DS)))
+		d1, d2 := derivatives(c.Points, c.DS, m)
+		t, k := curvatureOf(d1, d2)
+		_, e2 := derivatives(wander, c.DS, m)
+		sq = sq[:0]
+		for i := lo; i <= hi; i++ {
+			v := e2[i].Sub(t[i].Mul(e2[i].Dot(t[i])))
+			sq = append(sq, v.LenSqr())
+		}
+		// A wander vector across the line has two Gaussian components: its squared length is
+		// exponential, with median 2 sigma^2 ln 2.
+		slices.Sort(sq)
+		noise := math.Sqrt(sq[len(sq)/2] / math.Ln2)
+		// The peak is read only where the whole window lies on the line: near an end the fit
+		// shrinks to what is left, and a short fit there reads the end's wander.
+		wlo, whi := whole(lo, hi, m, n)
+		arg := wlo
+		for i := lo; i <= hi; i++ {
+			k[i] = math.Sqrt(math.Max(k[i]*k[i]-noise*noise, 0))
+			if i >= wlo && i <= whi && k[i] > k[arg] {
+				arg = i
+			}
+		}
+		stretch := func(frac float64) (int, int) {
+			a, b := arg, arg
+			for a > wlo && k[a-1] >= frac*k[arg] {
+				a--
+			}
+			for b < whi && k[b+1] >= frac*k[arg] {
+				b++
+			}
+			return a, b
+		}
+		a, b := stretch(0.9)
+		sum := 0.0
+		for i := a; i <= b; i++ {
+			sum += k[i]
+		}
+		a8, b8 := stretch(0.8)
+		out = append(out, scaleFit{window: w, noise: noise, peak: sum / float64(b-a+1), width: c.S[b8] - c.S[a8]})
+	}
+	return out
+}
+
+// whole narrows the stations lo..hi of a line of n to those where a fit of half-width m
+// stations lies whole on the line (all of lo..hi when none does).
+func whole(lo, hi, m, n int) (int, int) {
+	a, b := max(lo, m), min(hi, n-1-m)
+	if a > b {
+		return lo, hi
+	}
+	return a, b
+}
+
+// smoothQuadratic is each point's local quadratic fit over a half-width of m points (the
+// window shrinking symmetrically at the ends).
+func smoothQuadratic(pts []mgl64.Vec3, m int) []mgl64.Vec3 {
+	n := len(pts)
+	out := make([]mgl64.Vec3, n)
+	for i := range pts {
+		h := min(m, i, n-1-i)
+		var s2, s4 float64
+		for j := -h; j <= h; j++ {
+			s2 += float64(j * j)
+			s4 += float64(j * j * j * j)
+		}
+		cnt := float64(2*h + 1)
+		den := cnt*s4 - s2*s2
+		if den == 0 {
+			out[i] = pts[i]
+			continue
+		}
+		var a mgl64.Vec3
+		for j := -h; j <= h; j++ {
+			a = a.Add(pts[i+j].Mul((s4 - s2*float64(j*j)) / den))
+		}
+		out[i] = a
+	}
+	return out
+}
+
+// setZone keeps the stations more than a mm from the start and b mm from the end for the
+// measures; a line too short for both keeps its middle station.
+func (c *Centerline) setZone(a, b float64) {
+	n := len(c.S)
+	L := c.S[n-1]
+	lo, hi := 0, n-1
+	for lo < n-1 && c.S[lo] < a {
+		lo++
+	}
+	for hi > 0 && c.S[hi] > L-b {
+		hi--
+	}
+	if lo > hi {
+		lo, hi = n/2, n/2
+	}
+	c.zone = [2]int{lo, hi}
+}
+
+// fit sets tangents and curvature from a local quadratic fit of half-width window mm, with
+// the share noise (1/mm) of the line's wander taken out, and returns the second derivatives.
+func (c *Centerline) fit(window, noise, trustFrom, trustTo float64) []mgl64.Vec3 {
 	m := max(1, int(math.Round(window/c.DS)))
 	c.window = m
 	d1, d2 := derivatives(c.Points, c.DS, m)
 	c.T, c.K = curvatureOf(d1, d2)
+	for i, k := range c.K {
+		c.K[i] = math.Sqrt(math.Max(k*k-noise*noise, 0))
+	}
 	lo := c.Station(trustFrom + window)
 	hi := c.Station(trustTo - window)
 	if lo < hi {
@@ -144,20 +354,22 @@ func (c *Centerline) peakStation() int {
 	return (lo + hi) / 2
 }
 
-// peakStretch returns the contiguous stations around the highest curvature where k >= frac k_max.
+// peakStretch returns the contiguous stations around the highest curvature where k >= frac k_max,
+// within the measured zone.
 func (c *Centerline) peakStretch(frac float64) (lo, hi int) {
-	arg := 0
-	for i, k := range c.K {
-		if k > c.K[arg] {
+	z0, z1 := c.zone[0], c.zone[1]
+	arg := z0
+	for i := z0; i <= z1; i++ {
+		if c.K[i] > c.K[arg] {
 			arg = i
 		}
 	}
 	lim := frac * c.K[arg]
 	lo, hi = arg, arg
-	for lo > 0 && c.K[lo-1] >= lim {
+	for lo > z0 && c.K[lo-1] >= lim {
 		lo--
 	}
-	for hi < len(c.K)-1 && c.K[hi+1] >= lim {
+	for hi < z1 && c.K[hi+1] >= lim {
 		hi++
 	}
 	return lo, hi

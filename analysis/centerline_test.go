@@ -30,7 +30,7 @@ func specJSON(t testing.TB, segments string, orificeD, apicalD, oval float64) *m
 // construction and s* on the true geometry.
 func exactLine(spec *models.CanalSpec) *Centerline {
 	pts, _, _ := spec.Centerline(StationSpacing)
-	c := NewCenterline(pts, StationSpacing, 0.1, 0, math.Inf(1))
+	c := NewCenterline(pts, StationSpacing, 0.1, 0, math.Inf(1), 0, 0)
 	for i, s := range c.S {
 		c.K[i] = spec.Curvature(s)
 	}
@@ -114,7 +114,7 @@ func checkAgainstExact(t *testing.T, c *Canal, spec *models.CanalSpec, tol, radi
 	if rel := math.Abs(c.Line.Length()-L) / L; rel > 0.01 {
 		t.Errorf("length %.3f mm against %.3f exact (%.2f%%, limit 1%%)", c.Line.Length(), L, 100*rel)
 	}
-	ex := Measure(exactLine(spec))
+	ex := Measure(exactLine(spec), 0.005)
 	m := c.Measures
 	if math.IsInf(ex.MaxCurvatureR, 1) {
 		if !math.IsInf(m.MaxCurvatureR, 1) && m.MaxCurvatureR < 50 {
@@ -136,7 +136,7 @@ func checkAgainstExact(t *testing.T, c *Canal, spec *models.CanalSpec, tol, radi
 func TestSchneiderConstruction(t *testing.T) {
 	for _, a := range []float64{20, 40, 70} {
 		spec := specJSON(t, fmt.Sprintf(`{"kind":"straight","length":8},{"kind":"arc","radius":5,"angle":%g}`, a), 1, 0.3, 0)
-		m := Measure(exactLine(spec))
+		m := Measure(exactLine(spec), 0.005)
 		if d := math.Abs(m.SchneiderDeg - a/2); d > 0.3 {
 			t.Errorf("arc of %g deg at the foramen: Schneider %.2f, want %.2f", a, m.SchneiderDeg, a/2)
 		}
@@ -147,7 +147,7 @@ func TestSchneiderConstruction(t *testing.T) {
 	z := R*math.Sin(a) + tail*math.Cos(a)
 	want := mgl64.RadToDeg(math.Atan2(x, z))
 	spec := specJSON(t, `{"kind":"straight","length":8},{"kind":"arc","radius":5,"angle":45},{"kind":"straight","length":3}`, 1, 0.3, 0)
-	m := Measure(exactLine(spec))
+	m := Measure(exactLine(spec), 0.005)
 	if d := math.Abs(m.SchneiderDeg - want); d > 0.3 {
 		t.Errorf("arc with straight tail: Schneider %.2f, want %.2f", m.SchneiderDeg, want)
 	}

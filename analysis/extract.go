@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 
 	"github.com/go-gl/mathgl/mgl64"
@@ -29,6 +30,9 @@ type extraction struct {
 	// straight along its tangent to the wall.
 	measuredFrom, measuredTo float64
 	head, tail               extension
+	// endRadius is the long semi-axis of the canal at the orifice and at the apical end
+	// (the mean largest distance to the wall over the first and last mm measured).
+	endRadius [2]float64
 }
 
 // extension is a straight piece added at one end of the measured line.
@@ -82,6 +86,11 @@ func extractCenterline(ctx context.Context, m *mesh.Mesh, bvh *mesh.BVH, opt Ext
 	sq := squaredDistance(grid, workers)
 	vg := newVoxelGraph(grid, sq)
 	if len(vg.cells) < 8 {
+		if expect := vol / (h * h * h); expect > 100 {
+			// The surface encloses volume, yet almost no point is inside it an odd number of
+			// times: its shells cancel out.
+			return nil, info, fmt.Errorf("the surface encloses %.3g mm3, but almost no point lies inside it: it holds the same surface twice (two copies, or one shell inside another); remove the copy, or keep one shell with --shell N where they are separate", vol)
+		}
 		return nil, info, fmt.Errorf("the canal is too thin for a %.3f mm voxel grid (only %d voxels inside)", h, len(vg.cells))
 	}
 	if err := ctx.Err(); err != nil {
@@ -94,50 +103,47 @@ func extractCenterline(ctx context.Context, m *mesh.Mesh, bvh *mesh.BVH, opt Ext
 			seed = int32(n)
 		}
 	}
-	fromSeed, _ := vg.dijkstra([]int32{seed}, nil)
-	unreached := 0
-	for _, d := range fromSeed {
-		if math.IsInf(d, 1) {
-			unreached++
-		}
-	}
-	if unreached > 0 {
+	canal, reached := vg.component(seed)
+	if unreached := len(vg.cells) - reached; unreached > 0 {
 		info.warnings = append(info.warnings, fmt.Sprintf(
 			"%.1f%% of the enclosed volume is in pieces separate from the widest canal and was left out",
 			100*float64(unreached)/float64(len(vg.cells))))
 	}
-	a, _ := farthest(fromSeed)
-	fromA, _ := vg.dijkstra([]int32{a}, nil)
-	b, _ := farthest(fromA)
+	// The far ends by a double sweep on a grid twice as coarse: the ends are cut off and
+	// re-made later, and the searches over the whole canal cost an eighth.
+	cg := vg.coarsen(canal)
+	farFrom := func(n int32) int32 {
+		d, _ := cg.dijkstra([]int32{n})
+		far, _ := farthest(d)
+		return far
+	}
+	aC := farFrom(cg.up[seed])
+	bC := farFrom(aC)
+	a, b := cg.rep[aC], cg.rep[bC]
 	if opt.Orifice != nil {
-		a = vg.nearest(*opt.Orifice, fromSeed)
+		a = vg.nearest(*opt.Orifice, canal)
 	}
 	if opt.Apex != nil {
-		b = vg.nearest(*opt.Apex, fromSeed)
+		b = vg.nearest(*opt.Apex, canal)
 	}
-	if opt.Orifice == nil && opt.Apex == nil && vg.endWidth(b) > vg.endWidth(a) {
-		a, b = b, a // the wider end is the orifice
-	} else if opt.Orifice == nil && opt.Apex != nil {
-		fromB, _ := vg.dijkstra([]int32{b}, nil)
-		a, _ = farthest(fromB)
+	if opt.Orifice == nil && opt.Apex != nil {
+		a = cg.rep[farFrom(cg.up[b])]
 	} else if opt.Apex == nil && opt.Orifice != nil {
-		fromOrifice, _ := vg.dijkstra([]int32{a}, nil)
-		b, _ = farthest(fromOrifice)
+		b = cg.rep[farFrom(cg.up[a])]
 	}
 	if err := ctx.Err(); err != nil {
 		return nil, info, err
 	}
 	// Minimal path through the middle: cost 1/(DT^2 + eps) keeps it on the distance ridge.
 	eps := h * h * 0.25
-	_, prev := vg.dijkstra([]int32{a}, func(p, q int32) float64 {
-		dp, dq := vg.dist[p], vg.dist[q]
-		return 0.5 * (1/(dp*dp+eps) + 1/(dq*dq+eps))
-	})
-	path := tracePath(prev, b)
+	cost := make([]float64, len(vg.cells))
+	for n, d := range vg.dist {
+		cost[n] = 1 / (d*d + eps)
+	}
+	path := vg.minimalPath(a, b, cost)
 	if len(path) < 2 || path[0] != a {
 		return nil, info, errors.New("no path joins the two ends of the canal")
 	}
-	info.warnings = append(info.warnings, vg.branchWarnings(path)...)
 	raw := make([]mgl64.Vec3, len(path))
 	for i, n := range path {
 		raw[i] = vg.center(n)
@@ -155,21 +161,42 @@ func extractCenterline(ctx context.Context, m *mesh.Mesh, bvh *mesh.BVH, opt Ext
 	if err := ctx.Err(); err != nil {
 		return nil, info, err
 	}
-	pts, moved := recentre(m, pts, bvh, ds, workers)
-	// Stations whose cross-section met an end cap could not be re-centred: near a wide end
-	// they still lean toward the rim, so they are cut off too.
+	pts, sec := recentre(pts, bvh, ds, workers)
+	// Stations whose cross-section could not be outlined (a ray slipped out through a hole or
+	// past the end) are cut off the ends and bridged inside.
 	first, last := 0, len(pts)-1
-	for first < last && !moved[first] {
+	for first < last && !sec[first].ok {
 		first++
 	}
-	for last > first && !moved[last] {
+	for last > first && !sec[last].ok {
 		last--
 	}
 	if last-first < 3 {
 		return nil, info, errors.New("no cross-section of the canal could be outlined: is the surface closed?")
 	}
-	pts, moved = pts[first:last+1], moved[first:last+1]
-	fillUnmoved(pts, moved)
+	pts, sec = pts[first:last+1], sec[first:last+1]
+	fillUnmoved(pts, sec)
+	info.warnings = append(info.warnings, cg.branchWarnings(path, sec)...)
+	if opt.Orifice == nil && opt.Apex == nil {
+		// The orifice is the wider end, judged by the mean width of the sections over the
+		// last 2 mm at each end (one wide section at a rim cannot decide it).
+		wa, wb := endWidths(pts, sec, ds)
+		if wb > wa {
+			slices.Reverse(pts)
+			slices.Reverse(sec)
+			rStart, rEnd = rEnd, rStart
+			wa, wb = wb, wa
+		}
+		if wb > 0.85*wa {
+			info.warnings = append(info.warnings, fmt.Sprintf(
+				"the two ends of the canal are close in width (%.2f and %.2f mm across): the wider was taken as the orifice; if that is wrong, name an end with --orifice X,Y,Z or --apical-end X,Y,Z",
+				wa, wb))
+		}
+	}
+	info.endRadius = [2]float64{endReach(sec, ds, false), endReach(sec, ds, true)}
+	// The sections of the last stations may still meet an end cap (an oblique cut, the rim of
+	// a wide end): their centroids pull the line off its course, so they go too.
+	pts = trimBent(pts, sec, math.Max(0.02, 0.3*info.noise), info.endRadius)
 	pts = resample(smoothGaussian(pts, math.Max(1, 2*info.noise/ds)), ds)
 	measured := arcLengths(pts)
 	info.head, info.tail = extendToWall(pts, bvh, rStart, rEnd)
@@ -179,11 +206,11 @@ func extractCenterline(ctx context.Context, m *mesh.Mesh, bvh *mesh.BVH, opt Ext
 	return pts, info, nil
 }
 
-// nearest returns the reached node closest to p.
-func (vg *voxelGraph) nearest(p mgl64.Vec3, reach []float64) int32 {
+// nearest returns the node of the canal closest to p.
+func (vg *voxelGraph) nearest(p mgl64.Vec3, canal []bool) int32 {
 	best, bd := int32(0), math.Inf(1)
 	for n := range vg.cells {
-		if math.IsInf(reach[n], 1) {
+		if !canal[n] {
 			continue
 		}
 		if d := vg.center(int32(n)).Sub(p).Len(); d < bd {
@@ -193,26 +220,28 @@ func (vg *voxelGraph) nearest(p mgl64.Vec3, reach []float64) int32 {
 	return best
 }
 
-// endWidth is the widest distance-to-wall within 1 mm (geodesic) of an end node.
-func (vg *voxelGraph) endWidth(end int32) float64 {
-	d, _ := vg.dijkstra([]int32{end}, nil, 1.0)
-	w := 0.0
-	for n, dn := range d {
-		if dn <= 1.0 {
-			w = math.Max(w, vg.dist[n])
+// branchWarnings reports inside volume that reaches far from the chosen path (fine nodes): a
+// lateral canal or a second root canal joined to this one, measured on the coarse grid. Its
+// own sections (sec) say how far the canal itself reaches from its axis: an oval's long
+// semi-axis is no branch.
+func (cg *coarseGraph) branchWarnings(path []int32, sec []section) []string {
+	var from []int32
+	for _, n := range path {
+		if m := cg.up[n]; m >= 0 && (len(from) == 0 || from[len(from)-1] != m) {
+			from = append(from, m)
 		}
 	}
-	return w
-}
-
-// branchWarnings reports inside volume that reaches far from the chosen path: a lateral canal
-// or a second root canal joined to this one.
-func (vg *voxelGraph) branchWarnings(path []int32) []string {
-	fromPath, _ := vg.dijkstra(path, nil)
+	fromPath, _ := cg.dijkstra(from)
 	maxR := 0.0
-	for _, n := range path {
-		maxR = math.Max(maxR, vg.dist[n])
+	for _, n := range from {
+		maxR = math.Max(maxR, cg.dist[n])
 	}
+	for _, sc := range sec {
+		if sc.ok {
+			maxR = math.Max(maxR, 0.75*sc.far)
+		}
+	}
+	vg := cg.voxelGraph
 	reach := 0.0
 	for n, d := range fromPath {
 		if !math.IsInf(d, 1) && d-vg.dist[n] > reach {
@@ -223,6 +252,103 @@ func (vg *voxelGraph) branchWarnings(path []int32) []string {
 		return []string{fmt.Sprintf("a branch reaching %.1f mm from the main canal was left out of the centerline", reach)}
 	}
 	return nil
+}
+
+// Stations of the line are checked against its course further in: a quadratic fitted to
+// bentFit stations that lie bentGap stations further in predicts each one.
+const (
+	bentFit = 20 // 1 mm
+	bentGap = 6  // 0.3 mm
+)
+
+// bentReach is how far from an end, in end radii, an end cap can cut the sections: a cut
+// tilted 45 degrees reaches one radius past the axis, and the line may end a radius beyond.
+const bentReach = 2.5
+
+// bentNarrowing is how far from the trend of the sections further in (a share of the width
+// the trend gives) a section's width must be to count as cut by an end cap: narrower where
+// the cap cuts it, wider where the line already leans and its plane crosses the canal aslant.
+const bentNarrowing = 0.02
+
+// trimBent drops the stations at either end of a line spaced StationSpacing apart whose
+// section is cut by an end cap: narrower than the trend of the sections further in by
+// bentNarrowing, and straying more than tol mm from the course the line holds further in.
+// Every station beyond the first such one goes too. Only stations within bentReach end radii
+// (endRadius: at the start, at the end) of an end are checked, and a real curve, whose
+// sections keep their width, is never taken for a cut section.
+func trimBent(pts []mgl64.Vec3, sec []section, tol float64, endRadius [2]float64) []mgl64.Vec3 {
+	n := len(pts)
+	reach := func(r float64) int {
+		return min(int(math.Ceil(bentReach*r/StationSpacing)), n/3-bentGap-bentFit)
+	}
+	// Least-squares weights that give a quadratic's value at x = 0 from its samples at
+	// x = bentGap+1 .. bentGap+bentFit.
+	var xs [bentFit]float64
+	var m mgl64.Mat3
+	for k := range xs {
+		x := float64(bentGap + 1 + k)
+		xs[k] = x
+		row := mgl64.Vec3{1, x, x * x}
+		m = m.Add(outer(row, row))
+	}
+	inv := m.Inv()
+	width := func(i int) float64 { return 2 * math.Sqrt(sec[i].area/math.Pi) }
+	// fitAt fits, over the window that starts bentGap+1 stations in from station k, a
+	// quadratic to the positions and a line to the widths, and returns both at k with the
+	// scatter (root mean square residual) of each about its fit.
+	fitAt := func(k int, at func(int) int) (pos mgl64.Vec3, posScatter, wid, widScatter float64) {
+		var coef [3]mgl64.Vec3
+		var wx, wxx, ww, wxw float64
+		for j, x := range xs {
+			i := at(k + bentGap + 1 + j)
+			row := mgl64.Vec3{1, x, x * x}
+			for a := range 3 {
+				coef[a] = coef[a].Add(row.Mul(pts[i][a]))
+			}
+			wx += x
+			wxx += x * x
+			ww += width(i)
+			wxw += x * width(i)
+		}
+		for a := range 3 {
+			coef[a] = inv.Mul3x1(coef[a])
+		}
+		slope := (bentFit*wxw - wx*ww) / (bentFit*wxx - wx*wx)
+		icpt := (ww - slope*wx) / bentFit
+		var sp, sw float64
+		for j, x := range xs {
+			i := at(k + bentGap + 1 + j)
+			q := mgl64.Vec3{coef[0].Dot(mgl64.Vec3{1, x, x * x}), coef[1].Dot(mgl64.Vec3{1, x, x * x}), coef[2].Dot(mgl64.Vec3{1, x, x * x})}
+			sp += pts[i].Sub(q).LenSqr()
+			d := width(i) - (icpt + slope*x)
+			sw += d * d
+		}
+		return mgl64.Vec3{coef[0][0], coef[1][0], coef[2][0]}, math.Sqrt(sp / bentFit), icpt, math.Sqrt(sw / bentFit)
+	}
+	strays := func(k int, at func(int) int) (bool, bool) {
+		pred, ps, wPred, ws := fitAt(k, at)
+		i := at(k)
+		return pts[i].Sub(pred).Len() > math.Max(tol, 4*ps), math.Abs(width(i)-wPred) > math.Max(bentNarrowing*wPred, 4*ws)
+	}
+	// cut walks outward to the first station that strays and whose width is off its trend;
+	// the straying stations just inside it belong to the same bend and go too.
+	cut := func(start int, at func(int) int) int {
+		for k := start; k >= 0; k-- {
+			if off, wide := strays(k, at); off && wide {
+				for k < start {
+					if off, _ := strays(k+1, at); !off {
+						break
+					}
+					k++
+				}
+				return k + 1
+			}
+		}
+		return 0
+	}
+	first := cut(reach(endRadius[0]), func(i int) int { return i })
+	last := n - 1 - cut(reach(endRadius[1]), func(i int) int { return n - 1 - i })
+	return pts[first : last+1]
 }
 
 // extendToWall finds where each end of a medial line, carried along its end tangent, meets
@@ -249,13 +375,24 @@ func extendToWall(pts []mgl64.Vec3, bvh *mesh.BVH, rStart, rEnd float64) (head, 
 // recentreRays is the number of rays that outline a cross-section.
 const recentreRays = 128
 
+// recentreReach bounds each ray of an outline at this many times the median ray: an oval
+// section (long to short axis up to 2) stays whole, a branch's opening is cut off.
+const recentreReach = 2.0
+
+// section is what the rays of one station found: its area and the largest distance from
+// the station to the wall (the long semi-axis of an oval section), mm2 and mm.
+type section struct {
+	ok        bool
+	area, far float64
+}
+
 // recentre moves each station to the centroid of the canal's cross-section in its normal
 // plane, outlined by rays from the station. In an oval canal the distance ridge is a band, so
-// a medial path wanders across it; the centroid does not. Stations whose outline meets an end
-// cap (a hit face almost facing along the axis) keep their place.
-func recentre(m *mesh.Mesh, pts []mgl64.Vec3, bvh *mesh.BVH, ds float64, workers int) ([]mgl64.Vec3, []bool) {
+// a medial path wanders across it; the centroid does not. A station whose rays do not all
+// find the wall keeps its place and is marked not ok.
+func recentre(pts []mgl64.Vec3, bvh *mesh.BVH, ds float64, workers int) ([]mgl64.Vec3, []section) {
 	out := append([]mgl64.Vec3(nil), pts...)
-	moved := make([]bool, len(pts))
+	sec := make([]section, len(pts))
 	d1, _ := derivatives(pts, ds, max(2, int(0.2/ds)))
 	var dirs [recentreRays][2]float64
 	for j := range dirs {
@@ -269,22 +406,74 @@ func recentre(m *mesh.Mesh, pts []mgl64.Vec3, bvh *mesh.BVH, ds float64, workers
 		}
 		u := anyPerpendicular(t)
 		v := t.Cross(u)
-		var xs, ys [recentreRays]float64
+		var xs, ys, ts, sorted [recentreRays]float64
 		for j, dv := range dirs {
 			dir := u.Mul(dv[0]).Add(v.Mul(dv[1]))
 			hit, ok := bvh.Ray(pts[i], dir, 50)
 			if !ok {
 				return
 			}
-			xs[j], ys[j] = hit.T*dv[0], hit.T*dv[1]
+			ts[j] = hit.T
+		}
+		// A ray that runs off into a branch or a side canal would drag the centroid after
+		// it: no ray counts longer than recentreReach times the median.
+		sorted = ts
+		slices.Sort(sorted[:])
+		limit := recentreReach * sorted[recentreRays/2]
+		far := 0.0
+		for j, dv := range dirs {
+			t := math.Min(ts[j], limit)
+			xs[j], ys[j] = t*dv[0], t*dv[1]
+			far = math.Max(far, t)
 		}
 		cx, cy, ok := polygonCentroid(xs[:], ys[:])
 		if ok {
 			out[i] = pts[i].Add(u.Mul(cx)).Add(v.Mul(cy))
-			moved[i] = true
+			sec[i] = section{ok: true, area: polygonArea(xs[:], ys[:]), far: far}
 		}
 	})
-	return out, moved
+	return out, sec
+}
+
+// endWidths is the mean width (diameter of the circle of the same area) of the sections
+// within 2 mm of each end, or over the first and last third of a shorter line.
+func endWidths(pts []mgl64.Vec3, sec []section, ds float64) (start, end float64) {
+	n := min(int(math.Round(2/ds))+1, max(1, len(pts)/3))
+	mean := func(from, to int) float64 {
+		sum, cnt := 0.0, 0
+		for i := from; i < to; i++ {
+			if sec[i].ok {
+				sum += 2 * math.Sqrt(sec[i].area/math.Pi)
+				cnt++
+			}
+		}
+		if cnt == 0 {
+			return 0
+		}
+		return sum / float64(cnt)
+	}
+	return mean(0, n), mean(len(pts)-n, len(pts))
+}
+
+// endReach is the mean largest distance to the wall over the stations within 1 mm of the
+// start (or of the end): the long semi-axis of the canal's end.
+func endReach(sec []section, ds float64, atEnd bool) float64 {
+	n := min(int(math.Round(1/ds))+1, len(sec))
+	sum, cnt := 0.0, 0
+	for k := 0; k < n; k++ {
+		i := k
+		if atEnd {
+			i = len(sec) - 1 - k
+		}
+		if sec[i].ok {
+			sum += sec[i].far
+			cnt++
+		}
+	}
+	if cnt == 0 {
+		return 0
+	}
+	return sum / float64(cnt)
 }
 
 // polygonCentroid is the area centroid of a simple closed polygon.
@@ -302,6 +491,16 @@ func polygonCentroid(xs, ys []float64) (cx, cy float64, ok bool) {
 		return 0, 0, false
 	}
 	return cx / (3 * a2), cy / (3 * a2), true
+}
+
+// polygonArea is the area of a simple closed polygon (shoelace formula).
+func polygonArea(xs, ys []float64) float64 {
+	a2 := 0.0
+	for j := range xs {
+		k := (j + 1) % len(xs)
+		a2 += xs[j]*ys[k] - xs[k]*ys[j]
+	}
+	return math.Abs(a2) / 2
 }
 
 // medianEdge is the median edge length of the mesh's triangles (a sample of up to 20k).
@@ -353,10 +552,10 @@ func trimEnds(pts []mgl64.Vec3, ds, a, b float64) []mgl64.Vec3 {
 // fillUnmoved puts each station that could not be re-centred (a ray slipped through the
 // wall) on the straight line between its nearest re-centred neighbours. The first and last
 // stations have been re-centred.
-func fillUnmoved(pts []mgl64.Vec3, moved []bool) {
+func fillUnmoved(pts []mgl64.Vec3, sec []section) {
 	prev := 0
 	for i := 1; i < len(pts); i++ {
-		if !moved[i] {
+		if !sec[i].ok {
 			continue
 		}
 		for k := prev + 1; k < i; k++ {

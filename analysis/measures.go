@@ -1,6 +1,7 @@
 package analysis
 
 import (
+	"fmt"
 	"math"
 
 	"github.com/go-gl/mathgl/mgl64"
@@ -12,9 +13,16 @@ type Measures struct {
 	MaxCurvatureS float64 // s*, mm from the orifice
 	MaxCurvatureR float64 // 1/k at s*, mm; +Inf for a straight canal
 	SchneiderDeg  float64
-	DepartureS    float64 // where the canal leaves its coronal axis (k > k_max/3), mm
-	ArcRadius     float64 // circle fitted where k > k_max/2, mm; +Inf when straight
-	ArcAngleDeg   float64
+	DepartureS    float64 // where the canal leaves its coronal axis (Schneider's construction), mm
+	// SchneiderTolMM is how far the canal must stray from its coronal axis to count as
+	// leaving it: tied to the scan's resolution (see schneiderTolerance).
+	SchneiderTolMM float64
+	ArcRadius      float64 // circle fitted where k > k_max/2, mm; +Inf when straight
+	ArcAngleDeg    float64
+	// Bands, [low, high]: how well the line pins down the tightest bend's radius (high is
+	// +Inf when the line cannot tell the bend from straight), its place (mm from the
+	// orifice), and the Schneider angle.
+	RadiusRange, SRange, SchneiderRange [2]float64
 }
 
 // straightCurvature is the curvature below which a canal counts as straight (radius over 1 m).
@@ -23,16 +31,34 @@ const straightCurvature = 1e-3
 // minCurveDeg is the smallest turn that counts as a curve.
 const minCurveDeg = 2.0
 
-// Measure computes s*, the Schneider angle and the fitted arc of a centerline.
-func Measure(c *Centerline) Measures {
-	m := Measures{Length: c.Length(), MaxCurvatureR: math.Inf(1), ArcRadius: math.Inf(1)}
+// endZone is the share of an end's radius (its long semi-axis) at each end that takes no
+// part in the measures: where the end cap meets the wall the sections bend and the line with
+// them, and a wide oval orifice would otherwise hold the "tightest bend".
+const endZone = 1.5
+
+// Measure computes s*, the Schneider angle (departure tolerance tol mm) and the fitted arc of
+// a centerline, away from its end zones.
+func Measure(c *Centerline, tol float64) Measures {
+	m := Measures{Length: c.Length(), MaxCurvatureR: math.Inf(1), ArcRadius: math.Inf(1), SchneiderTolMM: tol}
 	star := c.peakStation()
 	m.MaxCurvatureS = c.S[star]
 	kmax := c.K[star]
-	if kmax > straightCurvature {
-		m.MaxCurvatureR = 1 / kmax
+	kStar := kmax
+	klo, khi := kmax, kmax
+	if c.fits != nil {
+		kStar = c.tightest()
+		klo, khi = c.curvatureBand()
 	}
-	m.DepartureS, m.SchneiderDeg = schneider(c)
+	if kStar > straightCurvature {
+		m.MaxCurvatureR = 1 / kStar
+	}
+	m.RadiusRange = [2]float64{1 / khi, math.Inf(1)}
+	if klo > straightCurvature {
+		m.RadiusRange[1] = 1 / klo
+	}
+	m.SRange = c.placeBand(star, klo)
+	m.DepartureS, m.SchneiderDeg = schneider(c, tol)
+	m.SchneiderRange = schneiderBand(c, tol, m.SchneiderDeg)
 	if kmax > straightCurvature {
 		lo, hi := c.peakStretch(0.5)
 		m.ArcRadius, _ = fitArc(c.Points[lo : hi+1])
@@ -47,39 +73,210 @@ func Measure(c *Centerline) Measures {
 	// curve: the canal counts as straight (Schneider: straight up to 5 degrees).
 	if m.ArcAngleDeg < minCurveDeg {
 		m.MaxCurvatureR, m.ArcRadius, m.ArcAngleDeg = math.Inf(1), math.Inf(1), 0
+		m.RadiusRange[1] = math.Inf(1)
 	}
 	return m
 }
 
-// schneider follows Schneider's construction (Oral Surg 1971;32:271): a line along the coronal
-// straight part, a line from the apical end to the point where the canal leaves that axis,
-// and the angle between them. The departure point is the first station from the orifice where
-// the curvature exceeds a third of its peak.
-func schneider(c *Centerline) (departure, deg float64) {
-	n := len(c.Points)
-	kmax := 0.0
-	for _, k := range c.K {
-		kmax = math.Max(kmax, k)
+// When a band counts as wide enough to say so (see Warnings).
+const (
+	wideRadius    = 1.35 // high over low
+	widePlaceMM   = 3.0
+	wideSchneider = 8.0 // degrees
+	nearEndMM     = 1.0
+)
+
+// Warnings say in plain words where the scan does not pin a measure down, and when the
+// tightest bend lies next to an end, where a scan is least sure of the line.
+func (m Measures) Warnings() []string {
+	var out []string
+	r := m.RadiusRange
+	switch {
+	case math.IsInf(m.MaxCurvatureR, 1):
+	case math.IsInf(r[1], 1):
+		out = append(out, fmt.Sprintf("the scan cannot tell the tightest bend (r %.1f mm) from a straight canal: its radius could be anything above %.1f mm", m.MaxCurvatureR, r[0]))
+	case r[1] > wideRadius*r[0]:
+		out = append(out, fmt.Sprintf("the scan does not pin the tightest bend down better than r %.1f-%.1f mm", r[0], r[1]))
 	}
-	// Walk back from the peak of the main curve while the curvature stays above a third of
-	// it: noise elsewhere along a scanned canal cannot move the departure point.
-	dep := 0
-	if kmax > straightCurvature {
-		dep = c.peakStation()
-		for dep > 0 && c.K[dep-1] > kmax/3 {
-			dep--
+	if !math.IsInf(m.MaxCurvatureR, 1) && m.SRange[1]-m.SRange[0] > widePlaceMM {
+		out = append(out, fmt.Sprintf("the scan does not pin the place of the tightest bend down better than %.1f-%.1f mm from the apical end",
+			m.Length-m.SRange[1], m.Length-m.SRange[0]))
+	}
+	if a := m.SchneiderRange; a[1]-a[0] > wideSchneider {
+		out = append(out, fmt.Sprintf("the scan does not pin the Schneider angle down better than %.0f-%.0f degrees", a[0], a[1]))
+	}
+	if !math.IsInf(m.MaxCurvatureR, 1) {
+		if m.MaxCurvatureS < nearEndMM {
+			out = append(out, fmt.Sprintf("the tightest bend lies %.1f mm from the orifice, where the end of the scan may bend the centerline: check the end there", m.MaxCurvatureS))
+		} else if from := m.Length - m.MaxCurvatureS; from < nearEndMM {
+			out = append(out, fmt.Sprintf("the tightest bend lies %.1f mm from the apical end, where the end of the scan may bend the centerline: check the end there", from))
 		}
 	}
-	axis := c.T[0]
-	if chord := c.Points[dep].Sub(c.Points[0]); chord.Len() > 1.0 {
-		axis = chord.Normalize()
+	return out
+}
+
+// placeBand is the stretch around station star (within the measured zone) where the
+// curvature reaches klo, the low end of the tightest bend's band: the line cannot say the
+// tightest bend lies anywhere else. Its ends are given in mm from the orifice.
+func (c *Centerline) placeBand(star int, klo float64) [2]float64 {
+	lo, hi := star, star
+	for lo > c.zone[0] && c.K[lo-1] >= klo {
+		lo--
 	}
-	apical := c.Points[n-1].Sub(c.Points[dep])
-	if apical.Len() < 1e-9 {
-		return c.S[dep], 0
+	for hi < c.zone[1] && c.K[hi+1] >= klo {
+		hi++
 	}
-	cos := axis.Dot(apical.Normalize())
-	return c.S[dep], mgl64.RadToDeg(math.Acos(math.Max(-1, math.Min(1, cos))))
+	return [2]float64{c.S[lo], c.S[hi]}
+}
+
+// schneiderBand is how well the construction pins the angle down: the construction again
+// with half and twice the tolerance, widened by the angles the tolerance subtends seen from
+// the departure point to the apical end (where the apical end lies) and over the length of
+// the coronal axis (which way the axis runs).
+func schneiderBand(c *Centerline, tol, deg float64) [2]float64 {
+	lo, hi := deg, deg
+	for _, f := range []float64{0.5, 2} {
+		_, d := schneider(c, f*tol)
+		lo, hi = math.Min(lo, d), math.Max(hi, d)
+	}
+	dep, _ := schneider(c, tol)
+	slack := 0.0
+	if reach := c.Points[len(c.Points)-1].Sub(c.Points[c.Station(dep)]).Len(); reach > 0 {
+		slack += mgl64.RadToDeg(math.Atan(tol / reach))
+	}
+	z := c.zone[0]
+	if _, _, end := coronalAxis(c.Points[z:c.zone[1]+1], tol/2); end > 0 {
+		slack += mgl64.RadToDeg(math.Atan(tol / (c.S[z+end] - c.S[z])))
+	}
+	return [2]float64{math.Max(0, lo-slack), math.Min(180, hi+slack)}
+}
+
+// schneiderTolerance is how far (mm) a scanned canal must stray from its coronal axis to count
+// as leaving it in Schneider's construction: half the scan's resolution (its voxel, or the
+// median edge of its surface, whichever is larger) and no less than 0.02 mm. A centerline
+// found in a scan wanders by a fraction of a voxel; a tolerance under that would find the
+// departure in the wander.
+func schneiderTolerance(voxel, surfaceDetail float64) float64 {
+	return math.Max(0.02, 0.5*math.Max(voxel, surfaceDetail))
+}
+
+// schneider follows Schneider's construction (Oral Surg Oral Med Oral Pathol 1971;32:271): a
+// line along the coronal axis of the canal, the point where the canal first leaves that
+// line, a line from there to the apical end, and the angle between the two lines. Here the
+// axis is the line fitted to the longest stretch after the orifice zone that stays within
+// half the tolerance of its own fitted line; the canal leaves the axis where its distance
+// from it first exceeds tol, and since a curve that starts tangent to the axis departs as the
+// square of the arc length, the departure point is carried back to where that square law
+// starts (a fit of sqrt(distance) against s over the stations from tol to 3 tol). It returns
+// the departure (mm from the orifice) and the angle in degrees.
+func schneider(c *Centerline, tol float64) (departure, deg float64) {
+	lo, hi := c.zone[0], c.zone[1]
+	n := len(c.Points)
+	apex := c.Points[n-1]
+	if hi-lo < 4 {
+		return c.S[lo], 0
+	}
+	origin, axis, end := coronalAxis(c.Points[lo:hi+1], tol/2)
+	end += lo
+	dep := departureOf(c, origin, axis, lo, end, hi, tol)
+	// The departure point on the line, between stations.
+	i := min(int(dep), n-2)
+	f := dep - float64(i)
+	p := c.Points[i].Mul(1 - f).Add(c.Points[i+1].Mul(f))
+	departure = c.S[i] + f*(c.S[i+1]-c.S[i])
+	toApex := apex.Sub(p)
+	if toApex.Len() < 1e-9 {
+		return departure, 0
+	}
+	cos := axis.Dot(toApex.Normalize())
+	return departure, mgl64.RadToDeg(math.Acos(math.Max(-1, math.Min(1, cos))))
+}
+
+// coronalAxis fits a line to the longest first stretch of pts (at least 1 mm or a quarter of
+// them) whose every point lies within tol of the fitted line. It returns the line (a point
+// and the unit direction toward the rest of pts) and the index of the stretch's last point.
+func coronalAxis(pts []mgl64.Vec3, tol float64) (origin, axis mgl64.Vec3, end int) {
+	first := min(len(pts)-1, max(4, min(int(1.0/StationSpacing), len(pts)/4)))
+	end = first
+	// Sums for the least-squares line, grown one point at a time.
+	var sum mgl64.Vec3
+	var sxx mgl64.Mat3
+	fit := func(k int) (mgl64.Vec3, mgl64.Vec3) {
+		o := sum.Mul(1 / float64(k))
+		cov := sxx.Sub(outer(o, o).Mul(float64(k)))
+		d, _ := planeAxes(cov)
+		if d.Dot(pts[k-1].Sub(pts[0])) < 0 {
+			d = d.Mul(-1)
+		}
+		return o, d
+	}
+	straight := func(o, d mgl64.Vec3, k int) bool {
+		for _, p := range pts[:k] {
+			q := p.Sub(o)
+			if q.Sub(d.Mul(q.Dot(d))).LenSqr() > tol*tol {
+				return false
+			}
+		}
+		return true
+	}
+	for i, p := range pts {
+		sum = sum.Add(p)
+		sxx = sxx.Add(outer(p, p))
+		if i < first {
+			continue
+		}
+		if i == first || (i-first)%2 == 0 {
+			o, d := fit(i + 1)
+			if i > first && !straight(o, d, i+1) {
+				break
+			}
+			origin, axis, end = o, d, i
+		}
+	}
+	return origin, axis, end
+}
+
+// departureOf finds where the line leaves the axis (origin, unit axis) by more than tol after
+// station from, and carries it back along the square law of a tangent curve. It returns a
+// fractional station; hi when the line never leaves.
+func departureOf(c *Centerline, origin, axis mgl64.Vec3, lo, from, hi int, tol float64) float64 {
+	dist := func(i int) float64 {
+		d := c.Points[i].Sub(origin)
+		return d.Sub(axis.Mul(d.Dot(axis))).Len()
+	}
+	first := -1
+	for i := from; i <= hi; i++ {
+		if dist(i) > tol {
+			first = i
+			break
+		}
+	}
+	if first < 0 {
+		return float64(hi)
+	}
+	// sqrt(d) = (s - s0)/sqrt(2R) for a circle leaving the axis at s0: fit over tol..3 tol.
+	var sx, sy, sxx, sxy, cnt float64
+	for i := first; i <= hi; i++ {
+		d := dist(i)
+		if d > 3*tol {
+			break
+		}
+		x, y := c.S[i], math.Sqrt(d)
+		sx += x
+		sy += y
+		sxx += x * x
+		sxy += x * y
+		cnt++
+	}
+	s0 := c.S[first]
+	if den := cnt*sxx - sx*sx; cnt >= 3 && den > 0 {
+		slope := (cnt*sxy - sx*sy) / den
+		if slope > 0 {
+			s0 = (sx - sy/slope) / cnt
+		}
+	}
+	s0 = math.Max(c.S[lo], math.Min(s0, c.S[first]))
+	return float64(lo) + (s0-c.S[lo])/c.DS
 }
 
 // fitArc fits a circle to points of a nearly planar curve: best plane by the smallest

@@ -117,19 +117,45 @@ func (c *Canal) placeVertices(workers int) {
 	})
 }
 
-// pointGrid finds the nearest of a set of points by looking in nearby cells first.
+// pointGrid finds the nearest of a set of points by looking in nearby cells first. The cells
+// cover the points' box in one flat array (a station list is small: a few thousand cells).
 type pointGrid struct {
 	cell  float64
 	lo    mgl64.Vec3
-	cells map[[3]int][]int32
+	n     [3]int
+	start []int32 // cell c holds order[start[c]:start[c+1]]
+	order []int32
 	pts   []mgl64.Vec3
 }
 
 func newPointGrid(pts []mgl64.Vec3, cell float64) *pointGrid {
-	g := &pointGrid{cell: cell, lo: pts[0], cells: map[[3]int][]int32{}, pts: pts}
+	g := &pointGrid{cell: cell, lo: pts[0], pts: pts}
+	hi := pts[0]
+	for _, p := range pts {
+		for a := range 3 {
+			g.lo[a] = math.Min(g.lo[a], p[a])
+			hi[a] = math.Max(hi[a], p[a])
+		}
+	}
+	for a := range 3 {
+		g.n[a] = int(math.Floor((hi[a]-g.lo[a])/cell)) + 1
+	}
+	cells := g.n[0] * g.n[1] * g.n[2]
+	g.start = make([]int32, cells+1)
+	at := make([]int, len(pts))
 	for i, p := range pts {
 		k := g.key(p)
-		g.cells[k] = append(g.cells[k], int32(i))
+		at[i] = k[0] + g.n[0]*(k[1]+g.n[1]*k[2])
+		g.start[at[i]+1]++
+	}
+	for c := 1; c <= cells; c++ {
+		g.start[c] += g.start[c-1]
+	}
+	g.order = make([]int32, len(pts))
+	fill := append([]int32(nil), g.start[:cells]...)
+	for i := range pts {
+		g.order[fill[at[i]]] = int32(i)
+		fill[at[i]]++
 	}
 	return g
 }
@@ -137,6 +163,17 @@ func newPointGrid(pts []mgl64.Vec3, cell float64) *pointGrid {
 func (g *pointGrid) key(p mgl64.Vec3) [3]int {
 	d := p.Sub(g.lo).Mul(1 / g.cell)
 	return [3]int{int(math.Floor(d[0])), int(math.Floor(d[1])), int(math.Floor(d[2]))}
+}
+
+// at lists the points of cell k (none outside the grid).
+func (g *pointGrid) at(k [3]int) []int32 {
+	for a := range 3 {
+		if k[a] < 0 || k[a] >= g.n[a] {
+			return nil
+		}
+	}
+	c := k[0] + g.n[0]*(k[1]+g.n[1]*k[2])
+	return g.order[g.start[c]:g.start[c+1]]
 }
 
 // nearest searches rings of cells outward until a ring cannot hold anything closer. A ring
@@ -164,7 +201,7 @@ func (g *pointGrid) nearest(p mgl64.Vec3) int {
 					if max(abs(dx), abs(dy), abs(dz)) != r {
 						continue
 					}
-					for _, i := range g.cells[[3]int{k[0] + dx, k[1] + dy, k[2] + dz}] {
+					for _, i := range g.at([3]int{k[0] + dx, k[1] + dy, k[2] + dz}) {
 						if d := g.pts[i].Sub(p).Len(); d < bd || (d == bd && int(i) < best) {
 							best, bd = int(i), d
 						}

@@ -11,22 +11,32 @@ type CanalSummary struct {
 	WorkingLengthMM float64     `json:"working_length_mm"`
 	MaxCurvature    PlaceRadius `json:"max_curvature"`
 	SchneiderDeg    float64     `json:"schneider_angle_deg"`
-	Arc             Arc         `json:"arc"`
-	VoxelMM         float64     `json:"voxel_mm"`
-	Orifice         [3]float64  `json:"orifice"`
-	ApicalEnd       [3]float64  `json:"apical_end"`
-	Warnings        []string    `json:"warnings"`
+	// SchneiderRangeDeg is how well the scan pins the angle down, [low, high].
+	SchneiderRangeDeg [2]float64 `json:"schneider_angle_range_deg"`
+	// SchneiderToleranceMM is how far the canal must leave its coronal axis to count as
+	// leaving it in the construction (tied to the scan's resolution).
+	SchneiderToleranceMM float64    `json:"schneider_tolerance_mm"`
+	Arc                  Arc        `json:"arc"`
+	VoxelMM              float64    `json:"voxel_mm"`
+	Orifice              [3]float64 `json:"orifice"`
+	ApicalEnd            [3]float64 `json:"apical_end"`
+	Warnings             []string   `json:"warnings"`
 	// Unresolved lists the stretches a scan does not resolve (empty for surfaces and specs).
 	Unresolved []UnresolvedSummary `json:"unresolved"`
 	// Points run from the orifice to the apical end: x, y, z in the file's own coordinates and s.
 	Points [][4]float64 `json:"points,omitempty"`
 }
 
-// PlaceRadius is where the canal bends most and how tightly.
+// PlaceRadius is where the canal bends most and how tightly, each with the band [low, high]
+// the scan pins it down to. The radius band's high end is null when the scan cannot tell the
+// bend from straight.
 type PlaceRadius struct {
-	SMM        float64  `json:"s_mm"`
-	FromApexMM float64  `json:"from_apex_mm"`
-	RadiusMM   *float64 `json:"radius_mm"`
+	SMM             float64     `json:"s_mm"`
+	FromApexMM      float64     `json:"from_apex_mm"`
+	RadiusMM        *float64    `json:"radius_mm"`
+	RadiusRangeMM   [2]*float64 `json:"radius_range_mm"`
+	SRangeMM        [2]float64  `json:"s_range_mm"`
+	FromApexRangeMM [2]float64  `json:"from_apex_range_mm"`
 }
 
 // Arc is the circle fitted to the curved part.
@@ -53,14 +63,19 @@ func (c *Canal) Summary(withPoints bool) CanalSummary {
 		LengthMM:        round(m.Length, 3),
 		WorkingLengthMM: round(c.WorkingLength, 3),
 		MaxCurvature: PlaceRadius{SMM: round(m.MaxCurvatureS, 3), FromApexMM: round(m.Length-m.MaxCurvatureS, 3),
-			RadiusMM: finite(round(m.MaxCurvatureR, 3))},
-		SchneiderDeg: round(m.SchneiderDeg, 2),
-		Arc:          Arc{RadiusMM: finite(round(m.ArcRadius, 3)), AngleDeg: round(m.ArcAngleDeg, 2)},
-		VoxelMM:      round(c.Voxel, 4),
-		Orifice:      [3]float64(c.Line.Points[0]),
-		ApicalEnd:    [3]float64(c.Line.Points[n-1]),
-		Warnings:     append([]string{}, c.Warnings...),
-		Unresolved:   []UnresolvedSummary{},
+			RadiusMM:        finite(round(m.MaxCurvatureR, 3)),
+			RadiusRangeMM:   [2]*float64{finite(round(m.RadiusRange[0], 3)), finite(round(m.RadiusRange[1], 3))},
+			SRangeMM:        [2]float64{round(m.SRange[0], 3), round(m.SRange[1], 3)},
+			FromApexRangeMM: [2]float64{round(m.Length-m.SRange[1], 3), round(m.Length-m.SRange[0], 3)}},
+		SchneiderDeg:         round(m.SchneiderDeg, 2),
+		SchneiderRangeDeg:    [2]float64{round(m.SchneiderRange[0], 2), round(m.SchneiderRange[1], 2)},
+		SchneiderToleranceMM: round(m.SchneiderTolMM, 4),
+		Arc:                  Arc{RadiusMM: finite(round(m.ArcRadius, 3)), AngleDeg: round(m.ArcAngleDeg, 2)},
+		VoxelMM:              round(c.Voxel, 4),
+		Orifice:              [3]float64(c.Line.Points[0]),
+		ApicalEnd:            [3]float64(c.Line.Points[n-1]),
+		Warnings:             append([]string{}, c.Warnings...),
+		Unresolved:           []UnresolvedSummary{},
 	}
 	for _, u := range c.Unresolved {
 		s.Unresolved = append(s.Unresolved, UnresolvedSummary{FromApexMM: round(m.Length-u.From, 3), ToApexMM: round(m.Length-u.To, 3)})

@@ -20,9 +20,24 @@ type voxelGraph struct {
 		step       float64
 		di, dj, dk int
 	}
+	// interior: no inside voxel touches the grid's border, so every neighbour offset stays
+	// in the grid and the searches skip the bounds checks.
+	interior bool
 }
 
 func newVoxelGraph(g *mesh.Grid, sq []float32) *voxelGraph {
+	vg := graphOf(g)
+	for n, c := range vg.cells {
+		// Centre-to-centre distance to the nearest outside voxel overstates the distance to the
+		// wall by about half a voxel.
+		vg.dist[n] = math.Max(math.Sqrt(float64(sq[c]))-0.5, 0.25) * g.Voxel
+	}
+	return vg
+}
+
+// graphOf numbers the inside voxels of g and sets up the neighbour table; distances to the
+// wall are left for the caller.
+func graphOf(g *mesh.Grid) *voxelGraph {
 	vg := &voxelGraph{g: g, node: make([]int32, len(g.Inside))}
 	for i, in := range g.Inside {
 		if in {
@@ -33,11 +48,6 @@ func newVoxelGraph(g *mesh.Grid, sq []float32) *voxelGraph {
 		}
 	}
 	vg.dist = make([]float64, len(vg.cells))
-	for n, c := range vg.cells {
-		// Centre-to-centre distance to the nearest outside voxel overstates the distance to the
-		// wall by about half a voxel.
-		vg.dist[n] = math.Max(math.Sqrt(float64(sq[c]))-0.5, 0.25) * g.Voxel
-	}
 	k := 0
 	for dk := -1; dk <= 1; dk++ {
 		for dj := -1; dj <= 1; dj++ {
@@ -52,7 +62,75 @@ func newVoxelGraph(g *mesh.Grid, sq []float32) *voxelGraph {
 			}
 		}
 	}
+	vg.interior = true
+	for n := range vg.cells {
+		i, j, k := vg.ijk(int32(n))
+		if i == 0 || j == 0 || k == 0 || i == g.NX-1 || j == g.NY-1 || k == g.NZ-1 {
+			vg.interior = false
+			break
+		}
+	}
 	return vg
+}
+
+// component marks the nodes joined to seed (a flood fill: no distances, so much cheaper
+// than a search) and counts them.
+func (vg *voxelGraph) component(seed int32) ([]bool, int) {
+	in := make([]bool, len(vg.cells))
+	queue := []int32{seed}
+	in[seed] = true
+	for q := 0; q < len(queue); q++ {
+		vg.neighbours(queue[q], func(m int32, _ float64) {
+			if !in[m] {
+				in[m] = true
+				queue = append(queue, m)
+			}
+		})
+	}
+	return in, len(queue)
+}
+
+// coarseGraph is the graph of a grid coarsened two times on each axis, for the searches that
+// only need to know roughly how far things are: a coarse voxel is inside when any of its
+// eight is, its distance to the wall is the largest of theirs.
+type coarseGraph struct {
+	*voxelGraph
+	rep []int32 // per coarse node: the first of its fine nodes
+	up  []int32 // per fine node: its coarse node (-1 when left out)
+}
+
+// coarsen builds the coarse graph of the fine nodes marked keep.
+func (vg *voxelGraph) coarsen(keep []bool) *coarseGraph {
+	g := vg.g
+	cg := &mesh.Grid{Origin: g.Origin, Voxel: 2 * g.Voxel, NX: (g.NX + 1) / 2, NY: (g.NY + 1) / 2, NZ: (g.NZ + 1) / 2}
+	cg.Inside = make([]bool, cg.NX*cg.NY*cg.NZ)
+	parent := func(n int32) int {
+		i, j, k := vg.ijk(n)
+		return cg.Index(i/2, j/2, k/2)
+	}
+	for n := range vg.cells {
+		if keep[n] {
+			cg.Inside[parent(int32(n))] = true
+		}
+	}
+	c := &coarseGraph{voxelGraph: graphOf(cg), up: make([]int32, len(vg.cells))}
+	c.rep = make([]int32, len(c.cells))
+	for i := range c.rep {
+		c.rep[i] = -1
+	}
+	for n := range vg.cells {
+		c.up[n] = -1
+		if !keep[n] {
+			continue
+		}
+		m := c.node[parent(int32(n))]
+		c.up[n] = m
+		c.dist[m] = math.Max(c.dist[m], vg.dist[n])
+		if c.rep[m] < 0 {
+			c.rep[m] = int32(n)
+		}
+	}
+	return c
 }
 
 func (vg *voxelGraph) ijk(n int32) (int, int, int) {
@@ -82,63 +160,106 @@ func (vg *voxelGraph) neighbours(n int32, fn func(m int32, step float64)) {
 	}
 }
 
-type heapItem struct {
-	d float64
-	n int32
+// nodeHeap is an indexed 4-ary heap of nodes keyed by their distance (smallest first, ties by
+// node so every search is deterministic). A node sits in it at most once: lowering its
+// distance moves it up in place, so the heap never holds stale entries.
+type nodeHeap struct {
+	items []int32
+	pos   []int32   // node -> place in items, -1 when not in the heap
+	key   []float64 // the search's distances
 }
 
-// minHeap is a binary heap of (distance, node), smallest first, ties by node so every search
-// is deterministic. Typed rather than container/heap: no boxing, no allocation per push.
-type minHeap []heapItem
-
-func (h minHeap) less(a, b int) bool {
-	if h[a].d != h[b].d {
-		return h[a].d < h[b].d
+func newNodeHeap(key []float64) *nodeHeap {
+	h := &nodeHeap{items: make([]int32, 0, 1024), pos: make([]int32, len(key)), key: key}
+	for i := range h.pos {
+		h.pos[i] = -1
 	}
-	return h[a].n < h[b].n
+	return h
 }
 
-func (h *minHeap) push(it heapItem) {
-	*h = append(*h, it)
-	q := *h
-	for i := len(q) - 1; i > 0; {
-		p := (i - 1) / 2
-		if !q.less(i, p) {
+func (h *nodeHeap) less(a, b int32) bool {
+	if ka, kb := h.key[a], h.key[b]; ka != kb {
+		return ka < kb
+	}
+	return a < b
+}
+
+// update puts node n in the heap or moves it up after its key was lowered.
+func (h *nodeHeap) update(n int32) {
+	i := h.pos[n]
+	if i < 0 {
+		i = int32(len(h.items))
+		h.items = append(h.items, n)
+	}
+	for i > 0 {
+		p := (i - 1) / 4
+		if !h.less(n, h.items[p]) {
 			break
 		}
-		q[i], q[p] = q[p], q[i]
+		h.items[i] = h.items[p]
+		h.pos[h.items[i]] = i
 		i = p
 	}
+	h.items[i] = n
+	h.pos[n] = i
 }
 
-func (h *minHeap) pop() heapItem {
-	q := *h
-	top := q[0]
-	last := len(q) - 1
-	q[0] = q[last]
-	q = q[:last]
-	for i := 0; ; {
-		l, r, m := 2*i+1, 2*i+2, i
-		if l < len(q) && q.less(l, m) {
-			m = l
-		}
-		if r < len(q) && q.less(r, m) {
-			m = r
-		}
-		if m == i {
+// pop removes and returns the node of smallest key.
+func (h *nodeHeap) pop() int32 {
+	top := h.items[0]
+	h.pos[top] = -1
+	last := h.items[len(h.items)-1]
+	h.items = h.items[:len(h.items)-1]
+	if len(h.items) == 0 {
+		return top
+	}
+	i, n := int32(0), int32(len(h.items))
+	for {
+		c := 4*i + 1
+		if c >= n {
 			break
 		}
-		q[i], q[m] = q[m], q[i]
-		i = m
+		best := c
+		for k := c + 1; k < min(c+4, n); k++ {
+			if h.less(h.items[k], h.items[best]) {
+				best = k
+			}
+		}
+		if !h.less(h.items[best], last) {
+			break
+		}
+		h.items[i] = h.items[best]
+		h.pos[h.items[i]] = i
+		i = best
 	}
-	*h = q
+	h.items[i] = last
+	h.pos[last] = i
 	return top
 }
 
 // dijkstra returns distances from the sources over the graph, where crossing an edge costs
-// step * weight(a, b), and the predecessor of every node (-1 for sources and unreached nodes).
+// its length in mm, and the predecessor of every node (-1 for sources and unreached nodes).
 // Nodes farther than limit stay unreached (+Inf).
-func (vg *voxelGraph) dijkstra(sources []int32, weight func(a, b int32) float64, limit ...float64) ([]float64, []int32) {
+func (vg *voxelGraph) dijkstra(sources []int32, limit ...float64) ([]float64, []int32) {
+	bound := math.Inf(1)
+	if len(limit) > 0 {
+		bound = limit[0]
+	}
+	return vg.search(sources, nil, bound, -1)
+}
+
+// minimalPath is the path of least cost from source to target, where crossing an edge
+// between nodes p and q costs its length times (cost[p] + cost[q])/2; the search stops once
+// the target is settled.
+func (vg *voxelGraph) minimalPath(source, target int32, cost []float64) []int32 {
+	_, prev := vg.search([]int32{source}, cost, math.Inf(1), target)
+	return tracePath(prev, target)
+}
+
+// search is Dijkstra's algorithm over the inside voxels. With cost nil an edge costs its
+// length; otherwise its length times the mean cost of its ends. It stops when target (>= 0)
+// is settled; nodes beyond bound stay unreached.
+func (vg *voxelGraph) search(sources []int32, cost []float64, bound float64, target int32) ([]float64, []int32) {
 	n := len(vg.cells)
 	dist := make([]float64, n)
 	prev := make([]int32, n)
@@ -146,31 +267,47 @@ func (vg *voxelGraph) dijkstra(sources []int32, weight func(a, b int32) float64,
 		dist[i] = math.Inf(1)
 		prev[i] = -1
 	}
-	bound := math.Inf(1)
-	if len(limit) > 0 {
-		bound = limit[0]
-	}
-	h := make(minHeap, 0, 1024)
+	h := newNodeHeap(dist)
 	for _, s := range sources {
 		dist[s] = 0
-		h.push(heapItem{0, s})
+		h.update(s)
 	}
-	for len(h) > 0 {
-		it := h.pop()
-		if it.d > dist[it.n] {
-			continue
+	g := vg.g
+	node, cells, nbr := vg.node, vg.cells, &vg.nbr
+	for len(h.items) > 0 {
+		p := h.pop()
+		d := dist[p]
+		if p == target {
+			break
 		}
-		vg.neighbours(it.n, func(m int32, step float64) {
-			w := step
-			if weight != nil {
-				w *= weight(it.n, m)
+		// The 26 neighbours, inlined: this loop is most of the time a canal takes. Off the
+		// grid's border (the usual case: grids are padded) no bounds are checked.
+		c := cells[p]
+		var i, j, k int
+		if !vg.interior {
+			i, j, k = vg.ijk(p)
+		}
+		for q := range nbr {
+			if !vg.interior {
+				ii, jj, kk := i+nbr[q].di, j+nbr[q].dj, k+nbr[q].dk
+				if ii < 0 || jj < 0 || kk < 0 || ii >= g.NX || jj >= g.NY || kk >= g.NZ {
+					continue
+				}
 			}
-			if nd := it.d + w; nd < dist[m] && nd <= bound {
+			m := node[c+nbr[q].off]
+			if m < 0 {
+				continue
+			}
+			w := nbr[q].step
+			if cost != nil {
+				w *= 0.5 * (cost[p] + cost[m])
+			}
+			if nd := d + w; nd < dist[m] && nd <= bound {
 				dist[m] = nd
-				prev[m] = it.n
-				h.push(heapItem{nd, m})
+				prev[m] = p
+				h.update(m)
 			}
-		})
+		}
 	}
 	return dist, prev
 }

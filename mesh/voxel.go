@@ -98,6 +98,13 @@ func Voxelize(m *Mesh, voxel float64, pad, workers int) (*Grid, error) {
 	return g, nil
 }
 
+// voxelSlack (in voxels) widens the rows and columns a triangle is tried against. Whether a
+// centre on the very edge of a triangle's footprint is crossed must be decided by the exact
+// edge rule of voxelColumnHit alone: bucketing arithmetic that rounds the other way drops
+// one of the two triangles sharing the edge, and a whole row of columns on a mesh's plane
+// of symmetry loses a crossing (its voxels turn outside).
+const voxelSlack = 1e-3
+
 // voxelRowsOf buckets triangles by the rows j (y of voxel centres) their xy footprint covers,
 // in compressed form: row j holds list[start[j]:start[j+1]].
 func voxelRowsOf(g *Grid, m *Mesh) (start []int, list []int32) {
@@ -105,8 +112,8 @@ func voxelRowsOf(g *Grid, m *Mesh) (start []int, list []int32) {
 	rowRange := func(t [3]int32) (int, int) {
 		y0 := math.Min(m.Vertices[t[0]][1], math.Min(m.Vertices[t[1]][1], m.Vertices[t[2]][1]))
 		y1 := math.Max(m.Vertices[t[0]][1], math.Max(m.Vertices[t[1]][1], m.Vertices[t[2]][1]))
-		j0 := int(math.Ceil((y0-g.Origin[1])/g.Voxel - 0.5))
-		j1 := int(math.Floor((y1-g.Origin[1])/g.Voxel - 0.5))
+		j0 := int(math.Ceil((y0-g.Origin[1])/g.Voxel - 0.5 - voxelSlack))
+		j1 := int(math.Floor((y1-g.Origin[1])/g.Voxel - 0.5 + voxelSlack))
 		return max(j0, 0), min(j1, g.NY-1)
 	}
 	for _, t := range m.Triangles {
@@ -155,8 +162,8 @@ func voxelRow(g *Grid, m *Mesh, j int, tris []int32, hits []voxelCrossing) []vox
 		a, b, c := m.Vertices[t[0]], m.Vertices[t[1]], m.Vertices[t[2]]
 		x0 := math.Min(a[0], math.Min(b[0], c[0]))
 		x1 := math.Max(a[0], math.Max(b[0], c[0]))
-		i0 := max(int(math.Ceil((x0-g.Origin[0])/v-0.5)), 0)
-		i1 := min(int(math.Floor((x1-g.Origin[0])/v-0.5)), g.NX-1)
+		i0 := max(int(math.Ceil((x0-g.Origin[0])/v-0.5-voxelSlack)), 0)
+		i1 := min(int(math.Floor((x1-g.Origin[0])/v-0.5+voxelSlack)), g.NX-1)
 		for i := i0; i <= i1; i++ {
 			px := g.Origin[0] + (float64(i)+0.5)*v
 			if z, ok := voxelColumnHit(a, b, c, px, py); ok {
@@ -168,13 +175,7 @@ func voxelRow(g *Grid, m *Mesh, j int, tris []int32, hits []voxelCrossing) []vox
 		if p.i != q.i {
 			return int(p.i - q.i)
 		}
-		switch {
-		case p.z < q.z:
-			return -1
-		case p.z > q.z:
-			return 1
-		}
-		return 0
+		return cmpFloat(p.z, q.z)
 	})
 	for s := 0; s < len(hits); {
 		e := s
@@ -193,6 +194,16 @@ func voxelRow(g *Grid, m *Mesh, j int, tris []int32, hits []voxelCrossing) []vox
 		s = e
 	}
 	return hits
+}
+
+func cmpFloat(a, b float64) int {
+	switch {
+	case a < b:
+		return -1
+	case a > b:
+		return 1
+	}
+	return 0
 }
 
 // voxelColumnHit tells whether the vertical line through (px, py) crosses triangle abc and

@@ -202,3 +202,68 @@ func BenchmarkVoxelize(b *testing.B) {
 	b.ReportMetric(float64(len(m.Triangles)), "triangles")
 	b.ReportMetric(float64(len(g.Inside)), "voxels")
 }
+
+// TestVoxelizeSymmetryPlaneOnCentres: curved tubes whose plane of symmetry (y = 0) holds a
+// row of voxel centres, and whose wall has vertices on that plane up to rounding (cos(pi/2)
+// is 6e-17, not 0), as a parametric canal's mesh has. Every voxel must agree with the
+// analytic tube (distance to the arc's circle under the radius), except in the thin band
+// the tessellation leaves undecided.
+func TestVoxelizeSymmetryPlaneOnCentres(t *testing.T) {
+	const big, alpha, seg = 6.0, 1.0, 48
+	frame := func(s float64) shapeFrame { // the arc in the xz plane; n across it, b in it
+		a := alpha * s
+		n := mgl64.Vec3{math.Cos(a), 0, math.Sin(a)}
+		return shapeFrame{c: n.Mul(big), n: mgl64.Vec3{0, 1, 0}, b: n}
+	}
+	rows := 0
+	for _, r := range []float64{0.35, 0.45, 0.5, 0.55, 0.6} {
+		for _, cells := range []float64{13.1, 13.37, 15.2, 15.61, 17.05, 17.77, 19.3, 19.9, 21.4, 21.47} {
+			// ceil(2r/h) is odd, so the centred grid puts a row of centres on y = 0.
+			h := 2 * r / (cells - 0.5)
+			m := shapeTube(frame, constRadius(r), seg, 200, true)
+			g, err := Voxelize(m, h, 2, 0)
+			if err != nil {
+				t.Fatal(err)
+			}
+			row := -1
+			for j := range g.NY {
+				if math.Abs(g.Center(0, j, 0)[1]) < 1e-9*h {
+					row = j
+				}
+			}
+			if row < 0 {
+				continue
+			}
+			rows++
+			// Analytic geometry: inside when the distance to the circle of radius big in the xz
+			// plane is under r, at an angle 0..alpha; the polygon of seg sides lies between
+			// r cos(pi/seg) and r, less the sag of a chord between rings (under 1e-4 mm).
+			inner := r*math.Cos(math.Pi/seg) - 1e-4
+			bad, rowBad := 0, 0
+			for k := range g.NZ {
+				for j := range g.NY {
+					for i := range g.NX {
+						c := g.Center(i, j, k)
+						a := math.Atan2(c[2], c[0])
+						rho := math.Hypot(math.Hypot(c[0], c[2])-big, c[1])
+						if a < 0.01 || a > alpha-0.01 || (rho > inner-1e-9 && rho < r+1e-9) {
+							continue // at a cap or in the undecided band
+						}
+						if got := g.Inside[g.Index(i, j, k)]; got != (rho < inner) {
+							bad++
+							if j == row {
+								rowBad++
+							}
+						}
+					}
+				}
+			}
+			if bad != 0 {
+				t.Errorf("r %g, voxel %.4f: %d voxels disagree with the analytic tube, %d of them in the row on the symmetry plane", r, h, bad, rowBad)
+			}
+		}
+	}
+	if rows < 10 {
+		t.Fatalf("set-up: only %d grids had a row of centres on y = 0", rows)
+	}
+}

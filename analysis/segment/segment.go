@@ -110,7 +110,7 @@ func Find(ctx context.Context, v *volume.Volume, pts Points, opt Options) (*Resu
 	}
 	res.Path = line
 	s := analysis.ArcLengths(line)
-	res.Frames = analysis.NewCenterline(line, res.DS, math.Max(0.3, 3*res.DS), 0, s[len(s)-1])
+	res.Frames = analysis.NewCenterline(line, res.DS, math.Max(0.3, 3*res.DS), 0, s[len(s)-1], 0, 0)
 	prof := sampleProfiles(ctx, v, res.Frames)
 	if err := ctx.Err(); err != nil {
 		return nil, err

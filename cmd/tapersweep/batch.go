@@ -161,7 +161,9 @@ func shardFiles[T any](files []T, i, n int) []T {
 // batchCanalColumns describe the canal on every row; then come analysis.StepColumns, the
 // warnings and the error.
 var batchCanalColumns = []string{"canal_file", "canal_name", "length_mm", "working_length_mm",
-	"tightest_bend_radius_mm", "tightest_bend_from_apex_mm", "schneider_angle_deg", "arc_angle_deg"}
+	"tightest_bend_radius_mm", "tightest_bend_from_apex_mm", "schneider_angle_deg", "arc_angle_deg",
+	"tightest_bend_radius_low_mm", "tightest_bend_radius_high_mm", "tightest_bend_from_apex_low_mm",
+	"tightest_bend_from_apex_high_mm", "schneider_angle_low_deg", "schneider_angle_high_deg"}
 
 func batchColumns() []string {
 	cols := append(append([]string{}, batchCanalColumns...), analysis.StepColumnKeys()...)
@@ -318,8 +320,12 @@ func canalRows(file string, res *analysis.Result) [][]string {
 		}
 		return f(*v)
 	}
-	canal := []string{models.Printable(file, models.MaxNameRunes), models.Printable(sum.Name, models.MaxNameRunes), f(sum.LengthMM), f(sum.WorkingLengthMM), p(sum.MaxCurvature.RadiusMM),
-		f(sum.MaxCurvature.FromApexMM), f(sum.SchneiderDeg), f(sum.Arc.AngleDeg)}
+	mc := sum.MaxCurvature
+	name := func(v string) string { return models.Printable(v, models.MaxNameRunes) }
+	canal := []string{name(file), name(sum.Name), f(sum.LengthMM), f(sum.WorkingLengthMM), p(mc.RadiusMM),
+		f(mc.FromApexMM), f(sum.SchneiderDeg), f(sum.Arc.AngleDeg),
+		p(mc.RadiusRangeMM[0]), p(mc.RadiusRangeMM[1]), f(mc.FromApexRangeMM[0]), f(mc.FromApexRangeMM[1]),
+		f(sum.SchneiderRangeDeg[0]), f(sum.SchneiderRangeDeg[1])}
 	var notes []string
 	for _, w := range append(sum.Warnings, res.Warnings...) {
 		notes = append(notes, models.Printable(w, models.MaxMessageRunes))
