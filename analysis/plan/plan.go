@@ -397,7 +397,7 @@ func (p *planner) explain(best *checked) *Plan {
 			"(%.3g); no sequence changes that, since its bending does not depend on the files before it.", tl, ref.fatigue)
 	}
 	add("Searched on a coarse copy of the canal (%.2f mm between stations, %d directions): %d partial plans "+
-		"measured; the best %d full plans re-checked at full resolution.", p.g.canal.Line.DS, p.g.na,
+		"measured; the best %d full plans re-checked at full resolution.", p.g.canal.Line.DS, p.g.canal.Angles,
 		p.evaluated, p.rechecked)
 	return pl
 }

@@ -250,7 +250,7 @@ func (s *searcher) run(ctx context.Context) ([]*complete, error) {
 			if len(next) == s.beamWidth {
 				break
 			}
-			g.widen(scratch, c.parent.prepared, c.mv.radius)
+			g.widen(scratch, c.parent.prepared, c.mv)
 			h := s.shapeKey(scratch, c.mv)
 			if s.dominated(seen[h], scratch, c) {
 				continue
@@ -332,7 +332,7 @@ func (s *searcher) evaluate(c *candidate, p *state, mv *move, order int, bound f
 	if s.strict && (c.excess > 0 || c.cost >= bound) {
 		return
 	}
-	fs := g.sweep(p.prepared, mv.radius, s.target)
+	fs := g.sweep(p.prepared, mv, s.target)
 	c.fin = c.m.add(step+1, fs.engaged, fs.torque, s.target.fatigue)
 	c.finExcess = s.lim.excess(c.fin)
 	c.finCost = s.lim.cost(c.fin)
