@@ -69,6 +69,9 @@ func (k *Kernel) Place(in models.Instrument, D float64) Placed {
 	f := Placed{Depth: D}
 	for i := 0; i < len(s) && s[i] <= D+1e-9; i++ {
 		f.Radius = append(f.Radius, float32(in.Diameter(D-s[i])/2))
+		if in.CuttingLength > 0 && D-s[i] > in.CuttingLength+1e-9 {
+			f.Cutting = i + 1
+		}
 	}
 	if tip := f.Tip(); tip >= 0 {
 		f.TipWeight = math.Max(0, math.Min(k.weight[tip], D-s[tip]+k.weight[tip]/2))

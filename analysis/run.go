@@ -146,11 +146,13 @@ func runStep(c *Canal, k *Kernel, st models.Step, alloy models.Alloy, before []f
 	}
 	cellTorque := make([]float64, n) // N*mm per station
 	eg := k.Sweep(before, nil, &f, &Traces{Cut: sr.Cut, Prepared: sr.Prepared, StationTorque: cellTorque})
+	m.ContactThresholdMM = k.ContactThreshold()
 	m.EngagedAreaMM2, m.RemovedVolumeMM3, m.MaxDepthOfCutMM = eg.AreaMM2, eg.VolumeMM3, eg.MaxCutMM
 	if eg.Cuts() {
 		m.EngagedLengthMM = eg.LengthMM(line)
 		m.EngagedFromTipMM = [2]float64{D - line.S[eg.Last], D - line.S[eg.First]}
 	}
+	m.ShankContactMM = eg.ShankContactMM(line)
 	m.UntouchedWallPct = k.UntouchedShare(c, sr.Prepared)
 	strainAndFatigue(c, sr, tip, path.k, pathCurvature(c, in, alloy, opt, before, elastic))
 	torsion(sr, line, cellTorque, tip)
