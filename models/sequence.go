@@ -153,7 +153,7 @@ func ParseSequence(name string, data []byte) (*Sequence, error) {
 		seq.PathModel = s
 	}
 	if raw, ok := top["alloys"]; ok {
-		if seq.Alloys, err = p.alloys(raw); err != nil {
+		if seq.Alloys, err = p.alloys(raw, seq); err != nil {
 			return nil, err
 		}
 	}
@@ -353,10 +353,12 @@ func (p *seqParser) ranged(m map[string]json.RawMessage, step int, field string,
 	return v, nil
 }
 
+// seqAlloyFields are an alloy's required fields; low_cycle_b is optional (DefaultLowCycleB) and
+// cycles_above_limit, of older files, is read and set aside with a note.
 var seqAlloyFields = []string{"elastic_modulus_gpa", "shear_ultimate_mpa", "recoverable_strain",
-	"strain_life_c", "strain_life_b", "cycles_above_limit"}
+	"strain_life_c", "strain_life_b"}
 
-func (p *seqParser) alloys(raw []byte) (map[string]Alloy, error) {
+func (p *seqParser) alloys(raw []byte, seq *Sequence) (map[string]Alloy, error) {
 	m, err := p.object(raw, 0, "alloys")
 	if err != nil {
 		return nil, err
@@ -376,7 +378,7 @@ func (p *seqParser) alloys(raw []byte) (map[string]Alloy, error) {
 		if err != nil {
 			return nil, err
 		}
-		if err := p.unknownFields(fields, 0, where, seqAlloyFields...); err != nil {
+		if err := p.unknownFields(fields, 0, where, append(seqAlloyFields, "low_cycle_b", "cycles_above_limit")...); err != nil {
 			return nil, err
 		}
 		vals := make([]float64, len(seqAlloyFields))
@@ -390,7 +392,18 @@ func (p *seqParser) alloys(raw []byte) (map[string]Alloy, error) {
 			}
 		}
 		a := Alloy{Name: name, ElasticModulusGPa: vals[0], ShearUltimateMPa: vals[1], RecoverableStrain: vals[2],
-			StrainLifeC: vals[3], StrainLifeB: vals[4], CyclesAboveLimit: vals[5]}
+			StrainLifeC: vals[3], StrainLifeB: vals[4], LowCycleB: DefaultLowCycleB}
+		if rf, ok := fields["low_cycle_b"]; ok {
+			if a.LowCycleB, err = p.number(rf, 0, where+": low_cycle_b"); err != nil {
+				return nil, err
+			}
+		}
+		if rf, ok := fields["cycles_above_limit"]; ok {
+			if _, err := p.number(rf, 0, where+": cycles_above_limit"); err != nil {
+				return nil, err
+			}
+			seq.Warnings = append(seq.Warnings, fmt.Sprintf("%s: %s: %s (%g here)", p.file, where, LegacyCyclesAboveLimitNote, a.LowCycleB))
+		}
 		if field, msg := a.invalidField(); field != "" {
 			return nil, p.fail(0, where+": "+field, "%s", msg)
 		}
@@ -651,5 +664,5 @@ func (s *Sequence) MarshalJSON() ([]byte, error) {
 func sameAlloyParams(a, b Alloy) bool {
 	return a.ElasticModulusGPa == b.ElasticModulusGPa && a.ShearUltimateMPa == b.ShearUltimateMPa &&
 		a.RecoverableStrain == b.RecoverableStrain && a.StrainLifeC == b.StrainLifeC &&
-		a.StrainLifeB == b.StrainLifeB && a.CyclesAboveLimit == b.CyclesAboveLimit
+		a.StrainLifeB == b.StrainLifeB && a.LowCycleB == b.LowCycleB
 }
