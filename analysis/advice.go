@@ -24,8 +24,12 @@ const (
 	AdviceTransportation = "apical-transportation"
 )
 
-// apicalTransportLimit: transportation above about 0.3 mm harmed the apical seal (Wu MK, Fan B,
-// Wesselink PR, J Endod 2000;26:210-216; from memory).
+// apicalTransportLimit: apical transportation above about 0.3 mm harmed the seal of root fillings
+// (Wu MK, Fan B, Wesselink PR, J Endod 2000;26:210-216; from memory). Their figure, measured on
+// radiographs with the working length 1 mm short of the apex, is how far the prepared canal's
+// apical part lay from the original one: the shift of the canal, which is half of Gambill's
+// figure for a canal widened on one side. It is compared with the shift of the canal's centre
+// 1 mm from the apical end.
 const apicalTransportLimit = 0.3
 
 // addAdvice fills each step's advice list; every step gets a list, possibly empty.
@@ -84,8 +88,11 @@ func addAdvice(res *Result) {
 			add(AdviceFatigue, "The insertion uses %.0f %% of the fatigue life %.1f mm from the tip.", 100*m.FatigueDamage, m.PeakDamageFromTipMM)
 		}
 		if !transportNoted {
-			if tr, _, _ := transportAt(c, c.Rho, sr.Prepared, c.Line.Length()-1); tr > apicalTransportLimit {
-				add(AdviceTransportation, "The canal 1 mm from the apical end has moved %.2f mm from where it was scanned; above about 0.3 mm the apical seal was found to suffer.", tr)
+			at := c.Line.Length() - 1
+			if shift := centreShift(c, c.Rho, sr.Prepared, at); shift > apicalTransportLimit {
+				add(AdviceTransportation, "The canal's centre 1 mm from the apical end has moved %.2f mm from where it was scanned "+
+					"(Gambill's transportation there: %.2f mm, twice the shift for a canal widened on one side); above about "+
+					"0.3 mm of such a shift the apical seal was found to suffer.", shift, transportAt(c, c.Rho, sr.Prepared, at).size())
 				transportNoted = true
 			}
 		}

@@ -6,22 +6,6 @@ import (
 	"testing"
 )
 
-// TestGambillWorkedExample: m1 = 1.0, m2 = 0.8 (0.2 mm taken off one side), d1 = 1.2, d2 = 1.1
-// (0.1 mm off the other): transportation (m1-m2)-(d1-d2) = 0.1 mm toward the first side, centring
-// ratio 0.1/0.2 = 0.5 (Gambill, Alder, del Rio, J Endod 1996;22:369; from memory).
-func TestGambillWorkedExample(t *testing.T) {
-	tr, r := Gambill(1.0, 0.8, 1.2, 1.1)
-	if math.Abs(tr-0.1) > 1e-12 || r == nil || math.Abs(*r-0.5) > 1e-12 {
-		t.Errorf("transportation %.4f, ratio %v; want 0.1 and 0.5", tr, r)
-	}
-	if tr, r := Gambill(1, 0.9, 1, 0.9); tr != 0 || *r != 1 {
-		t.Errorf("even removal: transportation %v, ratio %v; want 0 and 1", tr, *r)
-	}
-	if _, r := Gambill(1, 1, 1, 1); r != nil {
-		t.Error("nothing removed: the ratio should not exist")
-	}
-}
-
 // TestStraightCanalNoOffset: in a straight canal the elastic file lies on the centerline and
 // moves nothing, whatever the file (beam theory: no curvature, no load).
 func TestStraightCanalNoOffset(t *testing.T) {
