@@ -17,6 +17,11 @@ type Kernel struct {
 	dTheta   float64
 	weight   []float64 // trapezoid length of each station, mm
 	thr, ct  float64
+	// The canal's own wall from the orifice to working length, for the share not yet touched:
+	// each cell's area and their sum.
+	rho0      []float32
+	wallArea  []float64
+	totalWall float64
 }
 
 // NewKernel prepares the sums for canal c with the settings of opt (zero settings take their
@@ -37,6 +42,18 @@ func NewKernel(c *Canal, opt RunOptions) *Kernel {
 	for i := range s {
 		lo, hi := s[max(0, i-1)], s[min(n-1, i+1)]
 		k.weight[i] = (hi - lo) / 2
+	}
+	k.rho0 = c.Rho
+	last := c.Line.Station(c.WorkingLength)
+	k.wallArea = make([]float64, (last+1)*c.Angles)
+	for i := 0; i <= last; i++ {
+		kc, ks := c.Line.KN1[i], c.Line.KN2[i]
+		for j := 0; j < c.Angles; j++ {
+			rho := float64(c.Rho[i*c.Angles+j])
+			a := rho * math.Max(0, 1-(kc*k.cos[j]+ks*k.sin[j])*rho) * k.weight[i]
+			k.wallArea[i*c.Angles+j] = a
+			k.totalWall += a
+		}
 	}
 	return k
 }
@@ -89,6 +106,9 @@ type Engagement struct {
 	AreaMM2, VolumeMM3    float64 // engaged area and removed volume
 	MaxCutMM              float64 // deepest cut of the fluted part
 	TorqueNcm             float64 // cutting torque, N*cm at the kernel's coefficient
+	// NewlyTouchedMM2 is the canal's own wall, orifice to working length, that this file is the
+	// first to cut deeper than the contact threshold (counted when Traces are kept).
+	NewlyTouchedMM2 float64
 }
 
 // Cuts reports whether any cell is cut deeper than the contact threshold.
@@ -188,6 +208,11 @@ func (k *Kernel) Sweep(wall []float32, pre, f *Placed, out *Traces) Engagement {
 				idx := i*na + j
 				out.Cut[idx] = float32(cut)
 				out.Prepared[idx] = float32(t)
+				if idx < len(k.wallArea) {
+					if r0 := float64(k.rho0[idx]); float64(rho32)-r0 <= k.thr && t-r0 > k.thr {
+						e.NewlyTouchedMM2 += k.wallArea[idx]
+					}
+				}
 			}
 			if cut <= k.thr {
 				continue
@@ -247,25 +272,12 @@ func (k *Kernel) Widen(dst, wall []float32, f *Placed) {
 	}
 }
 
-// UntouchedShare is the share of the wall area, orifice to working length, that no file has
-// cut deeper than the contact threshold so far (a standard micro-CT outcome), in percent.
-func (k *Kernel) UntouchedShare(c *Canal, prepared []float32) float64 {
-	var total, untouched float64
-	na := k.na
-	last := c.Line.Station(c.WorkingLength)
-	for i := 0; i <= last; i++ {
-		kc, ks := c.Line.KN1[i], c.Line.KN2[i]
-		for j := 0; j < na; j++ {
-			rho := float64(c.Rho[i*na+j])
-			a := rho * math.Max(0, 1-(kc*k.cos[j]+ks*k.sin[j])*rho) * k.weight[i]
-			total += a
-			if float64(prepared[i*na+j])-rho <= k.thr {
-				untouched += a
-			}
-		}
-	}
-	if total == 0 {
+// UntouchedShare is the share of the wall area, orifice to working length, that no file has cut
+// deeper than the contact threshold (a standard micro-CT outcome), in percent, given the area
+// first touched so far (the sum of the steps' NewlyTouchedMM2).
+func (k *Kernel) UntouchedShare(touchedMM2 float64) float64 {
+	if k.totalWall == 0 {
 		return 100
 	}
-	return 100 * untouched / total
+	return 100 * math.Max(0, k.totalWall-touchedMM2) / k.totalWall
 }

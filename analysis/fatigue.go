@@ -75,6 +75,27 @@ func (l *lifeLaw) perRevolution(cf *canalFactors, k, i int) float64 {
 	return l.below[k] * cf.below[i]
 }
 
+// pathFactors are the canal factors for one tip station: those of the path hi, or, with w < 1,
+// a blend of the paths lo and hi solved with the tip at the stations on either side (lo reaches
+// fewer stations; beyond them hi alone counts).
+type pathFactors struct {
+	lo, hi *canalFactors
+	w      float64
+}
+
+func (l *lifeLaw) blended(pf pathFactors, k, i int) float64 {
+	r := l.perRevolution(pf.hi, k, i)
+	if pf.lo != nil && i < len(pf.lo.k) {
+		r = pf.w*r + (1-pf.w)*l.perRevolution(pf.lo, k, i)
+	}
+	return r
+}
+
+// pathAt gives, for the tip at a station, the curvature of the file's axis at each station up
+// to it: hi alone (lo nil, w 1), or the paths lo and hi solved at stations on either side of the
+// tip with the weight w of hi. A slice given again for another station is the same curvature.
+type pathAt func(tip int) (lo, hi []float64, w float64)
+
 // fatigue sums damage = revolutions / N(strain) over the schedule for every material point
 // (Miner, J Appl Mech 1945). The strain of a point is d(u) k(s) / 2 where it sits in the canal.
 // Cycles to failure do not depend on rpm (Pruett et al. 1997); rpm only sets revolutions.
@@ -83,10 +104,9 @@ func (l *lifeLaw) perRevolution(cf *canalFactors, k, i int) float64 {
 // sum costs one pass over (tip station, material point) pairs whatever the number of strokes;
 // only when some point reaches 1 is the schedule replayed in time order to find when and where.
 //
-// pathK gives, for the tip at a station, the curvature of the file's axis at each station up
-// to it (the centerline's curvature in the centred model); a slice it returns again for another
-// station is taken to be the same curvature.
-func fatigue(line *Centerline, in models.Instrument, alloy models.Alloy, moves []move, rpm float64, pathK func(tip int) []float64) fatigueResult {
+// path gives the curvature of the file's axis for each tip station (the centerline's in the
+// centred model).
+func fatigue(line *Centerline, in models.Instrument, alloy models.Alloy, moves []move, rpm float64, path pathAt) fatigueResult {
 	ds := line.DS
 	n := line.Len()
 	var far float64
@@ -96,9 +116,11 @@ func fatigue(line *Centerline, in models.Instrument, alloy models.Alloy, moves [
 	kmax := min(n-1, int(math.Ceil(far/ds)))
 	res := fatigueResult{damage: make([]float64, kmax+1)}
 	law := newLifeLaw(in, alloy, kmax+1, ds)
-	cache := map[*float64]*canalFactors{} // keyed by the curvature slice pathK returned
-	factorsAt := func(tip int) *canalFactors {
-		k := pathK(tip)
+	cache := map[*float64]*canalFactors{} // keyed by the curvature slice path returned
+	factorsOf := func(k []float64) *canalFactors {
+		if k == nil {
+			return nil
+		}
 		key := &k[0]
 		if cf, ok := cache[key]; ok {
 			return cf
@@ -106,6 +128,10 @@ func fatigue(line *Centerline, in models.Instrument, alloy models.Alloy, moves [
 		cf := law.factors(k)
 		cache[key] = &cf
 		return &cf
+	}
+	factorsAt := func(tip int) pathFactors {
+		lo, hi, w := path(tip)
+		return pathFactors{lo: factorsOf(lo), hi: factorsOf(hi), w: w}
 	}
 	revsAt := make([]float64, kmax+1) // revolutions with the tip at each station
 	sched := scheduleSteps(moves, ds, kmax, rpm/60)
@@ -118,9 +144,9 @@ func fatigue(line *Centerline, in models.Instrument, alloy models.Alloy, moves [
 		if revs == 0 {
 			continue
 		}
-		cf := factorsAt(tip)
+		pf := factorsAt(tip)
 		for k := 0; k <= tip; k++ {
-			res.damage[k] += revs * law.perRevolution(cf, k, tip-k)
+			res.damage[k] += revs * law.blended(pf, k, tip-k)
 		}
 	}
 	for k, d := range res.damage {
@@ -163,14 +189,14 @@ func scheduleSteps(moves []move, ds float64, kmax int, revsPerSecond float64) []
 
 // replayToFracture walks the schedule in time order until the first material point's damage
 // reaches 1 and records when, where and with the tip how deep.
-func replayToFracture(res *fatigueResult, sched []scheduleVisit, law *lifeLaw, factorsAt func(int) *canalFactors, ds float64) {
+func replayToFracture(res *fatigueResult, sched []scheduleVisit, law *lifeLaw, factorsAt func(int) pathFactors, ds float64) {
 	damage := make([]float64, len(res.damage))
 	t := 0.0
 	for _, v := range sched {
 		t += v.dt
-		cf := factorsAt(v.tip)
+		pf := factorsAt(v.tip)
 		for k := 0; k <= v.tip; k++ {
-			damage[k] += v.revs * law.perRevolution(cf, k, v.tip-k)
+			damage[k] += v.revs * law.blended(pf, k, v.tip-k)
 			// The totals were summed in another order: allow for rounding.
 			if damage[k] >= 1-1e-9 {
 				res.fractured = true

@@ -73,6 +73,7 @@ type StepResult struct {
 	// reaches, mm (nil in the centred model).
 	Offset1, Offset2 []float64
 	Metrics          StepMetrics
+	touched          float64 // the canal's own wall cut past the threshold so far, mm2
 }
 
 // Run sweeps each file of the sequence through the canal in turn. Step N's depth of cut is
@@ -103,7 +104,11 @@ func Run(ctx context.Context, c *Canal, seq *models.Sequence, opt RunOptions) (*
 		if !ok {
 			alloy = st.Instrument.Alloy
 		}
-		sr := runStep(c, kern, st, alloy, before, opt)
+		touched := 0.0
+		if k > 0 {
+			touched = res.Steps[k-1].touched
+		}
+		sr := runStep(c, kern, st, alloy, before, touched, opt)
 		sr.Number = k + 1
 		sr.Metrics.Step = k + 1
 		sr.Metrics.Alloy = st.AlloyName
@@ -123,7 +128,8 @@ func seqName(seq *models.Sequence) string {
 }
 
 // runStep sweeps one file with its tip at the target depth.
-func runStep(c *Canal, k *Kernel, st models.Step, alloy models.Alloy, before []float32, opt RunOptions) *StepResult {
+// touched is the canal's own wall the earlier steps have cut past the contact threshold, mm2.
+func runStep(c *Canal, k *Kernel, st models.Step, alloy models.Alloy, before []float32, touched float64, opt RunOptions) *StepResult {
 	line := c.Line
 	n := line.Len()
 	in := st.Instrument
@@ -139,8 +145,10 @@ func runStep(c *Canal, k *Kernel, st models.Step, alloy models.Alloy, before []f
 	m.Label, m.TipDepthMM, m.TipFromApexMM = in.Label(), D, line.Length()-D
 	elastic := opt.PathModel == models.PathElastic
 	path := elasticPath{k: line.K}
+	var es *elasticSolver
 	if elastic {
-		path = solveElasticPath(c, in, alloy.ElasticModulusGPa, opt.WallStiffness, D, tip, before)
+		es = newElasticSolver(c, in, alloy.ElasticModulusGPa, opt.WallStiffness, before)
+		path = es.solve(D, tip)
 		sr.Offset1, sr.Offset2 = path.o1, path.o2
 		f.Off1, f.Off2 = path.o1, path.o2
 	}
@@ -153,8 +161,9 @@ func runStep(c *Canal, k *Kernel, st models.Step, alloy models.Alloy, before []f
 		m.EngagedFromTipMM = [2]float64{D - line.S[eg.Last], D - line.S[eg.First]}
 	}
 	m.ShankContactMM = eg.ShankContactMM(line)
-	m.UntouchedWallPct = k.UntouchedShare(c, sr.Prepared)
-	strainAndFatigue(c, sr, tip, path.k, pathCurvature(c, in, alloy, opt, before, elastic))
+	sr.touched = touched + eg.NewlyTouchedMM2
+	m.UntouchedWallPct = k.UntouchedShare(sr.touched)
+	strainAndFatigue(c, sr, tip, path.k, pathCurvature(c, es))
 	torsion(sr, line, cellTorque, tip)
 	m.Transport = transportBetween(c, before, sr.Prepared)
 	roundMetrics(m)
@@ -164,9 +173,9 @@ func runStep(c *Canal, k *Kernel, st models.Step, alloy models.Alloy, before []f
 // strainAndFatigue fills strain along the file at the target depth, the diameter and strain at
 // the point of greatest curvature, and Miner's damage over the insertion schedule.
 //
-// pathK is the curvature of the file's axis with the tip at the target; pathAt gives it for
+// pathK is the curvature of the file's axis with the tip at the target; path gives it for the
 // other tip stations (the schedule's).
-func strainAndFatigue(c *Canal, sr *StepResult, tip int, pathK []float64, pathAt func(int) []float64) {
+func strainAndFatigue(c *Canal, sr *StepResult, tip int, pathK []float64, path pathAt) {
 	line, m, in := c.Line, &sr.Metrics, sr.Step.Instrument
 	D := sr.TipDepth
 	sr.Strain = make([]float64, tip+1)
@@ -189,7 +198,7 @@ func strainAndFatigue(c *Canal, sr *StepResult, tip int, pathK []float64, pathAt
 		m.StrainAtMaxCurvaturePct = finite(100 * d * k / 2)
 	}
 	moves := insertionSchedule(D, sr.Step.PeckMM, sr.Step.RetractMM, sr.Step.AdvanceMMs)
-	f := fatigue(line, in, sr.Alloy, moves, sr.Step.RPM, pathAt)
+	f := fatigue(line, in, sr.Alloy, moves, sr.Step.RPM, path)
 	sr.Damage = f.damage
 	m.FatigueDamage = f.peak
 	m.PeakDamageFromTipMM = f.peakU
@@ -235,23 +244,30 @@ func torsion(sr *StepResult, line *Centerline, cellTorque []float64, tip int) {
 	}
 }
 
-// pathCurvature returns, for a tip station, the curvature of the file's axis at each station
-// up to it. Centred: the centerline's. Elastic: the beam solved with the tip a little deeper
-// (the next multiple of eight stations, 0.4 mm), so a schedule needs a few dozen solves.
-func pathCurvature(c *Canal, in models.Instrument, alloy models.Alloy, opt RunOptions, before []float32, elastic bool) func(int) []float64 {
-	if !elastic {
-		return func(int) []float64 { return c.Line.K }
+// pathCurvature gives, for a tip station, the curvature of the file's axis at each station up
+// to it. Centred (es nil): the centerline's. Elastic: the beam solved with the tip at every
+// pathEvery-th station, blended between the two solves on either side of the tip.
+func pathCurvature(c *Canal, es *elasticSolver) pathAt {
+	if es == nil {
+		return func(int) ([]float64, []float64, float64) { return nil, c.Line.K, 1 }
 	}
-	const every = 8
+	every := pathEvery
 	cache := map[int][]float64{}
 	last := c.Line.Len() - 1
-	return func(tip int) []float64 {
-		zc := min(last, (tip+every-1)/every*every)
-		if k, ok := cache[zc]; ok {
+	solved := func(z int) []float64 {
+		if k, ok := cache[z]; ok {
 			return k
 		}
-		p := solveElasticPath(c, in, alloy.ElasticModulusGPa, opt.WallStiffness, c.Line.S[zc], zc, before)
-		cache[zc] = p.k
-		return p.k
+		k := es.solve(c.Line.S[z], z).k
+		cache[z] = k
+		return k
+	}
+	return func(tip int) ([]float64, []float64, float64) {
+		lo := tip / every * every
+		hi := min(last, lo+every)
+		if tip == lo || hi == lo {
+			return nil, solved(tip), 1
+		}
+		return solved(lo), solved(hi), float64(tip-lo) / float64(hi-lo)
 	}
 }

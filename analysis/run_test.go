@@ -185,3 +185,16 @@ func TestShankDoesNotCut(t *testing.T) {
 		}
 	}
 }
+
+// TestUntouchedWallShare: in a straight round canal (0.2 mm across, 20 mm to working length) a
+// file wider than the canal everywhere it reaches cuts the whole wall above its tip: taken to
+// 10 mm it leaves half the wall untouched, and a second one taken to working length leaves none
+// (the wall of a cylinder is proportional to its length; analytic geometry).
+func TestUntouchedWallShare(t *testing.T) {
+	c := canalFor(t, `{"kind":"straight","length":20}`, 0.2, 0.2)
+	res := runFor(t, c, `{"size":25,"taper":0.02,"depth":10},{"size":30,"taper":0.02,"depth":"WL"}`, RunOptions{})
+	first, second := res.Steps[0].Metrics.UntouchedWallPct, res.Steps[1].Metrics.UntouchedWallPct
+	if math.Abs(first-50) > 1 || second > 1 {
+		t.Errorf("untouched wall %.2f %% after the first file (want 50) and %.2f %% after the second (want 0)", first, second)
+	}
+}
