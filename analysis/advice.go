@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"tapersweep/mesh"
 	"tapersweep/models"
 )
 
@@ -60,21 +61,26 @@ func addAdvice(res *Result) {
 		if past := sr.TipDepth - c.WorkingLength; past > 1e-6 {
 			add(AdvicePastWL, "The tip goes %.2f mm past working length.", past)
 		}
-		if e := m.StrainAtMaxCurvaturePct; e != nil && *e/100 > sr.Alloy.RecoverableStrain {
-			add(AdviceStrainLimit, "Bending strain where the canal bends most (%.1f %%) is above the alloy's recoverable strain (%.1f %%): fatigue life collapses there.", *e, 100*sr.Alloy.RecoverableStrain)
+		if limit := 100 * sr.Alloy.RecoverableStrain; m.PeakStrainPct > limit {
+			where := ""
+			if e := m.StrainAtMaxCurvaturePct; e != nil {
+				where = fmt.Sprintf("; %.1f %% where the canal bends most", *e)
+			}
+			add(AdviceStrainLimit, "Bending strain reaches %.1f %% %.1f mm from the tip%s, above the alloy's recoverable strain (%.1f %%): "+
+				"the file cannot follow this path; the model's figures past this point are not meaningful.",
+				m.PeakStrainPct, m.PeakStrainFromTipMM, where, limit)
 		}
 		if prev != nil {
 			pl, l := prev.Metrics.EngagedLengthMM, m.EngagedLengthMM
 			if l > pl+2 && l > 1.5*pl {
 				add(AdviceEngagementJump, "Engaged length jumps from %.1f mm (step %d) to %.1f mm: more wall in contact means more torque and a higher risk of the tip binding.", pl, prev.Number, l)
 			}
-			pt, t := prev.Metrics.PeakTorqueIndex, m.PeakTorqueIndex
-			if pt > 0 && t > 2*pt {
-				add(AdviceTorqueJump, "Torque needed rises %.1f times against step %d.", t/pt, prev.Number)
+			if text := torqueJump(prev.Metrics.PeakTorqueIndex, m.PeakTorqueIndex, prev.Number); text != "" {
+				add(AdviceTorqueJump, "%s", text)
 			}
 		}
 		if !apexNoted && sr.TipDepth >= c.WorkingLength-1 {
-			if res := c.SurfaceDetail; res > 0 && canalAtWL < 3*res {
+			if res := c.SurfaceDetail; res > 0 && canalAtWL < 3*res && surfaceFromVoxels(c.Mesh) {
 				add(AdviceApexUnresolved, "The canal near working length (%.2f mm across) spans fewer than three scan voxels (about %.2f mm): the apical part may be lost in the scan.", canalAtWL, res)
 			}
 			apexNoted = true
@@ -83,7 +89,7 @@ func addAdvice(res *Result) {
 			add(AdviceMotorLimit, "The motor's torque limit (%.2f N*cm) is above what the file carries 3 mm from its tip (%.2f N*cm, where ISO 3630-1 tests torsion).", lim, m.CapacityAt3mmNcm)
 		}
 		if m.FractureFromTipMM != nil {
-			add(AdviceFatigue, "The insertion uses up the fatigue life %.1f mm from the tip after %.0f s.", *m.FractureFromTipMM, *m.FractureTimeS)
+			add(AdviceFatigue, "%s", fractureText(m))
 		} else if m.FatigueDamage >= 0.5 {
 			add(AdviceFatigue, "The insertion uses %.0f %% of the fatigue life %.1f mm from the tip.", 100*m.FatigueDamage, m.PeakDamageFromTipMM)
 		}
@@ -100,6 +106,57 @@ func addAdvice(res *Result) {
 			add(AdviceTorsion, "Cutting torque comes within a factor of %.2f of what the file carries %.1f mm from its tip.", *mg, *m.TorsionMarginFromTipMM)
 		}
 	}
+}
+
+// torqueJump words a rise in peak torque against the step before (empty: no jump worth a
+// word). A ratio against next to nothing says nothing, so a rise from no cut or from almost none
+// is stated as from-to.
+func torqueJump(before, now float64, prevStep int) string {
+	const tiny = 0.001 // N*cm: less is next to no cutting at the illustrative coefficient
+	switch {
+	case now <= tiny || now <= 2*before:
+		return ""
+	case before == 0:
+		return fmt.Sprintf("Torque needed goes from none (step %d cut nothing) to %.3f N*cm.", prevStep, now)
+	case before < tiny || now > 20*before:
+		return fmt.Sprintf("Torque needed goes from almost none (%.4f N*cm at step %d) to %.3f N*cm.", before, prevStep, now)
+	}
+	return fmt.Sprintf("Torque needed rises %.1f times against step %d (%.3f to %.3f N*cm).", now/before, prevStep, before, now)
+}
+
+// fractureText states a predicted fracture by when and where it happens: past a fatigue use of 1
+// the figure only says how far the schedule goes beyond the fracture.
+func fractureText(m *StepMetrics) string {
+	text := fmt.Sprintf("In the model the file fractures %.1f s into the insertion, %.1f mm from its tip, with the tip %.1f mm deep.",
+		*m.FractureTimeS, *m.FractureFromTipMM, *m.FractureTipDepthMM)
+	if m.FatigueDamage >= 2 {
+		text += fmt.Sprintf(" Its fatigue use of %.3g counts the life used %.0f times over by the end of the schedule: "+
+			"past 1 the figure says no more than that.", m.FatigueDamage, math.Floor(m.FatigueDamage))
+	}
+	return text
+}
+
+// surfaceFromVoxels tells a surface extracted from a scan's voxels from a regular tube mesh
+// (a parametric canal or a CAD export): a ring mesh has nearly every vertex shared by six
+// triangles, a surface from voxels far fewer (about 78 % for the project's voxel surfaces,
+// fewer for marching cubes). Only a scan has a voxel size that can lose a narrow apex.
+func surfaceFromVoxels(m *mesh.Mesh) bool {
+	if m == nil || len(m.Vertices) == 0 {
+		return false
+	}
+	count := make([]int32, len(m.Vertices))
+	for _, t := range m.Triangles {
+		count[t[0]]++
+		count[t[1]]++
+		count[t[2]]++
+	}
+	six := 0
+	for _, n := range count {
+		if n == 6 {
+			six++
+		}
+	}
+	return float64(six) < 0.9*float64(len(count))
 }
 
 func sameTaper(a, b models.Instrument) bool {
