@@ -36,7 +36,8 @@ const apicalTransportLimit = 0.3
 // addAdvice fills each step's advice list; every step gets a list, possibly empty.
 func addAdvice(res *Result) {
 	c := res.Canal
-	canalAtWL := 2 * c.MeanRadius(c.Line.Station(math.Min(c.WorkingLength, c.Line.Length()-StationSpacing)))
+	gp := GlidePathOf(c)
+	canalAtWL := gp.Width
 	apexNoted, transportNoted := false, false
 	for k, sr := range res.Steps {
 		m := &sr.Metrics
@@ -55,8 +56,8 @@ func addAdvice(res *Result) {
 		if st.PeckMM > 1.0+1e-9 {
 			add(AdviceLongPeck, "Advance of %.1f mm per insertion; about 1 mm per insertion is common practice.", st.PeckMM)
 		}
-		if tip := in.TipDiameter(); tip > canalAtWL && !smallerBefore(res.Steps[:k], in) {
-			add(AdviceNoGlidePath, "The tip (%.2f mm) is wider than the canal at working length (%.2f mm) and no smaller file goes before it: consider a glide path first.", tip, canalAtWL)
+		if tip := in.TipDiameter(); gp.Missing(in, gp.OpenedBy(res.Steps[:k])) {
+			add(AdviceNoGlidePath, "The tip (%.2f mm) is wider than the canal at working length (%.2f mm) and no smaller file goes to working length before it: consider a glide path first.", tip, canalAtWL)
 		}
 		if past := sr.TipDepth - c.WorkingLength; past > 1e-6 {
 			add(AdvicePastWL, "The tip goes %.2f mm past working length.", past)
@@ -163,11 +164,54 @@ func sameTaper(a, b models.Instrument) bool {
 	return math.Abs(a.TaperAt(0)-b.TaperAt(0)) < 1e-9 && !a.IsVariableTaper() && !b.IsVariableTaper()
 }
 
-func smallerBefore(steps []*StepResult, in models.Instrument) bool {
+// GlidePath is the yardstick of the glide-path advice for one canal (common practice: a file
+// whose tip is wider than the canal at working length follows a smaller file taken there).
+// The planner keeps to the same rule.
+type GlidePath struct {
+	Width         float64 // the canal's mean width at working length, mm
+	WorkingLength float64 // mm from the orifice
+}
+
+// glidePathShortMM: a file stopped this close to working length still opens the glide path.
+const glidePathShortMM = 0.5
+
+// GlidePathOf measures the yardstick on canal c.
+func GlidePathOf(c *Canal) GlidePath {
+	return GlidePath{Width: 2 * c.MeanRadius(c.Line.Station(math.Min(c.WorkingLength, c.Line.Length()-StationSpacing))),
+		WorkingLength: c.WorkingLength}
+}
+
+// Opens reports whether a file whose tip went to depth (mm) reaches working length.
+func (g GlidePath) Opens(depth float64) bool { return depth >= g.WorkingLength-glidePathShortMM }
+
+// OpenedBy is the smallest ISO size among the steps that reached working length (0: none).
+func (g GlidePath) OpenedBy(steps []*StepResult) int {
+	size := 0
 	for _, s := range steps {
-		if s.Step.Instrument.Size < in.Size {
-			return true
+		if g.Opens(s.TipDepth) && (size == 0 || s.Step.Instrument.Size < size) {
+			size = s.Step.Instrument.Size
 		}
 	}
-	return false
+	return size
+}
+
+// Missing reports whether file in is wider at the tip than the canal at working length with no
+// smaller file taken there before it (openedBy: the smallest size that was, 0: none).
+func (g GlidePath) Missing(in models.Instrument, openedBy int) bool {
+	return in.TipDiameter() > g.Width && !(openedBy > 0 && openedBy < in.Size)
+}
+
+// Blocking lists a step's advice that says the file is taken where it fails or cannot follow
+// (no glide path, strain past the recoverable strain, a predicted fracture): what a proposed
+// sequence must not draw.
+func Blocking(m *StepMetrics) []Advice {
+	var out []Advice
+	for _, a := range m.Advice {
+		switch {
+		case a.Code == AdviceNoGlidePath, a.Code == AdviceStrainLimit,
+			a.Code == AdviceFatigue && m.FractureFromTipMM != nil:
+			out = append(out, a)
+		}
+	}
+	return out
 }

@@ -152,8 +152,11 @@ func largestTransport(c *Canal, from, to []float32) largestPlace {
 
 // towardDeg is the direction of a transportation, degrees in [0, 360) after rounding to 0.1.
 func towardDeg(inPlane, across float64) float64 {
-	// Adding 360 before the remainder also turns a rounded -0 into 0.
-	return math.Mod(round(math.Atan2(across, inPlane)*180/math.Pi, 1)+360, 360)
+	d := round(math.Mod(math.Atan2(across, inPlane)*180/math.Pi+360, 360), 1)
+	if d >= 360 {
+		d -= 360
+	}
+	return d
 }
 
 // centreShift is how far the area centroid of the canal's cross-section at s moved.

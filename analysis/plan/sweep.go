@@ -30,7 +30,13 @@ type move struct {
 	file    analysis.Placed
 	fatigue float64 // Miner's sum at the most used point, at full resolution
 	taper   float64 // the tip taper; NaN for a variable taper (never "the same" as another)
+	// overStrain: somewhere along the file the bending strain d k / 2 on the full canal's
+	// centerline passes the alloy's recoverable strain (the tool then warns that the file
+	// cannot follow the path).
+	overStrain bool
 }
+
+func (mv *move) size() int { return mv.step.Instrument.Size }
 
 func newMove(g *grid, inst int, st models.Step) *move {
 	line := g.canal.Line
@@ -41,6 +47,20 @@ func newMove(g *grid, inst int, st models.Step) *move {
 	}
 	mv.file = g.k.Place(st.Instrument, D)
 	return mv
+}
+
+// strainOver reports whether file in with its tip at depth D (mm, on the full canal's line) is
+// bent past its alloy's recoverable strain anywhere: d(D - s) k(s) / 2 (beam theory).
+func strainOver(line *analysis.Centerline, in models.Instrument, D float64) bool {
+	for i, s := range line.S {
+		if s > D+1e-9 {
+			break
+		}
+		if lim := in.Alloy.RecoverableStrain; lim > 0 && in.Diameter(D-s)*line.K[i]/2 > lim {
+			return true
+		}
+	}
+	return false
 }
 
 // stepMeasure is what one step does to the wall, as the search ranks it.
