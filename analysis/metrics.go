@@ -55,41 +55,6 @@ type Advice struct {
 	Text string `json:"text"`
 }
 
-// roundMetrics keeps outputs stable across machines.
-func roundMetrics(m *StepMetrics) {
-	r := func(v *float64, d int) { *v = round(*v, d) }
-	rp := func(v *float64, d int) {
-		if v != nil {
-			*v = round(*v, d)
-		}
-	}
-	r(&m.TipDepthMM, 3)
-	r(&m.TipFromApexMM, 3)
-	r(&m.EngagedLengthMM, 3)
-	r(&m.EngagedFromTipMM[0], 3)
-	r(&m.EngagedFromTipMM[1], 3)
-	r(&m.EngagedAreaMM2, 4)
-	r(&m.ShankContactMM, 3)
-	r(&m.RemovedVolumeMM3, 5)
-	r(&m.MaxDepthOfCutMM, 4)
-	r(&m.UntouchedWallPct, 2)
-	rp(m.DiameterAtMaxCurvatureMM, 4)
-	rp(m.StrainAtMaxCurvaturePct, 3)
-	r(&m.PeakStrainPct, 3)
-	r(&m.PeakStrainFromTipMM, 3)
-	r(&m.FatigueDamage, 5)
-	r(&m.PeakDamageFromTipMM, 3)
-	rp(m.FractureFromTipMM, 3)
-	rp(m.FractureTimeS, 2)
-	rp(m.FractureTipDepthMM, 3)
-	r(&m.ScheduleTimeS, 2)
-	r(&m.Revolutions, 1)
-	rp(m.TorsionMargin, 3)
-	rp(m.TorsionMarginFromTipMM, 3)
-	r(&m.PeakTorqueIndex, 4)
-	r(&m.CapacityAt3mmNcm, 4)
-}
-
 // ResultSummary is the whole run as `analyze --format json` prints it.
 type ResultSummary struct {
 	Canal CanalSummary  `json:"canal"`

@@ -362,17 +362,27 @@ func (pr *planRun) adoptPlan() {
 }
 
 // comparisonRows are the per-step figures the plan is judged by and, last, the largest of
-// each over the files: engaged length, peak torque and fatigue use.
+// each over the files.
 func comparisonRows(res *analysis.Result) [][]string {
-	rows := [][]string{{"#", "file", "tip", "engaged", "torque", "fatigue"}}
-	var eng, tq, fat float64
-	for _, st := range res.Steps {
-		m := st.Metrics
-		rows = append(rows, []string{strconv.Itoa(st.Number), m.Label, fmt.Sprintf("%.2f", m.TipDepthMM),
-			fmt.Sprintf("%.2f", m.EngagedLengthMM), fmt.Sprintf("%.3f", m.PeakTorqueIndex), fmt.Sprintf("%.4f", m.FatigueDamage)})
-		eng, tq, fat = max(eng, m.EngagedLengthMM), max(tq, m.PeakTorqueIndex), max(fat, m.FatigueDamage)
+	cols := append(analysis.PickColumns("step", "label", "tip_depth_mm"), plan.ComparedColumns()...)
+	head := make([]string, len(cols))
+	largest := make([]string, len(cols))
+	for i, c := range cols {
+		head[i] = c.Heading
+		if v, ok := c.Largest(res); ok {
+			largest[i] = strconv.FormatFloat(v, 'f', c.Shown, 64)
+		}
 	}
-	return append(rows, []string{"", "largest", "", fmt.Sprintf("%.2f", eng), fmt.Sprintf("%.3f", tq), fmt.Sprintf("%.4f", fat)})
+	largest[1], largest[2] = "largest", ""
+	rows := [][]string{head}
+	for _, st := range res.Steps {
+		row := make([]string, len(cols))
+		for i, c := range cols {
+			row[i] = c.Format(st.Metrics)
+		}
+		rows = append(rows, row)
+	}
+	return append(rows, largest)
 }
 
 // comparisonGrid lays rows out as a small table; the first and last rows are bold.

@@ -36,18 +36,27 @@ var stepColumns = []stepColumn{
 		}
 		return ""
 	}},
-	{"tip\nmm", 50, func(st *analysis.StepResult) string { return fmt.Sprintf("%.2f", st.Metrics.TipDepthMM) }},
-	{"engaged\nmm", 66, func(st *analysis.StepResult) string { return fmt.Sprintf("%.2f", st.Metrics.EngagedLengthMM) }},
-	{"area\nmm²", 50, func(st *analysis.StepResult) string { return fmt.Sprintf("%.2f", st.Metrics.EngagedAreaMM2) }},
-	{"Ø at s*\nmm", 58, func(st *analysis.StepResult) string { return optional(st.Metrics.DiameterAtMaxCurvatureMM, "%.3f") }},
-	{"strain\nat s* %", 56, func(st *analysis.StepResult) string { return optional(st.Metrics.StrainAtMaxCurvaturePct, "%.2f") }},
-	{"fatigue\nused %", 58, func(st *analysis.StepResult) string { return fmt.Sprintf("%.1f", 100*st.Metrics.FatigueDamage) }},
-	{"torsion\nmargin", 58, func(st *analysis.StepResult) string { return optional(st.Metrics.TorsionMargin, "%.1f×") }},
+	metricColumn("tip_depth_mm", 50),
+	metricColumn("engaged_length_mm", 66),
+	metricColumn("engaged_area_mm2", 50),
+	metricColumn("diameter_at_max_curvature_mm", 68),
+	metricColumn("strain_at_max_curvature_pct", 66),
+	metricColumn("fatigue_damage", 58),
+	metricColumn("torsion_margin", 58),
 	// Gambill's measures 1 mm from the apical end, where transportation matters for the seal.
-	{"transp. mm\nat 1 mm", 72, func(st *analysis.StepResult) string {
-		return fmt.Sprintf("%.3f", st.Metrics.TransportationMM["1"])
-	}},
-	{"centring\nat 1 mm", 62, func(st *analysis.StepResult) string { return optional(st.Metrics.CenteringRatio["1"], "%.2f") }},
+	metricColumn("transportation_1_mm", 72),
+	metricColumn("centering_ratio_1", 62),
+}
+
+// metricColumn shows one of the step figures analysis describes, as every output shows it.
+func metricColumn(key string, width float32) stepColumn {
+	c := analysis.PickColumns(key)[0]
+	return stepColumn{c.Heading, width, func(st *analysis.StepResult) string {
+		if v := c.Format(st.Metrics); v != "" {
+			return v
+		}
+		return "–"
+	}}
 }
 
 func optional(v *float64, format string) string {

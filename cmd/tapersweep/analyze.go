@@ -81,6 +81,20 @@ func analyzeFiles(ctx context.Context, cf *canalFlags, seqPath string, opts ...a
 	return analysis.Run(ctx, c, seq, opt)
 }
 
+// tableColumns are the step figures `analyze --format table` shows.
+var tableColumns = []string{"step", "label", "tip_depth_mm", "engaged_length_mm", "engaged_area_mm2",
+	"diameter_at_max_curvature_mm", "strain_at_max_curvature_pct", "fatigue_damage", "torsion_margin",
+	"transportation_1_mm", "advice"}
+
+// writeTabbed prints rows of cells in right-aligned columns.
+func writeTabbed(w io.Writer, rows [][]string) {
+	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', tabwriter.AlignRight)
+	for _, r := range rows {
+		fmt.Fprintln(tw, strings.Join(r, "\t")+"\t")
+	}
+	tw.Flush()
+}
+
 // writeStepsTable prints the steps for a person at a terminal.
 func writeStepsTable(w io.Writer, res *analysis.Result) {
 	sum := res.Canal.Summary(false)
@@ -89,26 +103,8 @@ func writeStepsTable(w io.Writer, res *analysis.Result) {
 		fmt.Fprintf(w, ", tightest bend r %.2f mm at %.2f mm from the apical end", *r, sum.MaxCurvature.FromApexMM)
 	}
 	fmt.Fprintf(w, ", Schneider angle %.1f deg\n\n", sum.SchneiderDeg)
-	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "step\tfile\tdepth mm\tengaged mm\tarea mm2\td at bend mm\tstrain %\tfatigue use\tmargin\tmoved at 1 mm\tadvice\t")
-	opt := func(v *float64, f string) string {
-		if v == nil {
-			return "-"
-		}
-		return fmt.Sprintf(f, *v)
-	}
-	for _, s := range res.Steps {
-		m := s.Metrics
-		codes := make([]string, len(m.Advice))
-		for i, a := range m.Advice {
-			codes[i] = a.Code
-		}
-		fmt.Fprintf(tw, "%d\t%s\t%.2f\t%.2f\t%.2f\t%s\t%s\t%.3f\t%s\t%.3f\t%s\t\n", m.Step, m.Label, m.TipDepthMM,
-			m.EngagedLengthMM, m.EngagedAreaMM2, opt(m.DiameterAtMaxCurvatureMM, "%.3f"),
-			opt(m.StrainAtMaxCurvaturePct, "%.2f"), m.FatigueDamage, opt(m.TorsionMargin, "%.1f"),
-			m.TransportationMM["1"], strings.Join(codes, " "))
-	}
-	tw.Flush()
+	head, rows := report.TextRows(analysis.PickColumns(tableColumns...), res)
+	writeTabbed(w, append([][]string{head}, rows...))
 	mv := res.Moved
 	fmt.Fprintf(w, "\nFile path model: %s. The whole sequence moved the canal %.3f mm at 1 mm, %.3f mm at 3 mm and %.3f mm at 5 mm from the apical end; the foramen by %.3f mm.\n",
 		res.Options.PathModel, mv.TransportationMM["1"], mv.TransportationMM["3"], mv.TransportationMM["5"], mv.ForamenShiftMM)

@@ -125,7 +125,7 @@ var batchCanalColumns = []string{"canal_file", "canal_name", "length_mm", "worki
 	"tightest_bend_radius_mm", "tightest_bend_from_apex_mm", "schneider_angle_deg", "arc_angle_deg"}
 
 func batchColumns() []string {
-	cols := append(append([]string{}, batchCanalColumns...), analysis.StepColumns...)
+	cols := append(append([]string{}, batchCanalColumns...), analysis.StepColumnKeys()...)
 	return append(cols, "warnings", "error")
 }
 

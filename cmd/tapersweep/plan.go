@@ -8,13 +8,14 @@ import (
 	"io"
 	"math"
 	"os"
+	"slices"
 	"strconv"
 	"strings"
-	"text/tabwriter"
 
 	"tapersweep/analysis"
 	"tapersweep/analysis/plan"
 	"tapersweep/models"
+	"tapersweep/ui/report"
 )
 
 func planCommand() command {
@@ -141,46 +142,39 @@ func parseWeights(s string) (plan.Weights, error) {
 	return plan.Weights{Engaged: v[0], Torque: v[1], Fatigue: v[2]}, nil
 }
 
-// stressOf is a run's largest engaged length, highest peak torque and highest fatigue use.
-func stressOf(res *analysis.Result) (engaged, torque, fatigue float64) {
-	for _, s := range res.Steps {
-		m := s.Metrics
-		engaged, torque, fatigue = max(engaged, m.EngagedLengthMM), max(torque, m.PeakTorqueIndex), max(fatigue, m.FatigueDamage)
-	}
-	return
-}
-
 // writePlanTable prints the plan and the sequence it is compared with, step by step, then both
 // overall, then why the plan was chosen.
 func writePlanTable(w io.Writer, c *analysis.Canal, pl *plan.Plan, other *analysis.Result, otherName string) {
 	fmt.Fprintf(w, "%s: working length %.2f mm\n", c.Name, c.WorkingLength)
+	compared := plan.ComparedColumns()
 	steps := func(title string, res *analysis.Result) {
 		fmt.Fprintf(w, "\n%s\n", title)
-		tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', tabwriter.AlignRight)
-		fmt.Fprintln(tw, "step\tfile\tdepth\ttip mm\tengaged mm\tpeak torque N*cm\tfatigue use\t")
-		for _, s := range res.Steps {
-			m := s.Metrics
+		head, rows := report.TextRows(append(analysis.PickColumns("step", "label", "tip_depth_mm"), compared...), res)
+		// The step's depth as the sequence states it, beside where its tip went.
+		head = slices.Insert(head, 2, "depth")
+		for i, s := range res.Steps {
 			depth := s.Step.Depth.String()
 			if !s.Step.Depth.FromWL {
 				depth += " mm"
 			}
-			fmt.Fprintf(tw, "%d\t%s\t%s\t%.2f\t%.2f\t%.3f\t%.4f\t\n", m.Step, m.Label, depth, m.TipDepthMM,
-				m.EngagedLengthMM, m.PeakTorqueIndex, m.FatigueDamage)
+			rows[i] = slices.Insert(rows[i], 2, depth)
 		}
-		tw.Flush()
+		writeTabbed(w, append([][]string{head}, rows...))
 	}
 	steps("proposed plan", pl.Result)
 	steps("compared with: "+otherName, other)
-	pe, pt, pf := stressOf(pl.Result)
-	oe, ot, of := stressOf(other)
 	fmt.Fprintln(w, "\noverall (the largest over the files)")
-	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintf(tw, "\tplan\tcompared\t\n")
-	fmt.Fprintf(tw, "largest engaged length mm\t%.2f\t%.2f\t\n", pe, oe)
-	fmt.Fprintf(tw, "highest peak torque N*cm\t%.3f\t%.3f\t\n", pt, ot)
-	fmt.Fprintf(tw, "highest fatigue use\t%.4f\t%.4f\t\n", pf, of)
-	fmt.Fprintf(tw, "files\t%d\t%d\t\n", len(pl.Result.Steps), len(other.Steps))
-	tw.Flush()
+	overall := [][]string{{"", "plan", "compared"}}
+	for _, col := range compared {
+		row := []string{"largest " + col.Label}
+		for _, res := range []*analysis.Result{pl.Result, other} {
+			v, _ := col.Largest(res)
+			row = append(row, strconv.FormatFloat(v, 'f', col.Shown, 64))
+		}
+		overall = append(overall, row)
+	}
+	overall = append(overall, []string{"files", strconv.Itoa(len(pl.Result.Steps)), strconv.Itoa(len(other.Steps))})
+	writeTabbed(w, overall)
 	fmt.Fprintln(w)
 	for _, line := range pl.Explanation {
 		fmt.Fprintf(w, "%s\n", line)

@@ -40,8 +40,8 @@ func TestPlanCommand(t *testing.T) {
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
-	for _, want := range []string{"proposed plan", "compared with: " + series, "largest engaged length mm",
-		"highest peak torque N*cm", "highest fatigue use", "Objective:", "proposed sequence written to"} {
+	for _, want := range []string{"proposed plan", "compared with: " + series, "largest engaged length, mm",
+		"largest peak torque, N·cm (illustrative)", "largest fatigue use (1 = fracture)", "Objective:", "proposed sequence written to"} {
 		if !strings.Contains(stdout, want) {
 			t.Errorf("output lacks %q:\n%s", want, stdout)
 		}
@@ -61,7 +61,7 @@ func TestPlanCommand(t *testing.T) {
 		t.Errorf("analyze rejects the plan: exit %d: %s", code, stderr)
 	}
 	// The overall rows: plan then compared.
-	for _, row := range []string{"largest engaged length mm", "highest peak torque N*cm"} {
+	for _, row := range []string{"largest engaged length, mm", "largest peak torque, N·cm (illustrative)"} {
 		i := strings.Index(stdout, row)
 		if i < 0 {
 			continue

@@ -108,6 +108,13 @@ func TestDemoReportHasSummaryAndOnePagePerStep(t *testing.T) {
 			}
 		}
 	}
+	// A reader sees words, not the JSON's field names (the step pages once listed
+	// transportation_1_mm ... above the section that states them in words).
+	for _, c := range append(analysis.StepColumns(), analysis.StepDetails()...) {
+		if strings.Contains(c.Key, "_") && strings.Contains(text, c.Key) {
+			t.Errorf("the report shows the field name %s", c.Key)
+		}
+	}
 	if !strings.Contains(squash(pages[0]), squash(analysis.Caution)) {
 		t.Error("the summary page lacks the caution wording")
 	}
@@ -143,9 +150,9 @@ func TestStepTableHoldsTheJSONNumbers(t *testing.T) {
 	sum := res.Summary()
 	labels, cells := StepTable(sum)
 	// The CSV's transportation columns are stated by the report's own transportation rows.
-	var cols []string
-	for _, c := range analysis.StepColumns {
-		if !strings.HasPrefix(c, "transportation_") && !strings.HasPrefix(c, "centering_ratio_") && c != "foramen_shift_mm" {
+	var cols []analysis.Column
+	for _, c := range analysis.StepColumns() {
+		if !strings.HasPrefix(c.Key, "transportation_") && !strings.HasPrefix(c.Key, "centering_ratio_") && c.Key != "foramen_shift_mm" {
 			cols = append(cols, c)
 		}
 	}
@@ -164,8 +171,9 @@ func TestStepTableHoldsTheJSONNumbers(t *testing.T) {
 	if err := json.Unmarshal(js, &back); err != nil {
 		t.Fatal(err)
 	}
-	for _, col := range cols {
-		i, ok := rowOf[ColumnLabel(col)]
+	for _, c := range cols {
+		col := c.Key
+		i, ok := rowOf[c.Label]
 		if !ok {
 			t.Fatalf("no row for %s", col)
 		}
@@ -336,7 +344,7 @@ func TestWriteCSVHasAHeaderAndARowPerStep(t *testing.T) {
 	if len(rows) != 1+len(res.Steps) {
 		t.Fatalf("%d rows, want 1 + %d", len(rows), len(res.Steps))
 	}
-	if strings.Join(rows[0], ",") != strings.Join(analysis.StepColumns, ",") {
+	if strings.Join(rows[0], ",") != strings.Join(analysis.StepColumnKeys(), ",") {
 		t.Errorf("header %v", rows[0])
 	}
 	for k, st := range res.Steps {

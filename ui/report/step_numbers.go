@@ -17,18 +17,20 @@ func numbersAndAdvice(pdf *fpdf.Fpdf, st *analysis.StepResult, x float64) {
 	pdf.SetX(x)
 	pdf.SetFont(fontBold, "", 9.5)
 	pdf.CellFormat(colW, 5, "Numbers", "", 1, "L", false, 0, "")
-	row := m.Row()
 	var pairs [][2]string
-	for i, col := range analysis.StepColumns {
-		switch col {
+	for _, c := range analysis.StepColumns() {
+		switch c.Key {
 		case "step", "label", "alloy", "advice", "tip_depth_mm", "tip_from_apex_mm":
 			continue
 		}
-		v := row[i]
+		if isTransportColumn(c) {
+			continue // stated below, under "How this step moved the canal"
+		}
+		v := c.Cell(m)
 		if v == "" {
 			v = "–"
 		}
-		pairs = append(pairs, [2]string{ColumnLabel(col), v})
+		pairs = append(pairs, [2]string{c.Label, v})
 	}
 	opt := func(v *float64, f string) string {
 		if v == nil {

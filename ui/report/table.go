@@ -8,101 +8,77 @@ import (
 	"tapersweep/analysis"
 )
 
-// columnLabels names each of analysis.StepColumns in plain words with its unit, for the
-// report's table; the CSV keeps the column names themselves.
-var columnLabels = map[string]string{
-	"step":                         "step",
-	"label":                        "file (size/taper)",
-	"alloy":                        "alloy",
-	"tip_depth_mm":                 "tip depth from orifice, mm",
-	"tip_from_apex_mm":             "tip from apical end, mm",
-	"engaged_length_mm":            "engaged length, mm",
-	"engaged_area_mm2":             "engaged area, mm²",
-	"removed_volume_mm3":           "removed volume, mm³",
-	"max_depth_of_cut_mm":          "deepest cut, mm",
-	"untouched_wall_pct":           "wall not yet touched, %",
-	"diameter_at_max_curvature_mm": "file diameter at tightest bend, mm",
-	"strain_at_max_curvature_pct":  "strain at tightest bend, %",
-	"peak_strain_pct":              "peak strain, %",
-	"fatigue_damage":               "fatigue use (1 = fracture)",
-	"fracture_from_tip_mm":         "fracture point from tip, mm",
-	"torsion_margin":               "torsional margin (capacity / load)",
-	"peak_torque_index":            "peak torque, N·cm (illustrative)",
-	"advice":                       "advice",
-}
-
-// ColumnLabel is the plain-words heading of one of analysis.StepColumns.
-func ColumnLabel(col string) string {
-	if l, ok := columnLabels[col]; ok {
-		return l
-	}
-	return col
+// isTransportColumn tells the CSV's transportation columns, which the report states by its own
+// rows (summaryTransportRows, transportPairs) together with the largest transportation and its
+// direction.
+func isTransportColumn(c analysis.Column) bool {
+	return strings.HasPrefix(c.Key, "transportation_") || strings.HasPrefix(c.Key, "centering_ratio_") ||
+		strings.HasPrefix(c.Key, "centre_shift_") || c.Key == "foramen_shift_mm"
 }
 
 // StepTable lays the run's steps out as the report prints them: one row per column of
 // analysis.StepColumns (label first), then the transportation rows, advice last; one column
-// per step. The cells are the same strings the CSV holds (StepMetrics.Row of the run's
-// summary) and the transportation figures as the JSON writes them, so the PDF, the CSV and
-// the JSON agree; a value that does not exist is "–".
+// per step. The cells are the same strings the CSV holds (Column.Cell of the run's summary)
+// and the transportation figures as the JSON writes them, so the PDF, the CSV and the JSON
+// agree; a value that does not exist is "–".
 func StepTable(sum analysis.ResultSummary) (labels []string, cells [][]string) {
-	// The transportation columns of the CSV are stated by the report's own rows
-	// (summaryTransportRows), which also give the largest transportation and its direction.
-	skip := func(c string) bool {
-		return strings.HasPrefix(c, "transportation_") || strings.HasPrefix(c, "centering_ratio_") || c == "foramen_shift_mm"
-	}
-	cols := analysis.StepColumns
-	advice := -1
-	for i, c := range cols {
-		if c == "advice" {
-			advice = i
-			continue
+	var cols []analysis.Column
+	var advice *analysis.Column
+	for _, c := range analysis.StepColumns() {
+		switch {
+		case c.Key == "advice":
+			advice = &c
+		case !isTransportColumn(c):
+			cols = append(cols, c)
 		}
-		if skip(c) {
-			continue
-		}
-		labels = append(labels, ColumnLabel(c))
-		cells = append(cells, make([]string, len(sum.Steps)))
 	}
-	first := len(labels)
+	row := func(label string, cell func(m analysis.StepMetrics) string) {
+		labels = append(labels, label)
+		r := make([]string, len(sum.Steps))
+		for j, m := range sum.Steps {
+			if r[j] = cell(m); r[j] == "" {
+				r[j] = "–"
+			}
+		}
+		cells = append(cells, r)
+	}
+	for _, c := range cols {
+		row(c.Label, c.Cell)
+	}
 	for _, r := range summaryTransportRows {
-		labels = append(labels, r.label)
-		cells = append(cells, make([]string, len(sum.Steps)))
+		row(r.label, func(m analysis.StepMetrics) string { return r.value(m.Transport) })
 	}
-	if advice >= 0 {
-		labels = append(labels, ColumnLabel("advice"))
-		cells = append(cells, make([]string, len(sum.Steps)))
-	}
-	for j, m := range sum.Steps {
-		row := 0
-		for i, v := range m.Row() {
-			if skip(cols[i]) {
-				continue
-			}
-			if v == "" {
-				v = "–"
-			}
-			at := row
-			if i == advice {
-				at = len(labels) - 1
-			} else {
-				row++
-			}
-			cells[at][j] = v
-		}
-		for k, r := range summaryTransportRows {
-			cells[first+k][j] = r.value(m.Transport)
-		}
+	if advice != nil {
+		row(advice.Label, advice.Cell)
 	}
 	return labels, cells
 }
 
-// WriteCSV writes one row per step under analysis.StepColumns, as `analyze --format csv`.
+// WriteCSV writes one row per step under analysis.StepColumnKeys, as `analyze --format csv`.
 func WriteCSV(w io.Writer, res *analysis.Result) error {
 	cw := csv.NewWriter(w)
-	cw.Write(analysis.StepColumns)
+	cw.Write(analysis.StepColumnKeys())
 	for _, s := range res.Steps {
 		cw.Write(s.Metrics.Row())
 	}
 	cw.Flush()
 	return cw.Error()
+}
+
+// TextRows states a run's steps under the columns as a terminal prints them: one-line headings,
+// Shown decimals, "-" for a value that does not exist.
+func TextRows(cols []analysis.Column, res *analysis.Result) (head []string, rows [][]string) {
+	for _, c := range cols {
+		head = append(head, c.HeadingLine())
+	}
+	for _, s := range res.Steps {
+		row := make([]string, len(cols))
+		for i, c := range cols {
+			if row[i] = c.Format(s.Metrics); row[i] == "" && c.IsNumber() {
+				row[i] = "-"
+			}
+		}
+		rows = append(rows, row)
+	}
+	return head, rows
 }
