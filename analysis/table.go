@@ -195,9 +195,9 @@ var stepColumns = func() []Column {
 		// The contact threshold stands beside the engaged figures, which count cuts deeper than it.
 		scalar("contact_threshold_mm", "contact threshold (cuts shallower count as none), mm", "contact\nthreshold mm",
 			"mm", -1, 3, func(m *StepMetrics) *float64 { return &m.ContactThresholdMM }),
-		scalar("engaged_length_mm", "engaged length (cuts past the threshold), mm", "engaged\nmm", "mm", 3, 2,
+		scalar("engaged_length_mm", "engaged length (cuts past the contact threshold), mm", "engaged\nmm", "mm", 3, 2,
 			func(m *StepMetrics) *float64 { return &m.EngagedLengthMM }),
-		scalar("engaged_area_mm2", "engaged area (cuts past the threshold), mm²", "area\nmm²", "mm²", 4, 2,
+		scalar("engaged_area_mm2", "engaged area (cuts past the contact threshold), mm²", "area\nmm²", "mm²", 4, 2,
 			func(m *StepMetrics) *float64 { return &m.EngagedAreaMM2 }),
 		scalar("shank_contact_mm", "shank in contact past the flutes (cuts nothing), mm", "shank\ncontact mm", "mm", 3, 2,
 			func(m *StepMetrics) *float64 { return &m.ShankContactMM }),

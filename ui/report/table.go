@@ -16,6 +16,13 @@ func isTransportColumn(c analysis.Column) bool {
 		strings.HasPrefix(c.Key, "centre_shift_") || c.Key == "foramen_shift_mm"
 }
 
+// statedApart tells the columns the report states in its own words elsewhere: the
+// transportation columns, and the contact threshold, which the model section states once (the
+// engaged figures' labels refer to it).
+func statedApart(c analysis.Column) bool {
+	return isTransportColumn(c) || c.Key == "contact_threshold_mm"
+}
+
 // StepTable lays the run's steps out as the report prints them: one row per column of
 // analysis.StepColumns (label first), then the transportation rows, advice last; one column
 // per step. The cells are the same strings the CSV holds (Column.Cell of the run's summary)
@@ -28,7 +35,7 @@ func StepTable(sum analysis.ResultSummary) (labels []string, cells [][]string) {
 		switch {
 		case c.Key == "advice":
 			advice = &c
-		case !isTransportColumn(c):
+		case !statedApart(c):
 			cols = append(cols, c)
 		}
 	}
