@@ -34,6 +34,9 @@ const maxContactRounds = 30
 // canals this stays within a few percent of a solve at every station (TestElasticFatigueBlend).
 var pathEvery = 16
 
+// pathStride: those solves take every second station (0.1 mm), the file at its target every one.
+var pathStride = 2
+
 // elasticSolver finds the file's own path in the canal as one step meets it: the file is a beam
 // (Euler-Bernoulli) whose offset delta(s) from the centerline minimises
 //
@@ -63,14 +66,19 @@ type elasticSolver struct {
 	wall     []float64
 	minWall  []float64 // the nearest wall of each station
 	// Work space for up to the whole line.
-	ei, r          []float64
+	// Per node of a solve (every stride-th station): stiffness, the file's radius, the
+	// centerline's curvature vector, the node's station, offsets and curvature.
+	ei, r, k1, k2  []float64
+	node           []int
+	d1, d2, kn     []float64
 	sums           []contactSums
-	d1, d2         []float64 // offsets of the last solve (the next one's start)
+	f1, f2         []float64 // offsets of the last solve per station (the next one's start)
 	solved         int       // stations of the last solve
 	bendA, bendB   []float64 // the bending part of the banded system
 	a, b, x, l, dd []float64
 	active, prev   []bool
 	lsP, lsS       []float64 // the line search's pressing directions
+	solves, rounds int       // solves so far and their contact rounds (for tests of the speed-up)
 }
 
 func newElasticSolver(c *Canal, in models.Instrument, eGPa, kw float64, prepared []float32) *elasticSolver {
@@ -97,8 +105,10 @@ func newElasticSolver(c *Canal, in models.Instrument, eGPa, kw float64, prepared
 		}
 		es.minWall[i] = lo
 	}
-	es.ei, es.r, es.sums = make([]float64, n), make([]float64, n), make([]contactSums, n)
-	es.d1, es.d2 = make([]float64, n), make([]float64, n)
+	es.ei, es.r, es.k1, es.k2 = make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
+	es.node, es.sums = make([]int, n), make([]contactSums, n)
+	es.d1, es.d2, es.kn = make([]float64, n), make([]float64, n), make([]float64, n)
+	es.f1, es.f2 = make([]float64, n), make([]float64, n)
 	N := 2 * n
 	es.bendA, es.a, es.l = make([]float64, N*bandW), make([]float64, N*bandW), make([]float64, N*bandW)
 	es.bendB, es.b, es.x, es.dd = make([]float64, N), make([]float64, N), make([]float64, N), make([]float64, N)
@@ -113,8 +123,9 @@ const (
 	bandW    = halfBand + 1
 )
 
-// solve returns the file's path with its tip at depth D, at station tip.
-func (es *elasticSolver) solve(D float64, tip int) elasticPath {
+// solve returns the file's path with its tip at depth D, at station tip, solving the beam at
+// every stride-th station (1 or 2; the path between is interpolated, its curvature too).
+func (es *elasticSolver) solve(D float64, tip, stride int) elasticPath {
 	c, line := es.c, es.c.Line
 	n := tip + 1
 	p := elasticPath{o1: make([]float64, n), o2: make([]float64, n), k: make([]float64, n)}
@@ -122,60 +133,90 @@ func (es *elasticSolver) solve(D float64, tip int) elasticPath {
 	if n < 4 || es.eMPa <= 0 || es.kw <= 0 {
 		return p
 	}
-	h := line.DS
-	m := len(es.cos)
-	for i := 0; i < n; i++ {
-		u := math.Max(0, D-line.S[i])
-		es.ei[i] = es.eMPa * es.in.SecondMoment(u) // N*mm2
-		es.r[i] = es.in.Diameter(u) / 2
+	if stride < 1 || (n-1)%stride != 0 || (n-1)/stride < 3 {
+		stride = 1
 	}
+	nc := (n-1)/stride + 1 // nodes of the solve: stations 0, stride, ..., tip
+	h := float64(stride) * line.DS
+	m := len(es.cos)
 	es.guess(n)
+	for j := 0; j < nc; j++ {
+		i := j * stride
+		u := math.Max(0, D-line.S[i])
+		es.ei[j] = es.eMPa * es.in.SecondMoment(u) // N*mm2
+		es.r[j] = es.in.Diameter(u) / 2
+		es.k1[j], es.k2[j] = line.KN1[i], line.KN2[i]
+		es.node[j] = i
+		es.d1[j], es.d2[j] = es.f1[i], es.f2[i]
+	}
 	es.d1[0], es.d1[1], es.d2[0], es.d2[1] = 0, 0, 0, 0
-	N := 2 * (n - 2) // unknowns: both components at stations 2..n-1
-	es.assembleBending(n, h)
-	act, prev := es.active[:n*m], es.prev[:n*m]
+	N := 2 * (nc - 2) // unknowns: both components at nodes 2..nc-1
+	es.assembleBending(nc, h)
+	act, prev := es.active[:nc*m], es.prev[:nc*m]
 	full := false // the last round took the whole Newton step
+	es.solves++
 	for round := 0; ; round++ {
-		es.contact(n, act)
+		es.rounds++
+		es.contact(nc, act)
 		if round > 0 && full && equalBools(act, prev) || round == maxContactRounds {
 			break
 		}
 		copy(es.a[:N*bandW], es.bendA[:N*bandW])
 		copy(es.b[:N], es.bendB[:N])
 		f := h * es.kw / math.Pi * es.dTheta
-		for i := 2; i < n; i++ {
-			cs := &es.sums[i]
-			ia := 2 * (i - 2)
+		for j := 2; j < nc; j++ {
+			cs := &es.sums[j]
+			ia := 2 * (j - 2)
 			es.a[ia*bandW] += f * cs.k11
 			es.a[ia*bandW+1] += f * cs.k12
 			es.a[(ia+1)*bandW] += f * cs.k22
 			es.b[ia] += f * cs.b1
 			es.b[ia+1] += f * cs.b2
 		}
-		bandLDL(es.a, N, halfBand, es.b, es.x, es.l, es.dd)
-		alpha := es.lineSearch(n, h, f)
+		bandLDL(es.a, N, es.b, es.x, es.l, es.dd)
+		// Plain Newton steps first (most solves settle within four rounds); from the fifth round
+		// on, a line search stops any cycling.
+		alpha := 1.0
+		if round >= 4 {
+			alpha = es.lineSearch(nc, h, f)
+		}
 		full = alpha == 1
 		change := 0.0
-		for i := 2; i < n; i++ {
-			s1, s2 := alpha*(es.x[2*(i-2)]-es.d1[i]), alpha*(es.x[2*(i-2)+1]-es.d2[i])
+		for j := 2; j < nc; j++ {
+			s1, s2 := alpha*(es.x[2*(j-2)]-es.d1[j]), alpha*(es.x[2*(j-2)+1]-es.d2[j])
 			change = math.Max(change, math.Max(math.Abs(s1), math.Abs(s2)))
-			es.d1[i] += s1
-			es.d2[i] += s2
+			es.d1[j] += s1
+			es.d2[j] += s2
 		}
 		if change < offsetTolerance {
 			break
 		}
 		act, prev = prev, act
 	}
-	copy(p.o1, es.d1[:n])
-	copy(p.o2, es.d2[:n])
-	// Strain follows the beam's own shape.
-	for i := 1; i < n-1; i++ {
-		k1 := line.KN1[i] + (p.o1[i+1]-2*p.o1[i]+p.o1[i-1])/(h*h)
-		k2 := line.KN2[i] + (p.o2[i+1]-2*p.o2[i]+p.o2[i-1])/(h*h)
-		p.k[i] = math.Hypot(k1, k2)
+	// Curvature of the beam's own shape at the nodes (strain follows it), then both it and the
+	// offsets carried to every station between nodes.
+	kn := es.kn[:nc]
+	kn[0] = line.K[0]
+	for j := 1; j < nc-1; j++ {
+		k1 := es.k1[j] + (es.d1[j+1]-2*es.d1[j]+es.d1[j-1])/(h*h)
+		k2 := es.k2[j] + (es.d2[j+1]-2*es.d2[j]+es.d2[j-1])/(h*h)
+		kn[j] = math.Hypot(k1, k2)
 	}
-	p.k[n-1] = p.k[n-2]
+	kn[nc-1] = kn[nc-2]
+	for j := 0; j < nc; j++ {
+		i := es.node[j]
+		p.o1[i], p.o2[i], p.k[i] = es.d1[j], es.d2[j], kn[j]
+		if j+1 < nc {
+			for q := 1; q < stride; q++ {
+				t := float64(q) / float64(stride)
+				p.o1[i+q] = (1-t)*es.d1[j] + t*es.d1[j+1]
+				p.o2[i+q] = (1-t)*es.d2[j] + t*es.d2[j+1]
+				p.k[i+q] = (1-t)*kn[j] + t*kn[j+1]
+			}
+		}
+	}
+	copy(es.f1[:n], p.o1)
+	copy(es.f2[:n], p.o2)
 	// The axis itself stays inside the canal as prepared (the contact keeps it there unless the
 	// wall is set very soft).
 	for i := 0; i < n; i++ {
@@ -192,36 +233,36 @@ func (es *elasticSolver) solve(D float64, tip int) elasticPath {
 	return p
 }
 
-// guess sets the offsets a solve of n stations starts from: the last solve's, and beyond its
-// tip the line of its last two stations.
+// guess sets the offsets (per station) a solve of n stations starts from: the last solve's,
+// and beyond its tip the line of its last two stations.
 func (es *elasticSolver) guess(n int) {
 	last := es.solved
 	for i := max(last, 2); i < n; i++ {
 		if last >= 4 {
-			es.d1[i] = 2*es.d1[i-1] - es.d1[i-2]
-			es.d2[i] = 2*es.d2[i-1] - es.d2[i-2]
+			es.f1[i] = 2*es.f1[i-1] - es.f1[i-2]
+			es.f2[i] = 2*es.f2[i-1] - es.f2[i-2]
 		} else {
-			es.d1[i], es.d2[i] = 0, 0
+			es.f1[i], es.f2[i] = 0, 0
 		}
 	}
 	es.solved = n
 }
 
-// assembleBending writes the bending part of the system: for each j, c_j (h^2 k_j + d_{j+1} -
-// 2 d_j + d_{j-1})^2 per component with c_j = E I_j / h^3 (twice the energy), d_0 = d_1 = 0.
-func (es *elasticSolver) assembleBending(n int, h float64) {
-	N := 2 * (n - 2)
+// assembleBending writes the bending part of the system over nc nodes h apart: for each j,
+// c_j (h^2 k_j + d_{j+1} - 2 d_j + d_{j-1})^2 per component with c_j = E I_j / h^3 (twice the
+// energy), d_0 = d_1 = 0.
+func (es *elasticSolver) assembleBending(nc int, h float64) {
+	N := 2 * (nc - 2)
 	A, B := es.bendA[:N*bandW], es.bendB[:N]
 	clear(A)
 	clear(B)
-	line := es.c.Line
 	v := [3]float64{1, -2, 1}
-	for j := 1; j <= n-2; j++ {
+	for j := 1; j <= nc-2; j++ {
 		cj := es.ei[j] / (h * h * h)
-		for comp, kappa := range [2]float64{line.KN1[j], line.KN2[j]} {
+		for comp, kappa := range [2]float64{es.k1[j], es.k2[j]} {
 			rhs := -cj * h * h * kappa
 			for a := 0; a < 3; a++ {
-				sa := j - 1 + a // station
+				sa := j - 1 + a // node
 				if sa < 2 {
 					continue
 				}
@@ -245,33 +286,33 @@ func (es *elasticSolver) assembleBending(n int, h float64) {
 // turns the energy up again (which is what makes a plain active-set iteration cycle). The energy
 // is convex and piecewise quadratic along the step, its slope piecewise linear: found by
 // bisection on the slope.
-func (es *elasticSolver) lineSearch(n int, h, f float64) float64 {
-	line := es.c.Line
+func (es *elasticSolver) lineSearch(nc int, h, f float64) float64 {
 	m := len(es.cos)
-	step := func(i int) (float64, float64) {
-		if i < 2 {
+	step := func(j int) (float64, float64) {
+		if j < 2 {
 			return 0, 0
 		}
-		return es.x[2*(i-2)] - es.d1[i], es.x[2*(i-2)+1] - es.d2[i]
+		return es.x[2*(j-2)] - es.d1[j], es.x[2*(j-2)+1] - es.d2[j]
 	}
 	// Bending: slope B0 + alpha B1.
 	var b0, b1 float64
-	for j := 1; j <= n-2; j++ {
+	for j := 1; j <= nc-2; j++ {
 		cj := es.ei[j] / (h * h * h)
 		sa1, sa2 := step(j - 1)
 		sb1, sb2 := step(j)
 		sc1, sc2 := step(j + 1)
-		r1 := h*h*line.KN1[j] + es.d1[j+1] - 2*es.d1[j] + es.d1[j-1]
-		r2 := h*h*line.KN2[j] + es.d2[j+1] - 2*es.d2[j] + es.d2[j-1]
+		r1 := h*h*es.k1[j] + es.d1[j+1] - 2*es.d1[j] + es.d1[j-1]
+		r2 := h*h*es.k2[j] + es.d2[j+1] - 2*es.d2[j] + es.d2[j-1]
 		q1, q2 := sc1-2*sb1+sa1, sc2-2*sb2+sa2
 		b0 += cj * (r1*q1 + r2*q2)
 		b1 += cj * (q1*q1 + q2*q2)
 	}
 	// Contact: the directions that press somewhere along the step.
 	p0, sl := es.lsP[:0], es.lsS[:0]
-	for i := 2; i < n; i++ {
-		s1, s2 := step(i)
-		d1, d2, r := es.d1[i], es.d2[i], es.r[i]
+	for j := 2; j < nc; j++ {
+		s1, s2 := step(j)
+		d1, d2, r := es.d1[j], es.d2[j], es.r[j]
+		i := es.node[j]
 		for q, w := range es.wall[i*m : (i+1)*m] {
 			c, sn := es.cos[q], es.sin[q]
 			p := d1*c + d2*sn + r - w
@@ -315,16 +356,17 @@ func (es *elasticSolver) lineSearch(n int, h, f float64) float64 {
 type contactSums struct{ k11, k12, k22, b1, b2 float64 }
 
 // contact marks the directions where the file's surface, delta . e + r, passes the wall and sums
-// each station's active directions.
-func (es *elasticSolver) contact(n int, act []bool) {
+// each node's active directions.
+func (es *elasticSolver) contact(nc int, act []bool) {
 	m := len(es.cos)
-	for i := 0; i < n; i++ {
-		d1, d2, r := es.d1[i], es.d2[i], es.r[i]
+	for j := 0; j < nc; j++ {
+		d1, d2, r := es.d1[j], es.d2[j], es.r[j]
+		i := es.node[j]
 		wall := es.wall[i*m : (i+1)*m]
-		flags := act[i*m : (i+1)*m]
+		flags := act[j*m : (j+1)*m]
 		var cs contactSums
 		// No direction can press where the wall is further than the file reaches anywhere.
-		if i >= 2 && math.Hypot(d1, d2)+r > es.minWall[i] {
+		if gap := es.minWall[i] - r; j >= 2 && (gap < 0 || d1*d1+d2*d2 > gap*gap) {
 			for q, w := range wall {
 				cq, sq := es.cos[q], es.sin[q]
 				on := d1*cq+d2*sq+r > w
@@ -341,7 +383,7 @@ func (es *elasticSolver) contact(n int, act []bool) {
 		} else {
 			clear(flags)
 		}
-		es.sums[i] = cs
+		es.sums[j] = cs
 	}
 }
 
@@ -354,39 +396,50 @@ func equalBools(a, b []bool) bool {
 	return true
 }
 
-// bandLDL solves A x = b for a symmetric positive definite matrix of half-bandwidth w stored by
-// rows, a[i*(w+1)+k] = A[i][i+k], by an LDL^T factorisation; l and d are work space (l as a).
-func bandLDL(a []float64, n, w int, b, x, l, d []float64) {
-	W := w + 1
+// bandLDL solves A x = b for a symmetric positive definite matrix of half-bandwidth 4 stored by
+// rows, a[i*5+k] = A[i][i+k], by an LDL^T factorisation (l: L[i][i-k] at l[i*5+k]; d: D), row
+// by row with the row's multipliers in registers (the solve runs hundreds of times per step).
+func bandLDL(a []float64, n int, b, x, l, d []float64) {
+	const W = bandW
 	for i := 0; i < n; i++ {
-		di := a[i*W]
-		for p := max(0, i-w); p < i; p++ {
-			lip := l[p*W+i-p] // L[i][p]
-			di -= lip * lip * d[p]
-		}
-		d[i] = di
-		for j := i + 1; j <= i+w && j < n; j++ {
-			v := a[i*W+j-i]
-			for p := max(0, j-w); p < i; p++ {
-				v -= l[p*W+j-p] * l[p*W+i-p] * d[p]
+		var m1, m2, m3, m4 float64 // L[i][i-1], ..., L[i][i-4]
+		switch {
+		case i >= 4:
+			m4 = a[(i-4)*W+4] / d[i-4]
+			m3 = (a[(i-3)*W+3] - m4*l[(i-3)*W+1]*d[i-4]) / d[i-3]
+			m2 = (a[(i-2)*W+2] - m4*l[(i-2)*W+2]*d[i-4] - m3*l[(i-2)*W+1]*d[i-3]) / d[i-2]
+			m1 = (a[(i-1)*W+1] - m4*l[(i-1)*W+3]*d[i-4] - m3*l[(i-1)*W+2]*d[i-3] - m2*l[(i-1)*W+1]*d[i-2]) / d[i-1]
+			d[i] = a[i*W] - m1*m1*d[i-1] - m2*m2*d[i-2] - m3*m3*d[i-3] - m4*m4*d[i-4]
+		default: // the first rows have fewer neighbours above
+			var li [5]float64
+			for k := i; k >= 1; k-- {
+				p := i - k
+				v := a[p*W+k]
+				for kk := k + 1; kk <= i; kk++ {
+					v -= li[kk] * l[p*W+kk-k] * d[i-kk]
+				}
+				li[k] = v / d[p]
 			}
-			l[i*W+j-i] = v / di
+			di := a[i*W]
+			for k := 1; k <= i; k++ {
+				di -= li[k] * li[k] * d[i-k]
+			}
+			d[i] = di
+			m1, m2, m3, m4 = li[1], li[2], li[3], li[4]
 		}
+		l[i*W+1], l[i*W+2], l[i*W+3], l[i*W+4] = m1, m2, m3, m4
 	}
 	for i := 0; i < n; i++ { // L y = b
 		v := b[i]
-		for p := max(0, i-w); p < i; p++ {
-			v -= l[p*W+i-p] * x[p]
+		for k := 1; k <= 4 && k <= i; k++ {
+			v -= l[i*W+k] * x[i-k]
 		}
 		x[i] = v
 	}
-	for i := 0; i < n; i++ {
-		x[i] /= d[i]
-	}
 	for i := n - 1; i >= 0; i-- { // L^T x = y / d
-		v := x[i]
-		for j := i + 1; j <= i+w && j < n; j++ {
-			v -= l[i*W+j-i] * x[j]
+		v := x[i] / d[i]
+		for k := 1; k <= 4 && i+k < n; k++ {
+			v -= l[(i+k)*W+k] * x[i+k]
 		}
 		x[i] = v
 	}

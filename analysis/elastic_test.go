@@ -124,7 +124,7 @@ func TestElasticCantileverOnOneWall(t *testing.T) {
 	line := *c.Line
 	line.K, line.KN1, line.KN2 = make([]float64, line.Len()), make([]float64, line.Len()), make([]float64, line.Len())
 	c.Line = &line
-	p := newElasticSolver(&c, in, 40, 1e7, c.Rho).solve(D, tip)
+	p := newElasticSolver(&c, in, 40, 1e7, c.Rho).solve(D, tip, 1)
 	va := p.o1[ia]
 	if math.Abs(va+(0.15-rho0)) > 1e-3 {
 		t.Fatalf("offset at the wall %.5f mm, want -0.100 (pushed away from the wall by r - rho)", va)
@@ -154,16 +154,75 @@ func TestElasticFatigueBlend(t *testing.T) {
 	} {
 		c := canalFor(t, canal, 1.0, 0.25)
 		blended := runFor(t, c, seq, RunOptions{PathModel: "elastic"})
-		saved := pathEvery
-		pathEvery = 1
+		every, stride := pathEvery, pathStride
+		pathEvery, pathStride = 1, 1
 		exact := runFor(t, c, seq, RunOptions{PathModel: "elastic"})
-		pathEvery = saved
+		pathEvery, pathStride = every, stride
 		for k, st := range blended.Steps {
 			got, want := st.Metrics.FatigueDamage, exact.Steps[k].Metrics.FatigueDamage
 			t.Logf("step %d: fatigue use %.5g blended, %.5g solved at every station", k+1, got, want)
 			if math.Abs(got-want) > 0.05*want+5e-4 { // 5e-4: a use that small is nothing
 				t.Errorf("step %d: fatigue use %.5g blended, %.5g solved at every station", k+1, got, want)
 			}
+		}
+	}
+}
+
+// TestBandSolve: the banded LDL^T solve gives back the right-hand side when multiplied out
+// (linear algebra; a random diagonally dominant symmetric band matrix of half-bandwidth 4).
+func TestBandSolve(t *testing.T) {
+	const n = 40
+	a := make([]float64, n*bandW)
+	b := make([]float64, n)
+	for i := 0; i < n; i++ {
+		a[i*bandW] = 10 + float64(i%7)
+		for k := 1; k <= halfBand && i+k < n; k++ {
+			a[i*bandW+k] = math.Sin(float64(3*i+k)) / 2
+		}
+		b[i] = math.Cos(float64(i))
+	}
+	x, l, d := make([]float64, n), make([]float64, n*bandW), make([]float64, n)
+	bandLDL(a, n, b, x, l, d)
+	at := func(i, j int) float64 {
+		if j < i {
+			i, j = j, i
+		}
+		if j-i > halfBand {
+			return 0
+		}
+		return a[i*bandW+j-i]
+	}
+	for i := 0; i < n; i++ {
+		sum := 0.0
+		for j := 0; j < n; j++ {
+			sum += at(i, j) * x[j]
+		}
+		if math.Abs(sum-b[i]) > 1e-12 {
+			t.Fatalf("row %d: A x = %.15g, b = %.15g", i, sum, b[i])
+		}
+	}
+}
+
+// TestElasticContactSettles: the contact iteration settles in a few rounds per solve along a
+// schedule (each solve starting from the one before) and never runs to its bound, for files from
+// narrower than the canal to wider than it (the speed of the elastic path rests on this).
+func TestElasticContactSettles(t *testing.T) {
+	c := canalFor(t, `{"kind":"straight","length":8},{"kind":"arc","radius":3,"angle":60},{"kind":"straight","length":2}`, 1.0, 0.25)
+	for _, in := range []models.Instrument{models.NewInstrument(10, 0.02), models.NewInstrument(25, 0.06),
+		models.NewInstrument(35, 0.04)} {
+		es := newElasticSolver(c, in, in.Alloy.ElasticModulusGPa, DefaultWallStiffness, c.Rho)
+		along := pathCurvature(c, es)
+		tip := c.Line.Len() - 1
+		for z := 0; z < tip+pathEvery; z += pathEvery {
+			along(min(z, tip))
+		}
+		before := es.rounds
+		es.solve(c.Line.Length(), tip, 1)
+		last := es.rounds - before
+		per := float64(es.rounds) / float64(es.solves)
+		t.Logf("%s: %d solves, %.2f rounds each; the file at its target %d", in.Label(), es.solves, per, last)
+		if per > 5 || last >= maxContactRounds {
+			t.Errorf("%s: %.2f rounds per solve, %d for the last", in.Label(), per, last)
 		}
 	}
 }

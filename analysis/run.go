@@ -146,9 +146,16 @@ func runStep(c *Canal, k *Kernel, st models.Step, alloy models.Alloy, before []f
 	elastic := opt.PathModel == models.PathElastic
 	path := elasticPath{k: line.K}
 	var es *elasticSolver
+	var along pathAt
 	if elastic {
 		es = newElasticSolver(c, in, alloy.ElasticModulusGPa, opt.WallStiffness, before)
-		path = es.solve(D, tip)
+		// The schedule's solves first, tip advancing from the orifice (each starts from the one
+		// before), then the file at its target, which starts from the deepest of them.
+		along = pathCurvature(c, es)
+		for z := 0; z < tip+pathEvery; z += pathEvery {
+			along(min(z, tip))
+		}
+		path = es.solve(D, tip, 1)
 		sr.Offset1, sr.Offset2 = path.o1, path.o2
 		f.Off1, f.Off2 = path.o1, path.o2
 	}
@@ -163,7 +170,10 @@ func runStep(c *Canal, k *Kernel, st models.Step, alloy models.Alloy, before []f
 	m.ShankContactMM = eg.ShankContactMM(line)
 	sr.touched = touched + eg.NewlyTouchedMM2
 	m.UntouchedWallPct = k.UntouchedShare(sr.touched)
-	strainAndFatigue(c, sr, tip, path.k, pathCurvature(c, es))
+	if along == nil {
+		along = pathCurvature(c, nil)
+	}
+	strainAndFatigue(c, sr, tip, path.k, along)
 	torsion(sr, line, cellTorque, tip)
 	m.Transport = transportBetween(c, before, sr.Prepared)
 	roundMetrics(m)
@@ -258,7 +268,7 @@ func pathCurvature(c *Canal, es *elasticSolver) pathAt {
 		if k, ok := cache[z]; ok {
 			return k
 		}
-		k := es.solve(c.Line.S[z], z).k
+		k := es.solve(c.Line.S[z], z, pathStride).k
 		cache[z] = k
 		return k
 	}
