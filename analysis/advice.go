@@ -113,13 +113,15 @@ func addAdvice(res *Result) {
 // word). A ratio against next to nothing says nothing, so a rise from no cut or from almost none
 // is stated as from-to.
 func torqueJump(before, now float64, prevStep int) string {
-	const tiny = 0.001 // N*cm: less is next to no cutting at the illustrative coefficient
+	// N*cm at the illustrative coefficient: a peak under worthNcm is too small to remark on, one
+	// under tinyNcm is next to no cutting.
+	const worthNcm, tinyNcm = 0.05, 0.01
 	switch {
-	case now <= tiny || now <= 2*before:
+	case now < worthNcm || now <= 2*before:
 		return ""
 	case before == 0:
 		return fmt.Sprintf("Torque needed goes from none (step %d cut nothing) to %.3f N*cm.", prevStep, now)
-	case before < tiny || now > 20*before:
+	case before < tinyNcm || now > 20*before:
 		return fmt.Sprintf("Torque needed goes from almost none (%.4f N*cm at step %d) to %.3f N*cm.", before, prevStep, now)
 	}
 	return fmt.Sprintf("Torque needed rises %.1f times against step %d (%.3f to %.3f N*cm).", now/before, prevStep, before, now)

@@ -101,7 +101,7 @@ func newElasticSolver(c *Canal, in models.Instrument, eGPa, kw float64, prepared
 		for q := 0; q < m; q++ {
 			w := float64(row[q*stride])
 			es.wall[i*m+q] = w
-			lo = math.Min(lo, w)
+			lo = min(lo, w)
 		}
 		es.minWall[i] = lo
 	}
@@ -184,7 +184,7 @@ func (es *elasticSolver) solve(D float64, tip, stride int) elasticPath {
 		change := 0.0
 		for j := 2; j < nc; j++ {
 			s1, s2 := alpha*(es.x[2*(j-2)]-es.d1[j]), alpha*(es.x[2*(j-2)+1]-es.d2[j])
-			change = math.Max(change, math.Max(math.Abs(s1), math.Abs(s2)))
+			change = max(change, math.Abs(s1), math.Abs(s2))
 			es.d1[j] += s1
 			es.d2[j] += s2
 		}
@@ -397,47 +397,48 @@ func equalBools(a, b []bool) bool {
 }
 
 // bandLDL solves A x = b for a symmetric positive definite matrix of half-bandwidth 4 stored by
-// rows, a[i*5+k] = A[i][i+k], by an LDL^T factorisation (l: L[i][i-k] at l[i*5+k]; d: D), row
-// by row with the row's multipliers in registers (the solve runs hundreds of times per step).
+// rows, a[i*5+k] = A[i][i+k], by an LDL^T factorisation (l: L[i][i-k] at l[i*5+k]; d: 1/D), row
+// by row with the rows above it carried in registers (the solve runs hundreds of times a step).
 func bandLDL(a []float64, n int, b, x, l, d []float64) {
 	const W = bandW
+	// Row i needs the three rows above it: L[i-1][i-2..i-4] (q11, q12, q13), L[i-2][i-3..i-4]
+	// (q21, q22), L[i-3][i-4] (q31), and D of rows i-1..i-4 (d1..d4; e1..e4 their inverses).
+	var q11, q12, q13, q21, q22, q31 float64
+	var d1, d2, d3, d4, e1, e2, e3, e4 float64
 	for i := 0; i < n; i++ {
-		var m1, m2, m3, m4 float64 // L[i][i-1], ..., L[i][i-4]
-		switch {
-		case i >= 4:
-			m4 = a[(i-4)*W+4] / d[i-4]
-			m3 = (a[(i-3)*W+3] - m4*l[(i-3)*W+1]*d[i-4]) / d[i-3]
-			m2 = (a[(i-2)*W+2] - m4*l[(i-2)*W+2]*d[i-4] - m3*l[(i-2)*W+1]*d[i-3]) / d[i-2]
-			m1 = (a[(i-1)*W+1] - m4*l[(i-1)*W+3]*d[i-4] - m3*l[(i-1)*W+2]*d[i-3] - m2*l[(i-1)*W+1]*d[i-2]) / d[i-1]
-			d[i] = a[i*W] - m1*m1*d[i-1] - m2*m2*d[i-2] - m3*m3*d[i-3] - m4*m4*d[i-4]
-		default: // the first rows have fewer neighbours above
-			var li [5]float64
-			for k := i; k >= 1; k-- {
-				p := i - k
-				v := a[p*W+k]
-				for kk := k + 1; kk <= i; kk++ {
-					v -= li[kk] * l[p*W+kk-k] * d[i-kk]
-				}
-				li[k] = v / d[p]
-			}
-			di := a[i*W]
-			for k := 1; k <= i; k++ {
-				di -= li[k] * li[k] * d[i-k]
-			}
-			d[i] = di
-			m1, m2, m3, m4 = li[1], li[2], li[3], li[4]
+		var m1, m2, m3, m4 float64      // L[i][i-1], ..., L[i][i-4]
+		col := a[max(0, i-4)*W : i*W+1] // A[i-4..i][i] lie at col[(4-k)*W+k] for k rows above
+		off := min(i, 4) * W
+		if i >= 4 {
+			m4 = col[off-4*W+4] * e4
 		}
-		l[i*W+1], l[i*W+2], l[i*W+3], l[i*W+4] = m1, m2, m3, m4
+		if i >= 3 {
+			m3 = (col[off-3*W+3] - m4*q31*d4) * e3
+		}
+		if i >= 2 {
+			m2 = (col[off-2*W+2] - m4*q22*d4 - m3*q21*d3) * e2
+		}
+		if i >= 1 {
+			m1 = (col[off-W+1] - m4*q13*d4 - m3*q12*d3 - m2*q11*d2) * e1
+		}
+		di := col[off] - m1*m1*d1 - m2*m2*d2 - m3*m3*d3 - m4*m4*d4
+		row := l[i*W : i*W+W]
+		row[1], row[2], row[3], row[4] = m1, m2, m3, m4
+		q31, q21, q22, q11, q12, q13 = q21, q11, q12, m1, m2, m3
+		d4, d3, d2, d1 = d3, d2, d1, di
+		e4, e3, e2, e1 = e3, e2, e1, 1/di
+		d[i] = e1
 	}
 	for i := 0; i < n; i++ { // L y = b
 		v := b[i]
+		row := l[i*W : i*W+W]
 		for k := 1; k <= 4 && k <= i; k++ {
-			v -= l[i*W+k] * x[i-k]
+			v -= row[k] * x[i-k]
 		}
 		x[i] = v
 	}
-	for i := n - 1; i >= 0; i-- { // L^T x = y / d
-		v := x[i] / d[i]
+	for i := n - 1; i >= 0; i-- { // L^T x = y / D
+		v := x[i] * d[i]
 		for k := 1; k <= 4 && i+k < n; k++ {
 			v -= l[(i+k)*W+k] * x[i+k]
 		}

@@ -50,7 +50,7 @@ func NewKernel(c *Canal, opt RunOptions) *Kernel {
 		kc, ks := c.Line.KN1[i], c.Line.KN2[i]
 		for j := 0; j < c.Angles; j++ {
 			rho := float64(c.Rho[i*c.Angles+j])
-			a := rho * math.Max(0, 1-(kc*k.cos[j]+ks*k.sin[j])*rho) * k.weight[i]
+			a := rho * max(0, 1-(kc*k.cos[j]+ks*k.sin[j])*rho) * k.weight[i]
 			k.wallArea[i*c.Angles+j] = a
 			k.totalWall += a
 		}
@@ -184,12 +184,17 @@ func (k *Kernel) Sweep(wall []float32, pre, f *Placed, out *Traces) Engagement {
 		}
 		kc, ks := k.line.KN1[i], k.line.KN2[i]
 		var o1, o2 float64
+		reach := r // the furthest the file's surface gets from the centerline here
 		if off {
 			o1, o2 = f.Off1[i], f.Off2[i]
+			reach += math.Sqrt(o1*o1 + o2*o2)
 		}
 		engaged := false
 		for j, rho32 := range row {
 			rho := float64(max(rho32, p))
+			if rho >= reach {
+				continue
+			}
 			t := r
 			if off {
 				// The far side of the offset circle in this direction.
@@ -222,7 +227,7 @@ func (k *Kernel) Sweep(wall []float32, pre, f *Placed, out *Traces) Engagement {
 			dA := t * (1 - bend*t) * k.dTheta * w
 			e.AreaMM2 += dA
 			e.VolumeMM3 += ((t*t-rho*rho)/2 - bend*(t*t*t-rho*rho*rho)/3) * k.dTheta * w
-			e.MaxCutMM = math.Max(e.MaxCutMM, cut)
+			e.MaxCutMM = max(e.MaxCutMM, cut)
 			dT := k.ct * r * dA
 			torque += dT
 			if out != nil && out.StationTorque != nil {
