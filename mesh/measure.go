@@ -29,6 +29,25 @@ func Volume(m *Mesh) float64 {
 	return v
 }
 
+// signedVolume is Volume without the first moment or the bounding box (the reference point is
+// the first vertex): what Validate reports.
+func signedVolume(m *Mesh) float64 {
+	if len(m.Vertices) == 0 {
+		return 0
+	}
+	ref := m.Vertices[0]
+	nv := int32(len(m.Vertices))
+	vol := 0.0
+	for _, tri := range m.Triangles {
+		if !triInRange(tri, nv) {
+			continue
+		}
+		a, b, c := m.Vertices[tri[0]].Sub(ref), m.Vertices[tri[1]].Sub(ref), m.Vertices[tri[2]].Sub(ref)
+		vol += a.Dot(b.Cross(c))
+	}
+	return vol / 6
+}
+
 // Centroid returns the centre of mass of the enclosed solid (uniform density) for a closed
 // mesh. When the mesh encloses no volume (open or flat) it returns the area-weighted centre
 // of the surface instead, and the mean of the vertices when even the area is zero.

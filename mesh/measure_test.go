@@ -80,6 +80,20 @@ func TestCentroidFrustum(t *testing.T) {
 	}
 }
 
+// admeshPath finds the admesh reference tool (Debian package admesh); without it the caller
+// is skipped, except under CI, where it fails.
+func admeshPath(tb testing.TB) string {
+	tb.Helper()
+	bin, err := exec.LookPath("admesh")
+	if err != nil {
+		if os.Getenv("CI") != "" {
+			tb.Fatal("admesh is not installed (apt-get install admesh); CI needs it as the reference")
+		}
+		tb.Skip("admesh not installed")
+	}
+	return bin
+}
+
 var (
 	admeshVolume = regexp.MustCompile(`Volume\s*:\s*([-+0-9.eE]+)`)
 	admeshParts  = regexp.MustCompile(`Number of parts\s*:\s*(\d+)`)
@@ -90,13 +104,7 @@ var (
 // facet count and number of parts as we compute on the same binary STL. (admesh 0.98 prints
 // no surface area; VTK checks the area below.)
 func TestVolumeMatchesAdmesh(t *testing.T) {
-	bin, err := exec.LookPath("admesh")
-	if err != nil {
-		if os.Getenv("CI") != "" {
-			t.Fatal("admesh is not installed (apt-get install admesh); CI needs it as the reference")
-		}
-		t.Skip("admesh not installed")
-	}
+	bin := admeshPath(t)
 	dir := t.TempDir()
 	cases := map[string]*Mesh{
 		"frustum.stl": shapeFrustum(0.9, 0.3, 12, 96, 20),

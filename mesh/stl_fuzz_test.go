@@ -49,6 +49,22 @@ func FuzzLoadSTL(f *testing.F) {
 	f.Add([]byte("solid\nendsolid\n"))
 	f.Add([]byte("solid x\nfacet normal 0 0 1\nouter loop\nvertex 0 0 nan\n"))
 	f.Add([]byte{})
+	// What was fixed: upper-case keywords, several solids, a misspelt keyword, text between
+	// facets, a corrupt vertex far away, triangles facing different ways.
+	f.Add(bytes.ToUpper(ascii.Bytes()))
+	f.Add(append(bytes.Clone(ascii.Bytes()), ascii.Bytes()...))
+	f.Add(bytes.Replace(ascii.Bytes(), []byte("outer loop"), []byte("outer lop"), 1))
+	f.Add(bytes.Replace(ascii.Bytes(), []byte("endfacet\n"), []byte("endfacet\nsome words here\n"), 2))
+	far := bytes.Clone(bin.Bytes())
+	binary.LittleEndian.PutUint32(far[84+50+12:], math.Float32bits(1e6))
+	f.Add(far)
+	mixed := fuzzTetra()
+	mixed.Triangles[1][1], mixed.Triangles[1][2] = mixed.Triangles[1][2], mixed.Triangles[1][1]
+	var mixedBin bytes.Buffer
+	if err := WriteSTL(&mixedBin, mixed, "demo mixed"); err != nil {
+		f.Fatal(err)
+	}
+	f.Add(mixedBin.Bytes())
 
 	f.Fuzz(func(t *testing.T, data []byte) {
 		var before, after runtime.MemStats

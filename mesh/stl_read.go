@@ -4,16 +4,11 @@ import (
 	"bytes"
 	"context"
 	"encoding/binary"
-	"errors"
 	"fmt"
 	"io"
 	"math"
-	"os"
-	"strconv"
-	"strings"
 
 	"github.com/go-gl/mathgl/mgl64"
-	"github.com/hschendel/stl"
 )
 
 // LoadOptions tune reading an STL surface.
@@ -30,11 +25,19 @@ type LoadReport struct {
 	TrianglesRead     int
 	DegenerateRemoved int
 	Vertices          int
+	// Turned counts triangles that faced the other way from their neighbours (or a whole
+	// inside-out surface) and were turned over.
+	Turned int
+	// Solids is the number of "solid ... endsolid" blocks of an ASCII file (every one is read).
+	Solids int
+	// Surface is the check of the welded surface (closed, manifold, shells, orientation).
+	Surface Report
 	// Warnings are plain-language problems, each with a way to fix it: the surface's own
 	// (Validate's) followed by Notes.
 	Warnings []string
-	// Notes are what reading found beyond the surface's shape: triangles removed, units that
-	// look wrong, a very large mesh. A caller that validates the mesh itself uses only these.
+	// Notes are what reading found beyond the surface's shape: facets skipped, triangles
+	// removed, units that look wrong, a very large mesh. A caller that validates the mesh
+	// itself uses only these.
 	Notes []string
 }
 
@@ -51,21 +54,22 @@ const (
 	weldRelTol = 1e-7
 )
 
-// LoadFile reads a binary or ASCII STL file; see Load.
+// MaxTriangles is the most triangles a surface may have: about 30 times a fine canal scan,
+// and what keeps reading, welding and measuring one surface within a few GB of memory.
+const MaxTriangles = 8_000_000
+
+// MaxSTLBytes is the largest STL file read: MaxTriangles as ASCII text at about 250 bytes a
+// facet. A binary file is bounded by its triangle count first.
+const MaxSTLBytes = 2 << 30
+
+// LoadFile reads a binary or ASCII STL file; see Load. It refuses what is not a regular file.
 func LoadFile(ctx context.Context, path string, opt LoadOptions) (*Mesh, LoadReport, error) {
-	f, err := os.Open(path)
+	f, size, err := OpenInput(path, MaxSTLBytes)
 	if err != nil {
-		return nil, LoadReport{}, fmt.Errorf("%s: cannot open: %w", path, err)
+		return nil, LoadReport{}, err
 	}
 	defer f.Close()
-	st, err := f.Stat()
-	if err != nil {
-		return nil, LoadReport{}, fmt.Errorf("%s: %w", path, err)
-	}
-	if st.IsDir() {
-		return nil, LoadReport{}, fmt.Errorf("%s: is a folder, not an STL file", path)
-	}
-	return Load(ctx, path, f, st.Size(), opt)
+	return Load(ctx, path, f, size, opt)
 }
 
 // Load reads a binary or ASCII STL surface from r (size bytes long; where seeking to the end
@@ -92,6 +96,9 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	if size == 0 {
 		return nil, rep, fmt.Errorf("%s: the file is empty", name)
 	}
+	if size > MaxSTLBytes {
+		return nil, rep, fmt.Errorf("%s: %s, more than the %s an STL surface may have here", name, byteSize(size), byteSize(MaxSTLBytes))
+	}
 	head := make([]byte, min(size, 2048))
 	if _, err := r.Seek(0, io.SeekStart); err != nil {
 		return nil, rep, fmt.Errorf("%s: %w", name, err)
@@ -99,27 +106,37 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	if _, err := io.ReadFull(r, head); err != nil {
 		return nil, rep, fmt.Errorf("%s: cannot read the start of the file: %w", name, err)
 	}
-
-	col := &cornerCollector{name: name, scale: scale}
+	if _, err := r.Seek(0, io.SeekStart); err != nil {
+		return nil, rep, fmt.Errorf("%s: %w", name, err)
+	}
+	rd := &stlReader{ctx: ctx, name: name, scale: scale, r: r, size: size, progress: opt.Progress}
 	var err error
-	if asciiStart, lines, ok := looksASCII(head, size); ok {
+	if looksASCII(head) {
 		rep.Format = "ascii"
-		err = readASCII(ctx, name, r, size, head, asciiStart, lines, col, opt.Progress)
+		err = rd.readASCII()
+		rep.Solids = rd.solids
 	} else {
 		rep.Format = "binary"
-		err = readBinary(ctx, name, r, size, head, col, opt.Progress)
+		err = rd.readBinary(head)
 	}
 	if err != nil {
 		return nil, rep, err
 	}
-	rep.TrianglesRead = len(col.corners) / 3
+	rep.TrianglesRead = len(rd.corners) / 3
 	if rep.TrianglesRead == 0 {
+		if len(rd.problems) > 0 {
+			return nil, rep, fmt.Errorf("%s: no triangle could be read: %s", name, rd.problems[0])
+		}
 		return nil, rep, fmt.Errorf("%s: the file holds no triangles", name)
+	}
+	if err := rd.checkOutliers(); err != nil {
+		return nil, rep, err
 	}
 	if err := ctx.Err(); err != nil {
 		return nil, rep, fmt.Errorf("%s: loading stopped: %w", name, err)
 	}
-	m, removed := weldAndClean(col.corners)
+	m, removed := weldAndClean(rd.corners)
+	rd.corners = nil
 	rep.DegenerateRemoved = removed
 	if len(m.Triangles) == 0 {
 		return nil, rep, fmt.Errorf("%s: all %d triangles have zero area or a repeated corner", name, rep.TrianglesRead)
@@ -128,8 +145,13 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	if err := ctx.Err(); err != nil {
 		return nil, rep, fmt.Errorf("%s: loading stopped: %w", name, err)
 	}
-	rep.Notes = loadNotes(m, rep)
-	rep.Warnings = append(validate(m, false).Warnings(), rep.Notes...) // degenerate triangles are gone already
+	rep.Surface = validate(m, false) // degenerate triangles are gone already
+	if rep.Surface.InconsistentOrientation > 0 || rep.Surface.Closed && rep.Surface.SignedVolume < 0 {
+		rep.Turned = OrientConsistently(m)
+		rep.Surface = validate(m, false)
+	}
+	rep.Notes = append(rd.notes(), loadNotes(m, rep)...)
+	rep.Warnings = append(rep.Surface.Warnings(), rep.Notes...)
 	return m, rep, nil
 }
 
@@ -152,6 +174,10 @@ func weldAndClean(corners []mgl64.Vec3) (*Mesh, int) {
 // loadNotes states what reading found beyond the surface's shape, each with a way to fix it.
 func loadNotes(m *Mesh, rep LoadReport) []string {
 	var w []string
+	if rep.Turned > 0 {
+		w = append(w, fmt.Sprintf("%d triangles faced the other way from their neighbours (or the surface was inside out) "+
+			"and were turned over; nothing to fix unless other programs show the surface wrongly", rep.Turned))
+	}
 	if rep.DegenerateRemoved > 0 {
 		w = append(w, fmt.Sprintf("%d triangles with zero area or a repeated corner were removed; "+
 			"nothing to fix unless the surface now shows holes", rep.DegenerateRemoved))
@@ -173,46 +199,86 @@ func loadNotes(m *Mesh, rep LoadReport) []string {
 }
 
 // looksASCII decides the format from the first (up to 2048) bytes: ASCII starts with "solid"
-// and is plain text. A binary header may also start with "solid" (many exporters write that),
-// but its count and records hold control bytes, so it goes to the binary reader, which then
-// insists on a length of exactly 84 + 50n. (The stl package decides by length alone; a text
-// header can only match for a count of 538 million or more.) It returns where "solid" starts
-// and how many lines come before it.
-func looksASCII(head []byte, size int64) (start, lines int, ok bool) {
+// in any case and is plain text. A binary header may also start with "solid" (many exporters
+// write that), but its count and records hold control bytes, so it goes to the binary reader,
+// which then insists on a length of exactly 84 + 50n.
+func looksASCII(head []byte) bool {
 	i := 0
 	if bytes.HasPrefix(head, []byte("\xEF\xBB\xBF")) {
 		i = 3
 	}
 	for i < len(head) && stlSpace(head[i]) {
-		if head[i] == '\n' {
-			lines++
-		}
 		i++
 	}
-	if !bytes.HasPrefix(head[i:], []byte("solid")) || (i+5 < len(head) && !stlSpace(head[i+5])) {
-		return 0, 0, false
+	if len(head)-i < 5 || !bytes.EqualFold(head[i:i+5], []byte("solid")) || (i+5 < len(head) && !stlSpace(head[i+5])) {
+		return false
 	}
-	// A binary header may start with "solid" too, but its count and records hold control bytes.
 	for _, c := range head {
 		if c < 0x20 && !stlSpace(c) || c == 0x7F {
-			return 0, 0, false
+			return false
 		}
 	}
-	return i, lines, true
+	return true
 }
 
 func stlSpace(c byte) bool {
 	return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\f' || c == '\v'
 }
 
-func binarySizeMatches(head []byte, size int64) bool {
-	n := int64(binary.LittleEndian.Uint32(head[80:84]))
-	return stlHeaderSize+stlRecordSize*n == size
+// stlReader collects the corners of an STL file, scaled to float64.
+type stlReader struct {
+	ctx      context.Context
+	name     string
+	scale    float64
+	r        io.Reader
+	size     int64
+	progress func(int64, int64)
+	binary   bool
+	corners  []mgl64.Vec3
+	// lines[t] is the line where ASCII facet t starts (nil for binary files).
+	lines []int32
+	// What an ASCII read skipped, as "line N: what" (the first few) and how many in all.
+	problems     []string
+	skipped      int // facets that could not be read
+	strayRuns    int // runs of text between facets
+	solids       int
+	unterminated bool
 }
 
+const maxProblemsKept = 3
+
+// where names triangle t (from 0) by its place in the file: the record's byte or the facet's line.
+func (rd *stlReader) where(t int) string {
+	if rd.binary {
+		return fmt.Sprintf("triangle %d (byte %d)", t+1, stlHeaderSize+stlRecordSize*int64(t))
+	}
+	if t < len(rd.lines) {
+		return fmt.Sprintf("triangle %d (line %d)", t+1, rd.lines[t])
+	}
+	return fmt.Sprintf("triangle %d", t+1)
+}
+
+func (rd *stlReader) notFinite(t int) error {
+	return fmt.Errorf("%s: %s has a coordinate that is not a finite number (NaN or infinity); "+
+		"repair or re-export the file", rd.name, rd.where(t))
+}
+
+func (rd *stlReader) stopped() error {
+	if err := rd.ctx.Err(); err != nil {
+		return fmt.Errorf("%s: loading stopped: %w", rd.name, err)
+	}
+	return nil
+}
+
+// stlBinaryChunk is how many records are decoded from one read: large enough that the reads
+// cost nothing, small enough to stay in cache.
+const stlBinaryChunk = 4096
+
 // readBinary checks the length against the header's count before reading anything, so a
-// hostile count can never make us allocate, then reads the records through the stl package.
-func readBinary(ctx context.Context, name string, r io.ReadSeeker, size int64, head []byte, col *cornerCollector, progress func(int64, int64)) error {
+// hostile count can never make us allocate, then decodes the records straight from a read
+// buffer.
+func (rd *stlReader) readBinary(head []byte) error {
+	name, size := rd.name, rd.size
 	if size < stlHeaderSize {
 		return fmt.Errorf("%s: not an STL file: it does not start with \"solid\" (ASCII) and at %d bytes "+
 			"it is shorter than the %d-byte header of a binary STL", name, size, stlHeaderSize)
@@ -228,249 +294,74 @@ func readBinary(ctx context.Context, name string, r io.ReadSeeker, size int64, h
 		return fmt.Errorf("%s: binary STL header (bytes 80-83) says %d triangles, which need %d bytes, "+
 			"but the file has %d bytes (%s, or not an STL file)", name, n, want, size, what)
 	}
-	col.binary = true
-	col.corners = make([]mgl64.Vec3, 0, 3*n)
-	s := newSTLStream(ctx, r, 0, size, nil, nil, progress, col)
-	if err := stl.CopyAll(s, col); err != nil {
-		if e := s.stopErr(); e != nil {
-			return e
-		}
+	if n > MaxTriangles {
+		return fmt.Errorf("%s: %d triangles, more than the %d a surface may have here; "+
+			"export the surface at a coarser resolution", name, n, MaxTriangles)
+	}
+	rd.binary = true
+	if _, err := io.ReadFull(rd.r, make([]byte, stlHeaderSize)); err != nil {
 		return fmt.Errorf("%s: %w", name, err)
 	}
-	if e := s.stopErr(); e != nil {
-		return e
+	rd.corners = make([]mgl64.Vec3, 3*n)
+	buf := make([]byte, stlRecordSize*stlBinaryChunk)
+	s := rd.scale
+	lastProg := int64(0)
+	for t0 := int64(0); t0 < n; t0 += stlBinaryChunk {
+		if err := rd.stopped(); err != nil {
+			return err
+		}
+		k := min(stlBinaryChunk, n-t0)
+		chunk := buf[:k*stlRecordSize]
+		if _, err := io.ReadFull(rd.r, chunk); err != nil {
+			if err == io.EOF || err == io.ErrUnexpectedEOF {
+				return fmt.Errorf("%s: the file ended at triangle %d of the %d its header announces (it shrank while being read)", name, t0+1, n)
+			}
+			return fmt.Errorf("%s: %w", name, err)
+		}
+		out := rd.corners[3*t0 : 3*(t0+k)]
+		for i := range k {
+			rec := chunk[i*stlRecordSize+12 : i*stlRecordSize+48]
+			bad := uint32(0)
+			for c := range 3 {
+				var v mgl64.Vec3
+				for a := range 3 {
+					bits := binary.LittleEndian.Uint32(rec[12*c+4*a:])
+					// An exponent of all ones (an infinity or a NaN) carries into the top bit.
+					bad |= (bits&0x7F800000 + 0x00800000) & 0x80000000
+					v[a] = float64(math.Float32frombits(bits)) * s
+				}
+				out[3*i+int64(c)] = v
+			}
+			if bad != 0 {
+				return rd.notFinite(int(t0 + i))
+			}
+		}
+		if rd.progress != nil {
+			if pos := stlHeaderSize + (t0+k)*stlRecordSize; pos-lastProg >= 1<<20 {
+				lastProg = pos
+				rd.progress(pos, size)
+			}
+		}
 	}
-	if len(col.corners) != int(3*n) {
-		return fmt.Errorf("%s: read %d of the %d triangles the header announces", name, len(col.corners)/3, n)
+	if s != 1 && !allFinite(rd.corners) {
+		// Finite float32 times a large scale can overflow.
+		for i, c := range rd.corners {
+			if !finiteVec(c) {
+				return fmt.Errorf("%s: %s: a coordinate times the scale %g is too large to hold", name, rd.where(i/3), s)
+			}
+		}
 	}
-	s.finish()
+	if rd.progress != nil {
+		rd.progress(size, size)
+	}
 	return nil
 }
 
-// readASCII hands the text to the stl package. Its parser wants "solid " (with a space) at the
-// very start and decides binary-or-ASCII by length alone, so the stream it sees starts at
-// "solid ", skipping any byte-order mark or leading blank lines, and ends with one or two extra
-// newlines that keep its length from matching 84 + 50n.
-func readASCII(ctx context.Context, name string, r io.ReadSeeker, size int64, head []byte, start, lines int, col *cornerCollector, progress func(int64, int64)) error {
-	prefix := []byte("solid ")
-	bodyOff := int64(start + 5)
-	virtual := append(append([]byte{}, prefix...), head[min(int64(len(head)), bodyOff):]...)
-	vsize := int64(len(prefix)) + size - bodyOff
-	suffix := []byte("\n")
-	if len(virtual) >= stlHeaderSize && binarySizeMatches(virtual, vsize+1) {
-		suffix = []byte("\n\n")
+// allFinite: one pass, no branches per coordinate.
+func allFinite(cs []mgl64.Vec3) bool {
+	acc := 0.0
+	for _, c := range cs {
+		acc += (c[0] - c[0]) + (c[1] - c[1]) + (c[2] - c[2])
 	}
-	s := newSTLStream(ctx, r, bodyOff, size, prefix, suffix, progress, col)
-	err := stl.CopyAll(s, col)
-	if e := s.stopErr(); e != nil {
-		return e
-	}
-	if err != nil {
-		return asciiError(name, err, lines)
-	}
-	s.finish()
-	return nil
-}
-
-// asciiError turns the parser's "line: message" list into one message naming the first place.
-func asciiError(name string, err error, lineOffset int) error {
-	var first string
-	more := 0
-	for _, l := range strings.Split(err.Error(), "\n") {
-		num, msg, ok := strings.Cut(l, ": ")
-		if !ok {
-			continue
-		}
-		n, perr := strconv.Atoi(num)
-		if perr != nil {
-			continue
-		}
-		if first == "" {
-			if msg != "" && msg[0] >= 'A' && msg[0] <= 'Z' {
-				msg = string(msg[0]+'a'-'A') + msg[1:]
-			}
-			first = fmt.Sprintf("line %d: %s", n+lineOffset, msg)
-		} else {
-			more++
-		}
-	}
-	if first == "" {
-		return fmt.Errorf("%s: ASCII STL: %s", name, strings.TrimSpace(err.Error()))
-	}
-	if more > 0 {
-		return fmt.Errorf("%s: ASCII STL %s (and %d more problems)", name, first, more)
-	}
-	return fmt.Errorf("%s: ASCII STL %s", name, first)
-}
-
-// cornerCollector receives triangles from the stl package and keeps their corners, scaled
-// to float64. It ignores the header's triangle count on purpose: the length check decides
-// what to allocate.
-type cornerCollector struct {
-	name    string
-	scale   float64
-	binary  bool
-	corners []mgl64.Vec3
-	stop    error // set on the first bad triangle; the stream then ends the read
-}
-
-func (c *cornerCollector) SetName(string)         {}
-func (c *cornerCollector) SetBinaryHeader([]byte) {}
-func (c *cornerCollector) SetASCII(bool)          {}
-func (c *cornerCollector) SetTriangleCount(uint32) {
-}
-
-func (c *cornerCollector) AppendTriangle(t stl.Triangle) {
-	if c.stop != nil {
-		return
-	}
-	for _, v := range t.Vertices {
-		for _, x := range v {
-			if x != x || x > math.MaxFloat32 || x < -math.MaxFloat32 {
-				c.stop = c.badTriangle(len(c.corners)/3 + 1)
-				return
-			}
-		}
-	}
-	s := c.scale
-	for _, v := range t.Vertices {
-		c.corners = append(c.corners, mgl64.Vec3{float64(v[0]) * s, float64(v[1]) * s, float64(v[2]) * s})
-	}
-}
-
-func (c *cornerCollector) badTriangle(num int) error {
-	where := fmt.Sprintf("triangle %d", num)
-	if c.binary {
-		where += fmt.Sprintf(" (byte %d)", stlHeaderSize+stlRecordSize*int64(num-1))
-	}
-	return fmt.Errorf("%s: %s has a coordinate that is not a finite number (NaN or infinity); "+
-		"repair or re-export the file", c.name, where)
-}
-
-// errStopped marks a read we ended ourselves; the real cause is in stlStream.stopErr.
-var errStopped = errors.New("read stopped")
-
-// stlStream is the io.ReadSeeker the stl package reads: prefix + r[off:size] + suffix. It
-// counts bytes for progress and ends the read early when ctx is cancelled or the collector
-// found a bad triangle.
-type stlStream struct {
-	ctx      context.Context
-	r        io.ReadSeeker
-	off, end int64 // body range in r
-	prefix   []byte
-	suffix   []byte
-	pos      int64 // position in the virtual stream
-	rpos     int64 // r's own position, -1 if unknown
-	progress func(int64, int64)
-	lastProg int64
-	col      *cornerCollector
-	ctxErr   error
-}
-
-func newSTLStream(ctx context.Context, r io.ReadSeeker, off, end int64, prefix, suffix []byte, progress func(int64, int64), col *cornerCollector) *stlStream {
-	return &stlStream{ctx: ctx, r: r, off: off, end: end, prefix: prefix, suffix: suffix, rpos: -1, progress: progress, col: col}
-}
-
-func (s *stlStream) size() int64 {
-	return int64(len(s.prefix)) + (s.end - s.off) + int64(len(s.suffix))
-}
-
-func (s *stlStream) stopErr() error {
-	if s.ctxErr != nil {
-		return fmt.Errorf("%s: loading stopped: %w", s.col.name, s.ctxErr)
-	}
-	return s.col.stop
-}
-
-// finish reports the whole file as read.
-func (s *stlStream) finish() {
-	if s.progress != nil {
-		s.progress(s.end, s.end)
-	}
-}
-
-func (s *stlStream) Seek(offset int64, whence int) (int64, error) {
-	switch whence {
-	case io.SeekStart:
-	case io.SeekCurrent:
-		offset += s.pos
-	case io.SeekEnd:
-		offset += s.size()
-	default:
-		return s.pos, errors.New("bad whence")
-	}
-	if offset < 0 {
-		return s.pos, errors.New("negative position")
-	}
-	s.pos = offset
-	return offset, nil
-}
-
-// Read fills p across the parts, so the stl package's single header read sees real bytes.
-func (s *stlStream) Read(p []byte) (int, error) {
-	total := 0
-	for total < len(p) {
-		n, err := s.readPart(p[total:])
-		total += n
-		if err == io.EOF && total > 0 {
-			return total, nil
-		}
-		if err != nil {
-			return total, err
-		}
-		if n == 0 {
-			break
-		}
-	}
-	return total, nil
-}
-
-func (s *stlStream) readPart(p []byte) (int, error) {
-	if s.col.stop != nil {
-		return 0, errStopped
-	}
-	if err := s.ctx.Err(); err != nil {
-		s.ctxErr = err
-		return 0, errStopped
-	}
-	np := int64(len(s.prefix))
-	body := s.end - s.off
-	switch {
-	case s.pos < np:
-		n := copy(p, s.prefix[s.pos:])
-		s.pos += int64(n)
-		return n, nil
-	case s.pos < np+body:
-		at := s.off + s.pos - np
-		if s.rpos != at {
-			if _, err := s.r.Seek(at, io.SeekStart); err != nil {
-				s.rpos = -1
-				return 0, err
-			}
-		}
-		want := min(int64(len(p)), np+body-s.pos)
-		n, err := s.r.Read(p[:want])
-		s.pos += int64(n)
-		s.rpos = at + int64(n)
-		if err == io.EOF {
-			if n > 0 {
-				err = nil
-			} else {
-				err = io.ErrUnexpectedEOF // the file shrank under us
-			}
-		}
-		if s.progress != nil && s.rpos-s.lastProg >= 1<<20 {
-			s.lastProg = s.rpos
-			s.progress(s.rpos, s.end)
-		}
-		return n, err
-	default:
-		i := s.pos - np - body
-		if i >= int64(len(s.suffix)) {
-			return 0, io.EOF
-		}
-		n := copy(p, s.suffix[i:])
-		s.pos += int64(n)
-		return n, nil
-	}
+	return acc == 0
 }

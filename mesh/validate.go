@@ -22,6 +22,9 @@ type Report struct {
 	// i.e. one of them faces the wrong side.
 	InconsistentOrientation int
 	Closed, Manifold        bool
+	// SignedVolume is the enclosed volume (mm3) by the divergence theorem, negative when the
+	// triangles face in; meaningful only for a closed surface.
+	SignedVolume float64
 }
 
 // Validate checks edges, orientation, degenerate triangles and connectivity.
@@ -46,6 +49,7 @@ func validate(m *Mesh, degenerate bool) Report {
 		}
 	}
 	r.BoundaryEdges, r.NonManifoldEdges, r.InconsistentOrientation = edgeCounts(m)
+	r.SignedVolume = signedVolume(m)
 	<-done
 	r.Closed = r.BoundaryEdges == 0 && len(m.Triangles) > 0
 	r.Manifold = r.NonManifoldEdges == 0
@@ -103,11 +107,13 @@ func triInRange(tri [3]int32, n int32) bool {
 	return tri[0] >= 0 && tri[0] < n && tri[1] >= 0 && tri[1] < n && tri[2] >= 0 && tri[2] < n
 }
 
-// edgeCounts buckets every half-edge under its smaller vertex (a counting sort, no hash map)
-// and counts how many triangles use each undirected edge and in which directions.
-func edgeCounts(m *Mesh) (boundary, nonManifold, inconsistent int) {
+// halfEdges buckets every half-edge under its smaller vertex (a counting sort, no hash map):
+// entries[start[v]:start[v+1]] hold, for the edges whose smaller vertex is v, the other vertex
+// << 1 | a direction bit (1 when the half-edge runs high to low). With withTris, tris holds
+// each entry's triangle << 2 | its edge number (0..2).
+func halfEdges(m *Mesh, withTris bool) (start []int32, entries []int64, tris []int32) {
 	nv := int32(len(m.Vertices))
-	start := make([]int32, nv+1)
+	start = make([]int32, nv+1)
 	for _, tri := range m.Triangles {
 		if !triInRange(tri, nv) {
 			continue
@@ -123,10 +129,12 @@ func edgeCounts(m *Mesh) (boundary, nonManifold, inconsistent int) {
 	for i := int32(0); i < nv; i++ {
 		start[i+1] += start[i]
 	}
-	// Each entry: other vertex << 1 | direction bit (1 when the half-edge runs high to low).
-	entries := make([]int64, start[nv])
+	entries = make([]int64, start[nv])
+	if withTris {
+		tris = make([]int32, start[nv])
+	}
 	fill := slices.Clone(start[:nv])
-	for _, tri := range m.Triangles {
+	for t, tri := range m.Triangles {
 		if !triInRange(tri, nv) {
 			continue
 		}
@@ -140,10 +148,19 @@ func edgeCounts(m *Mesh) (boundary, nonManifold, inconsistent int) {
 				lo, hi, dir = b, a, 1
 			}
 			entries[fill[lo]] = int64(hi)<<1 | dir
+			if withTris {
+				tris[fill[lo]] = int32(t)<<2 | int32(k)
+			}
 			fill[lo]++
 		}
 	}
-	for v := int32(0); v < nv; v++ {
+	return start, entries, tris
+}
+
+// edgeCounts counts how many triangles use each undirected edge and in which directions.
+func edgeCounts(m *Mesh) (boundary, nonManifold, inconsistent int) {
+	start, entries, _ := halfEdges(m, false)
+	for v := range int32(len(start) - 1) {
 		bucket := entries[start[v]:start[v+1]]
 		sortEdgeBucket(bucket)
 		for i := 0; i < len(bucket); {

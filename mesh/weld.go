@@ -2,6 +2,9 @@ package mesh
 
 import (
 	"math"
+	"runtime"
+	"sync"
+	"unsafe"
 
 	"github.com/go-gl/mathgl/mgl64"
 )
@@ -9,17 +12,22 @@ import (
 // Weld turns a triangle soup (three corners per triangle, in input order) into an indexed
 // mesh, merging corners that lie within tol of an already kept vertex. Vertices are numbered
 // in order of first appearance and keep the coordinates of that first corner. A corner
-// identical to a recent one joins the same vertex; otherwise it joins the first kept vertex
-// found within tol, searching its own grid cell (newest first), then the neighbouring cells in
-// a fixed order. So the result depends only on the input order, never on map order or core
-// count. tol <= 0 merges only identical points. Non-finite corners are never merged. Corners
-// past a multiple of three are ignored.
+// identical to an earlier one joins that corner's vertex; a new position joins the first kept
+// vertex found within tol, searching its own grid cell (newest first), then the neighbouring
+// cells in a fixed order. So the result depends only on the input order, never on map order or
+// core count. tol <= 0 merges only identical points. Non-finite corners are never merged.
+// Corners past a multiple of three are ignored.
 func Weld(corners []mgl64.Vec3, tol float64) *Mesh {
 	return weld(corners, tol, 0)
 }
 
 // weld is Weld with, when relTol > 0, the tolerance relTol times the largest coordinate
 // magnitude (float32 rounding grows with the magnitude, not with the model's size).
+//
+// It works in two stages, so that a file whose triangles are scattered costs little more than
+// one in building order. First the identical corners (an STL lists each vertex about six
+// times) are found (firstOccurrences). Then only the distinct positions, about a sixth of the
+// corners, go through the grid welder for the tolerance, in order of first appearance.
 func weld(corners []mgl64.Vec3, tol, relTol float64) *Mesh {
 	nt := len(corners) / 3
 	corners = corners[:3*nt]
@@ -27,14 +35,156 @@ func weld(corners []mgl64.Vec3, tol, relTol float64) *Mesh {
 	if nt == 0 {
 		return m
 	}
-	w := newWelder(corners, tol, relTol)
-	for t := 0; t < nt; t++ {
-		for k := 0; k < 3; k++ {
-			m.Triangles[t][k] = w.add(corners[3*t+k])
+	first := firstOccurrences(corners)
+	w := newWelder(corners, tol, relTol, len(corners)/6)
+	// out[i] is corner i's vertex; first[i] <= i, so a repeat finds its vertex already set
+	// (through its stand-in, whose own vertex was set from its first corner).
+	out := unsafeFlatten(m.Triangles)
+	for i, f := range first {
+		if int(f) == i {
+			out[i] = w.lookup(corners[i])
+		} else {
+			out[i] = out[f]
 		}
 	}
 	m.Vertices = w.verts
 	return m
+}
+
+// unsafeFlatten views the triangles as one list of corner indices.
+func unsafeFlatten(t [][3]int32) []int32 {
+	return unsafe.Slice(&t[0][0], 3*len(t))
+}
+
+// dedupBlock is the size of the blocks identical corners are looked for in: the block and its
+// table stay in the L2 cache.
+const dedupBlock = 16384
+
+// firstOccurrences returns, for every corner, the index of an earlier corner (or itself) with
+// the same coordinates (-0 equal to 0; a NaN only equal to itself), such that following it once
+// more (first[first[i]]) gives the first corner of that position.
+//
+// Most repeats are near their first corner in the file, so a small cache of recent positions
+// (it stays in L1/L2) answers them; the corners it misses, which include every first
+// occurrence, are deduplicated exactly in cache-sized blocks.
+func firstOccurrences(corners []mgl64.Vec3) []int32 {
+	n := len(corners)
+	first := make([]int32, n)
+	var recent [weldRecentSize]weldRecent
+	for i := range recent {
+		recent[i].i = -1
+	}
+	// Only indices are kept: copying the corners into the blocks would be faster on a file
+	// whose triangles are scattered, but would triple the memory of the weld.
+	missed := make([]int32, 0, n/4)
+	for i, c := range corners {
+		r := &recent[exactHash(c)>>(64-weldRecentBits)]
+		if r.i >= 0 && r.p == c {
+			first[i] = r.i
+			continue
+		}
+		// Provisionally its own first; the exact pass below finds an earlier twin if any.
+		first[i] = int32(i)
+		missed = append(missed, int32(i))
+		if finiteVec(c) {
+			r.p, r.i = c, int32(i)
+		}
+	}
+	bits := 0
+	for len(missed)>>bits > dedupBlock {
+		bits++
+	}
+	shift := 64 - bits
+	count := make([]int32, 1<<bits+1)
+	recs := missed
+	if bits > 0 {
+		for _, i := range missed {
+			count[exactHash(corners[i])>>shift+1]++
+		}
+		for b := 1; b <= 1<<bits; b++ {
+			count[b] += count[b-1]
+		}
+		recs = make([]int32, len(missed))
+		fill := append([]int32(nil), count[:1<<bits]...)
+		for _, i := range missed {
+			b := exactHash(corners[i]) >> shift
+			recs[fill[b]] = i
+			fill[b]++
+		}
+	} else {
+		count[1] = int32(len(missed))
+	}
+	// Blocks are independent and each sets only its own corners' entries, so they split
+	// across cores with the same result on any number.
+	workers := min(runtime.GOMAXPROCS(0), 1<<bits, 4)
+	var wg sync.WaitGroup
+	for w := range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			table := make([]int32, 2*dedupBlock*2)
+			for b := w; b < 1<<bits; b += workers {
+				dedupInto(first, corners, recs[count[b]:count[b+1]], table)
+			}
+		}()
+	}
+	wg.Wait()
+	return first
+}
+
+// weldRecent is a slot of the recent-positions cache: a position and the corner that
+// stands for it.
+type weldRecent struct {
+	p mgl64.Vec3
+	i int32
+}
+
+const (
+	weldRecentBits = 14
+	weldRecentSize = 1 << weldRecentBits
+)
+
+// dedupInto sets first[] for one block of corner indices (ascending) through an
+// open-addressing table of positions in the block (table is scratch space).
+func dedupInto(first []int32, corners []mgl64.Vec3, blk []int32, table []int32) {
+	size := 16
+	for size < 2*len(blk) {
+		size <<= 1
+	}
+	if cap(table) < size {
+		table = make([]int32, size) // a block the hash filled beyond its share
+	}
+	table = table[:size]
+	for i := range table {
+		table[i] = -1
+	}
+	mask := uint64(size - 1)
+	for _, ci := range blk {
+		p := corners[ci]
+		if !finiteVec(p) {
+			first[ci] = ci
+			continue
+		}
+		j := exactHash(p) & mask
+		for {
+			e := table[j]
+			if e < 0 {
+				table[j] = ci
+				first[ci] = ci
+				break
+			}
+			if corners[e] == p {
+				first[ci] = e
+				break
+			}
+			j = (j + 1) & mask
+		}
+	}
+}
+
+// exactHash mixes the bits of a position (+0 folds -0 into 0).
+func exactHash(p mgl64.Vec3) uint64 {
+	return weldHash([3]int64{int64(math.Float64bits(p[0] + 0)), int64(math.Float64bits(p[1] + 0)), int64(math.Float64bits(p[2] + 0))})
 }
 
 // welder is a grid hash: an open-addressing table from cell key to the first vertex of that
@@ -48,13 +198,7 @@ type welder struct {
 	used      int
 	verts     []mgl64.Vec3
 	next      []int32
-	// recent remembers the vertex given to recently seen exact positions: an STL lists each
-	// vertex about six times, mostly close together, and this small table stays in cache
-	// where the grid hash does not. It depends only on the input order.
-	recent [weldRecentSize]weldRecent
 }
-
-const weldRecentSize = 16384
 
 // weldSlot is one table entry: a 64-bit hash of the cell stands for the cell. Two cells that
 // share a hash share a chain, which costs a few distance checks and never a wrong merge.
@@ -63,15 +207,13 @@ type weldSlot struct {
 	head int32 // -1 = empty
 }
 
-type weldRecent struct {
-	p mgl64.Vec3
-	v int32 // -1 = empty
-}
+// weldCellTols is the grid cell of the tolerance search in multiples of the tolerance.
+const weldCellTols = 64
 
 // weldMaxCell keeps cell indices far inside int64 whatever the coordinates.
 const weldMaxCell = 1 << 40
 
-func newWelder(corners []mgl64.Vec3, tol, relTol float64) *welder {
+func newWelder(corners []mgl64.Vec3, tol, relTol float64, expect int) *welder {
 	w := &welder{}
 	maxAbs := 0.0
 	if tol > 0 || relTol > 0 {
@@ -89,22 +231,20 @@ func newWelder(corners []mgl64.Vec3, tol, relTol float64) *welder {
 	if !(tol > 0) || math.IsInf(tol, 0) {
 		w.exact = true
 	} else {
-		// A cell 16*tol wide means the tol-box around a point touches at most two cells per
-		// axis and usually one; widen it further when coordinates are huge so indices stay small.
-		cell := math.Max(16*tol, maxAbs/weldMaxCell)
+		// A cell weldCellTols*tol wide means the tol-box around a point touches at most two
+		// cells per axis and seldom more than one, so few points look into a neighbour cell;
+		// widen it further when coordinates are huge so indices stay small.
+		cell := math.Max(weldCellTols*tol, maxAbs/weldMaxCell)
 		w.tol, w.tol2, w.inv = tol, tol*tol, 1/cell
 	}
-	// Room for one vertex per three corners at half load; closed meshes have one per six.
+	// Room for the expected vertices under half load, so the table never grows.
 	size := 1024
-	for size < len(corners)/3 {
+	for size <= 2*expect {
 		size <<= 1
 	}
 	w.alloc(size)
-	for i := range w.recent {
-		w.recent[i].v = -1
-	}
-	w.verts = make([]mgl64.Vec3, 0, len(corners)/5+16)
-	w.next = make([]int32, 0, len(corners)/5+16)
+	w.verts = make([]mgl64.Vec3, 0, expect+16)
+	w.next = make([]int32, 0, expect+16)
 	return w
 }
 
@@ -171,19 +311,6 @@ func (w *welder) findIn(k [3]int64, p mgl64.Vec3) (int32, uint64) {
 		}
 	}
 	return -1, s
-}
-
-func (w *welder) add(p mgl64.Vec3) int32 {
-	h := weldHash([3]int64{int64(math.Float64bits(p[0] + 0)), int64(math.Float64bits(p[1] + 0)), int64(math.Float64bits(p[2] + 0))})
-	rc := &w.recent[h>>52&(weldRecentSize-1)]
-	if rc.v >= 0 && rc.p == p {
-		return rc.v
-	}
-	v := w.lookup(p)
-	if finiteVec(p) {
-		rc.p, rc.v = p, v
-	}
-	return v
 }
 
 // lookup finds or makes the vertex for p through the grid hash.

@@ -45,7 +45,7 @@ func TestWeldRecoversIndexedMesh(t *testing.T) {
 func TestWeldToleranceNearCellBorders(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 2))
 	const tol = 0.01
-	cell := 16 * tol // the grid the welder uses; points are put right at its borders
+	cell := weldCellTols * tol // the grid the welder uses; points are put right at its borders
 	var pts []mgl64.Vec3
 	var cluster []int
 	nClusters := 300
@@ -127,5 +127,49 @@ func TestWeldOddInput(t *testing.T) {
 	huge := []mgl64.Vec3{{1e300, 0, 0}, {1e300, 0, 0}, {-1e300, 1, 1}}
 	if m := Weld(huge, 1e-9); len(m.Vertices) != 2 {
 		t.Errorf("huge coordinates: %d vertices, want 2", len(m.Vertices))
+	}
+}
+
+// A position seen again long after its first corner (far beyond any cache of recent
+// positions) joins the first corner's vertex; so does a third copy that follows the second.
+func TestWeldRepeatFarApart(t *testing.T) {
+	var soup []mgl64.Vec3
+	p := mgl64.Vec3{0.5, 0.25, 0.125}
+	soup = append(soup, p, mgl64.Vec3{9, 9, 9}, mgl64.Vec3{9, 9, 8})
+	for i := range 60000 {
+		soup = append(soup, mgl64.Vec3{float64(i), 1, 2}, mgl64.Vec3{float64(i), 3, 2}, mgl64.Vec3{float64(i), 1, 5})
+	}
+	soup = append(soup, mgl64.Vec3{7, 7, 7}, p, p)
+	m := Weld(soup, 0)
+	last := m.Triangles[len(m.Triangles)-1]
+	if last[1] != m.Triangles[0][0] || last[2] != m.Triangles[0][0] {
+		t.Errorf("the repeats of the first position got vertices %d and %d, the first %d", last[1], last[2], m.Triangles[0][0])
+	}
+	if len(m.Vertices) != 3+3*60000+1 {
+		t.Errorf("%d vertices", len(m.Vertices))
+	}
+}
+
+// The weld does not depend on triangle order beyond numbering: the same surface with its
+// triangles shuffled gives the same vertex positions and the same triangles (by position).
+func TestWeldOrderIndependent(t *testing.T) {
+	src := shapeCanalLike(64, 80)
+	soup := shapeSoup(src)
+	nt := len(soup) / 3
+	perm := rand.New(rand.NewPCG(8, 9)).Perm(nt)
+	shuffled := make([]mgl64.Vec3, 0, len(soup))
+	for _, t := range perm {
+		shuffled = append(shuffled, soup[3*t:3*t+3]...)
+	}
+	a, b := weld(soup, 0, weldRelTol), weld(shuffled, 0, weldRelTol)
+	if len(a.Vertices) != len(b.Vertices) || len(a.Vertices) != len(src.Vertices) {
+		t.Fatalf("%d and %d vertices, the surface has %d", len(a.Vertices), len(b.Vertices), len(src.Vertices))
+	}
+	for k, t0 := range perm {
+		for c := range 3 {
+			if a.Vertices[a.Triangles[t0][c]] != b.Vertices[b.Triangles[k][c]] {
+				t.Fatalf("triangle %d corner %d differs", t0, c)
+			}
+		}
 	}
 }

@@ -33,6 +33,7 @@ type Options struct {
 // Open builds the main window on app a and shows it. The canal and sequence are measured and
 // run in the background; the window is usable at once.
 func Open(a fyne.App, opt Options) fyne.Window {
+	useSafeFileWriter()
 	w := newMainWindow(a, &handOver{})
 	w.win.Show()
 	w.start(opt)

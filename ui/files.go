@@ -6,7 +6,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 	"strings"
 	"sync/atomic"
@@ -18,6 +17,7 @@ import (
 	"fyne.io/fyne/v2/widget"
 
 	"tapersweep/analysis"
+	"tapersweep/mesh"
 	"tapersweep/models"
 )
 
@@ -26,9 +26,6 @@ const (
 	recentKey = "recent_files"
 	recentMax = 8
 )
-
-// maxCanalFileBytes refuses files that could not be a canal surface this program can measure.
-const maxCanalFileBytes = 2 << 30
 
 // loadProgress is the dialog shown while a canal is read and measured, with a cancel button.
 type loadProgress struct {
@@ -114,15 +111,13 @@ func (w *mainWindow) loadCanal(name string, withDialog bool, load canalLoader) {
 func (w *mainWindow) loadCanalPath(path string) {
 	scale := w.scale
 	w.loadCanal(filepath.Base(path), true, func(ctx context.Context, progress func(string, int64, int64)) (*analysis.Canal, error) {
-		data, err := readLimited(path)
-		if err != nil {
-			return nil, err
-		}
-		opt := analysis.LoadOptions{Progress: progress}
+		// Streamed from disk: Cancel stops the read itself. A surface whose measures cannot be
+		// trusted is shown with its warnings rather than refused: the window is where one looks.
+		opt := analysis.LoadOptions{Progress: progress, Force: true}
 		if strings.EqualFold(filepath.Ext(path), ".stl") {
 			opt.Scale = scale
 		}
-		c, err := analysis.LoadCanalBytes(ctx, path, data, opt)
+		c, err := analysis.LoadCanal(ctx, path, opt)
 		if err == nil {
 			w.ui.post(func() { w.remember(path) })
 		}
@@ -130,22 +125,13 @@ func (w *mainWindow) loadCanalPath(path string) {
 	})
 }
 
-func readLimited(path string) ([]byte, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	return readAllLimited(path, f)
-}
-
 func readAllLimited(name string, r io.Reader) ([]byte, error) {
-	data, err := io.ReadAll(io.LimitReader(r, maxCanalFileBytes+1))
+	data, err := io.ReadAll(io.LimitReader(r, mesh.MaxSTLBytes+1))
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", name, err)
 	}
-	if len(data) > maxCanalFileBytes {
-		return nil, fmt.Errorf("%s: larger than %d GB: too big to be a canal surface", name, maxCanalFileBytes>>30)
+	if len(data) > mesh.MaxSTLBytes {
+		return nil, fmt.Errorf("%s: larger than %d GB: too big to be a canal surface", name, mesh.MaxSTLBytes>>30)
 	}
 	return data, nil
 }
@@ -184,7 +170,7 @@ func (w *mainWindow) openPath(path string) {
 		return
 	}
 	head := make([]byte, 64<<10)
-	f, err := os.Open(path)
+	f, _, err := mesh.OpenInput(path, 0) // a named pipe would block the window
 	if err != nil {
 		w.setStatus(err.Error())
 		return
@@ -245,17 +231,18 @@ func (w *mainWindow) openCanalDialog() {
 		}
 		uri := r.URI()
 		name := uri.Name()
+		if uri.Scheme() == "file" {
+			r.Close()
+			w.loadCanalPath(uri.Path())
+			return
+		}
 		w.loadCanal(name, true, func(ctx context.Context, progress func(string, int64, int64)) (*analysis.Canal, error) {
 			defer r.Close()
 			data, err := readAllLimited(name, r)
 			if err != nil {
 				return nil, err
 			}
-			c, err := analysis.LoadCanalBytes(ctx, name, data, analysis.LoadOptions{Progress: progress})
-			if err == nil && uri.Scheme() == "file" {
-				w.ui.post(func() { w.remember(uri.Path()) })
-			}
-			return c, err
+			return analysis.LoadCanalBytes(ctx, name, data, analysis.LoadOptions{Progress: progress, Force: true})
 		})
 	}, w.win)
 	d.SetFilter(storage.NewExtensionFileFilter([]string{".stl", ".STL", ".json"}))
@@ -299,7 +286,9 @@ func (w *mainWindow) saveDialog(name string, exts []string, write func(io.Writer
 		w.setStatus("Saving " + path + "…")
 		w.ui.spawn(func() {
 			err := write(wc)
-			if cerr := wc.Close(); err == nil {
+			if a, ok := wc.(interface{ Abort() }); ok && err != nil {
+				a.Abort() // the old file stays as it was
+			} else if cerr := wc.Close(); err == nil {
 				err = cerr
 			}
 			w.ui.postAndWait(func() {

@@ -43,6 +43,7 @@ func analyzeCommand() command {
 				if err != nil {
 					return inputError(stderr, "analyze", err)
 				}
+				printWarnings(stderr, "analyze", runWarnings(res))
 				switch *format {
 				case "csv":
 					if err := report.WriteCSV(stdout, res); err != nil {
@@ -70,7 +71,7 @@ func analyzeFiles(ctx context.Context, cf *canalFlags, seqPath string, opts ...a
 	if len(opts) > 0 {
 		opt = opts[0]
 	}
-	seq, err := models.LoadSequence(seqPath)
+	seq, err := loadSequence(seqPath)
 	if err != nil {
 		return nil, err
 	}
@@ -79,6 +80,11 @@ func analyzeFiles(ctx context.Context, cf *canalFlags, seqPath string, opts ...a
 		return nil, err
 	}
 	return analysis.Run(ctx, c, seq, opt)
+}
+
+// runWarnings are the canal's warnings and the run's.
+func runWarnings(res *analysis.Result) []string {
+	return append(append([]string{}, res.Canal.Warnings...), res.Warnings...)
 }
 
 // tableColumns are the step figures `analyze --format table` shows.

@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"os/signal"
 	"path/filepath"
 	"runtime"
 	"sort"
@@ -18,14 +17,16 @@ import (
 
 	"tapersweep/analysis"
 	"tapersweep/models"
+	"tapersweep/ui/report"
 )
 
 func batchCommand() command {
 	return command{
 		name: "batch",
-		summary: "run one sequence through every canal file (*.stl, *.json) in a folder, not its subfolders, into one CSV " +
-			"row per canal and step; a canal that fails gets a row with its error and the run goes on",
-		usage:   "--canals DIR --sequence PATH --out FILE.csv [--jobs N] [--shard I/N] [--working-length MM] [--scale K]",
+		summary: "run one sequence through every canal file (*.stl, *.json) in a folder, not its subfolders, or every canal a " +
+			"manifest lists, into one CSV row per canal and step; a canal that fails gets a row with its error, the run goes " +
+			"on and the command exits 1",
+		usage:   "--canals DIR|--manifest FILE.csv --sequence PATH --out FILE.csv [--jobs N] [--shard I/N] [--working-length MM] [--scale K] [--force]",
 		example: "tapersweep batch --canals scans/ --sequence plan.json --out results.csv --jobs 4 --shard 2/10",
 		flags: func(fs *flag.FlagSet) func(stdout, stderr io.Writer) int {
 			dir := fs.String("canals", "", "`folder` of canal files: STL surfaces and canal specs (JSON), not searched recursively")
@@ -35,10 +36,16 @@ func batchCommand() command {
 			shard := fs.String("shard", "1/1", "take shard `I/N` of the sorted canal files: those whose index k (from 0) has k mod N = I-1; shards count from 1")
 			wl := fs.Float64("working-length", 0, "working length in `mm` for every canal (default: each spec's, else its centerline's length)")
 			scale := fs.Float64("scale", 1, "multiply STL coordinates by `K` (0.001 turns micrometres into mm)")
+			manifest := fs.String("manifest", "", "CSV `file` naming the canals, one per row, each with its own settings "+
+				"(columns file, orifice, apical_end, working_length_mm, scale; see the README); instead of --canals")
+			force := fs.Bool("force", false, "measure surfaces whose measures cannot be trusted (not closed, most triangles "+
+				"removed) instead of failing them")
 			return func(stdout, stderr io.Writer) int {
 				switch {
-				case *dir == "":
-					return usageError(stderr, "batch", "--canals is required")
+				case *dir == "" && *manifest == "":
+					return usageError(stderr, "batch", "--canals is required (or --manifest)")
+				case *dir != "" && *manifest != "":
+					return usageError(stderr, "batch", "give --canals or --manifest, not both")
 				case *seqPath == "":
 					return usageError(stderr, "batch", "--sequence is required")
 				case *out == "":
@@ -54,20 +61,33 @@ func batchCommand() command {
 				if err != nil {
 					return usageError(stderr, "batch", "--shard: %v", err)
 				}
-				seq, err := models.LoadSequence(*seqPath)
+				seq, err := loadSequence(*seqPath)
 				if err != nil {
 					return inputError(stderr, "batch", err)
 				}
-				files, err := canalFiles(*dir)
+				load := analysis.LoadOptions{Scale: *scale, Force: *force,
+					Canal: analysis.CanalOptions{WorkingLength: *wl}}
+				var canals []batchCanalFile
+				if *manifest != "" {
+					canals, err = readManifest(*manifest, load)
+				} else {
+					canals, err = folderCanals(*dir, load)
+				}
 				if err != nil {
 					return inputError(stderr, "batch", err)
 				}
-				files = shardFiles(files, si, sn)
-				ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
-				defer stop()
-				opt := batchOptions{Dir: *dir, Jobs: *jobs, Load: analysis.LoadOptions{Scale: *scale,
-					Canal: analysis.CanalOptions{WorkingLength: *wl}}}
-				return writeBatch(ctx, stdout, stderr, *out, files, seq, opt)
+				if *out != "-" {
+					inputs := []string{*seqPath, *manifest}
+					for _, c := range canals {
+						inputs = append(inputs, c.path)
+					}
+					if err := checkOutput(*out, inputs...); err != nil {
+						return inputError(stderr, "batch", err)
+					}
+				}
+				canals = shardFiles(canals, si, sn)
+				opt := batchOptions{Jobs: *jobs}
+				return writeBatch(context.Background(), stdout, stderr, *out, canals, seq, opt)
 			}
 		},
 	}
@@ -86,6 +106,25 @@ func parseShard(s string) (i, n int, err error) {
 		return 0, 0, fmt.Errorf("want I/N with 1 <= I <= N, like 3/10; got %q", s)
 	}
 	return i, n, nil
+}
+
+// batchCanalFile is one canal of a batch: its name in the table, where it is, how to load it.
+type batchCanalFile struct {
+	file, path string
+	load       analysis.LoadOptions
+}
+
+// folderCanals lists the canal files directly in dir, sorted by name, all loaded alike.
+func folderCanals(dir string, load analysis.LoadOptions) ([]batchCanalFile, error) {
+	names, err := canalFiles(dir)
+	if err != nil {
+		return nil, err
+	}
+	out := make([]batchCanalFile, len(names))
+	for i, n := range names {
+		out[i] = batchCanalFile{file: n, path: filepath.Join(dir, n), load: load}
+	}
+	return out, nil
 }
 
 // canalFiles lists the *.stl and *.json files directly in dir, sorted by name.
@@ -109,8 +148,8 @@ func canalFiles(dir string) ([]string, error) {
 }
 
 // shardFiles keeps the files whose sorted index k satisfies k % n == i-1.
-func shardFiles(files []string, i, n int) []string {
-	var out []string
+func shardFiles[T any](files []T, i, n int) []T {
+	var out []T
 	for k, f := range files {
 		if k%n == i-1 {
 			out = append(out, f)
@@ -130,35 +169,27 @@ func batchColumns() []string {
 }
 
 type batchOptions struct {
-	Dir  string
 	Jobs int
-	Load analysis.LoadOptions
 	// Progress is told of each canal as it finishes, in the order they finish.
 	Progress func(done, total, failed int, file string, err error)
 }
 
 // writeBatch runs the batch into the named file (written beside it first and renamed when
 // complete, so an interrupted run leaves no table that looks whole) or standard output.
-func writeBatch(ctx context.Context, stdout, stderr io.Writer, out string, files []string, seq *models.Sequence, opt batchOptions) int {
+func writeBatch(ctx context.Context, stdout, stderr io.Writer, out string, files []batchCanalFile, seq *models.Sequence, opt batchOptions) int {
 	opt.Progress = newProgress(stderr, isTerminal(stderr))
 	if out == "-" {
 		failed, err := runBatch(ctx, stdout, files, seq, opt)
 		return batchDone(stderr, len(files), failed, err)
 	}
-	tmp := out + ".partial"
-	f, err := os.Create(tmp)
+	f, err := report.Create(out)
 	if err != nil {
 		return inputError(stderr, "batch", err)
 	}
+	defer f.Discard()
 	failed, err := runBatch(ctx, f, files, seq, opt)
-	if cerr := f.Close(); err == nil {
-		err = cerr
-	}
 	if err == nil {
-		err = os.Rename(tmp, out)
-	}
-	if err != nil {
-		os.Remove(tmp)
+		err = f.Commit()
 	}
 	return batchDone(stderr, len(files), failed, err)
 }
@@ -169,13 +200,14 @@ func batchDone(stderr io.Writer, total, failed int, err error) int {
 	}
 	if failed > 0 {
 		fmt.Fprintf(stderr, "tapersweep batch: %d of %d canals failed; their rows carry the error\n", failed, total)
+		return exitBadInput
 	}
 	return exitOK
 }
 
 // runBatch analyses the canals up to opt.Jobs at once and writes the table in file order as
 // soon as each leading canal is done, so the output is the same whatever the number of jobs.
-func runBatch(ctx context.Context, w io.Writer, files []string, seq *models.Sequence, opt batchOptions) (failed int, err error) {
+func runBatch(ctx context.Context, w io.Writer, files []batchCanalFile, seq *models.Sequence, opt batchOptions) (failed int, err error) {
 	cw := csv.NewWriter(w)
 	if err := cw.Write(batchColumns()); err != nil {
 		return 0, err
@@ -198,7 +230,7 @@ func runBatch(ctx context.Context, w io.Writer, files []string, seq *models.Sequ
 		go func() {
 			defer wg.Done()
 			for k := range next {
-				rows, err := batchCanal(ctx, filepath.Join(opt.Dir, files[k]), files[k], seq, opt.Load)
+				rows, err := batchCanal(ctx, files[k].path, files[k].file, seq, files[k].load)
 				results <- done{k, rows, err}
 			}
 		}()
@@ -223,7 +255,7 @@ func runBatch(ctx context.Context, w io.Writer, files []string, seq *models.Sequ
 			failed++
 		}
 		if opt.Progress != nil {
-			opt.Progress(finished, len(files), failed, files[r.k], r.err)
+			opt.Progress(finished, len(files), failed, files[r.k].file, r.err)
 		}
 		pending[r.k] = r.rows
 		for rows, ok := pending[written]; ok; rows, ok = pending[written] {
@@ -251,7 +283,7 @@ func batchCanal(ctx context.Context, path, file string, seq *models.Sequence, op
 	errorRow := func(e error) [][]string {
 		row := make([]string, width)
 		row[0] = file
-		row[width-1] = oneLine(e.Error())
+		row[width-1] = oneLine(explain(e))
 		return [][]string{row}
 	}
 	defer func() {
@@ -315,7 +347,7 @@ func newProgress(w io.Writer, terminal bool) func(done, total, failed int, file 
 		if !terminal {
 			status := "ok"
 			if err != nil {
-				status = "failed: " + oneLine(err.Error())
+				status = "failed: " + oneLine(explain(err))
 			}
 			fmt.Fprintf(w, "batch: %d/%d %s %s\n", done, total, file, status)
 			return

@@ -7,6 +7,7 @@ import (
 	"path/filepath"
 	"testing"
 
+	"tapersweep/analysis"
 	"tapersweep/mesh"
 	"tapersweep/models"
 )
@@ -45,14 +46,18 @@ func batchBenchCanals(b *testing.B, dir string) []string {
 // throughput with 2 jobs should be at least 1.7 times that with 1 on two cores.
 func BenchmarkBatch(b *testing.B) {
 	dir := b.TempDir()
-	files := batchBenchCanals(b, dir)
+	written := batchBenchCanals(b, dir)
+	files, err := folderCanals(dir, analysis.LoadOptions{})
+	if err != nil || len(files) != len(written) {
+		b.Fatal(err)
+	}
 	seq, err := models.ParseSequence("demo sequence", models.DemoSequenceJSON())
 	if err != nil {
 		b.Fatal(err)
 	}
 	for _, jobs := range []int{1, 2} {
 		b.Run(fmt.Sprintf("jobs=%d", jobs), func(b *testing.B) {
-			opt := batchOptions{Dir: dir, Jobs: jobs}
+			opt := batchOptions{Jobs: jobs}
 			for b.Loop() {
 				failed, err := runBatch(context.Background(), io.Discard, files, seq, opt)
 				if err != nil || failed > 0 {

@@ -6,6 +6,8 @@ import (
 	"fmt"
 	"io"
 	"strings"
+
+	"tapersweep/analysis"
 )
 
 // command is one headless subcommand. Every command parses its flags the same way, prints
@@ -19,7 +21,7 @@ type command struct {
 }
 
 func commands() []command {
-	return []command{centerlineCommand(), analyzeCommand(), renderCommand(), planCommand(), reportCommand(), batchCommand(), demoCommand()}
+	return []command{surfaceCommand(), centerlineCommand(), analyzeCommand(), renderCommand(), planCommand(), reportCommand(), batchCommand(), demoCommand()}
 }
 
 // run parses args and calls the command's body.
@@ -51,7 +53,12 @@ func (c command) run(args []string, stdout, stderr io.Writer) int {
 		help(stderr)
 		return exitUsage
 	}
-	return body(stdout, stderr)
+	out := &checkedWriter{w: stdout}
+	code := body(out, stderr)
+	if out.err != nil && code == exitOK {
+		return outputFailed(stderr, c.name, out.err)
+	}
+	return code
 }
 
 // usageError reports a missing or wrong flag value.
@@ -62,6 +69,22 @@ func usageError(stderr io.Writer, cmd, format string, a ...any) int {
 
 // inputError reports bad input (a file that cannot be read or understood).
 func inputError(stderr io.Writer, cmd string, err error) int {
-	fmt.Fprintf(stderr, "tapersweep %s: %v\n", cmd, err)
+	fmt.Fprintf(stderr, "tapersweep %s: %s\n", cmd, explain(err))
 	return exitBadInput
+}
+
+// explain words an error for the command line, adding the flag that gets past it.
+func explain(err error) string {
+	if errors.Is(err, analysis.ErrUntrustedSurface) {
+		return err.Error() + "; repair the surface, or run again with --force to measure it anyway"
+	}
+	return err.Error()
+}
+
+// printWarnings puts every warning on standard error, whatever the output format, so a
+// warning is never lost in a CSV or a picture.
+func printWarnings(stderr io.Writer, cmd string, warnings []string) {
+	for _, w := range warnings {
+		fmt.Fprintf(stderr, "tapersweep %s: warning: %s\n", cmd, w)
+	}
 }

@@ -50,12 +50,17 @@ func writeDemo(dir string) error {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return err
 	}
-	if err := os.WriteFile(filepath.Join(dir, demoCanalSpecFile), models.DemoCanalJSON(), 0o644); err != nil {
+	bytesOf := func(data []byte) func(io.Writer) error {
+		return func(w io.Writer) error { _, err := w.Write(data); return err }
+	}
+	if err := writeOutput(filepath.Join(dir, demoCanalSpecFile), bytesOf(models.DemoCanalJSON())); err != nil {
 		return err
 	}
 	m := models.DemoCanal().Mesh(analysis.StationSpacing, 96)
-	if err := mesh.WriteSTLFile(filepath.Join(dir, demoCanalSTLFile), m); err != nil {
+	if err := writeOutput(filepath.Join(dir, demoCanalSTLFile), func(w io.Writer) error {
+		return mesh.WriteSTL(w, m, "tapersweep "+demoCanalSTLFile)
+	}); err != nil {
 		return err
 	}
-	return os.WriteFile(filepath.Join(dir, demoSequenceFile), models.DemoSequenceJSON(), 0o644)
+	return writeOutput(filepath.Join(dir, demoSequenceFile), bytesOf(models.DemoSequenceJSON()))
 }

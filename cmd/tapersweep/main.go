@@ -10,6 +10,7 @@ import (
 )
 
 func main() {
+	stopOnSignal(os.Stderr)
 	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
 }
 

@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"slices"
 	"strconv"
 	"strings"
@@ -61,9 +60,17 @@ func planCommand() command {
 				if math.IsNaN(*maxFatigue) || *maxFatigue < 0 && *maxFatigue != -1 {
 					return usageError(stderr, "plan", "--max-fatigue must be above 0, 0 (the default cap) or -1 (no cap)")
 				}
+				if *out != "" {
+					if err := checkOutput(*out, *cf.path, *instruments, *compare); err != nil {
+						return inputError(stderr, "plan", err)
+					}
+				}
 				opt := plan.Options{Target: tg, MaxSteps: *maxSteps, MaxEngagedMM: *maxEngaged,
 					MaxFatigue: *maxFatigue, AllowSameTaper: *sameTaper, Weights: w}
 				if *instruments != "" {
+					if err := checkInput(*instruments); err != nil {
+						return inputError(stderr, "plan", err)
+					}
 					ins, warns, err := plan.LoadInstruments(*instruments)
 					if err != nil {
 						return inputError(stderr, "plan", err)
@@ -75,7 +82,7 @@ func planCommand() command {
 				}
 				var cmp *models.Sequence
 				if *compare != "" {
-					if cmp, err = models.LoadSequence(*compare); err != nil {
+					if cmp, err = loadSequence(*compare); err != nil {
 						return inputError(stderr, "plan", err)
 					}
 				}
@@ -84,6 +91,7 @@ func planCommand() command {
 				if err != nil {
 					return inputError(stderr, "plan", err)
 				}
+				printWarnings(stderr, "plan", c.Warnings)
 				pl, err := plan.Propose(ctx, c, opt)
 				if err != nil {
 					var inf *plan.InfeasibleError
@@ -106,7 +114,7 @@ func planCommand() command {
 				}
 				data = append(data, '\n')
 				if *out != "" {
-					if err := os.WriteFile(*out, data, 0o644); err != nil {
+					if err := writeOutput(*out, func(w io.Writer) error { _, err := w.Write(data); return err }); err != nil {
 						return inputError(stderr, "plan", err)
 					}
 				}

@@ -6,11 +6,9 @@ import (
 	"fmt"
 	"image/png"
 	"io"
-	"os"
 	"strings"
 
 	"tapersweep/analysis"
-	"tapersweep/models"
 	"tapersweep/ui/scene"
 )
 
@@ -44,12 +42,11 @@ func renderCommand() command {
 				if *step < 0 || (*step > 0 && *seqPath == "") {
 					return usageError(stderr, "render", "--step needs --sequence and a step number from 1")
 				}
-				ok := false
-				for _, v := range scene.ViewNames() {
-					ok = ok || v == *view
-				}
-				if !ok {
+				if !isView(*view) {
 					return usageError(stderr, "render", "--view must be one of %s", strings.Join(scene.ViewNames(), ", "))
+				}
+				if err := checkOutput(*out, *cf.path, *seqPath); err != nil {
+					return inputError(stderr, "render", err)
 				}
 				ctx := context.Background()
 				c, err := cf.load(ctx)
@@ -58,7 +55,7 @@ func renderCommand() command {
 				}
 				var res *analysis.Result
 				if *seqPath != "" {
-					seq, err := models.LoadSequence(*seqPath)
+					seq, err := loadSequence(*seqPath)
 					if err != nil {
 						return inputError(stderr, "render", err)
 					}
@@ -66,19 +63,16 @@ func renderCommand() command {
 						return inputError(stderr, "render", err)
 					}
 				}
+				if res != nil {
+					printWarnings(stderr, "render", runWarnings(res))
+				} else {
+					printWarnings(stderr, "render", c.Warnings)
+				}
 				img, err := scene.Picture(c, res, scene.Options{Step: *step, Before: *before, Clip: *clip}, *view, w, h)
 				if err != nil {
 					return inputError(stderr, "render", err)
 				}
-				f, err := os.Create(*out)
-				if err != nil {
-					return inputError(stderr, "render", err)
-				}
-				if err := png.Encode(f, img); err != nil {
-					f.Close()
-					return inputError(stderr, "render", err)
-				}
-				if err := f.Close(); err != nil {
+				if err := writeOutput(*out, func(w io.Writer) error { return png.Encode(w, img) }); err != nil {
 					return inputError(stderr, "render", err)
 				}
 				return exitOK

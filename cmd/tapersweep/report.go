@@ -1,11 +1,9 @@
 package main
 
 import (
-	"bytes"
 	"context"
 	"flag"
 	"io"
-	"os"
 	"strings"
 
 	"tapersweep/analysis"
@@ -44,17 +42,19 @@ func reportCommand() command {
 				if *pathModel != "" && *pathModel != models.PathCentred && *pathModel != models.PathElastic {
 					return usageError(stderr, "report", "--path-model must be %s or %s, not %q", models.PathCentred, models.PathElastic, *pathModel)
 				}
+				if err := checkOutput(*out, *cf.path, *seqPath); err != nil {
+					return inputError(stderr, "report", err)
+				}
 				res, err := analyzeFiles(context.Background(), &cf, *seqPath, analysis.RunOptions{PathModel: *pathModel})
 				if err != nil {
 					return inputError(stderr, "report", err)
 				}
-				var buf bytes.Buffer
-				err = report.WritePDF(&buf, res, report.Options{Title: *title, CanalFile: *cf.path,
-					SequenceFile: *seqPath, View: *view})
+				printWarnings(stderr, "report", runWarnings(res))
+				err = writeOutput(*out, func(w io.Writer) error {
+					return report.WritePDF(w, res, report.Options{Title: *title, CanalFile: *cf.path,
+						SequenceFile: *seqPath, View: *view})
+				})
 				if err != nil {
-					return inputError(stderr, "report", err)
-				}
-				if err := os.WriteFile(*out, buf.Bytes(), 0o644); err != nil {
 					return inputError(stderr, "report", err)
 				}
 				return exitOK

@@ -1,0 +1,71 @@
+package mesh
+
+import (
+	"context"
+	"math/rand/v2"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"sync"
+	"testing"
+)
+
+var loadBenchTriangles int
+
+// loadBenchFiles writes a closed canal-like tube of 1,025,020 triangles as binary STL twice:
+// in the order the tube is built (neighbours close together, as most exporters write) and
+// with the triangles shuffled (as some segmentation tools write them).
+var loadBenchFiles = sync.OnceValues(func() (ordered, scattered string) {
+	m := shapeCanalLike(512, 1000)
+	loadBenchTriangles = len(m.Triangles)
+	// One folder reused by every run, so runs do not pile up 100 MB each.
+	dir := filepath.Join(os.TempDir(), "tapersweep-loadbench")
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		panic(err)
+	}
+	ordered = filepath.Join(dir, "ordered.stl")
+	scattered = filepath.Join(dir, "scattered.stl")
+	if err := WriteSTLFile(ordered, m); err != nil {
+		panic(err)
+	}
+	rng := rand.New(rand.NewPCG(7, 7))
+	rng.Shuffle(len(m.Triangles), func(i, j int) { m.Triangles[i], m.Triangles[j] = m.Triangles[j], m.Triangles[i] })
+	if err := WriteSTLFile(scattered, m); err != nil {
+		panic(err)
+	}
+	return ordered, scattered
+})
+
+// BenchmarkLoadVsAdmesh reads, welds and checks the same 1M-triangle binary STL as admesh
+// (Debian package admesh, run as `admesh FILE`: read, match edges, check) in one run, in both
+// triangle orders; compare the MB/s lines. Target: at least twice admesh's rate, and the
+// scattered file no slower than the ordered one. Skips without admesh except under CI.
+//
+//	go test ./mesh -run XXX -bench LoadVsAdmesh -benchtime 3x
+func BenchmarkLoadVsAdmesh(b *testing.B) {
+	bin := admeshPath(b)
+	ordered, scattered := loadBenchFiles()
+	st, err := os.Stat(ordered)
+	if err != nil {
+		b.Fatal(err)
+	}
+	for _, f := range []struct{ name, path string }{{"ordered", ordered}, {"scattered", scattered}} {
+		b.Run("tapersweep/"+f.name, func(b *testing.B) {
+			b.SetBytes(st.Size())
+			for b.Loop() {
+				m, _, err := LoadFile(context.Background(), f.path, LoadOptions{})
+				if err != nil || len(m.Triangles) != loadBenchTriangles {
+					b.Fatal(err)
+				}
+			}
+		})
+		b.Run("admesh/"+f.name, func(b *testing.B) {
+			b.SetBytes(st.Size())
+			for b.Loop() {
+				if out, err := exec.Command(bin, f.path).CombinedOutput(); err != nil {
+					b.Fatalf("%v\n%s", err, out)
+				}
+			}
+		})
+	}
+}
