@@ -110,7 +110,7 @@ func newElasticSolver(c *Canal, in models.Instrument, eGPa, kw float64, prepared
 	es.d1, es.d2, es.kn = make([]float64, n), make([]float64, n), make([]float64, n)
 	es.f1, es.f2 = make([]float64, n), make([]float64, n)
 	N := 2 * n
-	es.bendA, es.a, es.l = make([]float64, N*bandW), make([]float64, N*bandW), make([]float64, N*bandW)
+	es.bendA, es.a, es.l = make([]float64, N*bandW), make([]float64, N*bandW), make([]float64, (N+4)*bandW)
 	es.bendB, es.b, es.x, es.dd = make([]float64, N), make([]float64, N), make([]float64, N), make([]float64, N)
 	es.active, es.prev = make([]bool, n*m), make([]bool, n*m)
 	return es
@@ -174,10 +174,10 @@ func (es *elasticSolver) solve(D float64, tip, stride int) elasticPath {
 			es.b[ia+1] += f * cs.b2
 		}
 		bandLDL(es.a, N, es.b, es.x, es.l, es.dd)
-		// Plain Newton steps first (most solves settle within four rounds); from the fifth round
+		// Plain Newton steps first (most solves settle within a few rounds); from the seventh round
 		// on, a line search stops any cycling.
 		alpha := 1.0
-		if round >= 4 {
+		if round >= 6 {
 			alpha = es.lineSearch(nc, h, f)
 		}
 		full = alpha == 1
@@ -284,8 +284,7 @@ func (es *elasticSolver) assembleBending(nc int, h float64) {
 // lineSearch returns how far along the Newton step (from the offsets d to the solution x of the
 // current contact set) the energy is least: 1 unless the step passes a change of contact that
 // turns the energy up again (which is what makes a plain active-set iteration cycle). The energy
-// is convex and piecewise quadratic along the step, its slope piecewise linear: found by
-// bisection on the slope.
+// is convex and piecewise quadratic along the step, its slope piecewise linear and increasing.
 func (es *elasticSolver) lineSearch(nc int, h, f float64) float64 {
 	m := len(es.cos)
 	step := func(j int) (float64, float64) {
@@ -337,19 +336,40 @@ func (es *elasticSolver) lineSearch(nc int, h, f float64) float64 {
 		}
 		return g
 	}
-	if slope(1) <= 0 {
+	g1 := slope(1)
+	if g1 <= 0 {
 		return 1
 	}
+	g0 := slope(0)
+	if g0 >= 0 {
+		return 1e-3 // not a descent: take a tiny step and let the next round recompute
+	}
+	// The root of the (piecewise linear, increasing) slope by regula falsi with the Illinois
+	// modification: a few evaluations where bisection takes dozens.
 	lo, hi := 0.0, 1.0
-	for range 40 {
-		mid := (lo + hi) / 2
-		if slope(mid) > 0 {
-			hi = mid
+	side := 0
+	a := 1.0
+	for range 30 {
+		a = (lo*g1 - hi*g0) / (g1 - g0)
+		g := slope(a)
+		if g > 0 {
+			hi, g1 = a, g
+			if side > 0 {
+				g0 /= 2
+			}
+			side = 1
 		} else {
-			lo = mid
+			lo, g0 = a, g
+			if side < 0 {
+				g1 /= 2
+			}
+			side = -1
+		}
+		if hi-lo < 1e-9 || g == 0 {
+			break
 		}
 	}
-	return math.Max(lo, 1e-3)
+	return max(a, 1e-3)
 }
 
 // contactSums are one station's active directions summed: sum e e^T and sum (rho - r) e.
@@ -397,8 +417,9 @@ func equalBools(a, b []bool) bool {
 }
 
 // bandLDL solves A x = b for a symmetric positive definite matrix of half-bandwidth 4 stored by
-// rows, a[i*5+k] = A[i][i+k], by an LDL^T factorisation (l: L[i][i-k] at l[i*5+k]; d: 1/D), row
-// by row with the rows above it carried in registers (the solve runs hundreds of times a step).
+// rows, a[i*5+k] = A[i][i+k], by an LDL^T factorisation (l: L[i][i-k] at l[i*5+k], room for
+// n+4 rows; d: 1/D), row by row with the rows above it carried in registers (the solve runs
+// hundreds of times a step).
 func bandLDL(a []float64, n int, b, x, l, d []float64) {
 	const W = bandW
 	// Row i needs the three rows above it: L[i-1][i-2..i-4] (q11, q12, q13), L[i-2][i-3..i-4]
@@ -429,19 +450,20 @@ func bandLDL(a []float64, n int, b, x, l, d []float64) {
 		e4, e3, e2, e1 = e3, e2, e1, 1/di
 		d[i] = e1
 	}
-	for i := 0; i < n; i++ { // L y = b
-		v := b[i]
+	// The rows just past the last are read (as zeros) by the back substitution.
+	clear(l[n*W : (n+4)*W])
+	var x1, x2, x3, x4 float64 // y[i-1..i-4]
+	for i := 0; i < n; i++ {   // L y = b
 		row := l[i*W : i*W+W]
-		for k := 1; k <= 4 && k <= i; k++ {
-			v -= row[k] * x[i-k]
-		}
+		v := b[i] - row[1]*x1 - row[2]*x2 - row[3]*x3 - row[4]*x4
 		x[i] = v
+		x4, x3, x2, x1 = x3, x2, x1, v
 	}
+	x1, x2, x3, x4 = 0, 0, 0, 0   // x[i+1..i+4]
 	for i := n - 1; i >= 0; i-- { // L^T x = y / D
-		v := x[i] * d[i]
-		for k := 1; k <= 4 && i+k < n; k++ {
-			v -= l[(i+k)*W+k] * x[i+k]
-		}
+		below := l[(i+1)*W : (i+5)*W]
+		v := x[i]*d[i] - below[1]*x1 - below[W+2]*x2 - below[2*W+3]*x3 - below[3*W+4]*x4
 		x[i] = v
+		x4, x3, x2, x1 = x3, x2, x1, v
 	}
 }

@@ -181,7 +181,7 @@ func TestBandSolve(t *testing.T) {
 		}
 		b[i] = math.Cos(float64(i))
 	}
-	x, l, d := make([]float64, n), make([]float64, n*bandW), make([]float64, n)
+	x, l, d := make([]float64, n), make([]float64, (n+4)*bandW), make([]float64, n)
 	bandLDL(a, n, b, x, l, d)
 	at := func(i, j int) float64 {
 		if j < i {

@@ -83,6 +83,46 @@ type pathFactors struct {
 	w      float64
 }
 
+// accumulate adds to damage[k], for every material point k up to the tip, what revs
+// revolutions do with the tip at station tip (point k at station tip - k): the loop of the sum,
+// written out so it needs no call per point. Where lo reaches (stations below len(lo.k)), the
+// rates of lo and hi are blended with the weight w of hi.
+func (l *lifeLaw) accumulate(damage []float64, pf pathFactors, tip int, revs float64) {
+	hi, lo := pf.hi, pf.lo
+	below, above, limit := l.below[:tip+1], l.above[:tip+1], l.limitK[:tip+1]
+	split := tip + 1 // points from here on sit where lo reaches
+	if lo != nil {
+		split = max(0, tip+1-len(lo.k))
+	}
+	for k := 0; k < split; k++ {
+		i := tip - k
+		if hi.k[i] >= limit[k] {
+			damage[k] += revs * above[k] * hi.above[i]
+		} else {
+			damage[k] += revs * below[k] * hi.below[i]
+		}
+	}
+	if lo == nil {
+		return
+	}
+	wh, wl := revs*pf.w, revs*(1-pf.w)
+	for k := split; k <= tip; k++ {
+		i := tip - k
+		var rh, rl float64
+		if hi.k[i] >= limit[k] {
+			rh = above[k] * hi.above[i]
+		} else {
+			rh = below[k] * hi.below[i]
+		}
+		if lo.k[i] >= limit[k] {
+			rl = above[k] * lo.above[i]
+		} else {
+			rl = below[k] * lo.below[i]
+		}
+		damage[k] += wh*rh + wl*rl
+	}
+}
+
 func (l *lifeLaw) blended(pf pathFactors, k, i int) float64 {
 	r := l.perRevolution(pf.hi, k, i)
 	if pf.lo != nil && i < len(pf.lo.k) {
@@ -144,10 +184,7 @@ func fatigue(line *Centerline, in models.Instrument, alloy models.Alloy, moves [
 		if revs == 0 {
 			continue
 		}
-		pf := factorsAt(tip)
-		for k := 0; k <= tip; k++ {
-			res.damage[k] += revs * law.blended(pf, k, tip-k)
-		}
+		law.accumulate(res.damage[:tip+1], factorsAt(tip), tip, revs)
 	}
 	for k, d := range res.damage {
 		if d > res.peak {

@@ -23,6 +23,10 @@ func statedApart(c analysis.Column) bool {
 	return isTransportColumn(c) || c.Key == "contact_threshold_mm"
 }
 
+// onStepPagesOnly tells the figures the summary's step table leaves to the step pages (page 1
+// has no room for them).
+func onStepPagesOnly(c analysis.Column) bool { return c.Key == "shank_contact_mm" }
+
 // StepTable lays the run's steps out as the report prints them: one row per column of
 // analysis.StepColumns (label first), then the transportation rows, advice last; one column
 // per step. The cells are the same strings the CSV holds (Column.Cell of the run's summary)
@@ -35,7 +39,7 @@ func StepTable(sum analysis.ResultSummary) (labels []string, cells [][]string) {
 		switch {
 		case c.Key == "advice":
 			advice = &c
-		case !statedApart(c):
+		case !statedApart(c) && !onStepPagesOnly(c):
 			cols = append(cols, c)
 		}
 	}
