@@ -2,12 +2,14 @@
 # Installs what tapersweep needs on a Debian machine.
 #   bash .ci/setup.sh app    what the build needs (a C compiler and fyne's OpenGL/X11 headers)
 #   bash .ci/setup.sh test   the same, plus the reference tools the tests compare against
-#                            (admesh, VTK, scikit-image) and a virtual screen for the window check
+#                            (admesh, VTK, scikit-image, pydicom, nibabel, dcmtk, Pillow, SciPy)
+#                            and a virtual screen for the window check
 set -euo pipefail
 what=${1:-app}
 pkgs=(gcc pkg-config libgl1-mesa-dev libgl1-mesa-dri xorg-dev)
 if [ "$what" = test ]; then
-  pkgs+=(admesh python3-vtk9 python3-skimage python3-numpy xvfb x11-utils imagemagick poppler-utils)
+  pkgs+=(admesh python3-vtk9 python3-skimage python3-numpy xvfb x11-utils imagemagick poppler-utils
+         python3-pydicom python3-nibabel dcmtk python3-pil python3-scipy)
 fi
 missing=()
 for p in "${pkgs[@]}"; do

@@ -80,6 +80,12 @@ func addAdvice(res *Result) {
 				add(AdviceTorqueJump, "%s", text)
 			}
 		}
+		if u := c.Unresolved; !apexNoted && len(u) > 0 && sr.TipDepth >= u[0].From {
+			// Evidence from the scan itself: the stretch where it does not show the lumen.
+			L := c.Line.Length()
+			add(AdviceApexUnresolved, "The scan does not resolve the canal from %.1f to %.1f mm from the apical end (narrower than about two voxels): its course there is the darkest path through the scan and its width is unknown.", L-u[0].From, L-u[0].To)
+			apexNoted = true
+		}
 		if !apexNoted && sr.TipDepth >= c.WorkingLength-1 {
 			if res := c.SurfaceDetail; res > 0 && canalAtWL < 3*res && surfaceFromVoxels(c.Mesh) {
 				add(AdviceApexUnresolved, "The canal near working length (%.2f mm across) spans fewer than three scan voxels (about %.2f mm): the apical part may be lost in the scan.", canalAtWL, res)

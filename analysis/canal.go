@@ -36,6 +36,12 @@ type Canal struct {
 	// its voxel size. 0 for parametric canals, whose mesh detail is ours.
 	SurfaceDetail float64
 	Warnings      []string // about the mesh and the extraction, in plain words
+	// Unresolved lists the stretches (arc length from the orifice) where the scan the canal
+	// was found in does not show its lumen; there it follows the scan's darkest path only.
+	Unresolved []Stretch
+	// Source says where a canal found in a scan comes from (the scan's label, format, size and
+	// date); empty for surfaces and specs.
+	Source string
 	// Exact is the known centerline of a parametric canal, sampled every StationSpacing from
 	// the orifice (nil for scans). Kept for checks, never used by the analysis.
 	Exact []mgl64.Vec3

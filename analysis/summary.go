@@ -6,6 +6,7 @@ import "math"
 // Values that do not exist (the radius of a straight canal) are null, never Inf.
 type CanalSummary struct {
 	Name            string      `json:"name"`
+	Source          string      `json:"source,omitempty"` // the scan a canal was found in
 	LengthMM        float64     `json:"length_mm"`
 	WorkingLengthMM float64     `json:"working_length_mm"`
 	MaxCurvature    PlaceRadius `json:"max_curvature"`
@@ -15,6 +16,8 @@ type CanalSummary struct {
 	Orifice         [3]float64  `json:"orifice"`
 	ApicalEnd       [3]float64  `json:"apical_end"`
 	Warnings        []string    `json:"warnings"`
+	// Unresolved lists the stretches a scan does not resolve (empty for surfaces and specs).
+	Unresolved []UnresolvedSummary `json:"unresolved"`
 	// Points run from the orifice to the apical end: x, y, z in the file's own coordinates and s.
 	Points [][4]float64 `json:"points,omitempty"`
 }
@@ -46,6 +49,7 @@ func (c *Canal) Summary(withPoints bool) CanalSummary {
 	n := c.Line.Len()
 	s := CanalSummary{
 		Name:            c.Name,
+		Source:          c.Source,
 		LengthMM:        round(m.Length, 3),
 		WorkingLengthMM: round(c.WorkingLength, 3),
 		MaxCurvature: PlaceRadius{SMM: round(m.MaxCurvatureS, 3), FromApexMM: round(m.Length-m.MaxCurvatureS, 3),
@@ -56,6 +60,10 @@ func (c *Canal) Summary(withPoints bool) CanalSummary {
 		Orifice:      [3]float64(c.Line.Points[0]),
 		ApicalEnd:    [3]float64(c.Line.Points[n-1]),
 		Warnings:     append([]string{}, c.Warnings...),
+		Unresolved:   []UnresolvedSummary{},
+	}
+	for _, u := range c.Unresolved {
+		s.Unresolved = append(s.Unresolved, UnresolvedSummary{FromApexMM: round(m.Length-u.From, 3), ToApexMM: round(m.Length-u.To, 3)})
 	}
 	if withPoints {
 		s.Points = make([][4]float64, n)

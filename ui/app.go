@@ -27,7 +27,8 @@ import (
 type Options struct {
 	CanalPath    string
 	SequencePath string
-	Scale        float64 // multiplies STL coordinates (0.001 for micrometres); 0 = 1
+	Scale        float64      // multiplies STL coordinates (0.001 for micrometres); 0 = 1
+	Scan         *ScanOptions // a scan to open in its own window (scan_window.go)
 }
 
 // Open builds the main window on app a and shows it. The canal and sequence are measured and
@@ -37,10 +38,15 @@ func Open(a fyne.App, opt Options) fyne.Window {
 	w := newMainWindow(a, &handOver{})
 	w.win.Show()
 	w.start(opt)
+	if opt.Scan != nil {
+		w.openScanPath(*opt.Scan)
+	}
 	return w.win
 }
 
-// mainWindow is the window and what it shows.
+// mainWindow is the window and what it shows. It owns the state (canal, sequence, run, shown
+// step); each panel shows what it is given (show...) and reports what the user did through
+// its On... callbacks, in the manner of fyne's own widgets.
 type mainWindow struct {
 	app fyne.App
 	win fyne.Window
@@ -60,12 +66,16 @@ type mainWindow struct {
 	editor   *stepEditor
 	summary  *canalPanel
 	profiles *profilePanel
+	sections *sectionPanel
 	path     *pathPanel
 	planning *planRun // the plan being proposed or shown; nil when none
 	controls *viewControls
 	status   *widget.Label
 	hover    *widget.Label
 	loader   *loadProgress
+	// scanPatient names the patient on saved reports, set only while a scan window's switch
+	// asks for it (by default nothing names the patient).
+	scanPatient string
 }
 
 func newMainWindow(a fyne.App, ui *handOver) *mainWindow {
@@ -79,34 +89,46 @@ func newMainWindow(a fyne.App, ui *handOver) *mainWindow {
 	w.view = newViewport(w.ui)
 	w.view.onHover = func(text string) {
 		if text == "" {
-			text = "Point at the wall to read the depth of cut, the distance from the apical end and the canal radius."
+			text = "Point at the wall to read the depth of cut, the distance from the apical end and the canal radius; click it to show its cross-section."
 		}
 		w.hover.SetText(text)
 	}
 	w.view.onError = func(err error) { w.setStatus("Cannot draw: " + err.Error()) }
+	w.view.onPick = func(fromApex float64) { w.sections.pick(fromApex) }
 	w.view.onHover("")
 
-	w.table = newStepTable(w)
-	w.editor = newStepEditor(w)
-	w.summary = newCanalPanel(w)
+	w.table = newStepTable()
+	w.table.OnSelect = w.selectStep
+	w.table.OnAdvice = w.showAdvice
+	w.editor = newStepEditor()
+	w.editor.OnEdit = w.editStep
+	w.editor.OnSteps = w.changeSteps
+	w.summary = newCanalPanel()
+	w.summary.OnWorkingLength = w.setWorkingLength
 	w.profiles = newProfilePanel()
-	w.controls = newViewControls(w)
-	w.path = newPathPanel(w)
+	w.sections = newSectionPanel()
+	w.controls = newViewControls()
+	w.controls.OnChanged = func() { w.showScene(false) }
+	w.controls.OnView = w.view.aim
+	w.controls.OnFit = w.view.fit
+	w.controls.OnTip = w.moveTip
+	w.path = newPathPanel()
+	w.path.OnModel = w.setPathModel
+	w.sections.withBelow(w.controls.fixed)
 
-	left := container.NewBorder(w.controls.box, container.NewVBox(w.profiles.raster, w.hover), nil, nil, w.view)
-	// The canal, the steps and the editor share the height in splits the user can move; the
-	// table and the editor scroll when the window is short.
-	steps := container.NewBorder(
-		container.NewVBox(w.path.box,
-			container.NewBorder(nil, nil, nil, widget.NewButton("Propose a sequence…", w.proposeDialog),
-				sectionTitle("Files in the sequence (select one to show it)"))),
-		nil, nil, nil, w.table.table)
-	lower := container.NewVSplit(steps, container.NewVScroll(w.editor.box))
-	lower.Offset = 0.72
-	right := container.NewVSplit(w.summary.box, lower)
-	right.Offset = 0 // the canal's summary as small as it fits; the steps take the rest
+	// Left: the controls, the 3D view with the cross-sections beside it (the canal stands
+	// upright, so the view needs height more than width), the profiles under both.
+	pictures := container.NewHSplit(w.view, w.sections.box)
+	pictures.Offset = 0.5
+	left := container.NewBorder(w.controls.box, container.NewVBox(w.profiles.raster, w.hover), nil, nil, pictures)
+	// Right: the canal and the path model on top, the editor under the table at its full
+	// height; the table takes the rest and scrolls with its first columns frozen.
+	top := container.NewVBox(w.summary.box, widget.NewSeparator(), w.path.box,
+		container.NewBorder(nil, nil, nil, widget.NewButton("Propose a sequence…", w.proposeDialog),
+			sectionTitle("Files in the sequence (select one to show it)")))
+	right := container.NewBorder(top, w.editor.box, nil, nil, w.table.table)
 	split := container.NewHSplit(left, right)
-	split.Offset = 0.52
+	split.Offset = 0.56
 	w.win.SetContent(container.NewBorder(nil, w.status, nil, nil, split))
 	w.win.SetMainMenu(w.menu())
 	w.win.SetOnDropped(w.dropped)
@@ -123,6 +145,33 @@ func sectionTitle(s string) *widget.Label {
 	return l
 }
 
+// shownStep is the step shown: its number (from 1; 0 when none), its definition in the last
+// valid sequence (nil when none) and its result in the last run (nil while none is in).
+func (w *mainWindow) shownStep() (int, *models.Step, *analysis.StepResult) {
+	if w.seq == nil || w.selected < 1 || w.selected > len(w.seq.Steps) {
+		return 0, nil, nil
+	}
+	var st *analysis.StepResult
+	if w.res != nil && w.selected <= len(w.res.Steps) {
+		st = w.res.Steps[w.selected-1]
+	}
+	return w.selected, &w.seq.Steps[w.selected-1], st
+}
+
+// showStepState hands every panel that follows the shown step what it shows.
+func (w *mainWindow) showStepState() {
+	n, step, st := w.shownStep()
+	w.table.show(w.res, n)
+	w.editor.show(w.seq, n, st)
+	depth, ok := 0.0, false
+	if step != nil && w.canal != nil {
+		depth, ok = step.Depth.Resolve(w.canal.WorkingLength), true
+	}
+	w.controls.showStep(depth, ok)
+	w.profiles.show(w.canal, st)
+	w.sections.show(w.canal, w.res, n, w.controls.fixedScale())
+}
+
 // start measures the canal and runs the sequence the window opens with.
 func (w *mainWindow) start(opt Options) {
 	seq, err := startSequence(opt.SequencePath)
@@ -132,8 +181,8 @@ func (w *mainWindow) start(opt Options) {
 		seq, _ = models.ParseSequence("demo sequence (invented)", models.DemoSequenceJSON())
 	}
 	w.seq = seq
-	w.path.sync()
-	w.table.refresh()
+	w.path.show(seq.PathModel, nil)
+	w.showStepState()
 	if opt.CanalPath == "" {
 		w.loadCanal("demo canal (invented)", false, func(ctx context.Context, progress func(string, int64, int64)) (*analysis.Canal, error) {
 			c, err := analysis.CanalFromSpec(ctx, "demo", models.DemoCanal(), analysis.CanalOptions{})
@@ -161,8 +210,9 @@ func (w *mainWindow) setStatus(s string) { w.status.SetText(s) }
 func (w *mainWindow) setCanal(c *analysis.Canal) {
 	w.canal = c
 	w.res = nil
-	w.summary.refresh()
-	w.controls.canalChanged()
+	w.summary.show(c)
+	w.controls.showCanal(c)
+	w.showStepState()
 	w.showScene(true)
 	w.rerun()
 }
@@ -200,7 +250,7 @@ func (w *mainWindow) deliver(gen uint64, res *analysis.Result, err error) bool {
 func (w *mainWindow) runDone(res *analysis.Result, err error) {
 	if err != nil {
 		w.setStatus("The sequence cannot run in this canal: " + err.Error())
-		w.editor.showRunError(err)
+		w.editor.showError(err, w.selected)
 		return
 	}
 	first := w.res == nil
@@ -211,11 +261,8 @@ func (w *mainWindow) runDone(res *analysis.Result, err error) {
 	if first && w.selected == 0 {
 		w.selected = mostEngagedStep(res)
 	}
-	w.table.refresh()
-	w.editor.load()
-	w.path.refresh()
-	w.controls.stepChanged()
-	w.profiles.set(w.canal, res, w.selected)
+	w.path.show(w.seq.PathModel, &res.Moved)
+	w.showStepState()
 	w.showScene(first) // the first run brings the file: fit it in
 	w.setStatus(runStatus(res))
 }
@@ -246,9 +293,7 @@ func (w *mainWindow) selectStep(n int) {
 		return
 	}
 	w.selected = n
-	w.editor.load()
-	w.controls.stepChanged()
-	w.profiles.set(w.canal, w.res, n)
+	w.showStepState()
 	w.showScene(false)
 }
 
@@ -258,6 +303,7 @@ func (w *mainWindow) showScene(aim bool) {
 		return
 	}
 	opt := w.controls.sceneOptions()
+	w.sections.setFixedScale(opt.FixedScale)
 	res := w.res
 	if res == nil || w.selected > len(res.Steps) {
 		opt.Step = 0
@@ -269,28 +315,61 @@ func (w *mainWindow) showScene(aim bool) {
 }
 
 // trySequence takes an edited sequence if it is valid for the canal and re-runs the analysis;
-// otherwise it returns the error and keeps the last valid one.
+// otherwise it returns the error and keeps the last valid one. The sequence is checked as it
+// stands (no trip through its file format on every keystroke).
 func (w *mainWindow) trySequence(cand *models.Sequence) error {
-	data, err := cand.MarshalJSON()
-	if err != nil {
-		return err
-	}
-	name := "sequence"
-	if w.seq != nil && w.seq.Name != "" {
-		name = w.seq.Name
-	}
-	parsed, err := models.ParseSequence(name, data)
-	if err != nil {
+	if err := cand.Check(); err != nil {
 		return err
 	}
 	if w.canal != nil {
-		if err := parsed.CheckDepths(w.canal.Line.Length(), w.canal.WorkingLength); err != nil {
+		if err := cand.CheckDepths(w.canal.Line.Length(), w.canal.WorkingLength); err != nil {
 			return err
 		}
 	}
-	w.seq = parsed
+	w.seq = cand
 	w.rerun()
 	return nil
+}
+
+// editStep takes the shown step as the editor has it.
+func (w *mainWindow) editStep(st models.Step) error {
+	n, _, _ := w.shownStep()
+	if n == 0 {
+		return nil
+	}
+	cand := copySequence(w.seq)
+	cand.Steps[n-1] = st
+	if err := w.trySequence(cand); err != nil {
+		return err
+	}
+	w.controls.showStep(st.Depth.Resolve(w.canal.WorkingLength), true)
+	return nil
+}
+
+// changeSteps takes a sequence with steps added, removed or moved and shows step sel.
+func (w *mainWindow) changeSteps(cand *models.Sequence, sel int) error {
+	if err := w.trySequence(cand); err != nil {
+		return err
+	}
+	w.selected = sel
+	w.showStepState()
+	return nil
+}
+
+// moveTip moves the shown file to depth mm and re-runs the analysis live.
+func (w *mainWindow) moveTip(mm float64) {
+	n, _, _ := w.shownStep()
+	if n == 0 || w.canal == nil {
+		return
+	}
+	w.view.brieflyMoving()
+	cand := copySequence(w.seq)
+	cand.Steps[n-1].Depth = models.DepthMM(mm)
+	if err := w.trySequence(cand); err != nil {
+		w.setStatus(err.Error())
+		return
+	}
+	w.editor.showDepth(cand.Steps[n-1].Depth)
 }
 
 // copySequence is a sequence whose steps can be changed without touching s.
@@ -317,7 +396,8 @@ func (w *mainWindow) setWorkingLength(wl float64) error {
 		}
 	}
 	w.canal = &c
-	w.summary.text.SetText(canalText(w.canal)) // the entry keeps what the user is typing
+	w.summary.showMeasures(w.canal) // the entry keeps what the user is typing
+	w.showStepState()
 	w.rerun()
 	return nil
 }

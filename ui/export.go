@@ -9,6 +9,7 @@ import (
 
 	"fyne.io/fyne/v2/dialog"
 
+	"tapersweep/analysis"
 	"tapersweep/ui/render"
 	"tapersweep/ui/report"
 	"tapersweep/ui/scene"
@@ -74,6 +75,12 @@ func (w *mainWindow) exportPDF() {
 		return
 	}
 	_, view := w.view.camera()
-	opt := report.Options{View: view, SequenceFile: res.Sequence.Name, CanalFile: res.Canal.Name}
+	opt := w.reportOptions(res, view)
 	w.saveDialog("report.pdf", []string{".pdf"}, func(out io.Writer) error { return report.WritePDF(out, res, opt) })
+}
+
+// reportOptions are what a saved report says of the canal and sequence; the patient only when
+// the scan window's switch asks for it.
+func (w *mainWindow) reportOptions(res *analysis.Result, view string) report.Options {
+	return report.Options{View: view, SequenceFile: res.Sequence.Name, CanalFile: res.Canal.Name, Patient: w.scanPatient}
 }

@@ -63,6 +63,7 @@ func (w *mainWindow) loadCanal(name string, withDialog bool, load canalLoader) {
 		lp.dlg.Show()
 	}
 	w.setStatus("Measuring " + name + "…")
+	w.summary.showLoading(name)
 
 	var lastShown atomic.Int64
 	progress := func(stage string, done, total int64) {
@@ -96,9 +97,13 @@ func (w *mainWindow) loadCanal(name string, withDialog bool, load canalLoader) {
 			}
 			switch {
 			case errors.Is(err, context.Canceled) || ctx.Err() != nil:
+				if w.canal != nil {
+					w.summary.showMeasures(w.canal)
+				}
 				return
 			case err != nil:
 				w.setStatus("Could not open the canal: " + err.Error())
+				w.summary.showFailure(name, err, w.canal)
 				dialog.ShowError(err, w.win)
 				return
 			}
@@ -156,15 +161,17 @@ func (w *mainWindow) takeSequence(seq *models.Sequence) {
 	w.seq = seq
 	w.selected = 0
 	w.res = nil
-	w.path.sync()
-	w.path.refresh()
-	w.table.refresh()
-	w.editor.load()
+	w.path.show(seq.PathModel, nil)
+	w.showStepState()
 	w.rerun()
 }
 
 // openPath opens any file the program reads, told apart by its name and content.
 func (w *mainWindow) openPath(path string) {
+	if isScanPath(path) {
+		w.openScanPath(ScanOptions{Path: path})
+		return
+	}
 	if strings.EqualFold(filepath.Ext(path), ".stl") {
 		w.loadCanalPath(path)
 		return

@@ -2,26 +2,20 @@ package ui
 
 import (
 	"fmt"
-	"math"
 
 	"tapersweep/analysis"
 	"tapersweep/ui/render"
 	"tapersweep/ui/scene"
 )
 
-// wallPoint is a place on the canal wall in the canal's own coordinates.
-type wallPoint struct {
-	S, Theta float64 // arc length from the orifice (mm) and angle (radians)
-}
-
-// pickWall finds the wall point under pixel (x, y) of the last frame; ok is false when the
+// pickWall finds the wall place under pixel (x, y) of the last frame; ok is false when the
 // pointer is over the file, the centerline or the background.
-func pickWall(b *scene.Built, r *render.Renderer, c *analysis.Canal, x, y int) (p wallPoint, onFile bool, ok bool) {
+func pickWall(b *scene.Built, r *render.Renderer, c *analysis.Canal, x, y int) (p analysis.WallPlace, onFile bool, ok bool) {
 	obj, tri, bary, hit := r.Pick(x, y)
 	if !hit || obj < 0 || obj >= len(b.Scene.Objects) {
 		return p, false, false
 	}
-	if obj == b.FileIndex {
+	if obj == b.FileIndex || obj == b.FileInWallIndex {
 		return p, true, false
 	}
 	m := b.Scene.Objects[obj].Mesh
@@ -29,32 +23,7 @@ func pickWall(b *scene.Built, r *render.Renderer, c *analysis.Canal, x, y int) (
 		len(b.Wall.Vertices) == 0 || &m.Vertices[0] != &b.Wall.Vertices[0] {
 		return p, false, false // not the wall (the centerline tube)
 	}
-	t := m.Triangles[tri]
-	return wallPointAt(c, t, bary), false, true
-}
-
-// wallPointAt interpolates (s, theta) of a triangle's corners with barycentric weights,
-// unwrapping the angles around the heaviest corner so a triangle across theta = 0 stays whole.
-func wallPointAt(c *analysis.Canal, t [3]int32, bary [3]float32) wallPoint {
-	ref := 0
-	for k := 1; k < 3; k++ {
-		if bary[k] > bary[ref] {
-			ref = k
-		}
-	}
-	th0 := float64(c.VertexTheta[t[ref]])
-	var s, th float64
-	for k := 0; k < 3; k++ {
-		w := float64(bary[k])
-		s += w * float64(c.VertexS[t[k]])
-		d := math.Remainder(float64(c.VertexTheta[t[k]])-th0, 2*math.Pi)
-		th += w * (th0 + d)
-	}
-	th = math.Mod(th, 2*math.Pi)
-	if th < 0 {
-		th += 2 * math.Pi
-	}
-	return wallPoint{S: s, Theta: th}
+	return c.WallPlaceAt(m.Triangles[tri], bary), false, true
 }
 
 // hoverText states what lies under pixel (x, y): on the wall the depth of cut of the shown step,

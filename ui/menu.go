@@ -28,6 +28,8 @@ func (w *mainWindow) menu() *fyne.MainMenu {
 	recent.ChildMenu = fyne.NewMenu("", items...)
 	file := fyne.NewMenu("File",
 		fyne.NewMenuItem("Open canal (STL or canal JSON)…", w.openCanalDialog),
+		fyne.NewMenuItem("Open a scan folder (DICOM or image slices)…", w.openScanFolderDialog),
+		fyne.NewMenuItem("Open a scan file (NIfTI or DICOM multi-frame)…", w.openScanFileDialog),
 		fyne.NewMenuItem("Open sequence…", w.openSequenceDialog),
 		fyne.NewMenuItem("Save sequence…", w.saveSequenceDialog),
 		recent,
@@ -65,6 +67,6 @@ func (w *mainWindow) showAbout() {
 func (w *mainWindow) showControlsHelp() {
 	l := widget.NewLabel("Drag: turn the canal.\nRight-drag or Shift-drag: move it.\nScroll: zoom.\n" +
 		"Double-click: fit the canal in the view.\nPoint at the wall: depth of cut, distance from the apical end, canal radius.\n" +
-		"Drop an STL, a canal JSON or a sequence JSON on the window to open it.")
+		"Drop an STL, a canal JSON, a sequence JSON or a scan (folder, .nii, .dcm) on the window to open it.")
 	dialog.NewCustom("Moving the view", "Close", l, w.win).Show()
 }

@@ -62,7 +62,7 @@ func TestSwitchingThePathModelRerunsAndChangesTransportation(t *testing.T) {
 	if !strings.Contains(w.path.moved.Text, fmt.Sprintf("transportation %.3f /", want.Moved.TransportationMM["1"])) {
 		t.Errorf("the sequence line %q lacks the whole sequence's transportation at 1 mm", w.path.moved.Text)
 	}
-	if w.selected > 0 && !strings.Contains(w.editor.detail.Text, "apical foramen shift") {
+	if w.selected > 0 && !strings.Contains(w.editor.detail.Text, "foramen shift") {
 		t.Errorf("the shown step's detail %q lacks the foramen shift", w.editor.detail.Text)
 	}
 	// The viewport draws the file on its own path.

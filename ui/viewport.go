@@ -44,6 +44,7 @@ type viewport struct {
 	dirty    bool // a new frame is wanted
 	busy     bool // the worker is working
 	hoverAt  *image.Point
+	pickAt   *image.Point  // a click to answer with the level of the wall under it
 	front    *image.RGBA   // latest finished frame
 	handed   *image.RGBA   // frame the raster last returned (may still be on its way to the screen)
 	spare    []*image.RGBA // buffers free to render into
@@ -58,8 +59,9 @@ type viewport struct {
 	buildErr error
 
 	ui      *handOver
-	onHover func(text string) // called on the UI goroutine
-	onError func(err error)   // scene could not be built
+	onHover func(text string)      // called on the UI goroutine
+	onError func(err error)        // scene could not be built
+	onPick  func(fromApex float64) // the wall was clicked this far from the apical end
 
 	// input state (UI goroutine)
 	dragButton desktop.MouseButton
@@ -201,7 +203,7 @@ func (v *viewport) work() {
 				v.mu.Unlock()
 				return
 			}
-			if !v.dirty && v.hoverAt == nil {
+			if !v.dirty && v.hoverAt == nil && v.pickAt == nil {
 				v.mu.Unlock()
 				break
 			}
@@ -213,8 +215,8 @@ func (v *viewport) work() {
 			}
 			dirty := v.dirty
 			v.dirty = false
-			hover := v.hoverAt
-			v.hoverAt = nil
+			hover, click := v.hoverAt, v.pickAt
+			v.hoverAt, v.pickAt = nil, nil
 			dst := v.takeBufferLocked(w, h)
 			v.mu.Unlock()
 
@@ -230,13 +232,14 @@ func (v *viewport) work() {
 				v.mu.Lock()
 				if v.fitBuilt {
 					v.fitBuilt = false
-					v.cam.Fit(v.built.Lo, v.built.Hi, v.aspectLocked())
+					scene.Frame(&v.cam, v.built, v.pxW, v.pxH, 1)
 				}
 				cam = v.cam
 				view := v.view
 				v.mu.Unlock()
 				if dirty && dst != nil {
-					v.renderer.Render(dst, v.built.Scene, &cam, render.Options{Supersample: ss})
+					// While the view turns, a huge scan is drawn from a simplified copy.
+					v.renderer.Render(dst, v.built.Scene, &cam, render.Options{Supersample: ss, Turning: ss == 1})
 					scene.Decorate(dst, v.built, in.canal, view)
 				}
 			} else if dirty && dst != nil {
@@ -245,6 +248,12 @@ func (v *viewport) work() {
 			var text string
 			if hover != nil && v.built != nil && v.buildErr == nil {
 				text = hoverText(in, v.built, v.renderer, hover.X, hover.Y)
+			}
+			picked := math.NaN()
+			if click != nil && v.built != nil && v.buildErr == nil {
+				if p, _, ok := pickWall(v.built, v.renderer, in.canal, click.X, click.Y); ok {
+					picked = in.canal.Line.Length() - p.S
+				}
 			}
 
 			v.mu.Lock()
@@ -262,6 +271,9 @@ func (v *viewport) work() {
 			}
 			if hover != nil && v.onHover != nil {
 				v.ui.post(func() { v.onHover(text) })
+			}
+			if !math.IsNaN(picked) && v.onPick != nil {
+				v.ui.post(func() { v.onPick(picked) })
 			}
 		}
 	}
@@ -293,7 +305,7 @@ func (v *viewport) takeBufferLocked(w, h int) *image.RGBA {
 func (v *viewport) idle() bool {
 	v.mu.Lock()
 	defer v.mu.Unlock()
-	return !v.dirty && !v.busy && v.hoverAt == nil
+	return !v.dirty && !v.busy && v.hoverAt == nil && v.pickAt == nil
 }
 
 // snapshot copies the latest frame (for tests and the PNG export of what is on screen).
@@ -411,8 +423,18 @@ func (v *viewport) Scrolled(ev *fyne.ScrollEvent) {
 
 func (v *viewport) DoubleTapped(*fyne.PointEvent) { v.fit() }
 
-// Tapped is needed for DoubleTapped to be delivered; a single click does nothing.
-func (v *viewport) Tapped(*fyne.PointEvent) {}
+// Tapped on the wall shows the cross-section there.
+func (v *viewport) Tapped(ev *fyne.PointEvent) {
+	s := v.pixelScale()
+	p := image.Point{int(ev.Position.X * s), int(ev.Position.Y * s)}
+	v.mu.Lock()
+	v.pickAt = &p
+	select {
+	case v.wake <- struct{}{}:
+	default:
+	}
+	v.mu.Unlock()
+}
 
 // brieflyMoving draws the frames of a burst of changes (scrolling, the insertion slider) at
 // 1x and the still view supersampled once they stop.

@@ -426,7 +426,7 @@ func (p *planner) explain(best *checked) *Plan {
 	add("Objective: %s (%.2f mm, %.3f N*cm, %.3f for the %s alone).", opt.Weights.ObjectiveText(tl),
 		ref.engaged, ref.torque, ref.fatigue, tl)
 	var cons []string
-	cons = append(cons, fmt.Sprintf("at most %d files, each used once", opt.MaxSteps))
+	cons = append(cons, fmt.Sprintf("at most %d file%s, each used once", opt.MaxSteps, map[bool]string{true: "s"}[opt.MaxSteps != 1]))
 	if !opt.AllowSameTaper {
 		cons = append(cons, "every change of file changes the taper")
 	}

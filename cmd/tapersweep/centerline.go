@@ -60,6 +60,7 @@ type canalFlags struct {
 	shell         *int
 	orifice, apex *string
 	force         *bool
+	scan          scanFlags
 }
 
 func (cf *canalFlags) register(fs *flag.FlagSet) {
@@ -70,6 +71,7 @@ func (cf *canalFlags) register(fs *flag.FlagSet) {
 	cf.orifice = fs.String("orifice", "", "a point `X,Y,Z` near the coronal end, in the file's coordinates (default: the wider end)")
 	cf.apex = fs.String("apical-end", "", "a point `X,Y,Z` near the apical end, in the file's coordinates (default: the narrower end)")
 	cf.force = fs.Bool("force", false, "measure a surface whose measures cannot be trusted (not closed, most triangles removed) instead of stopping")
+	cf.scan.register(fs)
 }
 
 // point reads "x,y,z".
@@ -93,8 +95,18 @@ func point(s string) (*mgl64.Vec3, error) {
 }
 
 func (cf *canalFlags) check(stderr io.Writer, cmd string) int {
-	if *cf.path == "" {
-		return usageError(stderr, cmd, "--canal is required")
+	switch {
+	case *cf.path == "" && !cf.scan.set():
+		return usageError(stderr, cmd, "--canal is required (or --scan, with --orifice and --apical-end)")
+	case *cf.path != "" && cf.scan.set():
+		return usageError(stderr, cmd, "give --canal or --scan, not both")
+	case cf.scan.set() && (*cf.orifice == "" || *cf.apex == ""):
+		return usageError(stderr, cmd, "--scan needs --orifice and --apical-end (the canal's two ends in the scan's coordinates, mm)")
+	case cf.scan.set() && (*cf.scale != 1 || *cf.shell != 0):
+		return usageError(stderr, cmd, "--scale and --shell apply to STL surfaces, not to --scan")
+	}
+	if code := cf.scan.check(stderr, cmd); code != exitOK {
+		return code
 	}
 	if *cf.scale <= 0 {
 		return usageError(stderr, cmd, "--scale must be above 0")
@@ -117,6 +129,9 @@ func (cf *canalFlags) check(stderr io.Writer, cmd string) int {
 func (cf *canalFlags) load(ctx context.Context) (*analysis.Canal, error) {
 	orifice, _ := point(*cf.orifice)
 	apex, _ := point(*cf.apex)
+	if cf.scan.set() {
+		return loadScanCanal(ctx, &cf.scan, orifice, apex, analysis.CanalOptions{WorkingLength: *cf.workingLength})
+	}
 	return analysis.LoadCanal(ctx, *cf.path, analysis.LoadOptions{
 		Scale: *cf.scale,
 		Shell: *cf.shell,

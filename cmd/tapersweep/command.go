@@ -21,7 +21,7 @@ type command struct {
 }
 
 func commands() []command {
-	return []command{surfaceCommand(), centerlineCommand(), analyzeCommand(), renderCommand(), planCommand(), reportCommand(), batchCommand(), demoCommand()}
+	return []command{segmentCommand(), surfaceCommand(), centerlineCommand(), analyzeCommand(), renderCommand(), planCommand(), reportCommand(), batchCommand(), demoCommand()}
 }
 
 // run parses args and calls the command's body.

@@ -6,7 +6,10 @@ import (
 	"io"
 	"os"
 	"strings"
+
 	"tapersweep/analysis"
+	// Before the window toolkit reads the user's language: quiet in the C.UTF-8 locale.
+	_ "tapersweep/cmd/tapersweep/internal/plainlocale"
 )
 
 func main() {

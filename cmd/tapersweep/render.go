@@ -4,11 +4,14 @@ import (
 	"context"
 	"flag"
 	"fmt"
+	"image"
 	"image/png"
 	"io"
+	"strconv"
 	"strings"
 
 	"tapersweep/analysis"
+	"tapersweep/ui/plots"
 	"tapersweep/ui/scene"
 )
 
@@ -16,8 +19,8 @@ func renderCommand() command {
 	return command{
 		name:    "render",
 		summary: "draw a canal, or one step of a sequence with the wall shaded by depth of cut, to a PNG",
-		usage:   "--canal PATH [--sequence PATH --step N] --out FILE.png [--size WxH] [--view NAME]",
-		example: "tapersweep render --canal canal.stl --sequence plan.json --step 2 --view side --out step2.png",
+		usage:   "--canal PATH [--sequence PATH --step N] --out FILE.png [--size WxH] [--view NAME | --section MM[,MM...]]",
+		example: "tapersweep render --canal canal.stl --sequence plan.json --step 2 --section 1,3,5 --out step2-sections.png",
 		flags: func(fs *flag.FlagSet) func(stdout, stderr io.Writer) int {
 			var cf canalFlags
 			cf.register(fs)
@@ -28,6 +31,8 @@ func renderCommand() command {
 			view := fs.String("view", scene.Views[0].Name, "named `view`: "+strings.Join(scene.ViewNames(), ", "))
 			before := fs.Bool("before", false, "draw the canal as the step meets it instead of as the step leaves it")
 			clip := fs.Bool("open", false, "open the canal lengthwise along the plane of its main curve")
+			section := fs.String("section", "", "draw cross-sections at these `levels`, mm from the apical end (e.g. 3 or 1,3,5), instead of the view")
+			fixed := fs.Bool("fixed-scale", false, "top the depth-of-cut colours at the whole sequence's deepest cut, to compare steps")
 			return func(stdout, stderr io.Writer) int {
 				if code := cf.check(stderr, "render"); code != exitOK {
 					return code
@@ -68,7 +73,16 @@ func renderCommand() command {
 				} else {
 					printWarnings(stderr, "render", c.Warnings)
 				}
-				img, err := scene.Picture(c, res, scene.Options{Step: *step, Before: *before, Clip: *clip}, *view, w, h)
+				levels, err := sectionLevels(*section)
+				if err != nil {
+					return usageError(stderr, "render", "--section: %v", err)
+				}
+				var img *image.RGBA
+				if levels != nil {
+					img, err = sectionsPicture(c, res, *step, levels, *fixed, w, h)
+				} else {
+					img, err = scene.Picture(c, res, scene.Options{Step: *step, Before: *before, Clip: *clip, FixedScale: *fixed}, *view, w, h, 0)
+				}
 				if err != nil {
 					return inputError(stderr, "render", err)
 				}
@@ -79,4 +93,40 @@ func renderCommand() command {
 			}
 		},
 	}
+}
+
+// sectionLevels reads --section: levels in mm from the apical end, comma-separated; nil when empty.
+func sectionLevels(s string) ([]float64, error) {
+	if strings.TrimSpace(s) == "" {
+		return nil, nil
+	}
+	var out []float64
+	for _, f := range strings.Split(s, ",") {
+		v, err := strconv.ParseFloat(strings.TrimSpace(f), 64)
+		if err != nil || v < 0 {
+			return nil, fmt.Errorf("%q is not a distance in mm from the apical end", f)
+		}
+		out = append(out, v)
+	}
+	if len(out) > 6 {
+		return nil, fmt.Errorf("at most 6 levels, not %d", len(out))
+	}
+	return out, nil
+}
+
+// sectionsPicture draws the canal's cross-sections at the levels with the step shown.
+func sectionsPicture(c *analysis.Canal, res *analysis.Result, step int, levels []float64, fixed bool, w, h int) (*image.RGBA, error) {
+	secs := make([]*analysis.Section, 0, len(levels))
+	for _, x := range levels {
+		sec, err := analysis.SectionAt(c, res, step, x)
+		if err != nil {
+			return nil, err
+		}
+		secs = append(secs, sec)
+	}
+	opt := plots.SectionOptions{LegendTop: scene.LegendTop(res, step, fixed), DPI: 96 * max(1, float64(w)/900), Key: true, Selected: -1}
+	if res != nil {
+		opt.ContactMM = res.Options.ContactThreshold
+	}
+	return plots.SectionsImage(secs, w, h, opt), nil
 }

@@ -50,9 +50,13 @@ func reportCommand() command {
 					return inputError(stderr, "report", err)
 				}
 				printWarnings(stderr, "report", runWarnings(res))
+				canalFile := *cf.path
+				if cf.scan.set() {
+					canalFile = res.Canal.Name // the scan's label, not a path that may name the patient
+				}
 				err = writeOutput(*out, func(w io.Writer) error {
-					return report.WritePDF(w, res, report.Options{Title: *title, CanalFile: *cf.path,
-						SequenceFile: *seqPath, View: *view})
+					return report.WritePDF(w, res, report.Options{Title: *title, CanalFile: canalFile,
+						SequenceFile: *seqPath, View: *view, Patient: cf.scan.patient})
 				})
 				if err != nil {
 					return inputError(stderr, "report", err)

@@ -62,19 +62,24 @@ func TestDemoReportAgreesWithAnalyze(t *testing.T) {
 	if len(pages) != want {
 		t.Fatalf("pdftotext read %d pages, want %d", len(pages), want)
 	}
-	num := func(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
+	// The report prints each figure to the decimals its column shows a person (Shown).
+	shown := func(key string, v float64) string {
+		c, _ := analysis.StepColumn(key)
+		return strconv.FormatFloat(v, 'f', c.Shown, 64)
+	}
 	for _, m := range sum.Steps {
-		for _, v := range []float64{m.TipDepthMM, m.EngagedLengthMM, m.EngagedAreaMM2, m.RemovedVolumeMM3,
-			m.UntouchedWallPct, m.PeakStrainPct, m.FatigueDamage, m.PeakTorqueIndex} {
-			if !strings.Contains(pages[0], num(v)) {
-				t.Errorf("the summary page lacks step %d's %s", m.Step, num(v))
+		for key, v := range map[string]float64{"tip_depth_mm": m.TipDepthMM, "engaged_length_mm": m.EngagedLengthMM,
+			"engaged_area_mm2": m.EngagedAreaMM2, "removed_volume_mm3": m.RemovedVolumeMM3, "untouched_wall_pct": m.UntouchedWallPct,
+			"peak_strain_pct": m.PeakStrainPct, "fatigue_damage": m.FatigueDamage, "peak_torque_index": m.PeakTorqueIndex} {
+			if !strings.Contains(pages[0], shown(key, v)) {
+				t.Errorf("the summary page lacks step %d's %s %s", m.Step, key, shown(key, v))
 			}
-			if !strings.Contains(pages[m.Step], num(v)) {
-				t.Errorf("step %d's page lacks %s", m.Step, num(v))
+			if !strings.Contains(pages[m.Step], shown(key, v)) {
+				t.Errorf("step %d's page lacks %s %s", m.Step, key, shown(key, v))
 			}
 		}
-		if m.TorsionMargin != nil && !strings.Contains(pages[m.Step], num(*m.TorsionMargin)) {
-			t.Errorf("step %d's page lacks its torsional margin %s", m.Step, num(*m.TorsionMargin))
+		if m.TorsionMargin != nil && !strings.Contains(pages[m.Step], shown("torsion_margin", *m.TorsionMargin)) {
+			t.Errorf("step %d's page lacks its torsional margin %s", m.Step, shown("torsion_margin", *m.TorsionMargin))
 		}
 	}
 	for _, v := range []float64{sum.Canal.LengthMM, sum.Canal.WorkingLengthMM} {
@@ -124,7 +129,8 @@ func TestElasticReportAgreesWithAnalyze(t *testing.T) {
 	if !strings.Contains(pages[0], "elastic:") {
 		t.Error("the summary page does not name the elastic path")
 	}
-	num := func(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
+	// Transportation is printed to the micrometre, as its column shows it.
+	num := func(v float64) string { return strconv.FormatFloat(v, 'f', 3, 64) }
 	found := 0
 	for _, m := range sum.Steps {
 		for _, k := range []string{"1", "3", "5"} {

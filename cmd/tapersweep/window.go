@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -17,6 +18,11 @@ func runWindow(args []string, stderr io.Writer) int {
 	canal := fs.String("canal", "", "canal `file` to open (STL or canal spec); default: the built-in demo")
 	seq := fs.String("sequence", "", "sequence `file` to open; default: the demo sequence")
 	scale := fs.Float64("scale", 1, "multiply STL coordinates by `factor` (0.001 for a surface in micrometres)")
+	scan := fs.String("scan", "", "a scan to open in the scan window: a DICOM or image-slice `folder`, a NIfTI or DICOM multi-frame file")
+	voxel := fs.Float64("voxel", 0, "voxel edge in `mm` of a stack of image slices")
+	label := fs.String("label", "", "name of the scan on screen and in saved files (default: its folder's or file's name)")
+	orifice := fs.String("orifice", "", "with --scan: the canal's coronal end `X,Y,Z` (mm); with --apical-end the canal is found at once")
+	apex := fs.String("apical-end", "", "with --scan: the canal's apical end `X,Y,Z` (mm)")
 	if err := fs.Parse(args); err != nil {
 		return exitUsage
 	}
@@ -28,8 +34,18 @@ func runWindow(args []string, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "tapersweep: --scale must be a factor above 0 and at most 1000, not %g\n", *scale)
 		return exitUsage
 	}
+	opt := ui.Options{CanalPath: *canal, SequencePath: *seq, Scale: *scale}
+	if *scan != "" {
+		o, err1 := point(*orifice)
+		x, err2 := point(*apex)
+		if err := errors.Join(err1, err2); err != nil {
+			fmt.Fprintf(stderr, "tapersweep: %v\n", err)
+			return exitUsage
+		}
+		opt.Scan = &ui.ScanOptions{Path: *scan, Voxel: *voxel, Label: *label, Orifice: o, Apex: x}
+	}
 	a := app.NewWithID("org.tapersweep.desktop")
-	ui.Open(a, ui.Options{CanalPath: *canal, SequencePath: *seq, Scale: *scale})
+	ui.Open(a, opt)
 	a.Run()
 	return exitOK
 }

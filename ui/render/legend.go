@@ -95,6 +95,13 @@ var (
 // the bar a swatch of the scale's neutral colour labelled neutralLabel (none when empty).
 // What does not fit in rect is left out.
 func DrawLegend(dst *image.RGBA, rect image.Rectangle, s *Scale, min, max float64, unit, title, neutralLabel string) {
+	DrawLegendScaled(dst, rect, s, min, max, unit, title, neutralLabel, 1)
+}
+
+// DrawLegendScaled is DrawLegend with text, bar and spacing k times their screen size (for
+// pictures printed small); when max is not a tick it is labelled too, so the top of the scale
+// reads as the value it stands for.
+func DrawLegendScaled(dst *image.RGBA, rect image.Rectangle, s *Scale, min, max float64, unit, title, neutralLabel string, k float64) {
 	if dst == nil || s == nil {
 		return
 	}
@@ -103,7 +110,9 @@ func DrawLegend(dst *image.RGBA, rect image.Rectangle, s *Scale, min, max float6
 		return
 	}
 	fillBlend(dst, rect, legendPanel)
-	const pad, barW, textSize, titleSize = 6, 14, 11.0, 12.0
+	k = math.Max(1, k)
+	pad, barW := int(math.Round(6*k)), int(math.Round(14*k))
+	textSize, titleSize := 11*k, 12*k
 	_, lineH := MeasureText("0", textSize)
 	top := rect.Min.Y + pad
 	if title != "" {
@@ -126,22 +135,36 @@ func DrawLegend(dst *image.RGBA, rect image.Rectangle, s *Scale, min, max float6
 	}
 	strokeRect(dst, image.Rect(x0-1, top-1, x0+barW+1, bottom+2), legendInk)
 
-	ticks, dec := legendTicks(min, max, int(math.Max(2, math.Min(11, float64(bottom-top)/float64(lineH+4)))))
-	for _, v := range ticks {
-		y := bottom
-		if max != min {
-			y = bottom - int(math.Round((v-min)/(max-min)*float64(bottom-top)))
+	ticks, dec := legendTicks(min, max, int(math.Max(2, math.Min(6, float64(bottom-top)/float64(lineH+4)))))
+	tick := int(math.Round(4 * k))
+	place := func(v float64) int {
+		if max == min {
+			return bottom
 		}
-		fillBlend(dst, image.Rect(x0+barW, y, x0+barW+4, y+1), legendInk)
-		DrawText(dst, x0+barW+7, y-lineH/2, FormatTick(v, dec, unit), legendInk, textSize)
+		return bottom - int(math.Round((v-min)/(max-min)*float64(bottom-top)))
+	}
+	for _, v := range ticks {
+		y := place(v)
+		if len(ticks) > 0 && v != max && y-top < lineH && ticks[len(ticks)-1] != max {
+			continue // the top's own label goes here
+		}
+		fillBlend(dst, image.Rect(x0+barW, y, x0+barW+tick, y+max1(k)), legendInk)
+		DrawText(dst, x0+barW+tick+3, y-lineH/2, FormatTick(v, dec, unit), legendInk, textSize)
+	}
+	if len(ticks) > 0 && ticks[len(ticks)-1] != max {
+		fillBlend(dst, image.Rect(x0+barW, top, x0+barW+tick, top+max1(k)), legendInk)
+		DrawText(dst, x0+barW+tick+3, top-lineH/2, FormatTick(max, dec+1, unit), legendInk, textSize)
 	}
 	if neutralLabel != "" {
 		y := rect.Max.Y - pad - lineH
 		fillBlend(dst, image.Rect(x0, y, x0+barW, y+lineH), s.Neutral)
 		strokeRect(dst, image.Rect(x0-1, y-1, x0+barW+1, y+lineH+1), legendInk)
-		DrawText(dst, x0+barW+7, y, neutralLabel, legendInk, textSize)
+		DrawText(dst, x0+barW+tick+3, y, neutralLabel, legendInk, textSize)
 	}
 }
+
+// max1 is a line width of k pixels, at least one.
+func max1(k float64) int { return max(1, int(math.Round(k))) }
 
 // fillBlend paints r (clipped to dst) with c blended by its alpha.
 func fillBlend(dst *image.RGBA, r image.Rectangle, c color.RGBA) {

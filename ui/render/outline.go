@@ -7,8 +7,9 @@ const outlineR, outlineG, outlineB = 34, 38, 48
 // a neighbour (ss samples away) that is empty, belongs to another object or is
 // farther by more than the threshold. Only rows y0..y1-1 are written; depth and
 // object buffers are read across the band border, which is why this runs after
-// the pass that fills them. strength is out of 256.
-func (r *Renderer) outlineRows(y0, y1 int, depth []float32, objs []uint16, strength int32) {
+// the pass that fills them. strength is out of 256. Only columns span[0]..span[1] are looked
+// at: the band's drawn pixels of that layer lie there, and an outline pixel is a drawn one.
+func (r *Renderer) outlineRows(y0, y1 int, depth []float32, objs []uint16, strength int32, span [2]int32) {
 	anyOutline := false
 	for i := range r.objs {
 		anyOutline = anyOutline || r.objs[i].outline
@@ -18,6 +19,10 @@ func (r *Renderer) outlineRows(y0, y1 int, depth []float32, objs []uint16, stren
 	}
 	w, h, k := r.w, r.h, r.ss
 	th := 1 - r.outlineThresh
+	x0, x1 := max(0, int(span[0])), min(w-1, int(span[1]))
+	if x0 > x1 {
+		return
+	}
 	for y := y0; y < y1; y++ {
 		row := y * w
 		up, down := row, row
@@ -27,7 +32,7 @@ func (r *Renderer) outlineRows(y0, y1 int, depth []float32, objs []uint16, stren
 		if y+k < h {
 			down = row + k*w
 		}
-		for x := 0; x < w; x++ {
+		for x := x0; x <= x1; x++ {
 			id := objs[row+x]
 			if id == 0 || !r.objs[id-1].outline {
 				continue

@@ -24,6 +24,10 @@ func (r *Renderer) savePick(dst *image.RGBA) {
 	ps.rect = dst.Rect
 	ps.meshes = ps.meshes[:0]
 	for _, o := range r.objs {
+		if o.substitute {
+			ps.meshes = append(ps.meshes, nil) // its triangles are not the scene's
+			continue
+		}
 		ps.meshes = append(ps.meshes, o.mesh)
 	}
 	inv := r.rot.Transpose() // view to world

@@ -12,12 +12,16 @@ func (r *Renderer) opaquePhase(int) {
 		}
 		y0, y1 := r.bandRows(band)
 		r.clearRows(y0, y1)
+		lo, hi := int32(r.w), int32(-1)
 		for c := 0; c < r.nChunks; c++ {
 			list := r.chunks[c].opaque
 			for _, idx := range r.opaqueBins[c*r.nBands+band] {
-				r.rasterOpaque(&list[idx], y0, y1)
+				t := &list[idx]
+				r.rasterOpaque(t, y0, y1)
+				lo, hi = min(lo, t.minX), max(hi, t.maxX)
 			}
 		}
+		r.opaqueSpan[band] = [2]int32{lo, hi}
 	}
 }
 
@@ -29,11 +33,14 @@ func (r *Renderer) seeThroughPhase(int) {
 			return
 		}
 		y0, y1 := r.bandRows(band)
-		r.outlineRows(y0, y1, r.z, r.oObj, 190)
+		r.outlineRows(y0, y1, r.z, r.oObj, 190, r.opaqueSpan[band])
+		lo, hi := int32(r.w), int32(-1)
 		for _, ref := range r.clearBins[band] {
 			t := &r.chunks[ref.chunk].clear[ref.idx]
 			r.rasterSeeThrough(t, y0, y1, r.objs[t.obj-1].alpha)
+			lo, hi = min(lo, t.minX), max(hi, t.maxX)
 		}
+		r.clearSpan[band] = [2]int32{lo, hi}
 	}
 }
 
@@ -45,7 +52,7 @@ func (r *Renderer) finishPhase(int) {
 			return
 		}
 		y0, y1 := r.bandRows(band)
-		r.outlineRows(y0, y1, r.tz, r.tObj, 150)
+		r.outlineRows(y0, y1, r.tz, r.tObj, 150, r.clearSpan[band])
 		if r.ss > 1 {
 			r.downsampleRows(y0, y1)
 		}

@@ -38,8 +38,14 @@ type Renderer struct {
 
 	objs   []frameObject
 	meshes map[*mesh.Mesh]*meshCache
-	verts  []packedVert
-	vjobs  []vertexJob
+	// simpler holds the simplified copies of huge meshes drawn while turning.
+	simpler map[*mesh.Mesh]*simplified
+	turning bool
+	verts   []packedVert
+	vjobs   []vertexJob
+	// marks[v] == stamp: vertex v belongs to a triangle that survived culling this frame.
+	marks []uint32
+	stamp uint32
 
 	chunks     []triChunk
 	nChunks    int
@@ -47,6 +53,9 @@ type Renderer struct {
 	sortItems  []sortItem
 	sortTmp    []sortItem
 	clearBins  [][]clearRef // [band] see-through triangles, far to near
+	// opaqueSpan and clearSpan are the columns each band's opaque and see-through triangles
+	// reach, so the outline passes skip the empty rest of the row.
+	opaqueSpan, clearSpan [][2]int32
 
 	// Colour target: dst.Pix directly, or own when supersampling.
 	pix    []byte
@@ -64,7 +73,7 @@ type Renderer struct {
 
 	next atomic.Int64
 
-	fnVerts, fnTris, fnOpaque, fnSeeThrough, fnFinish func(worker int)
+	fnVerts, fnCull, fnShade, fnColour, fnOpaque, fnSeeThrough, fnFinish func(worker int)
 
 	picking pickState
 }
@@ -76,6 +85,8 @@ type frameObject struct {
 	vertBase   int
 	cull       bool // back faces cannot be seen: closed, opaque, camera outside, not clipped
 	clip       bool
+	clipDist   []float32 // per-vertex distances to the cut; nil: the scene's plane
+	substitute bool      // drawn from a simplified copy: Pick does not answer on it
 	seeThrough bool
 	alpha      int32 // 0..256
 	outline    bool
@@ -98,15 +109,18 @@ type triChunk struct {
 	obj, t0, t1 int
 	opaque      []triSetup
 	clear       []triSetup
+	clipped     []int32 // triangles to clip once their corners are lit
 }
 
 type clearRef struct{ chunk, idx uint32 }
 
 // NewRenderer returns a renderer with no buffers yet; the first frame sizes them.
 func NewRenderer() *Renderer {
-	r := &Renderer{pool: newPool(), meshes: map[*mesh.Mesh]*meshCache{}}
+	r := &Renderer{pool: newPool(), meshes: map[*mesh.Mesh]*meshCache{}, simpler: map[*mesh.Mesh]*simplified{}}
 	r.fnVerts = r.vertexPhase
-	r.fnTris = r.trianglePhase
+	r.fnCull = r.cullPhase
+	r.fnShade = r.shadePhase
+	r.fnColour = r.colourPhase
 	r.fnOpaque = r.opaquePhase
 	r.fnSeeThrough = r.seeThroughPhase
 	r.fnFinish = r.finishPhase
@@ -146,6 +160,7 @@ func (r *Renderer) Render(dst *image.RGBA, s *Scene, cam *Camera, opt Options) {
 	if r.workers <= 0 {
 		r.workers = runtime.GOMAXPROCS(0)
 	}
+	r.turning = opt.Turning
 	r.resize(dst, ss)
 	if s != nil {
 		r.setBackground(s)
@@ -155,13 +170,16 @@ func (r *Renderer) Render(dst *image.RGBA, s *Scene, cam *Camera, opt Options) {
 
 	r.runPhase(len(r.vjobs), r.fnVerts)
 	r.prepareChunks()
-	r.runPhase(r.nChunks, r.fnTris)
+	r.runPhase(r.nChunks, r.fnCull)
+	r.runPhase(len(r.vjobs), r.fnShade)
+	r.runPhase(r.nChunks, r.fnColour)
 	r.sortSeeThrough()
 	r.runPhase(r.nBands, r.fnOpaque)
 	r.runPhase(r.nBands, r.fnSeeThrough)
 	r.runPhase(r.nBands, r.fnFinish)
 	r.savePick(dst)
 	r.evictMeshes()
+	r.evictSimpler(s)
 }
 
 // runPhase hands items 0..n-1 to the workers through the shared counter.
@@ -203,6 +221,8 @@ func (r *Renderer) resize(dst *image.RGBA, ss int) {
 	if len(r.clearBins) < r.nBands {
 		r.clearBins = append(r.clearBins, make([][]clearRef, r.nBands-len(r.clearBins))...)
 	}
+	r.opaqueSpan = grow(r.opaqueSpan, r.nBands)
+	r.clearSpan = grow(r.clearSpan, r.nBands)
 }
 
 // grow returns s with length n, reusing its storage when it is big enough.
@@ -256,20 +276,27 @@ func (r *Renderer) prepareObjects(s *Scene) {
 	nv := 0
 	for i := range s.Objects {
 		o := &s.Objects[i]
+		if r.turning && o.Mesh != nil && len(o.Mesh.Triangles) > TurningTriangles {
+			o = r.turningObject(o)
+		}
 		if o.Mesh == nil || len(o.Mesh.Triangles) == 0 || len(o.Mesh.Vertices) == 0 || len(r.objs) >= maxObjs {
 			r.objs = append(r.objs, frameObject{src: o}) // keeps object numbering; draws nothing
 			continue
 		}
 		mc := r.cacheFor(o.Mesh)
 		fo := frameObject{
+			substitute: o != &s.Objects[i],
 			mesh:       o.Mesh,
 			src:        o,
 			vertBase:   nv,
-			clip:       o.Clip && r.hasPlane,
+			clip:       o.Clip && r.hasPlane || len(o.ClipDistance) == len(o.Mesh.Vertices),
 			seeThrough: o.seeThrough(),
 			outline:    o.Outline,
 			normals:    mc.normals,
 			colors:     len(o.Colors) == len(o.Mesh.Vertices),
+		}
+		if len(o.ClipDistance) == len(o.Mesh.Vertices) {
+			fo.clipDist = o.ClipDistance
 		}
 		fo.alpha = 256
 		if fo.seeThrough {
@@ -294,6 +321,11 @@ func (r *Renderer) prepareObjects(s *Scene) {
 		nv += n
 	}
 	r.verts = grow(r.verts, nv)
+	r.marks = grow(r.marks, nv)
+	if r.stamp++; r.stamp == 0 { // wrapped: old marks could match
+		clear(r.marks)
+		r.stamp = 1
+	}
 }
 
 // cacheFor returns cached normals and bounds of m, computing them when m is new or resized.
@@ -368,6 +400,7 @@ func (r *Renderer) prepareChunks() {
 			ch.obj, ch.t0, ch.t1 = oi, t, min(nt, t+size)
 			ch.opaque = ch.opaque[:0]
 			ch.clear = ch.clear[:0]
+			ch.clipped = ch.clipped[:0]
 			n++
 		}
 	}

@@ -12,14 +12,18 @@ type Scale struct {
 	Neutral color.RGBA
 }
 
-// DepthScale is a sequential scale for depth of cut: pale yellow (shallow) through orange
-// and red to a dark violet (deep), lightness falling steadily. Its neutral is a light warm grey.
+// DepthScale is a sequential scale for depth of cut: a light teal (shallow) through teal to a
+// deep petrol (deep), lightness falling steadily. Its hues (about 190 to 215 degrees in OKLCh)
+// lie in the widest gap between the ISO 3630-1 size colours (green and blue), so no file's
+// colour reads as cutting; its neutral is a light warm grey.
 func DepthScale() *Scale {
 	return newSequential(
 		func(t float64) (l, c, h float64) {
-			l = 0.94 - 0.60*t
-			c = 0.07 + 0.13*math.Sin(math.Pi*math.Min(1, t*1.15))
-			h = 100 - 135*t // degrees: yellow, orange, red, magenta-violet
+			// The shallowest contact is already a clear teal, never mistaken for the neutral
+			// wall: lightness starts below the neutral's and chroma well above it.
+			l = 0.84 - 0.50*t
+			c = 0.085 + 0.04*math.Sin(math.Pi*t)
+			h = 190 + 25*t
 			return
 		},
 		okLabToSRGB(0.87, 0.006, 0.014),

@@ -180,3 +180,37 @@ func TestDivergingScaleLightestInTheMiddle(t *testing.T) {
 		t.Error("NaN does not map to the neutral colour")
 	}
 }
+
+// TestDepthScaleAvoidsFileColours: no colour of the depth-of-cut scale may be read as a file's
+// size colour. The ISO 3630-1 size colours (pink, grey, purple, white, yellow, red, blue, green,
+// black; from memory, as the CSS named colours) are compared in CIE L*a*b* (CIE 15): every
+// chromatic step of the scale keeps its hue angle at least 30 degrees from each chromatic size
+// colour's, and every step is at least CIEDE2000 15 from every size colour.
+func TestDepthScaleAvoidsFileColours(t *testing.T) {
+	iso := map[string]color.RGBA{
+		"pink": {0xFF, 0xC0, 0xCB, 255}, "grey": {0x80, 0x80, 0x80, 255}, "purple": {0x80, 0x00, 0x80, 255},
+		"white": {0xFF, 0xFF, 0xFF, 255}, "yellow": {0xFF, 0xFF, 0x00, 255}, "red": {0xFF, 0x00, 0x00, 255},
+		"blue": {0x00, 0x00, 0xFF, 255}, "green": {0x00, 0x80, 0x00, 255}, "black": {0, 0, 0, 255},
+	}
+	hue := func(c color.RGBA) (h, chroma float64) {
+		_, a, b := cieLab(c)
+		return math.Mod(math.Atan2(b, a)*180/math.Pi+360, 360), math.Hypot(a, b)
+	}
+	s := DepthScale()
+	for i := 0; i <= 32; i++ {
+		c := s.At(float64(i) / 32)
+		h, ch := hue(c)
+		for name, f := range iso {
+			if d := deltaE2000(c, f); d < 15 {
+				t.Errorf("t=%.2f %v is only dE2000 %.1f from the %s file colour", float64(i)/32, c, d, name)
+			}
+			fh, fch := hue(f)
+			if ch < 10 || fch < 10 {
+				continue
+			}
+			if d := math.Abs(math.Remainder(h-fh, 360)); d < 30 {
+				t.Errorf("t=%.2f %v: hue %.0f° is %.0f° from the %s file colour's %.0f°", float64(i)/32, c, h, d, name, fh)
+			}
+		}
+	}
+}

@@ -23,6 +23,10 @@ type Object struct {
 	Normals []mgl64.Vec3
 	Outline bool // dark outline at silhouettes and depth jumps
 	Clip    bool // obeys the scene's clipping plane
+	// ClipDistance, when it gives one value per vertex, cuts the object by its own signed
+	// distances instead of the scene's plane (>= 0 is kept, interpolated along edges): a cut
+	// that follows a curved canal.
+	ClipDistance []float32
 }
 
 // Plane is a clipping plane through Point; it keeps the side Normal points to.
@@ -44,6 +48,9 @@ type Options struct {
 	Supersample int
 	// Workers is the number of goroutines; 0 uses GOMAXPROCS. The image does not depend on it.
 	Workers int
+	// Turning draws objects of more than TurningTriangles triangles from a simplified copy,
+	// for the frames of a view being turned; Pick answers nothing on them.
+	Turning bool
 }
 
 func (o Object) seeThrough() bool { return o.Opacity > 0 && o.Opacity < 1 }

@@ -1,6 +1,8 @@
 package render
 
 import (
+	"sync/atomic"
+
 	"github.com/go-gl/mathgl/mgl32"
 )
 
@@ -16,27 +18,45 @@ type triSetup struct {
 	b, bdx, bdy            float32
 	tri                    int32
 	obj                    uint16 // object+1
+	// v holds the corners' indices into the frame's vertices in the order above, for the
+	// colour planes filled once the vertices are shaded; -1 for a piece of a clipped triangle
+	// (its colours are set with its geometry).
+	v [3]int32
 }
 
-// trianglePhase culls, clips and sets up triangles chunk by chunk, binning opaque ones by band.
-func (r *Renderer) trianglePhase(int) {
+// Triangles are handled in two passes around the shading of vertices, so only the vertices of
+// triangles that survive culling are shaded: cullPhase culls each chunk's triangles, sets up the
+// survivors' geometry, bins them and marks their corners; shadePhase lights the marked
+// vertices; colourPhase fills the survivors' colour planes and clips the triangles that cross a
+// clipping plane or the guard band.
+
+// cullPhase culls and sets up the geometry of triangles chunk by chunk.
+func (r *Renderer) cullPhase(int) {
 	for {
 		c, ok := r.nextItem(r.nChunks)
 		if !ok {
 			return
 		}
-		r.setupChunk(c)
+		r.cullChunk(c)
 	}
 }
 
-func (r *Renderer) setupChunk(c int) {
+func (r *Renderer) cullChunk(c int) {
 	ch := &r.chunks[c]
 	o := &r.objs[ch.obj]
 	tris := o.mesh.Triangles
 	nv := uint32(len(o.mesh.Vertices))
+	base := int32(o.vertBase)
 	verts := r.verts[o.vertBase : o.vertBase+int(nv)]
+	marks := r.marks[o.vertBase : o.vertBase+int(nv)]
 	bins := r.opaqueBins[c*r.nBands : (c+1)*r.nBands]
 	objID := uint16(ch.obj + 1)
+	stamp := r.stamp
+	mark := func(i int32) {
+		if atomic.LoadUint32(&marks[i]) != stamp {
+			atomic.StoreUint32(&marks[i], stamp)
+		}
+	}
 	var ts triSetup
 	for t := ch.t0; t < ch.t1; t++ {
 		tri := tris[t]
@@ -48,14 +68,54 @@ func (r *Renderer) setupChunk(c int) {
 			continue
 		}
 		if (a.code|b.code|cc.code)&outClip != 0 {
-			r.clipTriangle(ch, bins, o, a, b, cc, int32(t), objID)
+			ch.clipped = append(ch.clipped, int32(t))
+			mark(tri[0])
+			mark(tri[1])
+			mark(tri[2])
 			continue
 		}
-		if !r.setup(&a.s, &b.s, &cc.s, o.cull, &ts) {
+		// Facing away or edge-on: no need to set it up (setupGeometry decides the rest).
+		if area := int64(b.s.x-a.s.x)*int64(cc.s.y-a.s.y) - int64(b.s.y-a.s.y)*int64(cc.s.x-a.s.x); area == 0 || o.cull && area > 0 {
 			continue
+		}
+		swapped, ok := r.setupGeometry(&a.s, &b.s, &cc.s, o.cull, &ts)
+		if !ok {
+			continue
+		}
+		ts.v = [3]int32{base + tri[0], base + tri[1], base + tri[2]}
+		if swapped {
+			ts.v[1], ts.v[2] = ts.v[2], ts.v[1]
 		}
 		ts.tri, ts.obj = int32(t), objID
 		r.emit(ch, bins, o, &ts)
+		mark(tri[0])
+		mark(tri[1])
+		mark(tri[2])
+	}
+}
+
+// colourPhase fills the colour planes of the chunks' triangles and clips the crossing ones.
+func (r *Renderer) colourPhase(int) {
+	for {
+		c, ok := r.nextItem(r.nChunks)
+		if !ok {
+			return
+		}
+		ch := &r.chunks[c]
+		for i := range ch.opaque {
+			r.setupColour(&ch.opaque[i])
+		}
+		for i := range ch.clear {
+			r.setupColour(&ch.clear[i])
+		}
+		o := &r.objs[ch.obj]
+		verts := r.verts[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
+		bins := r.opaqueBins[c*r.nBands : (c+1)*r.nBands]
+		objID := uint16(ch.obj + 1)
+		for _, t := range ch.clipped {
+			tri := o.mesh.Triangles[t]
+			r.clipTriangle(ch, bins, o, &verts[tri[0]], &verts[tri[1]], &verts[tri[2]], t, objID)
+		}
 	}
 }
 
@@ -72,21 +132,67 @@ func (r *Renderer) emit(ch *triChunk, bins [][]int32, o *frameObject, ts *triSet
 	}
 }
 
-// setup prepares triangle (a, b, c); false when it covers no pixel centre or faces away
-// and cull is set. Counter-clockwise triangles (seen from outside) face the viewer.
+// setupColour fills the colour planes of a triangle set up by setupGeometry from its shaded
+// corners.
+func (r *Renderer) setupColour(ts *triSetup) {
+	if ts.v[0] < 0 {
+		return
+	}
+	colourPlanes(ts, &r.verts[ts.v[0]].s, &r.verts[ts.v[1]].s, &r.verts[ts.v[2]].s)
+}
+
+// colourPlanes fills the colour planes of ts from its corners' colours, a, b and c in the
+// order of ts's corners.
+func colourPlanes(ts *triSetup, a, b, c *screenVert) {
+	const inv = 1.0 / subOne
+	dx1, dy1 := float32(ts.x1-ts.x0)*inv, float32(ts.y1-ts.y0)*inv
+	dx2, dy2 := float32(ts.x2-ts.x0)*inv, float32(ts.y2-ts.y0)*inv
+	id := 1 / (dx1*dy2 - dy1*dx2)
+	ox := float32(ts.minX) + 0.5 - float32(ts.x0)*inv
+	oy := float32(ts.minY) + 0.5 - float32(ts.y0)*inv
+	plane := func(va, vb, vc float32) (base, gx, gy float32) {
+		d1, d2 := vb-va, vc-va
+		gx = (d1*dy2 - d2*dy1) * id
+		gy = (d2*dx1 - d1*dx2) * id
+		return va + gx*ox + gy*oy, gx, gy
+	}
+	ts.r, ts.rdx, ts.rdy = plane(a.r, b.r, c.r)
+	ts.g, ts.gdx, ts.gdy = plane(a.g, b.g, c.g)
+	ts.b, ts.bdx, ts.bdy = plane(a.b, b.b, c.b)
+}
+
+// setup prepares triangle (a, b, c) whose corners carry their colours; false when it covers no
+// pixel centre or faces away and cull is set.
 func (r *Renderer) setup(a, b, c *screenVert, cull bool, ts *triSetup) bool {
+	swapped, ok := r.setupGeometry(a, b, c, cull, ts)
+	if !ok {
+		return false
+	}
+	if swapped {
+		b, c = c, b
+	}
+	colourPlanes(ts, a, b, c)
+	ts.v = [3]int32{-1, -1, -1}
+	return true
+}
+
+// setupGeometry prepares the corners, the pixel box and the depth plane of triangle (a, b, c);
+// false when it covers no pixel centre or faces away and cull is set. Counter-clockwise
+// triangles (seen from outside) face the viewer; swapped says b and c were exchanged to make
+// the edge functions positive inside.
+func (r *Renderer) setupGeometry(a, b, c *screenVert, cull bool, ts *triSetup) (swapped, ok bool) {
 	area := int64(b.x-a.x)*int64(c.y-a.y) - int64(b.y-a.y)*int64(c.x-a.x)
 	if area == 0 {
-		return false
+		return false, false
 	}
 	// On screen y points down, so a front face has negative area; reorder to positive.
 	if area > 0 {
 		if cull {
-			return false
+			return false, false
 		}
 	} else {
 		b, c = c, b
-		area = -area
+		swapped = true
 	}
 	minx, maxx := min3(a.x, b.x, c.x), max3(a.x, b.x, c.x)
 	miny, maxy := min3(a.y, b.y, c.y), max3(a.y, b.y, c.y)
@@ -96,7 +202,7 @@ func (r *Renderer) setup(a, b, c *screenVert, cull bool, ts *triSetup) bool {
 	y0 := max((miny-subHalf+subOne-1)>>subBits, 0)
 	y1 := min((maxy-subHalf)>>subBits, int32(r.h-1))
 	if x0 > x1 || y0 > y1 {
-		return false
+		return false, false
 	}
 	ts.x0, ts.y0, ts.x1, ts.y1, ts.x2, ts.y2 = a.x, a.y, b.x, b.y, c.x, c.y
 	ts.minX, ts.minY, ts.maxX, ts.maxY = x0, y0, x1, y1
@@ -104,22 +210,15 @@ func (r *Renderer) setup(a, b, c *screenVert, cull bool, ts *triSetup) bool {
 	const inv = 1.0 / subOne
 	dx1, dy1 := float32(b.x-a.x)*inv, float32(b.y-a.y)*inv
 	dx2, dy2 := float32(c.x-a.x)*inv, float32(c.y-a.y)*inv
-	det := dx1*dy2 - dy1*dx2
-	id := 1 / det
+	id := 1 / (dx1*dy2 - dy1*dx2)
 	// Offset from corner a to the centre of the box's first pixel.
 	ox := float32(x0) + 0.5 - float32(a.x)*inv
 	oy := float32(y0) + 0.5 - float32(a.y)*inv
-	plane := func(va, vb, vc float32) (base, gx, gy float32) {
-		d1, d2 := vb-va, vc-va
-		gx = (d1*dy2 - d2*dy1) * id
-		gy = (d2*dx1 - d1*dx2) * id
-		return va + gx*ox + gy*oy, gx, gy
-	}
-	ts.z, ts.zdx, ts.zdy = plane(a.iw, b.iw, c.iw)
-	ts.r, ts.rdx, ts.rdy = plane(a.r, b.r, c.r)
-	ts.g, ts.gdx, ts.gdy = plane(a.g, b.g, c.g)
-	ts.b, ts.bdx, ts.bdy = plane(a.b, b.b, c.b)
-	return true
+	d1, d2 := b.iw-a.iw, c.iw-a.iw
+	ts.zdx = (d1*dy2 - d2*dy1) * id
+	ts.zdy = (d2*dx1 - d1*dx2) * id
+	ts.z = a.iw + ts.zdx*ox + ts.zdy*oy
+	return swapped, true
 }
 
 func min3(a, b, c int32) int32 { return min(a, min(b, c)) }

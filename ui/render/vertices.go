@@ -53,7 +53,8 @@ var (
 	highlight = float32(0.22) * 255
 )
 
-// vertexPhase transforms, shades and classifies vertices, one job of 8192 at a time.
+// vertexPhase transforms, projects and classifies vertices, one job of 8192 at a time; they are
+// lit later, and only those of triangles that survive culling (shadePhase).
 func (r *Renderer) vertexPhase(int) {
 	for {
 		j, ok := r.nextItem(len(r.vjobs))
@@ -67,12 +68,8 @@ func (r *Renderer) vertexPhase(int) {
 
 func (r *Renderer) transformVertices(o *frameObject, v0, v1 int) {
 	m := r.view
-	rot := r.rot
-	src := o.src
 	verts := o.mesh.Vertices
 	out := r.verts[o.vertBase : o.vertBase+len(verts)]
-	ownNormals := len(src.Normals) == len(verts)
-	base := mgl32.Vec3{float32(src.Color.R), float32(src.Color.G), float32(src.Color.B)}
 	near := float64(r.near)
 	for i := v0; i < v1; i++ {
 		p := verts[i]
@@ -88,7 +85,12 @@ func (r *Renderer) transformVertices(o *frameObject, v0, v1 int) {
 			code |= outNear
 		}
 		if o.clip {
-			d := r.plane[0]*p[0] + r.plane[1]*p[1] + r.plane[2]*p[2] + r.plane[3]
+			var d float64
+			if o.clipDist != nil {
+				d = float64(o.clipDist[i])
+			} else {
+				d = r.plane[0]*p[0] + r.plane[1]*p[1] + r.plane[2]*p[2] + r.plane[3]
+			}
 			pv.d = float32(d)
 			if d < 0 {
 				code |= outPlane
@@ -124,6 +126,40 @@ func (r *Renderer) transformVertices(o *frameObject, v0, v1 int) {
 		}
 		pv.code = code
 
+		if code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
+			pv.s = r.projectPosition(pv.cx, pv.cy, pv.cw)
+		}
+	}
+}
+
+// shadePhase lights the vertices marked by cullPhase, one job of 8192 at a time.
+func (r *Renderer) shadePhase(int) {
+	for {
+		j, ok := r.nextItem(len(r.vjobs))
+		if !ok {
+			return
+		}
+		job := r.vjobs[j]
+		r.shadeVertices(&r.objs[job.obj], job.v0, job.v1)
+	}
+}
+
+func (r *Renderer) shadeVertices(o *frameObject, v0, v1 int) {
+	rot := r.rot
+	src := o.src
+	out := r.verts[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
+	marks := r.marks[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
+	ownNormals := len(src.Normals) == len(out)
+	base := mgl32.Vec3{float32(src.Color.R), float32(src.Color.G), float32(src.Color.B)}
+	r00, r01, r02 := float32(rot[0]), float32(rot[3]), float32(rot[6])
+	r10, r11, r12 := float32(rot[1]), float32(rot[4]), float32(rot[7])
+	r20, r21, r22 := float32(rot[2]), float32(rot[5]), float32(rot[8])
+	stamp := r.stamp
+	for i := v0; i < v1; i++ {
+		if marks[i] != stamp {
+			continue
+		}
+		pv := &out[i]
 		// Two-sided shading: |n.l| lights the inside of a tube as well as the outside.
 		var n mgl32.Vec3
 		if ownNormals {
@@ -131,11 +167,7 @@ func (r *Renderer) transformVertices(o *frameObject, v0, v1 int) {
 			n = mgl32.Vec3{float32(q[0]), float32(q[1]), float32(q[2])}
 		} else {
 			q := o.normals[i]
-			n = mgl32.Vec3{
-				float32(rot[0])*q[0] + float32(rot[3])*q[1] + float32(rot[6])*q[2],
-				float32(rot[1])*q[0] + float32(rot[4])*q[1] + float32(rot[7])*q[2],
-				float32(rot[2])*q[0] + float32(rot[5])*q[1] + float32(rot[8])*q[2],
-			}
+			n = mgl32.Vec3{r00*q[0] + r01*q[1] + r02*q[2], r10*q[0] + r11*q[1] + r12*q[2], r20*q[0] + r21*q[1] + r22*q[2]}
 		}
 		c := base
 		if o.colors {
@@ -143,8 +175,9 @@ func (r *Renderer) transformVertices(o *frameObject, v0, v1 int) {
 			c = mgl32.Vec3{float32(k.R), float32(k.G), float32(k.B)}
 		}
 		pv.col = shade(c, n)
-		if code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
-			pv.s = r.project(pv.cx, pv.cy, pv.cw, pv.col)
+		if pv.code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
+			iw := pv.s.iw
+			pv.s.r, pv.s.g, pv.s.b = pv.col[0]*iw, pv.col[1]*iw, pv.col[2]*iw
 		}
 	}
 }
@@ -179,16 +212,19 @@ func abs32(x float32) float32 {
 // The same float64 arithmetic serves all callers, so a vertex shared by a clipped
 // and an unclipped triangle lands on the same fixed-point position.
 func (r *Renderer) project(cx, cy, cw float32, col mgl32.Vec3) screenVert {
+	s := r.projectPosition(cx, cy, cw)
+	s.r, s.g, s.b = col[0]*s.iw, col[1]*s.iw, col[2]*s.iw
+	return s
+}
+
+// projectPosition is project without the colour (filled in when the vertex is lit).
+func (r *Renderer) projectPosition(cx, cy, cw float32) screenVert {
 	iw := 1 / float64(cw)
 	sx := (float64(cx)*iw*0.5 + 0.5) * float64(r.w)
 	sy := (0.5 - float64(cy)*iw*0.5) * float64(r.h)
-	fiw := float32(iw)
 	return screenVert{
 		x:  int32(math.Floor(sx*subOne + 0.5)),
 		y:  int32(math.Floor(sy*subOne + 0.5)),
-		iw: fiw,
-		r:  col[0] * fiw,
-		g:  col[1] * fiw,
-		b:  col[2] * fiw,
+		iw: float32(iw),
 	}
 }

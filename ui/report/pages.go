@@ -3,7 +3,9 @@ package report
 import (
 	"bytes"
 	"fmt"
+	"image"
 	"image/png"
+	"math"
 	"strings"
 
 	"codeberg.org/go-pdf/fpdf"
@@ -11,6 +13,7 @@ import (
 
 	"tapersweep/analysis"
 	"tapersweep/models"
+	"tapersweep/ui/plots"
 	"tapersweep/ui/scene"
 )
 
@@ -58,12 +61,16 @@ func summaryPage(pdf *fpdf.Fpdf, res *analysis.Result, sum analysis.ResultSummar
 	if opt.CanalFile != "" {
 		src = append(src, "canal file: "+opt.CanalFile)
 	}
+	if res.Canal.Source != "" {
+		src = append(src, "found in the scan: "+res.Canal.Source)
+	}
 	if opt.SequenceFile != "" {
 		src = append(src, "sequence file: "+opt.SequenceFile)
 	}
 	src = append(src, fmt.Sprintf("%d steps, one page each after this one", len(res.Steps)))
 	pdf.MultiCell(bodyW, lineSmall+0.4, strings.Join(src, "   ·   "), "", "L", false)
 	pdf.SetTextColor(0, 0, 0)
+	caution(pdf, sum.Caution)
 
 	heading(pdf, "The canal")
 	c := sum.Canal
@@ -110,16 +117,33 @@ func summaryPage(pdf *fpdf.Fpdf, res *analysis.Result, sum analysis.ResultSummar
 
 	heading(pdf, "Model, assumptions and parameters")
 	modelSection(pdf, res, sum)
+}
 
-	heading(pdf, "Caution")
+// caution prints the safety wording in a framed box at the top of the first page, heading and
+// text together, where the footer of every page points.
+func caution(pdf *fpdf.Fpdf, text string) {
+	pdf.Ln(2)
 	pdf.SetFont(fontRegular, "", sizeBody)
-	pdf.MultiCell(bodyW, lineBody, sum.Caution, "", "L", false)
+	lines := len(pdf.SplitText(text, bodyW-4))
+	y := pdf.GetY()
+	h := 6 + float64(lines)*lineBody + 2
+	pdf.SetFillColor(250, 246, 236)
+	pdf.SetDrawColor(170, 150, 110)
+	pdf.Rect(margin, y, bodyW, h, "FD")
+	pdf.SetXY(margin+2, y+1)
+	pdf.SetFont(fontBold, "", sizeBody+0.5)
+	pdf.CellFormat(bodyW-4, 5, "Caution", "", 2, "L", false, 0, "")
+	pdf.SetFont(fontRegular, "", sizeBody)
+	pdf.SetX(margin + 2)
+	pdf.MultiCell(bodyW-4, lineBody, text, "", "L", false)
+	pdf.SetY(y + h)
+	pdf.SetDrawColor(0, 0, 0)
 }
 
 // stepTable prints labels down the left and one column per step, in blocks of at most
 // stepsPerBlock columns so a long sequence still fits the page width.
 func stepTable(pdf *fpdf.Fpdf, labels []string, cells [][]string) {
-	const labelW, stepsPerBlock, maxColW = 56.0, 8, 28.0
+	const labelW, stepsPerBlock, maxColW = 50.0, 8, 34.0
 	steps := 0
 	if len(cells) > 0 {
 		steps = len(cells[0])
@@ -159,7 +183,9 @@ func stepTable(pdf *fpdf.Fpdf, labels []string, cells [][]string) {
 					pdf.CellFormat(colW, h, v, "", 0, "R", fill, 0, "")
 					continue
 				}
-				pdf.Rect(x, y, colW, h, map[bool]string{true: "F", false: ""}[fill])
+				if fill {
+					pdf.Rect(x, y, colW, h, "F")
+				}
 				pdf.MultiCell(colW, lineSmall, v, "", "R", false)
 			}
 			pdf.SetXY(margin, y+h)
@@ -223,11 +249,13 @@ func alloysUsed(res *analysis.Result) []models.Alloy {
 // The step picture's place on the page, mm.
 const (
 	pictureWMM    = 84.0
-	pictureMaxHMM = 130.0
+	pictureMaxHMM = 112.0
+	sectionsHMM   = 54.0
+	sectionsDPI   = 200
 )
 
-// stepPage shows one step: the view with its legend, the three profiles, the numbers and the
-// advice.
+// stepPage shows one step: the view with its legend, the numbers and the advice beside it, the
+// cross-sections at 1, 3 and 5 mm from the apical end, and the profiles.
 func stepPage(pdf *fpdf.Fpdf, res *analysis.Result, st *analysis.StepResult, opt Options) error {
 	c := res.Canal
 	m := st.Metrics
@@ -241,58 +269,91 @@ func stepPage(pdf *fpdf.Fpdf, res *analysis.Result, st *analysis.StepResult, opt
 	pdf.Ln(1)
 
 	// The canal runs down the page: its picture on the left, the numbers beside it, the
-	// profiles underneath.
+	// sections and the profiles underneath.
 	top := pdf.GetY()
 	imgW := pictureWMM
 	imgH := imgW * float64(opt.ImageHeight) / float64(opt.ImageWidth)
 	if imgH > pictureMaxHMM {
 		imgW, imgH = imgW*pictureMaxHMM/imgH, pictureMaxHMM
 	}
-	img, err := scene.Picture(c, res, scene.Options{Step: st.Number}, opt.View, opt.ImageWidth, opt.ImageHeight)
+	// Printed about 75 mm wide: text 3.4 times its screen size reads at 7 to 8 points.
+	img, err := scene.Picture(c, res, scene.Options{Step: st.Number}, opt.View, opt.ImageWidth, opt.ImageHeight,
+		3.4*float64(opt.ImageWidth)/1040)
 	if err != nil {
 		return err
 	}
+	if err := placePNG(pdf, fmt.Sprintf("step%d-view", st.Number), img, margin, top, imgW, imgH); err != nil {
+		return err
+	}
+	pdf.SetY(top)
+	numbersAndAdvice(pdf, st, margin+imgW+5)
+	pdf.SetY(max(top+imgH, pdf.GetY()) + 2)
+	if err := sectionRow(pdf, res, st); err != nil {
+		return err
+	}
+	return profilePlots(pdf, c, st)
+}
+
+// placePNG puts an image on the page at x, y, w x h mm.
+func placePNG(pdf *fpdf.Fpdf, name string, img image.Image, x, y, w, h float64) error {
 	var buf bytes.Buffer
 	if err := png.Encode(&buf, img); err != nil {
 		return err
 	}
-	name := fmt.Sprintf("step%d-view", st.Number)
 	pdf.RegisterImageOptionsReader(name, fpdf.ImageOptions{ImageType: "PNG"}, &buf)
-	pdf.ImageOptions(name, margin, top, imgW, imgH, false, fpdf.ImageOptions{ImageType: "PNG"}, 0, "")
-	pdf.SetY(top)
-	numbersAndAdvice(pdf, st, margin+imgW+5)
-	pdf.SetY(max(top+imgH, pdf.GetY()) + 3)
-	if err := profilePlots(pdf, c, st); err != nil {
-		return err
-	}
+	pdf.ImageOptions(name, x, y, w, h, false, fpdf.ImageOptions{ImageType: "PNG"}, 0, "")
 	return nil
 }
 
-// profilePlots puts the three profiles side by side.
-func profilePlots(pdf *fpdf.Fpdf, c *analysis.Canal, st *analysis.StepResult) error {
-	pr := StepProfile(c, st)
-	cut, err := depthOfCutPlot(pr)
-	if err != nil {
-		return err
-	}
-	dia, err := diameterPlot(pr)
-	if err != nil {
-		return err
-	}
-	str, err := strainPlot(pr, 100*st.Alloy.RecoverableStrain)
-	if err != nil {
-		return err
-	}
-	gap := (bodyW - 3*plotWMM) / 2
-	y := pdf.GetY()
-	for k, p := range []*plot.Plot{cut, dia, str} {
-		b, err := plotPNG(p)
+// sectionRow prints the canal's cross-sections at the standard levels with the step shown.
+func sectionRow(pdf *fpdf.Fpdf, res *analysis.Result, st *analysis.StepResult) error {
+	c := res.Canal
+	var secs []*analysis.Section
+	for _, x := range analysis.SectionLevels {
+		if x >= c.Line.Length() {
+			continue
+		}
+		sec, err := analysis.SectionAt(c, res, st.Number, x)
 		if err != nil {
 			return err
 		}
-		name := fmt.Sprintf("step%d-plot%d", st.Number, k)
-		pdf.RegisterImageOptionsReader(name, fpdf.ImageOptions{ImageType: "PNG"}, bytes.NewReader(b))
-		pdf.ImageOptions(name, margin+float64(k)*(plotWMM+gap), y, plotWMM, plotHMM, false, fpdf.ImageOptions{ImageType: "PNG"}, 0, "")
+		secs = append(secs, sec)
+	}
+	if len(secs) == 0 {
+		return nil
+	}
+	pdf.SetFont(fontBold, "", 9.5)
+	pdf.CellFormat(bodyW, 5, "Cross-sections: the canal before and after this step", "", 1, "L", false, 0, "")
+	px := func(mm float64) int { return int(math.Round(mm / 25.4 * sectionsDPI)) }
+	img := plots.SectionsImage(secs, px(bodyW), px(sectionsHMM), plots.SectionOptions{
+		LegendTop: scene.LegendTop(res, st.Number, false), ContactMM: res.Options.ContactThreshold,
+		DPI: sectionsDPI, TextPt: 7, Key: true, Selected: -1})
+	y := pdf.GetY()
+	if err := placePNG(pdf, fmt.Sprintf("step%d-sections", st.Number), img, margin, y, bodyW, sectionsHMM); err != nil {
+		return err
+	}
+	pdf.SetY(y + sectionsHMM + 2)
+	return nil
+}
+
+// Plot sizes on the page (mm) and their resolution: sharp in print, small in the file.
+const (
+	plotWMM = 59.0
+	plotHMM = 56.0
+	plotDPI = 220
+)
+
+// profilePlots puts the three profiles side by side.
+func profilePlots(pdf *fpdf.Fpdf, c *analysis.Canal, st *analysis.StepResult) error {
+	pr := analysis.ProfileOf(c, st)
+	gap := (bodyW - 3*plotWMM) / 2
+	y := pdf.GetY()
+	px := func(mm float64) int { return int(math.Round(mm / 25.4 * plotDPI)) }
+	for k, p := range []*plot.Plot{plots.CutPlot(pr, plots.Print), plots.DiameterPlot(pr, plots.Print), plots.StrainPlot(pr, plots.Print)} {
+		img := plots.Image(p, px(plotWMM), px(plotHMM), plotDPI)
+		if err := placePNG(pdf, fmt.Sprintf("step%d-plot%d", st.Number, k), img, margin+float64(k)*(plotWMM+gap), y, plotWMM, plotHMM); err != nil {
+			return err
+		}
 	}
 	pdf.SetY(y + plotHMM + 2)
 	return nil

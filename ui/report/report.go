@@ -23,8 +23,11 @@ type Options struct {
 	SequenceFile string // the sequence file, shown on the summary page
 	View         string // named view of the step pictures (scene.Views); default the first
 	// ImageWidth x ImageHeight is the size in pixels of each step's picture, printed 84 mm wide
-	// (at most 130 mm high); 0 = 520 x 780.
+	// (at most 130 mm high); 0 = 1040 x 1560.
 	ImageWidth, ImageHeight int
+	// Patient names the patient at the top of every page; only when the user asked for it
+	// (by default no output carries a patient identifier).
+	Patient string
 }
 
 func (o Options) withDefaults(res *analysis.Result) Options {
@@ -35,7 +38,7 @@ func (o Options) withDefaults(res *analysis.Result) Options {
 		o.View = scene.Views[0].Name
 	}
 	if o.ImageWidth <= 0 || o.ImageHeight <= 0 {
-		o.ImageWidth, o.ImageHeight = 520, 780
+		o.ImageWidth, o.ImageHeight = 1040, 1560
 	}
 	return o
 }
@@ -107,6 +110,13 @@ func newDocument(opt Options) *fpdf.Fpdf {
 	pdf.SetTitle("tapersweep report: "+opt.Title, true)
 	pdf.SetCreator("tapersweep", true)
 	pdf.AliasNbPages("{pages}")
+	if opt.Patient != "" {
+		pdf.SetHeaderFunc(func() {
+			pdf.SetFont(fontBold, "", 8)
+			pdf.CellFormat(bodyW, 4, "Named at the user's request: "+opt.Patient, "", 1, "L", false, 0, "")
+			pdf.Ln(1)
+		})
+	}
 	pdf.SetFooterFunc(func() {
 		pdf.SetY(-bottomM)
 		pdf.SetFont(fontRegular, "", 7.5)

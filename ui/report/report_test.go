@@ -5,6 +5,7 @@ import (
 	"context"
 	"encoding/csv"
 	"encoding/json"
+	"math"
 	"os"
 	"os/exec"
 	"regexp"
@@ -90,8 +91,11 @@ func TestDemoReportHasSummaryAndOnePagePerStep(t *testing.T) {
 	pages := strings.Split(text, "\f")
 	for _, m := range sum.Steps {
 		page := pages[m.Step]
-		for _, v := range []float64{m.EngagedLengthMM, m.EngagedAreaMM2, m.RemovedVolumeMM3, m.MaxDepthOfCutMM, m.FatigueDamage} {
-			s := strconv.FormatFloat(v, 'f', -1, 64)
+		// Printed with the decimals the measurement supports: the JSON's numbers rounded.
+		for col, v := range map[string]float64{"engaged_length_mm": m.EngagedLengthMM, "engaged_area_mm2": m.EngagedAreaMM2,
+			"removed_volume_mm3": m.RemovedVolumeMM3, "max_depth_of_cut_mm": m.MaxDepthOfCutMM, "fatigue_damage": m.FatigueDamage} {
+			c, _ := analysis.StepColumn(col)
+			s := strconv.FormatFloat(v, 'f', c.Shown, 64)
 			if !strings.Contains(pages[0], s) {
 				t.Errorf("summary page lacks step %d's %s", m.Step, s)
 			}
@@ -189,8 +193,13 @@ func TestStepTableHoldsTheJSONNumbers(t *testing.T) {
 					t.Errorf("step %d %s: JSON null, table %q", j+1, col, cell)
 				}
 			case float64:
+				// The table prints the JSON's number with the decimals the measurement supports.
 				got, err := strconv.ParseFloat(cell, 64)
-				if err != nil || got != v {
+				tol := 1e-12
+				if c.Shown >= 0 {
+					tol = 0.5*math.Pow10(-c.Shown) + 1e-12
+				}
+				if err != nil || math.Abs(got-v) > tol {
 					t.Errorf("step %d %s: JSON %v, table %q", j+1, col, v, cell)
 				}
 			case string:
@@ -232,18 +241,23 @@ func TestStepTableHoldsTheTransportationOfTheJSON(t *testing.T) {
 		if len(tr) != 3 || len(cr) != 3 {
 			t.Fatalf("step %d: cells %q and %q do not hold three levels", j+1, tr, cr)
 		}
+		// Micrometres for transportation, two decimals for the ratio: the JSON's numbers rounded.
+		near := func(cell string, v float64, d int) bool {
+			got, err := strconv.ParseFloat(cell, 64)
+			return err == nil && math.Abs(got-v) <= 0.5*math.Pow10(-d)+1e-12
+		}
 		for k, key := range []string{"1", "3", "5"} {
-			if got, err := strconv.ParseFloat(tr[k], 64); err != nil || got != st.Transportation[key] {
+			if !near(tr[k], st.Transportation[key], 3) {
 				t.Errorf("step %d transportation at %s mm: JSON %v, table %q", j+1, key, st.Transportation[key], tr[k])
 			}
 			if st.Transportation[key] != 0 {
 				nonzero++
 			}
-			if c := st.Centering[key]; c == nil && cr[k] != "–" || c != nil && cr[k] != strconv.FormatFloat(*c, 'f', -1, 64) {
+			if c := st.Centering[key]; c == nil && cr[k] != "–" || c != nil && !near(cr[k], *c, 2) {
 				t.Errorf("step %d centring at %s mm: JSON %v, table %q", j+1, key, c, cr[k])
 			}
 		}
-		if cell := cells[rowOf["apical foramen shift, mm"]][j]; cell != strconv.FormatFloat(st.Foramen, 'f', -1, 64) {
+		if cell := cells[rowOf["apical foramen shift, mm"]][j]; !near(cell, st.Foramen, 3) {
 			t.Errorf("step %d foramen shift: JSON %v, table %q", j+1, st.Foramen, cell)
 		}
 	}
@@ -297,10 +311,11 @@ func TestElasticReportStatesPathAndTransportation(t *testing.T) {
 			t.Errorf("the summary page lacks %q", want)
 		}
 	}
-	seqVals := []float64{sum.Sequence.TransportationMM["1"], sum.Sequence.TransportationMM["3"],
-		sum.Sequence.TransportationMM["5"], sum.Sequence.Largest.MM, sum.Sequence.Largest.FromApexMM}
-	for _, v := range seqVals {
-		if s := strconv.FormatFloat(v, 'f', -1, 64); !strings.Contains(first, s) {
+	// Transportation to the micrometre, places to a hundredth of a mm.
+	seqVals := map[float64]int{sum.Sequence.TransportationMM["1"]: 3, sum.Sequence.TransportationMM["3"]: 3,
+		sum.Sequence.TransportationMM["5"]: 3, sum.Sequence.Largest.MM: 3, sum.Sequence.Largest.FromApexMM: 2}
+	for v, d := range seqVals {
+		if s := strconv.FormatFloat(v, 'f', d, 64); !strings.Contains(first, s) {
 			t.Errorf("the summary page lacks the sequence's %s", s)
 		}
 	}
@@ -315,12 +330,12 @@ func TestElasticReportStatesPathAndTransportation(t *testing.T) {
 				continue
 			}
 			checked++
-			if s := strconv.FormatFloat(v, 'f', -1, 64); !strings.Contains(page, s) {
+			if s := strconv.FormatFloat(v, 'f', 3, 64); !strings.Contains(page, s) {
 				t.Errorf("step %d's page lacks its transportation %s", m.Step, s)
 			}
 		}
 		if m.Largest.MM > 0 {
-			dir := strconv.FormatFloat(m.Largest.TowardDeg, 'f', -1, 64) + "° " + sideWord(m.Largest.TowardDeg)
+			dir := strconv.FormatFloat(m.Largest.TowardDeg, 'f', 0, 64) + "° " + sideWord(m.Largest.TowardDeg)
 			if !strings.Contains(page, dir) {
 				t.Errorf("step %d's page lacks the direction %q", m.Step, dir)
 			}

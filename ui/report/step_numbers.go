@@ -26,29 +26,30 @@ func numbersAndAdvice(pdf *fpdf.Fpdf, st *analysis.StepResult, x float64) {
 		if statedApart(c) {
 			continue // stated below, under "How this step moved the canal", or in the model section
 		}
-		v := c.Cell(m)
+		// To the decimals the measurement supports (the column's Shown), as the summary's table.
+		v := c.Format(m)
 		if v == "" {
 			v = "–"
 		}
 		pairs = append(pairs, [2]string{c.Label, v})
 	}
-	opt := func(v *float64, f string) string {
+	opt := func(v *float64, d int) string {
 		if v == nil {
 			return "–"
 		}
-		return fmt.Sprintf(f, *v)
+		return fixed(*v, d)
 	}
 	pairs = append(pairs,
-		[2]string{"engaged zone from tip, mm", fmt.Sprintf("%g to %g", m.EngagedFromTipMM[0], m.EngagedFromTipMM[1])},
-		[2]string{"peak strain from tip, mm", fmt.Sprintf("%g", m.PeakStrainFromTipMM)},
-		[2]string{"most used point from tip, mm", fmt.Sprintf("%g", m.PeakDamageFromTipMM)},
-		[2]string{"weakest section from tip, mm", opt(m.TorsionMarginFromTipMM, "%g")},
-		[2]string{"capacity 3 mm from tip, N·cm", fmt.Sprintf("%g", m.CapacityAt3mmNcm)},
-		[2]string{"schedule, s (revolutions)", fmt.Sprintf("%g (%g)", m.ScheduleTimeS, m.Revolutions)},
+		[2]string{"engaged zone from tip, mm", fixed(m.EngagedFromTipMM[0], 2) + " to " + fixed(m.EngagedFromTipMM[1], 2)},
+		[2]string{"peak strain from tip, mm", fixed(m.PeakStrainFromTipMM, 2)},
+		[2]string{"most used point from tip, mm", fixed(m.PeakDamageFromTipMM, 2)},
+		[2]string{"weakest section from tip, mm", opt(m.TorsionMarginFromTipMM, 2)},
+		[2]string{"capacity 3 mm from tip, N·cm", fixed(m.CapacityAt3mmNcm, 3)},
+		[2]string{"schedule, s (revolutions)", fixed(m.ScheduleTimeS, 1) + " (" + fixed(m.Revolutions, 0) + ")"},
 	)
 	if m.FractureTimeS != nil {
 		pairs = append(pairs, [2]string{"fracture after, s (tip depth, mm)",
-			opt(m.FractureTimeS, "%g") + " (" + opt(m.FractureTipDepthMM, "%g") + ")"})
+			opt(m.FractureTimeS, 1) + " (" + opt(m.FractureTipDepthMM, 2) + ")"})
 	}
 	numberLines(pdf, x, colW, pairs)
 	pdf.Ln(1.5)

@@ -3,6 +3,7 @@ package report
 import (
 	"encoding/csv"
 	"io"
+	"strconv"
 	"strings"
 
 	"tapersweep/analysis"
@@ -27,11 +28,21 @@ func statedApart(c analysis.Column) bool {
 // has no room for them).
 func onStepPagesOnly(c analysis.Column) bool { return c.Key == "shank_contact_mm" }
 
+// fixed writes v with d decimals, never "-0".
+func fixed(v float64, d int) string {
+	s := strconv.FormatFloat(v, 'f', d, 64)
+	if strings.Trim(s, "-0.") == "" {
+		s = strings.TrimPrefix(s, "-")
+	}
+	return s
+}
+
 // StepTable lays the run's steps out as the report prints them: one row per column of
 // analysis.StepColumns (label first), then the transportation rows, advice last; one column
-// per step. The cells are the same strings the CSV holds (Column.Cell of the run's summary)
-// and the transportation figures as the JSON writes them, so the PDF, the CSV and the JSON
-// agree; a value that does not exist is "–".
+// per step. The cells are the numbers of the CSV (the run's summary) printed with the decimals
+// the measurement supports (Column.Format, the column's Shown decimals) and the transportation
+// figures of the JSON likewise rounded, so the PDF, the CSV and the JSON agree; a value that does
+// not exist is "–".
 func StepTable(sum analysis.ResultSummary) (labels []string, cells [][]string) {
 	var cols []analysis.Column
 	var advice *analysis.Column
@@ -54,7 +65,7 @@ func StepTable(sum analysis.ResultSummary) (labels []string, cells [][]string) {
 		cells = append(cells, r)
 	}
 	for _, c := range cols {
-		row(c.Label, c.Cell)
+		row(c.Label, c.Format)
 	}
 	for _, r := range summaryTransportRows {
 		row(r.label, func(m analysis.StepMetrics) string { return r.value(m.Transport) })

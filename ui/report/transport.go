@@ -15,15 +15,21 @@ type transportRow struct {
 	value func(tr analysis.Transport) string
 }
 
-// num writes a number as the JSON does, so the PDF, the JSON and the CSV agree.
-func num(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
+// Gambill's measures are printed to the micrometre and the centring ratio to two decimals: the
+// radius map does not place the wall more finely.
+func mm3(v float64) string { return fixed(v, 3) }
 
-func numOrDash(v *float64) string {
+func ratio(v *float64) string {
 	if v == nil {
 		return "–"
 	}
-	return num(*v)
+	return fixed(*v, 2)
 }
+
+func deg(v float64) string { return fixed(v, 0) }
+
+// level names a transportation level as the JSON keys it ("1" for 1 mm).
+func level(x float64) string { return strconv.FormatFloat(x, 'f', -1, 64) }
 
 // transportLevelsNote says what the levels and the ratio mean, wherever the rows are printed.
 const transportLevelsNote = "Gambill et al. (J Endod 1996): wall removed on one side against the opposite side, in and " +
@@ -35,29 +41,29 @@ const transportLevelsNote = "Gambill et al. (J Endod 1996): wall removed on one 
 var transportRows = func() []transportRow {
 	var rows []transportRow
 	for _, x := range analysis.TransportLevels {
-		key := num(x)
+		key := level(x)
 		rows = append(rows, transportRow{"transportation at " + key + " mm, mm",
-			func(tr analysis.Transport) string { return num(tr.TransportationMM[key]) }})
+			func(tr analysis.Transport) string { return mm3(tr.TransportationMM[key]) }})
 	}
 	for _, x := range analysis.TransportLevels {
-		key := num(x)
+		key := level(x)
 		rows = append(rows, transportRow{"centring ratio at " + key + " mm",
-			func(tr analysis.Transport) string { return numOrDash(tr.CenteringRatio[key]) }})
+			func(tr analysis.Transport) string { return ratio(tr.CenteringRatio[key]) }})
 	}
 	return append(rows,
-		transportRow{"apical foramen shift, mm", func(tr analysis.Transport) string { return num(tr.ForamenShiftMM) }},
-		transportRow{"largest transportation, mm", func(tr analysis.Transport) string { return num(tr.Largest.MM) }},
+		transportRow{"apical foramen shift, mm", func(tr analysis.Transport) string { return mm3(tr.ForamenShiftMM) }},
+		transportRow{"largest transportation, mm", func(tr analysis.Transport) string { return mm3(tr.Largest.MM) }},
 		transportRow{"  its place, mm from apical end", func(tr analysis.Transport) string {
 			if tr.Largest.MM == 0 {
 				return "–"
 			}
-			return num(tr.Largest.FromApexMM)
+			return fixed(tr.Largest.FromApexMM, 2)
 		}},
 		transportRow{"  its direction (0° = inner side)", func(tr analysis.Transport) string {
 			if tr.Largest.MM == 0 {
 				return "–"
 			}
-			return num(tr.Largest.TowardDeg) + "° " + sideWord(tr.Largest.TowardDeg)
+			return deg(tr.Largest.TowardDeg) + "° " + sideWord(tr.Largest.TowardDeg)
 		}},
 	)
 }()
@@ -91,17 +97,17 @@ func transportPairs(tr analysis.Transport) [][2]string {
 // table: the three levels side by side.
 var summaryTransportRows = []transportRow{
 	{"transportation at 1 / 3 / 5 mm, mm", func(tr analysis.Transport) string {
-		return levels(func(k string) string { return num(tr.TransportationMM[k]) })
+		return levels(func(k string) string { return mm3(tr.TransportationMM[k]) })
 	}},
 	{"centring ratio at 1 / 3 / 5 mm", func(tr analysis.Transport) string {
-		return levels(func(k string) string { return numOrDash(tr.CenteringRatio[k]) })
+		return levels(func(k string) string { return ratio(tr.CenteringRatio[k]) })
 	}},
-	{"apical foramen shift, mm", func(tr analysis.Transport) string { return num(tr.ForamenShiftMM) }},
+	{"apical foramen shift, mm", func(tr analysis.Transport) string { return mm3(tr.ForamenShiftMM) }},
 	{"largest, mm (mm from apex, toward)", func(tr analysis.Transport) string {
 		if tr.Largest.MM == 0 {
 			return "0"
 		}
-		return num(tr.Largest.MM) + " (" + num(tr.Largest.FromApexMM) + ", " + num(tr.Largest.TowardDeg) + "° " +
+		return mm3(tr.Largest.MM) + " (" + fixed(tr.Largest.FromApexMM, 2) + ", " + deg(tr.Largest.TowardDeg) + "° " +
 			sideWord(tr.Largest.TowardDeg) + ")"
 	}},
 }
@@ -113,7 +119,7 @@ func levels(value func(key string) string) string {
 		if i > 0 {
 			out += " / "
 		}
-		out += value(num(x))
+		out += value(level(x))
 	}
 	return out
 }
@@ -121,11 +127,11 @@ func levels(value func(key string) string) string {
 // transportSentence states a Transport in one paragraph.
 func transportSentence(tr analysis.Transport) string {
 	s := fmt.Sprintf("Transportation at 1, 3 and 5 mm from the apical end: %s mm; centring ratio %s; apical foramen shift %s mm",
-		levels(func(k string) string { return num(tr.TransportationMM[k]) }),
-		levels(func(k string) string { return numOrDash(tr.CenteringRatio[k]) }), num(tr.ForamenShiftMM))
+		levels(func(k string) string { return mm3(tr.TransportationMM[k]) }),
+		levels(func(k string) string { return ratio(tr.CenteringRatio[k]) }), mm3(tr.ForamenShiftMM))
 	if tr.Largest.MM > 0 {
 		s += fmt.Sprintf("; the largest, %s mm, lies %s mm from the apical end toward %s° (%s side)",
-			num(tr.Largest.MM), num(tr.Largest.FromApexMM), num(tr.Largest.TowardDeg), sideWord(tr.Largest.TowardDeg))
+			mm3(tr.Largest.MM), fixed(tr.Largest.FromApexMM, 2), deg(tr.Largest.TowardDeg), sideWord(tr.Largest.TowardDeg))
 	}
 	return s + "."
 }

@@ -38,8 +38,8 @@ func FileMeshOnPath(c *analysis.Canal, in models.Instrument, tip float64, o1, o2
 	return fileTube(c, in, tip, o1, o2, true)
 }
 
-// fileTube sweeps the file; without grooves it is a smooth taper, which reads better when the
-// file is drawn as a see-through ghost.
+// fileTube sweeps the file; without grooves it is a smooth taper, which reads better where the
+// file is drawn see-through.
 func fileTube(c *analysis.Canal, in models.Instrument, tip float64, o1, o2 []float64, grooves bool) *mesh.Mesh {
 	length := math.Min(in.CuttingLength+fileAbove, tip+fileAbove)
 	n := max(2, int(math.Ceil(length/fileStepMM))+1)
@@ -90,9 +90,13 @@ func offsetAt(line *analysis.Centerline, o []float64, s float64) float64 {
 	return o[i]*(1-f) + o[i+1]*f
 }
 
-// FileColors colours the file in its size colour with a dark tip, vertex by vertex in the
-// order FileMesh makes them.
-func FileColors(m *mesh.Mesh, c color.RGBA, in models.Instrument, tip float64) []color.RGBA {
+// Handle band: the file's size colour shows only at the top of the drawn file, where a
+// handle's colour ring would be, and never on the cutting part.
+const handleBandMM = 1.5
+
+// FileColors colours the file vertex by vertex in the order FileMesh makes them: a neutral metal
+// body, a dark tip, and a band of its ISO size colour (size) at the handle end.
+func FileColors(m *mesh.Mesh, size color.RGBA, in models.Instrument, tip float64) []color.RGBA {
 	cols := make([]color.RGBA, len(m.Vertices))
 	dark := color.RGBA{40, 40, 44, 255}
 	length := math.Min(in.CuttingLength+fileAbove, tip+fileAbove)
@@ -106,12 +110,53 @@ func FileColors(m *mesh.Mesh, c color.RGBA, in models.Instrument, tip float64) [
 				u = length
 			}
 		}
-		cols[v] = c
-		if u <= fileTipMark {
+		switch {
+		case u <= fileTipMark:
 			cols[v] = dark
+		case u >= length-handleBandMM:
+			cols[v] = size
+		default:
+			cols[v] = FileMetal
 		}
 	}
 	return cols
+}
+
+// splitFileAtWall separates the file's triangles that lie inside the canal as it was (wall
+// distances before, a station-major map) from those that reach into the wall; both keep all
+// vertices so the file's colours still apply. A vertex's place comes from its ring (the
+// station tip - u) and its direction from the centerline there.
+func splitFileAtWall(c *analysis.Canal, file *mesh.Mesh, in models.Instrument, tip float64, before []float32) (inside, inWall *mesh.Mesh) {
+	rings := (len(file.Vertices) - 2) / fileAround
+	length := math.Min(in.CuttingLength+fileAbove, tip+fileAbove)
+	out := make([]bool, len(file.Vertices))
+	for v := 0; v < rings*fileAround; v++ {
+		ring := v / fileAround
+		u := length * float64(ring) / float64(max(1, rings-1))
+		s := tip - u
+		if s < 0 {
+			continue // above the orifice
+		}
+		q, _, n1, n2 := c.Line.At(s)
+		d := file.Vertices[v].Sub(q)
+		th := math.Atan2(d.Dot(n2), d.Dot(n1))
+		out[v] = d.Len() > c.MapAt(before, s, th)+0.002
+	}
+	var keep, wall []int32
+	for t, tri := range file.Triangles {
+		n := 0
+		for _, k := range tri {
+			if out[k] {
+				n++
+			}
+		}
+		if n >= 2 {
+			wall = append(wall, int32(t))
+		} else {
+			keep = append(keep, int32(t))
+		}
+	}
+	return subsetKeepIndex(file, keep), subsetKeepIndex(file, wall)
 }
 
 // centerlineMesh is a thin tube along the centerline coloured by curvature (pale straight,
@@ -137,9 +182,6 @@ func centerlineMesh(c *analysis.Canal) (*mesh.Mesh, []color.RGBA) {
 	}
 	return m, cols
 }
-
-// centerlineInk is the thin centerline drawn beside a file on its own path.
-var centerlineInk = color.RGBA{30, 60, 120, 255}
 
 // thinCenterline is the centerline as a thin tube of one colour.
 func thinCenterline(c *analysis.Canal) *mesh.Mesh {

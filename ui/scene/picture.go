@@ -3,16 +3,19 @@ package scene
 import (
 	"fmt"
 	"image"
-	"image/color"
+	"math"
+
+	"github.com/go-gl/mathgl/mgl64"
 
 	"tapersweep/analysis"
 	"tapersweep/ui/render"
 )
 
 // Picture renders one view of a step (or the canal alone) with its legend and title into a new
-// image of w x h pixels, supersampled for print. The window uses Build and the renderer
-// directly; the CLI and the report use this.
-func Picture(c *analysis.Canal, res *analysis.Result, opt Options, view string, w, h int) (*image.RGBA, error) {
+// image of w x h pixels, supersampled for print; textScale (0 = 1) enlarges the title and the
+// legend for a picture printed small. The window uses Build and the renderer directly; the CLI
+// and the report use this.
+func Picture(c *analysis.Canal, res *analysis.Result, opt Options, view string, w, h int, textScale float64) (*image.RGBA, error) {
 	if w < 64 || h < 64 || w > 8192 || h > 8192 {
 		return nil, fmt.Errorf("picture size %dx%d is outside 64..8192 pixels", w, h)
 	}
@@ -24,29 +27,61 @@ func Picture(c *analysis.Canal, res *analysis.Result, opt Options, view string, 
 	if err := Aim(cam, c, view, float64(w)/float64(h)); err != nil {
 		return nil, err
 	}
+	Frame(cam, b, w, h, textScale)
 	img := image.NewRGBA(image.Rect(0, 0, w, h))
 	r := render.NewRenderer()
 	defer r.Close()
 	r.Render(img, b.Scene, cam, render.Options{Supersample: 2})
-	Decorate(img, b, c, view)
+	DecorateScaled(img, b, c, view, textScale)
 	return img, nil
+}
+
+// Frame fits the camera, keeping its direction, to the canal and the file (the handle above the
+// orifice too) in a w x h picture, with room above for the title, below for the view's note and
+// on the left for the legend drawn k times its screen size (DecorateScaled).
+func Frame(cam *render.Camera, b *Built, w, h int, k float64) {
+	var file []mgl64.Vec3
+	if b.File != nil {
+		file = b.File.Vertices
+	}
+	left := 0
+	if hasLegend(b) {
+		left = min(w/3, legendRect(w, h, math.Max(1, k)).Max.X)
+	}
+	cam.FitPoints(float64(w-left)/float64(h), 0.06, b.Wall.Vertices, file)
+	cam.Pan(-float64(left)/2/float64(h), 0)
+}
+
+// hasLegend says whether the picture carries the depth-of-cut legend: when a step is shown.
+func hasLegend(b *Built) bool { return b.FileIndex >= 0 || b.Title != "canal" }
+
+// legendRect is where the legend goes in a w x h picture at text scale k.
+func legendRect(w, h int, k float64) image.Rectangle {
+	px := func(v float64) int { return int(math.Round(v * k)) }
+	lw, lh := px(138), px(210)
+	if h < px(330) {
+		lh = h - px(60)
+	}
+	return image.Rect(px(10), px(32), px(10)+lw, px(32)+lh)
 }
 
 // Decorate draws the title, the legend (when a step is shown) and the view's name on a frame.
 func Decorate(img *image.RGBA, b *Built, c *analysis.Canal, view string) {
-	ink := color.RGBA{40, 40, 40, 255}
+	DecorateScaled(img, b, c, view, 1)
+}
+
+// DecorateScaled is Decorate with text and legend k times their screen size.
+func DecorateScaled(img *image.RGBA, b *Built, c *analysis.Canal, view string, k float64) {
+	k = math.Max(1, k)
+	px := func(v float64) int { return int(math.Round(v * k)) }
 	size := 13.0
 	if img.Bounds().Dx() < 500 {
 		size = 11
 	}
-	render.DrawText(img, 10, 8, b.Title, ink, size)
-	if b.FileIndex >= 0 || b.Title != "canal" {
-		lw, lh := 130, 200
-		if img.Bounds().Dy() < 320 {
-			lh = img.Bounds().Dy() - 60
-		}
-		rect := image.Rect(10, 32, 10+lw, 32+lh)
-		render.DrawLegend(img, rect, b.Scale, 0, b.LegendMax, "mm", "depth of cut", "no contact")
+	render.DrawText(img, px(10), px(8), b.Title, Ink, size*k)
+	if hasLegend(b) {
+		rect := legendRect(img.Bounds().Dx(), img.Bounds().Dy(), k)
+		render.DrawLegendScaled(img, rect, b.Scale, 0, b.LegendMax, "mm", "depth of cut", "no contact", k)
 	}
 	if view == "" {
 		view = Views[0].Name
@@ -55,6 +90,9 @@ func Decorate(img *image.RGBA, b *Built, c *analysis.Canal, view string) {
 	if b.OwnPath {
 		note += " · the file bends on its own path; thin line: the centerline"
 	}
-	_, th := render.MeasureText(note, 11)
-	render.DrawText(img, 10, img.Bounds().Dy()-th-8, note, color.RGBA{110, 110, 110, 255}, 11)
+	if b.PatchMM > 0 {
+		note += fmt.Sprintf(" · depth averaged over %.2g mm patches of the scanned wall", b.PatchMM)
+	}
+	_, th := render.MeasureText(note, 11*k)
+	render.DrawText(img, px(10), img.Bounds().Dy()-th-px(8), note, ScannedInk, 11*k)
 }

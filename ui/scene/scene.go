@@ -13,30 +13,37 @@ import (
 
 	"tapersweep/analysis"
 	"tapersweep/mesh"
-	"tapersweep/models"
 	"tapersweep/ui/render"
 )
 
 // Options say what to show.
 type Options struct {
 	Step int // from 1; 0 draws the canal alone
-	// Before draws the canal as the step meets it (the file as a ghost around the cut wall)
+	// Before draws the canal as the step meets it (the file see-through where it reaches into the wall)
 	// instead of as the step leaves it (the cut wall just outside the file).
 	Before      bool
 	HideFile    bool    // leave the file out
 	WallOpacity float64 // 0 = default see-through; 1 = opaque wall
-	// Clip opens the canal lengthwise with the plane of its main curve; ClipOffset moves the
-	// plane across the canal in mm.
+	// Clip opens the canal lengthwise along its own centerline, removing the half that faces
+	// the default (side) view, so the file shows inside all the way to the apical end;
+	// ClipOffset moves the cut across the canal in mm.
 	Clip       bool
 	ClipOffset float64
 	Centerline bool // draw the centerline coloured by curvature
+	// FixedScale tops the depth-of-cut legend at the run's deepest cut (rounded up), so colours
+	// compare across steps; otherwise at the shown step's own deepest cut.
+	FixedScale bool
 }
 
 // DefaultWallOpacity lets the file show through the wall.
 const DefaultWallOpacity = 0.35
 
-// fileGhostOpacity draws the file around the cut wall as the step meets the canal.
-const fileGhostOpacity = 0.25
+// fileInWallOpacity draws the part of the file that lies inside the wall (beyond the canal as
+// the step meets it) see-through, so the cut wall shows through it.
+const fileInWallOpacity = 0.3
+
+// fileCutOpenOpacity lets the far wall's cut show through the file when the canal is cut open.
+const fileCutOpenOpacity = 0.45
 
 // fileOnPathOpacity lets the centerline show through a file that runs off it.
 const fileOnPathOpacity = 0.7
@@ -50,20 +57,22 @@ type Built struct {
 	Scene  *render.Scene
 	Lo, Hi mgl64.Vec3 // bounds of the canal
 	// Legend: the depth-of-cut scale, from 0 to LegendMax mm.
-	Scale      *render.Scale
-	LegendMax  float64
-	Title      string
-	WallIndex  int // index of the wall among Scene.Objects
-	FileIndex  int // -1 when no file is drawn
-	Wall, File *mesh.Mesh
+	Scale     *render.Scale
+	LegendMax float64
+	Title     string
+	WallIndex int // index of the wall among Scene.Objects
+	FileIndex int // -1 when no file is drawn
+	// FileInWallIndex is the see-through part of the file inside the wall, -1 when none.
+	FileInWallIndex int
+	Wall, File      *mesh.Mesh
 	// OwnPath: the file is drawn on its own (elastic) path, off the centerline.
 	OwnPath bool
+	// PatchMM is the size of the patch the depth of cut is averaged over for the colours of a
+	// scanned wall (0: each vertex's own depth).
+	PatchMM float64
 	// CenterlineIndex is the centerline among Scene.Objects, -1 when not drawn.
 	CenterlineIndex int
 }
-
-// Background of every view: a light warm paper tone.
-var Background = color.RGBA{246, 245, 241, 255}
 
 // Build makes the scene for one step of a run (res may be nil for the canal alone).
 func Build(c *analysis.Canal, res *analysis.Result, opt Options) (*Built, error) {
@@ -74,14 +83,15 @@ func Build(c *analysis.Canal, res *analysis.Result, opt Options) (*Built, error)
 		}
 		return nil, fmt.Errorf("step %d does not exist (the sequence has %d steps, numbered from 1)", opt.Step, n)
 	}
-	b := &Built{Scale: render.DepthScale(), FileIndex: -1, CenterlineIndex: -1}
+	b := &Built{Scale: DepthScale(), FileIndex: -1, FileInWallIndex: -1, CenterlineIndex: -1}
 	b.Lo, b.Hi = c.Mesh.Bounds()
-	b.LegendMax = legendMax(res)
+	b.LegendMax = LegendTop(res, opt.Step, opt.FixedScale)
 	var st *analysis.StepResult
 	if opt.Step > 0 {
 		st = res.Steps[opt.Step-1]
 	}
-	cut := vertexCut(c, st)
+	cut, patch := vertexCut(c, st)
+	b.PatchMM = patch
 	b.Wall, b.Title = wallMesh(c, st, cut, !opt.Before), "canal"
 	colors := wallColors(c, cut, b.Scale, b.LegendMax, res)
 	if st != nil {
@@ -98,8 +108,8 @@ func Build(c *analysis.Canal, res *analysis.Result, opt Options) (*Built, error)
 	s := &render.Scene{Background: Background}
 	// The wall is drawn in two parts: where the file cuts, solid patches in the colour of the
 	// depth of cut; elsewhere see-through, so the file shows inside. As the step meets the
-	// canal, the cut wall lies inside the file, so the file is drawn as a ghost around it;
-	// after the step, the cut wall is drawn just outside the file.
+	// canal, the cut wall lies inside the file, so the part of the file in the wall is drawn
+	// see-through around it; after the step, the cut wall is drawn just outside the file.
 	contact, free := splitWall(b.Wall, cut, res)
 	if len(free.Triangles) > 0 {
 		s.Objects = append(s.Objects, render.Object{Mesh: free, Colors: colors, Opacity: opacity, Outline: true, Clip: true})
@@ -113,22 +123,34 @@ func Build(c *analysis.Canal, res *analysis.Result, opt Options) (*Built, error)
 	ownPath := st != nil && len(st.Offset1) > 0 && len(st.Offset1) == len(st.Offset2)
 	if st != nil && !opt.HideFile {
 		in := st.Step.Instrument
-		ghost := opt.Before && contact != nil && len(contact.Triangles) > 0
 		var o1, o2 []float64
 		if ownPath {
 			o1, o2 = st.Offset1, st.Offset2
 			b.OwnPath = true
 		}
-		b.File = fileTube(c, in, st.TipDepth, o1, o2, !ghost)
+		// As the step meets the canal the file reaches into the wall: that part is drawn
+		// see-through and smooth, so the cut wall inside it shows.
+		b.File = fileTube(c, in, st.TipDepth, o1, o2, !opt.Before)
 		cols := FileColors(b.File, FileColor(in.Size), in, st.TipDepth)
-		obj := render.Object{Mesh: b.File, Colors: cols, Outline: true}
-		if ghost {
-			obj.Opacity = fileGhostOpacity
-		} else if ownPath {
-			obj.Opacity = fileOnPathOpacity
+		inside, inWall := b.File, (*mesh.Mesh)(nil)
+		if opt.Before {
+			inside, inWall = splitFileAtWall(c, b.File, in, st.TipDepth, st.Before)
 		}
-		s.Objects = append(s.Objects, obj)
+		body := render.Object{Mesh: inside, Colors: cols, Outline: true}
+		switch {
+		case opt.Clip:
+			// Cut open, the far wall lies behind the file: the file is drawn see-through so
+			// the cut on the far wall shows through it.
+			body.Opacity = fileCutOpenOpacity
+		case ownPath:
+			body.Opacity = fileOnPathOpacity
+		}
+		s.Objects = append(s.Objects, body)
 		b.FileIndex = len(s.Objects) - 1
+		if inWall != nil && len(inWall.Triangles) > 0 {
+			s.Objects = append(s.Objects, render.Object{Mesh: inWall, Colors: cols, Opacity: fileInWallOpacity, Outline: true})
+			b.FileInWallIndex = len(s.Objects) - 1
+		}
 		flo, fhi := b.File.Bounds()
 		for k := 0; k < 3; k++ {
 			b.Lo[k], b.Hi[k] = math.Min(b.Lo[k], flo[k]), math.Max(b.Hi[k], fhi[k])
@@ -140,59 +162,79 @@ func Build(c *analysis.Canal, res *analysis.Result, opt Options) (*Built, error)
 		s.Objects = append(s.Objects, render.Object{Mesh: line, Colors: cols})
 		b.CenterlineIndex = len(s.Objects) - 1
 	case ownPath && !opt.HideFile:
-		s.Objects = append(s.Objects, render.Object{Mesh: thinCenterline(c), Color: centerlineInk})
+		s.Objects = append(s.Objects, render.Object{Mesh: thinCenterline(c), Color: CenterlineInk})
 		b.CenterlineIndex = len(s.Objects) - 1
 	}
 	if opt.Clip {
-		star := c.Line.Station(c.Measures.MaxCurvatureS)
-		n := c.Line.N2[star]
-		s.ClipPlane = &render.Plane{Point: c.Line.Points[star].Add(n.Mul(opt.ClipOffset)), Normal: n}
+		d := cutDistances(c, b.Wall, opt.ClipOffset)
+		for i := range s.Objects {
+			if s.Objects[i].Clip && s.Objects[i].Mesh != nil && len(s.Objects[i].Mesh.Vertices) == len(d) {
+				s.Objects[i].ClipDistance = d
+			}
+		}
 	}
 	b.Scene = s
 	return b, nil
 }
 
-// legendMax is a round upper end for the depth-of-cut scale shared by every step of a run, so
-// colours compare across steps.
-func legendMax(res *analysis.Result) float64 {
-	m := 0.0
-	if res != nil {
-		for _, s := range res.Steps {
-			m = math.Max(m, s.Metrics.MaxDepthOfCutMM)
-		}
-	}
-	for _, v := range []float64{0.02, 0.05, 0.1, 0.15, 0.2, 0.3, 0.4, 0.5, 0.75, 1, 1.5, 2} {
-		if m <= v {
-			return v
-		}
-	}
-	return math.Ceil(m)
-}
-
-// FileColor is the ISO 3630-1 size colour, with white drawn as a light grey so it shows
-// against a light background.
-func FileColor(size int) color.RGBA {
-	name, c, ok := models.ISOColor(size)
-	if !ok {
-		return color.RGBA{150, 150, 150, 255}
-	}
-	if name == "white" {
-		return color.RGBA{228, 228, 224, 255}
-	}
-	return c
-}
-
 // vertexCut is the step's depth of cut at each wall vertex's own (s, theta); nil without a step.
-// Colours, the split into cut and free wall and the lifted wall all read it.
-func vertexCut(c *analysis.Canal, st *analysis.StepResult) []float64 {
+// Colours, the split into cut and free wall and the lifted wall all read it. On a scanned wall
+// the depth is averaged over a small patch first (patch, mm), so the stair steps of a scan do
+// not break a contact band into specks.
+func vertexCut(c *analysis.Canal, st *analysis.StepResult) (cut []float64, patch float64) {
 	if st == nil {
-		return nil
+		return nil, 0
 	}
-	cut := make([]float64, len(c.Mesh.Vertices))
+	m, patch := patchAveraged(c, st.Cut)
+	cut = make([]float64, len(c.Mesh.Vertices))
 	for v := range cut {
-		cut[v] = c.MapAt(st.Cut, float64(c.VertexS[v]), float64(c.VertexTheta[v]))
+		cut[v] = c.MapAt(m, float64(c.VertexS[v]), float64(c.VertexTheta[v]))
 	}
-	return cut
+	return cut, patch
+}
+
+// patchAveraged is a station-major map averaged over a patch about twice the scan's detail
+// across (at least 0.1 mm) in arc length and around the wall; a parametric canal, whose wall
+// is smooth, keeps its map.
+func patchAveraged(c *analysis.Canal, m []float32) ([]float32, float64) {
+	if c.SurfaceDetail <= 0 {
+		return m, 0
+	}
+	patch := math.Max(0.1, 2*c.SurfaceDetail)
+	n, na := c.Line.Len(), c.Angles
+	hs := int(math.Round(patch / 2 / c.Line.DS))
+	meanR := 0.0
+	for i := 0; i < n; i++ {
+		meanR += c.MeanRadius(i)
+	}
+	meanR /= float64(n)
+	ha := min(na/4, int(math.Round(patch/2/(meanR*2*math.Pi/float64(na)))))
+	if hs < 1 && ha < 1 {
+		return m, 0
+	}
+	around := make([]float32, len(m))
+	for i := 0; i < n; i++ {
+		row := m[i*na : (i+1)*na]
+		for j := 0; j < na; j++ {
+			sum := float32(0)
+			for k := -ha; k <= ha; k++ {
+				sum += row[((j+k)%na+na)%na]
+			}
+			around[i*na+j] = sum / float32(2*ha+1)
+		}
+	}
+	out := make([]float32, len(m))
+	for i := 0; i < n; i++ {
+		lo, hi := max(0, i-hs), min(n-1, i+hs)
+		for j := 0; j < na; j++ {
+			sum := float32(0)
+			for k := lo; k <= hi; k++ {
+				sum += around[k*na+j]
+			}
+			out[i*na+j] = sum / float32(hi-lo+1)
+		}
+	}
+	return out, patch
 }
 
 // wallMesh is the canal's own mesh, or with each vertex moved out to the prepared wall (and
@@ -266,4 +308,17 @@ func wallColors(c *analysis.Canal, cut []float64, scale *render.Scale, max float
 		cols[v] = scale.At(math.Min(1, e/max))
 	}
 	return cols
+}
+
+// cutDistances is each wall vertex's signed distance to a cut along the canal: the surface
+// through the centerline at every station, square to N2 there, moved offset mm toward -N2. A
+// single plane would leave the canal where it bends out of the plane of its main curve (and
+// hide the apical end of a scan whose frame turns a little); this cut follows the canal.
+func cutDistances(c *analysis.Canal, wall *mesh.Mesh, offset float64) []float32 {
+	d := make([]float32, len(wall.Vertices))
+	for v, p := range wall.Vertices {
+		q, _, _, n2 := c.Line.At(float64(c.VertexS[v]))
+		d[v] = float32(offset - p.Sub(q).Dot(n2))
+	}
+	return d
 }

@@ -63,7 +63,7 @@ func busiestStep(res *analysis.Result) int {
 // absorbs rounding differences but not a moved band, a lost file or a changed colour scale.
 func TestDemoPictureGolden(t *testing.T) {
 	c, res := demo(t)
-	img, err := Picture(c, res, Options{Step: busiestStep(res)}, "side", 480, 640)
+	img, err := Picture(c, res, Options{Step: busiestStep(res)}, "side", 480, 640, 0)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -163,8 +163,38 @@ func TestViewsAndBadStep(t *testing.T) {
 	if _, err := Build(c, nil, Options{Step: 1}); err == nil {
 		t.Error("a step without a run accepted")
 	}
-	img, err := Picture(c, nil, Options{}, "down", 200, 200)
+	img, err := Picture(c, nil, Options{}, "down", 200, 200, 0)
 	if err != nil || img.Bounds() != image.Rect(0, 0, 200, 200) {
 		t.Errorf("canal alone: %v %v", err, img.Bounds())
+	}
+}
+
+// TestCutOpenReachesTheApicalEnd: the lengthwise cut passes through the canal all along it, the
+// apical end too, so each 0.5 mm of wall keeps about half its vertices (a cut through the axis
+// of a tube halves it: geometry), whatever way the canal bends.
+func TestCutOpenReachesTheApicalEnd(t *testing.T) {
+	c, res := demo(t)
+	b, err := Build(c, res, Options{Step: 3, Clip: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	d := b.Scene.Objects[0].ClipDistance
+	if len(d) != len(c.Mesh.Vertices) {
+		t.Fatalf("the wall has %d cut distances for %d vertices", len(d), len(c.Mesh.Vertices))
+	}
+	L := c.Line.Length()
+	for from := 0.0; from < L-0.5; from += 0.5 {
+		kept, all := 0, 0
+		for v := range d {
+			if s := float64(c.VertexS[v]); s >= from && s < from+0.5 {
+				all++
+				if d[v] >= 0 {
+					kept++
+				}
+			}
+		}
+		if all > 0 && (kept < all/4 || kept > 3*all/4) {
+			t.Errorf("%.1f-%.1f mm from the orifice: %d of %d wall vertices kept", from, from+0.5, kept, all)
+		}
 	}
 }

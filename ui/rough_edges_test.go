@@ -1,0 +1,134 @@
+package ui
+
+import (
+	"context"
+	"errors"
+	"strings"
+	"testing"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/test"
+	"fyne.io/fyne/v2/theme"
+
+	"tapersweep/analysis"
+)
+
+// Each test here keeps one rough edge a tester saw in the window from coming back.
+
+// The step table: no heading overlaps the next column (each column is at least as wide as its
+// widest heading line and its widest cell), and the colour, number and file stay put while the
+// figures scroll.
+func TestStepTableColumnsFitTheirHeadings(t *testing.T) {
+	w := openDemo(t)
+	if got := w.table.table.StickyColumnCount; got != frozenColumns {
+		t.Errorf("%d columns frozen, want %d", got, frozenColumns)
+	}
+	for i, c := range stepColumns {
+		if c.text == nil {
+			continue
+		}
+		widest := float32(0)
+		for _, line := range strings.Split(c.head, "\n") {
+			widest = max(widest, fyne.MeasureText(line, theme.TextSize(), fyne.TextStyle{Bold: true}).Width)
+		}
+		for _, st := range w.res.Steps {
+			widest = max(widest, fyne.MeasureText(c.text(st), theme.TextSize(), fyne.TextStyle{}).Width)
+		}
+		// The label's own padding on both sides must fit too.
+		if got := columnWidth(w.table, i); got < widest+2*theme.InnerPadding() {
+			t.Errorf("column %q is %.0f wide, its text needs %.0f", strings.ReplaceAll(c.head, "\n", " "), got, widest+2*theme.InnerPadding())
+		}
+	}
+}
+
+// columnWidth is the width the table was given for column col.
+func columnWidth(t *stepTable, col int) float32 { return t.widths[col] }
+
+// The cut's position slider is labelled and usable only while the canal is cut open.
+func TestCutSliderFollowsCutOpen(t *testing.T) {
+	w := openDemo(t)
+	c := w.controls
+	if !c.clipOffset.Disabled() {
+		t.Error("the cut's slider is active with the cut off")
+	}
+	test.Tap(c.clip)
+	w.wait()
+	if c.clipOffset.Disabled() || !w.view.input().opt.Clip {
+		t.Error("cutting open did not enable the slider or reach the view")
+	}
+	test.Tap(c.clip)
+	if !c.clipOffset.Disabled() {
+		t.Error("the cut's slider stayed active after the cut was closed")
+	}
+	if c.clipLabel.Text == "" {
+		t.Error("the cut's slider has no label")
+	}
+}
+
+// A tap on a list that is not on a window is ignored instead of opening a pop-up without a
+// canvas (which crashed in the toolkit's pop-up menu).
+func TestListIgnoresTapsOffCanvas(t *testing.T) {
+	test.NewApp()
+	s := newSelectList([]string{"side", "edge"}, nil)
+	s.Tapped(&fyne.PointEvent{})
+	s.TypedKey(&fyne.KeyEvent{Name: fyne.KeyDown})
+}
+
+// After a load that fails the canal panel says so and shows the canal still open; it never
+// stays on "measuring".
+func TestFailedLoadIsStatedInTheCanalPanel(t *testing.T) {
+	w := openDemo(t)
+	w.loadCanal("broken.stl", false, func(ctx context.Context, progress func(string, int64, int64)) (*analysis.Canal, error) {
+		return nil, errors.New("broken.stl: 3 bytes is not an STL")
+	})
+	w.wait()
+	for _, o := range w.win.Canvas().Overlays().List() {
+		w.win.Canvas().Overlays().Remove(o)
+	}
+	text := w.summary.text.Text
+	if strings.Contains(text, "measuring") || !strings.Contains(text, "broken.stl could not be opened") || w.canal != demoCanal {
+		t.Errorf("after a failed load the canal panel says %q", text)
+	}
+}
+
+// The editor's fields are seen whole: it asks for no more height than a short window gives it.
+func TestEditorFitsWithoutScrolling(t *testing.T) {
+	w := openDemo(t)
+	if h := w.editor.box.MinSize().Height; h > 300 {
+		t.Errorf("the editor needs %.0f units of height", h)
+	}
+}
+
+// The plan form names each weight beside its own field and counts files in words.
+func TestPlanFormWordsItsFields(t *testing.T) {
+	w := openDemo(t)
+	openPlanForm(t, w)
+	for _, name := range []string{"engaged length", "torque", "fatigue use"} {
+		if top := w.win.Canvas().Overlays().Top(); top == nil || !containsText(top, name) {
+			t.Errorf("the form has no label %q", name)
+		}
+	}
+	if files(1) != "1 file" || files(3) != "3 files" {
+		t.Errorf("files(1) = %q, files(3) = %q", files(1), files(3))
+	}
+}
+
+// A click on the wall adds the cross-section at that level.
+func TestClickOnTheCanalPicksASection(t *testing.T) {
+	w := openDemo(t)
+	frame := w.view.snapshot()
+	for y := frame.Rect.Dy() / 3; y < frame.Rect.Dy()*2/3; y += 5 {
+		for x := legendMargin; x < frame.Rect.Dx(); x += 3 {
+			if !isDepthColour(frame, x, y) {
+				continue
+			}
+			w.view.Tapped(&fyne.PointEvent{Position: fyne.NewPos(float32(x), float32(y))})
+			w.wait()
+			if w.sections.picked < 0 || w.sections.picked > w.canal.Line.Length() {
+				t.Fatalf("a click on the wall at (%d, %d) picked level %v", x, y, w.sections.picked)
+			}
+			return
+		}
+	}
+	t.Fatal("no wall pixel to click")
+}
