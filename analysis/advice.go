@@ -73,11 +73,15 @@ func addAdvice(res *Result) {
 		}
 		if prev != nil {
 			pl, l := prev.Metrics.EngagedLengthMM, m.EngagedLengthMM
-			if l > pl+2 && l > 1.5*pl {
+			jump := l > pl+2 && l > 1.5*pl
+			if jump {
 				add(AdviceEngagementJump, "Engaged length jumps from %.1f mm (step %d) to %.1f mm: more wall in contact means more torque and a higher risk of the tip binding.", pl, prev.Number, l)
 			}
-			if text := torqueJump(prev.Metrics.PeakTorqueIndex, m.PeakTorqueIndex, prev.Number); text != "" {
-				add(AdviceTorqueJump, "%s", text)
+			// After a step that cut nothing the engagement jump already says it.
+			if pt := prev.Metrics.PeakTorqueIndex; !(jump && pt == 0) {
+				if text := torqueJump(pt, m.PeakTorqueIndex, prev.Number); text != "" {
+					add(AdviceTorqueJump, "%s", text)
+				}
 			}
 		}
 		if u := c.Unresolved; !apexNoted && len(u) > 0 && sr.TipDepth >= u[0].From {
