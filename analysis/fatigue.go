@@ -19,15 +19,134 @@ type fatigueResult struct {
 	time        float64
 }
 
+// lifeLaw is an alloy's two-branch strain-life law (models.Alloy) laid out along one file: the
+// strain of material point k at a place of curvature K is d_k K / 2, and on either branch
+// 1/N = (file factor of k) * (canal factor of K):
+//
+//	below eps_r: 1/N = (eps/C)^(1/b)                = (d_k/(2C))^(1/b)          * K^(1/b)
+//	from eps_r:  1/N = (eps/eps_r)^(1/b2) / N_r     = (d_k/(2 eps_r))^(1/b2)/N_r * K^(1/b2)
+//
+// so Miner's sum is a multiply-add per point and tip station.
+type lifeLaw struct {
+	invB, invB2 float64
+	below       []float64 // (d_k/(2C))^(1/b)
+	above       []float64 // (d_k/(2 eps_r))^(1/b2) / N_r
+	limitK      []float64 // curvature at which point k reaches eps_r: 2 eps_r / d_k
+	lowestLimit float64   // the smallest of limitK
+}
+
+func newLifeLaw(in models.Instrument, alloy models.Alloy, points int, ds float64) *lifeLaw {
+	l := &lifeLaw{invB: 1 / alloy.StrainLifeB, invB2: 1 / alloy.LowCycleB,
+		below: make([]float64, points), above: make([]float64, points), limitK: make([]float64, points),
+		lowestLimit: math.Inf(1)}
+	invNr := 1 / alloy.CyclesAtRecoverableStrain()
+	for k := range l.below {
+		d := in.Diameter(float64(k) * ds)
+		l.below[k] = math.Pow(d/(2*alloy.StrainLifeC), l.invB)
+		l.above[k] = math.Pow(d/(2*alloy.RecoverableStrain), l.invB2) * invNr
+		l.limitK[k] = math.Inf(1)
+		if d > 0 {
+			l.limitK[k] = 2 * alloy.RecoverableStrain / d
+		}
+		l.lowestLimit = math.Min(l.lowestLimit, l.limitK[k])
+	}
+	return l
+}
+
+// canalFactors are K^(1/b) and, where some point of the file could pass eps_r, K^(1/b2).
+type canalFactors struct{ k, below, above []float64 }
+
+func (l *lifeLaw) factors(k []float64) canalFactors {
+	cf := canalFactors{k: k, below: make([]float64, len(k)), above: make([]float64, len(k))}
+	for i, ki := range k {
+		cf.below[i] = math.Pow(ki, l.invB)
+		if ki >= l.lowestLimit {
+			cf.above[i] = math.Pow(ki, l.invB2)
+		}
+	}
+	return cf
+}
+
+// perRevolution is the damage one revolution does to point k sitting at station i.
+func (l *lifeLaw) perRevolution(cf *canalFactors, k, i int) float64 {
+	if cf.k[i] >= l.limitK[k] {
+		return l.above[k] * cf.above[i]
+	}
+	return l.below[k] * cf.below[i]
+}
+
+// pathFactors are the canal factors for one tip station: those of the path hi, or, with w < 1,
+// a blend of the paths lo and hi solved with the tip at the stations on either side (lo reaches
+// fewer stations; beyond them hi alone counts).
+type pathFactors struct {
+	lo, hi *canalFactors
+	w      float64
+}
+
+// accumulate adds to damage[k], for every material point k up to the tip, what revs
+// revolutions do with the tip at station tip (point k at station tip - k): the loop of the sum,
+// written out so it needs no call per point. Where lo reaches (stations below len(lo.k)), the
+// rates of lo and hi are blended with the weight w of hi.
+func (l *lifeLaw) accumulate(damage []float64, pf pathFactors, tip int, revs float64) {
+	hi, lo := pf.hi, pf.lo
+	below, above, limit := l.below[:tip+1], l.above[:tip+1], l.limitK[:tip+1]
+	split := tip + 1 // points from here on sit where lo reaches
+	if lo != nil {
+		split = max(0, tip+1-len(lo.k))
+	}
+	for k := 0; k < split; k++ {
+		i := tip - k
+		if hi.k[i] >= limit[k] {
+			damage[k] += revs * above[k] * hi.above[i]
+		} else {
+			damage[k] += revs * below[k] * hi.below[i]
+		}
+	}
+	if lo == nil {
+		return
+	}
+	wh, wl := revs*pf.w, revs*(1-pf.w)
+	for k := split; k <= tip; k++ {
+		i := tip - k
+		var rh, rl float64
+		if hi.k[i] >= limit[k] {
+			rh = above[k] * hi.above[i]
+		} else {
+			rh = below[k] * hi.below[i]
+		}
+		if lo.k[i] >= limit[k] {
+			rl = above[k] * lo.above[i]
+		} else {
+			rl = below[k] * lo.below[i]
+		}
+		damage[k] += wh*rh + wl*rl
+	}
+}
+
+func (l *lifeLaw) blended(pf pathFactors, k, i int) float64 {
+	r := l.perRevolution(pf.hi, k, i)
+	if pf.lo != nil && i < len(pf.lo.k) {
+		r = pf.w*r + (1-pf.w)*l.perRevolution(pf.lo, k, i)
+	}
+	return r
+}
+
+// pathAt gives, for the tip at a station, the curvature of the file's axis at each station up
+// to it: hi alone (lo nil, w 1), or the paths lo and hi solved at stations on either side of the
+// tip with the weight w of hi. A slice given again for another station is the same curvature.
+type pathAt func(tip int) (lo, hi []float64, w float64)
+
 // fatigue sums damage = revolutions / N(strain) over the schedule for every material point
 // (Miner, J Appl Mech 1945). The strain of a point is d(u) k(s) / 2 where it sits in the canal.
-// Below the recoverable strain N follows eps = C N^-b, so 1/N = (d/(2C))^(1/b) k^(1/b) splits
-// into a factor of the file and a factor of the canal; above it, N is the alloy's few cycles.
 // Cycles to failure do not depend on rpm (Pruett et al. 1997); rpm only sets revolutions.
 //
-// pathK gives, for the tip at a station, the curvature of the file's axis at each station up
-// to it (the centerline's curvature in the centred model).
-func fatigue(line *Centerline, in models.Instrument, alloy models.Alloy, moves []move, rpm float64, pathK func(tip int) []float64) fatigueResult {
+// The schedule is first gathered into the revolutions spent with the tip at each station, so the
+// sum costs one pass over (tip station, material point) pairs whatever the number of strokes;
+// only when some point reaches 1 is the schedule replayed in time order to find when and where.
+//
+// path gives the curvature of the file's axis for each tip station (the centerline's in the
+// centred model).
+func fatigue(line *Centerline, in models.Instrument, alloy models.Alloy, moves []move, rpm float64, path pathAt) fatigueResult {
 	ds := line.DS
 	n := line.Len()
 	var far float64
@@ -36,37 +155,57 @@ func fatigue(line *Centerline, in models.Instrument, alloy models.Alloy, moves [
 	}
 	kmax := min(n-1, int(math.Ceil(far/ds)))
 	res := fatigueResult{damage: make([]float64, kmax+1)}
-	inv := 1 / alloy.StrainLifeB
-	fileF := make([]float64, kmax+1) // (d/(2C))^(1/b)
-	limitK := make([]float64, kmax+1)
-	for k := range fileF {
-		d := in.Diameter(float64(k) * ds)
-		fileF[k] = math.Pow(d/(2*alloy.StrainLifeC), inv)
-		limitK[k] = math.Inf(1)
-		if d > 0 {
-			limitK[k] = 2 * alloy.RecoverableStrain / d
+	law := newLifeLaw(in, alloy, kmax+1, ds)
+	cache := map[*float64]*canalFactors{} // keyed by the curvature slice path returned
+	factorsOf := func(k []float64) *canalFactors {
+		if k == nil {
+			return nil
 		}
-	}
-	// k^(1/b) along the file's axis, per tip station (computed once for each).
-	type canalFactors struct{ k, f []float64 }
-	cache := map[*float64]canalFactors{} // keyed by the curvature slice pathK returned
-	factorsAt := func(tip int) canalFactors {
-		k := pathK(tip)
 		key := &k[0]
 		if cf, ok := cache[key]; ok {
 			return cf
 		}
-		cf := canalFactors{k: k, f: make([]float64, len(k))}
-		for i, ki := range k {
-			cf.f[i] = math.Pow(ki, inv)
-		}
-		cache[key] = cf
-		return cf
+		cf := law.factors(k)
+		cache[key] = &cf
+		return &cf
 	}
-	above := 1 / math.Max(alloy.CyclesAboveLimit, 1e-9)
-	revsPerSecond := rpm / 60
-	t := 0.0
-	// The tip visits stations one by one; each visit spends ds/speed seconds.
+	factorsAt := func(tip int) pathFactors {
+		lo, hi, w := path(tip)
+		return pathFactors{lo: factorsOf(lo), hi: factorsOf(hi), w: w}
+	}
+	revsAt := make([]float64, kmax+1) // revolutions with the tip at each station
+	sched := scheduleSteps(moves, ds, kmax, rpm/60)
+	for _, v := range sched {
+		revsAt[v.tip] += v.revs
+		res.revolutions += v.revs
+		res.time += v.dt
+	}
+	for tip, revs := range revsAt {
+		if revs == 0 {
+			continue
+		}
+		law.accumulate(res.damage[:tip+1], factorsAt(tip), tip, revs)
+	}
+	for k, d := range res.damage {
+		if d > res.peak {
+			res.peak, res.peakU = d, float64(k)*ds
+		}
+	}
+	if res.peak >= 1 {
+		replayToFracture(&res, sched, law, factorsAt, ds)
+	}
+	return res
+}
+
+// scheduleVisit is the tip resting at one station for one stretch of a stroke.
+type scheduleVisit struct {
+	tip      int
+	dt, revs float64
+}
+
+// scheduleSteps lays the strokes out station by station: each visit spends ds/speed seconds.
+func scheduleSteps(moves []move, ds float64, kmax int, revsPerSecond float64) []scheduleVisit {
+	var out []scheduleVisit
 	for _, m := range moves {
 		steps := int(math.Round(math.Abs(m.to-m.from) / ds))
 		if steps == 0 {
@@ -78,35 +217,31 @@ func fatigue(line *Centerline, in models.Instrument, alloy models.Alloy, moves [
 		}
 		start := int(math.Round(m.from / ds))
 		dt := math.Abs(m.to-m.from) / float64(steps) / m.speed
-		revs := revsPerSecond * dt
 		for st := 1; st <= steps; st++ {
-			tip := min(start+dir*st, kmax)
-			t += dt
-			res.revolutions += revs
-			cf := factorsAt(tip)
-			for k := 0; k <= tip; k++ {
-				i := tip - k
-				var dmg float64
-				if cf.k[i] >= limitK[k] {
-					dmg = revs * above
-				} else {
-					dmg = revs * fileF[k] * cf.f[i]
-				}
-				res.damage[k] += dmg
-				if !res.fractured && res.damage[k] >= 1 {
-					res.fractured = true
-					res.fractureU = float64(k) * ds
-					res.fractureT = t
-					res.fractureTip = float64(tip) * ds
-				}
+			out = append(out, scheduleVisit{tip: min(start+dir*st, kmax), dt: dt, revs: revsPerSecond * dt})
+		}
+	}
+	return out
+}
+
+// replayToFracture walks the schedule in time order until the first material point's damage
+// reaches 1 and records when, where and with the tip how deep.
+func replayToFracture(res *fatigueResult, sched []scheduleVisit, law *lifeLaw, factorsAt func(int) pathFactors, ds float64) {
+	damage := make([]float64, len(res.damage))
+	t := 0.0
+	for _, v := range sched {
+		t += v.dt
+		pf := factorsAt(v.tip)
+		for k := 0; k <= v.tip; k++ {
+			damage[k] += v.revs * law.blended(pf, k, v.tip-k)
+			// The totals were summed in another order: allow for rounding.
+			if damage[k] >= 1-1e-9 {
+				res.fractured = true
+				res.fractureU = float64(k) * ds
+				res.fractureT = t
+				res.fractureTip = float64(v.tip) * ds
+				return
 			}
 		}
 	}
-	res.time = t
-	for k, d := range res.damage {
-		if d > res.peak {
-			res.peak, res.peakU = d, float64(k)*ds
-		}
-	}
-	return res
 }

@@ -11,12 +11,18 @@ type StepMetrics struct {
 	TipDepthMM    float64 `json:"tip_depth_mm"`
 	TipFromApexMM float64 `json:"tip_from_apex_mm"`
 
-	EngagedLengthMM  float64    `json:"engaged_length_mm"`
-	EngagedFromTipMM [2]float64 `json:"engaged_from_tip_mm"` // the engaged zone, mm from the tip
-	EngagedAreaMM2   float64    `json:"engaged_area_mm2"`
-	RemovedVolumeMM3 float64    `json:"removed_volume_mm3"`
-	MaxDepthOfCutMM  float64    `json:"max_depth_of_cut_mm"`
-	UntouchedWallPct float64    `json:"untouched_wall_pct"`
+	// ContactThresholdMM is the depth of cut below which a cell counts as untouched: the engaged
+	// figures below count cells cut deeper than it (stated beside them in every output).
+	ContactThresholdMM float64    `json:"contact_threshold_mm"`
+	EngagedLengthMM    float64    `json:"engaged_length_mm"`
+	EngagedFromTipMM   [2]float64 `json:"engaged_from_tip_mm"` // the engaged zone, mm from the tip
+	EngagedAreaMM2     float64    `json:"engaged_area_mm2"`
+	// ShankContactMM is the stretch past the cutting length where the shank touches the wall:
+	// it loads the file but cuts nothing, so it is in none of the engaged figures.
+	ShankContactMM   float64 `json:"shank_contact_mm"`
+	RemovedVolumeMM3 float64 `json:"removed_volume_mm3"`
+	MaxDepthOfCutMM  float64 `json:"max_depth_of_cut_mm"`
+	UntouchedWallPct float64 `json:"untouched_wall_pct"`
 
 	DiameterAtMaxCurvatureMM *float64 `json:"diameter_at_max_curvature_mm"`
 	StrainAtMaxCurvaturePct  *float64 `json:"strain_at_max_curvature_pct"`

@@ -73,6 +73,7 @@ type StepResult struct {
 	// reaches, mm (nil in the centred model).
 	Offset1, Offset2 []float64
 	Metrics          StepMetrics
+	touched          float64 // the canal's own wall cut past the threshold so far, mm2
 }
 
 // Run sweeps each file of the sequence through the canal in turn. Step N's depth of cut is
@@ -94,7 +95,7 @@ func Run(ctx context.Context, c *Canal, seq *models.Sequence, opt RunOptions) (*
 	res := &Result{Canal: c, Sequence: seq, Options: opt}
 	res.Warnings = append(res.Warnings, seq.Warnings...)
 	before := c.Rho
-	geo := newCellGeometry(c)
+	kern := NewKernel(c, opt)
 	for k, st := range seq.Steps {
 		if err := ctx.Err(); err != nil {
 			return nil, err
@@ -103,7 +104,11 @@ func Run(ctx context.Context, c *Canal, seq *models.Sequence, opt RunOptions) (*
 		if !ok {
 			alloy = st.Instrument.Alloy
 		}
-		sr := runStep(c, geo, st, alloy, before, opt)
+		touched := 0.0
+		if k > 0 {
+			touched = res.Steps[k-1].touched
+		}
+		sr := runStep(c, kern, st, alloy, before, touched, opt)
 		sr.Number = k + 1
 		sr.Metrics.Step = k + 1
 		sr.Metrics.Alloy = st.AlloyName
@@ -122,149 +127,65 @@ func seqName(seq *models.Sequence) string {
 	return "sequence"
 }
 
-// cellGeometry holds per-station and per-angle factors every step needs.
-type cellGeometry struct {
-	cos, sin []float64
-	dTheta   float64
-	weight   []float64 // trapezoid length of each station, mm
-}
-
-func newCellGeometry(c *Canal) *cellGeometry {
-	g := &cellGeometry{dTheta: 2 * math.Pi / float64(c.Angles)}
-	g.cos = make([]float64, c.Angles)
-	g.sin = make([]float64, c.Angles)
-	for j := range g.cos {
-		th := float64(j) * g.dTheta
-		g.cos[j], g.sin[j] = math.Cos(th), math.Sin(th)
-	}
-	s := c.Line.S
-	n := len(s)
-	g.weight = make([]float64, n)
-	for i := range s {
-		lo, hi := s[max(0, i-1)], s[min(n-1, i+1)]
-		g.weight[i] = (hi - lo) / 2
-	}
-	return g
-}
-
 // runStep sweeps one file with its tip at the target depth.
-func runStep(c *Canal, g *cellGeometry, st models.Step, alloy models.Alloy, before []float32, opt RunOptions) *StepResult {
+// touched is the canal's own wall the earlier steps have cut past the contact threshold, mm2.
+func runStep(c *Canal, k *Kernel, st models.Step, alloy models.Alloy, before []float32, touched float64, opt RunOptions) *StepResult {
 	line := c.Line
-	n, na := line.Len(), c.Angles
+	n := line.Len()
 	in := st.Instrument
 	D := math.Min(st.Depth.Resolve(c.WorkingLength), line.Length())
 	sr := &StepResult{Step: st, Alloy: alloy, TipDepth: D, Before: before}
+	f := k.Place(in, D)
+	tip := f.Tip()
 	sr.FileRadius = make([]float32, n)
-	sr.Cut = make([]float32, n*na)
+	copy(sr.FileRadius, f.Radius)
+	sr.Cut = make([]float32, len(before))
 	sr.Prepared = append([]float32(nil), before...)
-	tip := -1 // the last station the file reaches
-	for i := 0; i < n && line.S[i] <= D+1e-9; i++ {
-		sr.FileRadius[i] = float32(in.Diameter(D-line.S[i]) / 2)
-		tip = i
-	}
 	m := &sr.Metrics
 	m.Label, m.TipDepthMM, m.TipFromApexMM = in.Label(), D, line.Length()-D
 	elastic := opt.PathModel == models.PathElastic
 	path := elasticPath{k: line.K}
+	var es *elasticSolver
+	var along pathAt
 	if elastic {
-		path = solveElasticPath(c, in, alloy.ElasticModulusGPa, opt.WallStiffness, D, tip, before)
+		es = newElasticSolver(c, in, alloy.ElasticModulusGPa, opt.WallStiffness, before)
+		// The schedule's solves first, tip advancing from the orifice (each starts from the one
+		// before), then the file at its target, which starts from the deepest of them.
+		along = pathCurvature(c, es)
+		for z := 0; z < tip+pathEvery; z += pathEvery {
+			along(min(z, tip))
+		}
+		path = es.solve(D, tip, 1)
 		sr.Offset1, sr.Offset2 = path.o1, path.o2
+		f.Off1, f.Off2 = path.o1, path.o2
 	}
-	thr := opt.ContactThreshold
 	cellTorque := make([]float64, n) // N*mm per station
-	firstEngaged, lastEngaged := -1, -1
-	for i := 0; i <= tip; i++ {
-		r := float64(sr.FileRadius[i])
-		w := g.weight[i]
-		if i == tip {
-			// The tip's cell ends at the tip.
-			w = math.Max(0, math.Min(w, D-line.S[i]+g.weight[i]/2))
-		}
-		kc, ks := line.KN1[i], line.KN2[i]
-		var o1, o2 float64
-		if elastic {
-			o1, o2 = path.o1[i], path.o2[i]
-		}
-		engaged := false
-		for j := 0; j < na; j++ {
-			idx := i*na + j
-			rho := float64(before[idx])
-			// t: how far the file's surface reaches from the centerline in this direction
-			// (its radius when centred; with its axis offset, the far side of the offset circle).
-			t := r
-			if o1 != 0 || o2 != 0 {
-				p := o1*g.cos[j] + o2*g.sin[j]
-				q2 := o1*o1 + o2*o2 - p*p
-				if q2 >= r*r {
-					continue
-				}
-				t = p + math.Sqrt(r*r-q2)
-			}
-			e := t - rho
-			if e <= 0 {
-				continue
-			}
-			sr.Cut[idx] = float32(e)
-			sr.Prepared[idx] = float32(t)
-			if e <= thr {
-				continue
-			}
-			engaged = true
-			bend := kc*g.cos[j] + ks*g.sin[j]
-			dA := t * (1 - bend*t) * g.dTheta * w
-			m.EngagedAreaMM2 += dA
-			m.RemovedVolumeMM3 += ((t*t-rho*rho)/2 - bend*(t*t*t-rho*rho*rho)/3) * g.dTheta * w
-			m.MaxDepthOfCutMM = math.Max(m.MaxDepthOfCutMM, e)
-			cellTorque[i] += opt.CuttingCoefficient * r * dA
-		}
-		if engaged {
-			if firstEngaged < 0 {
-				firstEngaged = i
-			}
-			lastEngaged = i
-		}
+	eg := k.Sweep(before, nil, &f, &Traces{Cut: sr.Cut, Prepared: sr.Prepared, StationTorque: cellTorque})
+	m.ContactThresholdMM = k.ContactThreshold()
+	m.EngagedAreaMM2, m.RemovedVolumeMM3, m.MaxDepthOfCutMM = eg.AreaMM2, eg.VolumeMM3, eg.MaxCutMM
+	if eg.Cuts() {
+		m.EngagedLengthMM = eg.LengthMM(line)
+		m.EngagedFromTipMM = [2]float64{D - line.S[eg.Last], D - line.S[eg.First]}
 	}
-	if firstEngaged >= 0 {
-		m.EngagedLengthMM = line.S[lastEngaged] - line.S[firstEngaged]
-		m.EngagedFromTipMM = [2]float64{D - line.S[lastEngaged], D - line.S[firstEngaged]}
+	m.ShankContactMM = eg.ShankContactMM(line)
+	sr.touched = touched + eg.NewlyTouchedMM2
+	m.UntouchedWallPct = k.UntouchedShare(sr.touched)
+	if along == nil {
+		along = pathCurvature(c, nil)
 	}
-	m.UntouchedWallPct = untouchedShare(c, g, sr.Prepared, thr)
-	strainAndFatigue(c, sr, tip, path.k, pathCurvature(c, in, alloy, opt, before, elastic))
+	strainAndFatigue(c, sr, tip, path.k, along)
 	torsion(sr, line, cellTorque, tip)
 	m.Transport = transportBetween(c, before, sr.Prepared)
 	roundMetrics(m)
 	return sr
 }
 
-// untouchedShare is the share of the wall area, orifice to working length, that no file has
-// cut deeper than the contact threshold so far (a standard micro-CT outcome).
-func untouchedShare(c *Canal, g *cellGeometry, prepared []float32, thr float64) float64 {
-	var total, untouched float64
-	na := c.Angles
-	last := c.Line.Station(c.WorkingLength)
-	for i := 0; i <= last; i++ {
-		kc, ks := c.Line.KN1[i], c.Line.KN2[i]
-		for j := 0; j < na; j++ {
-			rho := float64(c.Rho[i*na+j])
-			a := rho * math.Max(0, 1-(kc*g.cos[j]+ks*g.sin[j])*rho) * g.weight[i]
-			total += a
-			if float64(prepared[i*na+j])-rho <= thr {
-				untouched += a
-			}
-		}
-	}
-	if total == 0 {
-		return 100
-	}
-	return 100 * untouched / total
-}
-
 // strainAndFatigue fills strain along the file at the target depth, the diameter and strain at
 // the point of greatest curvature, and Miner's damage over the insertion schedule.
 //
-// pathK is the curvature of the file's axis with the tip at the target; pathAt gives it for
+// pathK is the curvature of the file's axis with the tip at the target; path gives it for the
 // other tip stations (the schedule's).
-func strainAndFatigue(c *Canal, sr *StepResult, tip int, pathK []float64, pathAt func(int) []float64) {
+func strainAndFatigue(c *Canal, sr *StepResult, tip int, pathK []float64, path pathAt) {
 	line, m, in := c.Line, &sr.Metrics, sr.Step.Instrument
 	D := sr.TipDepth
 	sr.Strain = make([]float64, tip+1)
@@ -287,7 +208,7 @@ func strainAndFatigue(c *Canal, sr *StepResult, tip int, pathK []float64, pathAt
 		m.StrainAtMaxCurvaturePct = finite(100 * d * k / 2)
 	}
 	moves := insertionSchedule(D, sr.Step.PeckMM, sr.Step.RetractMM, sr.Step.AdvanceMMs)
-	f := fatigue(line, in, sr.Alloy, moves, sr.Step.RPM, pathAt)
+	f := fatigue(line, in, sr.Alloy, moves, sr.Step.RPM, path)
 	sr.Damage = f.damage
 	m.FatigueDamage = f.peak
 	m.PeakDamageFromTipMM = f.peakU
@@ -333,23 +254,30 @@ func torsion(sr *StepResult, line *Centerline, cellTorque []float64, tip int) {
 	}
 }
 
-// pathCurvature returns, for a tip station, the curvature of the file's axis at each station
-// up to it. Centred: the centerline's. Elastic: the beam solved with the tip a little deeper
-// (the next multiple of eight stations, 0.4 mm), so a schedule needs a few dozen solves.
-func pathCurvature(c *Canal, in models.Instrument, alloy models.Alloy, opt RunOptions, before []float32, elastic bool) func(int) []float64 {
-	if !elastic {
-		return func(int) []float64 { return c.Line.K }
+// pathCurvature gives, for a tip station, the curvature of the file's axis at each station up
+// to it. Centred (es nil): the centerline's. Elastic: the beam solved with the tip at every
+// pathEvery-th station, blended between the two solves on either side of the tip.
+func pathCurvature(c *Canal, es *elasticSolver) pathAt {
+	if es == nil {
+		return func(int) ([]float64, []float64, float64) { return nil, c.Line.K, 1 }
 	}
-	const every = 8
+	every := pathEvery
 	cache := map[int][]float64{}
 	last := c.Line.Len() - 1
-	return func(tip int) []float64 {
-		zc := min(last, (tip+every-1)/every*every)
-		if k, ok := cache[zc]; ok {
+	solved := func(z int) []float64 {
+		if k, ok := cache[z]; ok {
 			return k
 		}
-		p := solveElasticPath(c, in, alloy.ElasticModulusGPa, opt.WallStiffness, c.Line.S[zc], zc, before)
-		cache[zc] = p.k
-		return p.k
+		k := es.solve(c.Line.S[z], z, pathStride).k
+		cache[z] = k
+		return k
+	}
+	return func(tip int) ([]float64, []float64, float64) {
+		lo := tip / every * every
+		hi := min(last, lo+every)
+		if tip == lo || hi == lo {
+			return nil, solved(tip), 1
+		}
+		return solved(lo), solved(hi), float64(tip-lo) / float64(hi-lo)
 	}
 }

@@ -147,3 +147,54 @@ func TestStrainAtMaxCurvature(t *testing.T) {
 	}
 	within(t, "strain at s* (%)", *m.StrainAtMaxCurvaturePct, 5.0, 0.02)
 }
+
+// TestShankDoesNotCut: past the cutting length (16 mm from the tip for ISO files, ISO 3630-1,
+// or the instrument's stated cutting length) the body has no flutes: in a straight canal
+// narrower than the whole file it is in contact but cuts nothing. The engaged zone ends at the
+// cutting length, the engaged area and removed volume are the integrals of the fluted cone alone
+// (within 1 %), the shank's contact is reported apart and the wall it touches stays as it was.
+func TestShankDoesNotCut(t *testing.T) {
+	c := canalFor(t, `{"kind":"straight","length":24}`, 0.2, 0.2)
+	rho := c.MeanRadius(c.Line.Station(10))
+	for _, tc := range []struct {
+		step    string
+		cutting float64
+	}{
+		{`{"size":25,"taper":0.02,"depth":20}`, 16},
+		{`{"size":25,"taper":0.02,"depth":20,"cutting_length":12}`, 12},
+	} {
+		res := runFor(t, c, tc.step, RunOptions{ContactThreshold: 1e-7})
+		st := res.Steps[0]
+		m := st.Metrics
+		if got := m.EngagedFromTipMM[1]; math.Abs(got-tc.cutting) > StationSpacing+1e-9 {
+			t.Errorf("%s: engaged up to %.3f mm from the tip, want the cutting length %.0f", tc.step, got, tc.cutting)
+		}
+		if want := 20 - tc.cutting; math.Abs(m.ShankContactMM-want) > 2*StationSpacing+1e-9 {
+			t.Errorf("%s: shank contact over %.3f mm, want %.2f", tc.step, m.ShankContactMM, want)
+		}
+		r := func(u float64) float64 { return (0.25 + 0.02*u) / 2 }
+		area := integrate(func(u float64) float64 { return 2 * math.Pi * r(u) }, 0, tc.cutting, 800)
+		vol := integrate(func(u float64) float64 { return math.Pi * (r(u)*r(u) - rho*rho) }, 0, tc.cutting, 800)
+		within(t, "engaged area of the flutes mm2", m.EngagedAreaMM2, area, 0.01)
+		within(t, "volume removed by the flutes mm3", m.RemovedVolumeMM3, vol, 0.01)
+		shankEnd := c.Line.Station(20-tc.cutting) - 1
+		for i := 0; i < shankEnd*c.Angles; i++ {
+			if st.Prepared[i] != st.Before[i] || st.Cut[i] != 0 {
+				t.Fatalf("%s: the shank cut the wall at station %d", tc.step, i/c.Angles)
+			}
+		}
+	}
+}
+
+// TestUntouchedWallShare: in a straight round canal (0.2 mm across, 20 mm to working length) a
+// file wider than the canal everywhere it reaches cuts the whole wall above its tip: taken to
+// 10 mm it leaves half the wall untouched, and a second one taken to working length leaves none
+// (the wall of a cylinder is proportional to its length; analytic geometry).
+func TestUntouchedWallShare(t *testing.T) {
+	c := canalFor(t, `{"kind":"straight","length":20}`, 0.2, 0.2)
+	res := runFor(t, c, `{"size":25,"taper":0.02,"depth":10},{"size":30,"taper":0.02,"depth":"WL"}`, RunOptions{})
+	first, second := res.Steps[0].Metrics.UntouchedWallPct, res.Steps[1].Metrics.UntouchedWallPct
+	if math.Abs(first-50) > 1 || second > 1 {
+		t.Errorf("untouched wall %.2f %% after the first file (want 50) and %.2f %% after the second (want 0)", first, second)
+	}
+}

@@ -91,8 +91,8 @@ type Section struct {
 	ScannedAreaMM2, AfterAreaMM2, RemovedMM2, RemovedSinceScanMM2 float64
 	// Gambill's transportation by this step at this level (the same figure the step's
 	// transportation_mm holds at 1, 3 and 5 mm), the side it moves toward (degrees about the
-	// axis from the inner side of the main curve) and the centring ratio in the plane of the
-	// curve (nil when neither side lost wall).
+	// axis from the inner side of the main curve, in [0, 360)) and the centring ratio along the
+	// direction the canal moved (the step's centering_ratio; nil when neither side lost wall).
 	TransportationMM float64
 	TowardDeg        float64
 	CenteringRatio   *float64
@@ -133,7 +133,8 @@ func SectionAt(c *Canal, res *Result, step int, fromApexMM float64) (*Section, e
 	for j := range sec.After.R {
 		sec.DeepestCutMM = math.Max(sec.DeepestCutMM, sec.After.R[j]-sec.Before.R[j])
 	}
-	sec.TransportationMM, sec.TowardDeg, sec.CenteringRatio = transportAt(c, st.Before, st.Prepared, s)
+	at := transportAt(c, st.Before, st.Prepared, s)
+	sec.TransportationMM, sec.TowardDeg, sec.CenteringRatio = at.size(), towardDeg(at.inPlane, at.across), at.ratioAlong
 	sec.File = fileSectionAt(c, st, s)
 	return sec, nil
 }

@@ -104,36 +104,83 @@ func textColumn(key, label, heading string, text func(m *StepMetrics, sep string
 // levelKey is the key of a transportation level in the JSON's keyed objects ("1", "3", "5").
 func levelKey(x float64) string { return strconv.FormatFloat(x, 'f', -1, 64) }
 
-// transportColumns state Gambill's measures at each level, keyed as in the JSON.
-func transportColumns() []Column {
+// levelNumbers are one figure per transportation level, from a keyed object of the JSON;
+// name(k) is the CSV key, label(k) and heading(k) its words.
+func levelNumbers(name, label, heading func(k string) string, unit string, digits, shown int,
+	field func(m *StepMetrics) map[string]float64) []Column {
 	var out []Column
 	for _, x := range transportLevels {
 		k := levelKey(x)
-		out = append(out, Column{Key: "transportation_" + k + "_mm", Label: "transportation at " + k + " mm, mm",
-			Heading: "moved mm\nat " + k + " mm", Unit: "mm", Digits: 4, Shown: 3,
-			get: func(m *StepMetrics) (float64, bool) { return m.TransportationMM[k], true },
+		out = append(out, Column{Key: name(k), Label: label(k), Heading: heading(k), Unit: unit, Digits: digits, Shown: shown,
+			get: func(m *StepMetrics) (float64, bool) { return field(m)[k], true },
 			set: func(m *StepMetrics, v float64) {
-				if m.TransportationMM != nil {
-					m.TransportationMM[k] = v
+				if f := field(m); f != nil {
+					f[k] = v
 				}
 			}})
 	}
+	return out
+}
+
+// levelRatios are one ratio per transportation level that may not exist (null in the JSON).
+func levelRatios(name, label, heading func(k string) string, field func(m *StepMetrics) map[string]*float64) []Column {
+	var out []Column
 	for _, x := range transportLevels {
 		k := levelKey(x)
-		out = append(out, Column{Key: "centering_ratio_" + k, Label: "centring ratio at " + k + " mm",
-			Heading: "centring\nat " + k + " mm", Digits: 3, Shown: 2,
+		out = append(out, Column{Key: name(k), Label: label(k), Heading: heading(k), Digits: 3, Shown: 2,
 			get: func(m *StepMetrics) (float64, bool) {
-				if p := m.CenteringRatio[k]; p != nil {
+				if p := field(m)[k]; p != nil {
 					return *p, true
 				}
 				return 0, false
 			},
 			set: func(m *StepMetrics, v float64) {
-				if m.CenteringRatio[k] != nil {
-					m.CenteringRatio[k] = &v
+				if f := field(m); f[k] != nil {
+					f[k] = &v
 				}
 			}})
 	}
+	return out
+}
+
+// transportColumns state Gambill's measures at each level, keyed as in the JSON: the size, the
+// signed components in and across the plane of the main curve, the centring ratios (along the
+// direction of transport, in the plane, across it) and the shift of the canal's centre.
+func transportColumns() []Column {
+	at := func(k string) string { return " at " + k + " mm" }
+	var out []Column
+	out = append(out, levelNumbers(func(k string) string { return "transportation_" + k + "_mm" },
+		func(k string) string { return "transportation" + at(k) + ", mm" },
+		func(k string) string { return "moved mm\nat " + k + " mm" }, "mm", 4, 3,
+		func(m *StepMetrics) map[string]float64 { return m.TransportationMM })...)
+	out = append(out, levelRatios(func(k string) string { return "centering_ratio_" + k },
+		func(k string) string { return "centring ratio" + at(k) + " (along the shift)" },
+		func(k string) string { return "centring\nat " + k + " mm" },
+		func(m *StepMetrics) map[string]*float64 { return m.CenteringRatio })...)
+	out = append(out, levelNumbers(func(k string) string { return "transportation_in_plane_" + k + "_mm" },
+		func(k string) string {
+			return "transportation in the curve's plane" + at(k) + " (+ toward its inner side), mm"
+		},
+		func(k string) string { return "in plane\nat " + k + " mm" }, "mm", 4, 3,
+		func(m *StepMetrics) map[string]float64 { return m.TransportationInPlaneMM })...)
+	out = append(out, levelNumbers(func(k string) string { return "transportation_across_" + k + "_mm" },
+		func(k string) string {
+			return "transportation across the curve's plane" + at(k) + " (+ toward 90°), mm"
+		},
+		func(k string) string { return "across\nat " + k + " mm" }, "mm", 4, 3,
+		func(m *StepMetrics) map[string]float64 { return m.TransportationAcrossMM })...)
+	out = append(out, levelRatios(func(k string) string { return "centering_ratio_in_plane_" + k },
+		func(k string) string { return "centring ratio in the curve's plane" + at(k) },
+		func(k string) string { return "centring in\nplane " + k + " mm" },
+		func(m *StepMetrics) map[string]*float64 { return m.CenteringRatioInPlane })...)
+	out = append(out, levelRatios(func(k string) string { return "centering_ratio_across_" + k },
+		func(k string) string { return "centring ratio across the curve's plane" + at(k) },
+		func(k string) string { return "centring\nacross " + k + " mm" },
+		func(m *StepMetrics) map[string]*float64 { return m.CenteringRatioAcross })...)
+	out = append(out, levelNumbers(func(k string) string { return "centre_shift_" + k + "_mm" },
+		func(k string) string { return "shift of the canal's centre" + at(k) + ", mm" },
+		func(k string) string { return "centre\nshift " + k + " mm" }, "mm", 4, 3,
+		func(m *StepMetrics) map[string]float64 { return m.CentreShiftMM })...)
 	return out
 }
 
@@ -150,10 +197,15 @@ var stepColumns = func() []Column {
 			func(m *StepMetrics) *float64 { return &m.TipDepthMM }),
 		scalar("tip_from_apex_mm", "tip from apical end, mm", "tip to\nend mm", "mm", 3, 2,
 			func(m *StepMetrics) *float64 { return &m.TipFromApexMM }),
-		scalar("engaged_length_mm", "engaged length, mm", "engaged\nmm", "mm", 3, 2,
+		// The contact threshold stands beside the engaged figures, which count cuts deeper than it.
+		scalar("contact_threshold_mm", "contact threshold (cuts shallower count as none), mm", "contact\nthreshold mm",
+			"mm", -1, 3, func(m *StepMetrics) *float64 { return &m.ContactThresholdMM }),
+		scalar("engaged_length_mm", "engaged length (cuts past the contact threshold), mm", "engaged\nmm", "mm", 3, 2,
 			func(m *StepMetrics) *float64 { return &m.EngagedLengthMM }),
-		scalar("engaged_area_mm2", "engaged area, mm²", "area\nmm²", "mm²", 4, 2,
+		scalar("engaged_area_mm2", "engaged area (cuts past the contact threshold), mm²", "area\nmm²", "mm²", 4, 2,
 			func(m *StepMetrics) *float64 { return &m.EngagedAreaMM2 }),
+		scalar("shank_contact_mm", "shank in contact past the flutes (cuts nothing), mm", "shank\ncontact mm", "mm", 3, 2,
+			func(m *StepMetrics) *float64 { return &m.ShankContactMM }),
 		scalar("removed_volume_mm3", "removed volume, mm³", "removed\nmm³", "mm³", 5, 3,
 			func(m *StepMetrics) *float64 { return &m.RemovedVolumeMM3 }),
 		scalar("max_depth_of_cut_mm", "deepest cut, mm", "deepest\ncut mm", "mm", 4, 3,

@@ -14,8 +14,15 @@ import (
 func fullMetrics() StepMetrics {
 	v := func(x float64) *float64 { return &x }
 	m := StepMetrics{Step: 2, Label: "25/.04", Alloy: "niti-superelastic",
-		Transport: Transport{TransportationMM: map[string]float64{}, CenteringRatio: map[string]*float64{}},
-		Advice:    []Advice{{Code: "same-taper", Text: "a"}, {Code: "long-peck", Text: "b"}}}
+		Transport: Transport{TransportationMM: map[string]float64{}, TransportationInPlaneMM: map[string]float64{},
+			TransportationAcrossMM: map[string]float64{}, CentreShiftMM: map[string]float64{},
+			CenteringRatio: map[string]*float64{}, CenteringRatioInPlane: map[string]*float64{},
+			CenteringRatioAcross: map[string]*float64{}},
+		Advice: []Advice{{Code: "same-taper", Text: "a"}, {Code: "long-peck", Text: "b"}}}
+	for _, x := range TransportLevels() {
+		k := levelKey(x)
+		m.CenteringRatio[k], m.CenteringRatioInPlane[k], m.CenteringRatioAcross[k] = v(0), v(0), v(0)
+	}
 	// Every optional figure exists (reflect, so that a field added later is covered too).
 	rv := reflect.ValueOf(&m).Elem()
 	for i := 0; i < rv.NumField(); i++ {
@@ -25,16 +32,17 @@ func fullMetrics() StepMetrics {
 	}
 	m.TorqueLimitNcm = v(2.123456789)
 	for i, c := range append(StepColumns(), StepDetails()...) {
-		if !c.IsNumber() || c.Digits < 0 {
-			continue
+		switch {
+		case !c.IsNumber():
+		case c.Digits < 0:
+			c.set(&m, 2.123456789) // kept as given
+		case strings.HasPrefix(c.Key, "centering_ratio"):
+			c.set(&m, 0.987654321)
+		case strings.HasPrefix(c.Key, "transportation_") || strings.HasPrefix(c.Key, "centre_shift_"):
+			c.set(&m, 0.123456789)
+		default:
+			c.set(&m, 10+float64(i)+0.123456789)
 		}
-		if strings.HasPrefix(c.Key, "transportation_") || strings.HasPrefix(c.Key, "centering_ratio_") {
-			k := strings.TrimSuffix(strings.TrimPrefix(strings.TrimPrefix(c.Key, "transportation_"), "centering_ratio_"), "_mm")
-			m.TransportationMM[k] = 0.123456789
-			m.CenteringRatio[k] = v(0.987654321)
-			continue
-		}
-		c.set(&m, 10+float64(i)+0.123456789)
 	}
 	return m
 }
@@ -69,10 +77,12 @@ func TestColumnsNameEveryFigureOfTheJSON(t *testing.T) {
 				continue // rounded with the transport it belongs to (transport.go)
 			}
 			for level := range v {
-				if k == "transportation_mm" {
-					names = append(names, "transportation_"+level+"_mm")
+				// The level goes before a trailing unit: transportation_mm["1"] is
+				// transportation_1_mm, centering_ratio["1"] centering_ratio_1.
+				if strings.HasSuffix(k, "_mm") {
+					names = append(names, strings.TrimSuffix(k, "_mm")+"_"+level+"_mm")
 				} else {
-					names = append(names, strings.TrimSuffix(k, "_mm")+"_"+level)
+					names = append(names, k+"_"+level)
 				}
 			}
 		case []any:

@@ -17,10 +17,17 @@ func TestCyclesToFailureRegimes(t *testing.T) {
 				t.Errorf("%s: eps %g -> N %g -> C N^-b = %g", a.Name, eps, n, back)
 			}
 		}
-		// At or above it life collapses to the stated count (DEVELOPERS.md, "The model in code": two regimes).
-		for _, f := range []float64{1, 1.01, 2} {
-			if n := a.CyclesToFailure(f * a.RecoverableStrain); n != a.CyclesAboveLimit {
-				t.Errorf("%s: at %g x recoverable strain N = %g, want %g", a.Name, f, n, a.CyclesAboveLimit)
+		// At or above it the low-cycle branch eps_a = eps_r (N/N_r)^-b2 must give back the strain
+		// too, with N_r the life at eps_r by the first branch (same power form).
+		nr := a.CyclesAtRecoverableStrain()
+		if back := a.StrainLifeC * math.Pow(nr, -a.StrainLifeB); relErr(back, a.RecoverableStrain) > 1e-9 {
+			t.Errorf("%s: N_r %g is not the first branch's life at eps_r", a.Name, nr)
+		}
+		for _, f := range []float64{1, 1.01, 1.2, 2} {
+			eps := f * a.RecoverableStrain
+			n := a.CyclesToFailure(eps)
+			if back := a.RecoverableStrain * math.Pow(n/nr, -a.LowCycleB); relErr(back, eps) > 1e-9 {
+				t.Errorf("%s: eps %g -> N %g -> eps_r (N/N_r)^-b2 = %g", a.Name, eps, n, back)
 			}
 		}
 		// No strain, no fatigue.
@@ -46,6 +53,38 @@ func TestCyclesToFailureFallWithStrain(t *testing.T) {
 				t.Errorf("%s: N rises from %g to %g at eps %g", a.Name, prev, n, eps)
 			}
 			prev = n
+		}
+	}
+}
+
+// TestStrainLifeHasNoCliff: the two branches meet at the recoverable strain (no published
+// strain-life law jumps; Manson 1953 / Coffin 1954 power form on each side): life just below and
+// just above eps_r agree to within the change of strain itself, and it falls steadily with
+// strain on both sides.
+func TestStrainLifeHasNoCliff(t *testing.T) {
+	for _, a := range BuiltinAlloys() {
+		er := a.RecoverableStrain
+		below, above := a.CyclesToFailure(er*(1-1e-9)), a.CyclesToFailure(er)
+		if relErr(below, above) > 1e-6 {
+			t.Errorf("%s: N jumps from %g to %g at the recoverable strain", a.Name, below, above)
+		}
+		// One percent more strain costs a few percent of life at most on either side
+		// (|dlnN/dln eps| = 1/b or 1/b2), never a factor.
+		for _, eps := range []float64{0.98 * er, 0.99 * er, er, 1.01 * er, 1.02 * er} {
+			n0, n1 := a.CyclesToFailure(eps), a.CyclesToFailure(eps*1.01)
+			if !(n1 < n0) || n0/n1 > math.Pow(1.01, 1/min(a.StrainLifeB, a.LowCycleB))*(1+1e-9) {
+				t.Errorf("%s: from strain %.5f to 1 %% more, N goes %g -> %g", a.Name, eps, n0, n1)
+			}
+		}
+		// One reversal (N = 1/2) falls near the strain that breaks the wire in a single bend
+		// (Coffin 1954: the fatigue ductility coefficient is about the fracture ductility):
+		// 10-20 % for nickel-titanium, 2-6 % for drawn stainless steel (from memory).
+		lo, hi := 0.10, 0.20
+		if a.Name == AlloyStainlessSteel {
+			lo, hi = 0.02, 0.06
+		}
+		if once := er * math.Pow(0.5/a.CyclesAtRecoverableStrain(), -a.LowCycleB); once < lo || once > hi {
+			t.Errorf("%s: one reversal at %.3f strain, outside the plausible %.2f-%.2f", a.Name, once, lo, hi)
 		}
 	}
 }
@@ -101,7 +140,8 @@ func TestAlloyValidate(t *testing.T) {
 		{"strain_life_c", func(a *Alloy) { a.StrainLifeC = math.NaN() }},
 		{"strain_life_b", func(a *Alloy) { a.StrainLifeB = 0 }},
 		{"strain_life_b", func(a *Alloy) { a.StrainLifeB = -0.3 }},
-		{"cycles_above_limit", func(a *Alloy) { a.CyclesAboveLimit = math.Inf(1) }},
+		{"low_cycle_b", func(a *Alloy) { a.LowCycleB = math.Inf(1) }},
+		{"low_cycle_b", func(a *Alloy) { a.LowCycleB = 0 }},
 	}
 	for _, c := range cases {
 		a := good

@@ -19,8 +19,8 @@ const (
 // entries. An entry takes the fields of a sequence step that describe the file itself (those
 // of stepJSON without use:"step"), with the same meaning and defaults.
 type instrumentsJSON struct {
-	Instruments []stepJSON       `json:"instruments" doc:"a list of instruments is required"`
-	Alloys      map[string]Alloy `json:"alloys,omitempty"`
+	Instruments []stepJSON           `json:"instruments" doc:"a list of instruments is required"`
+	Alloys      map[string]alloyJSON `json:"alloys,omitempty"`
 }
 
 // instrumentFieldNames are the fields an entry of an instruments file may have.
@@ -88,7 +88,7 @@ func ParseInstruments(name string, data []byte) ([]Instrument, []string, error) 
 		return nil, nil, err
 	}
 	var out []Instrument
-	var warnings []string
+	warnings := shelf.legacyNotes
 	seen := map[string]int{}
 	for i, j := range f.Instruments {
 		if field := j.stepUseGiven(); field != "" {

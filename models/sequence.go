@@ -24,6 +24,8 @@ type Sequence struct {
 	Warnings []string
 	// Name is the file the sequence came from, for messages; empty when built in code.
 	Name string
+	// legacyNotes are what reading found of older files' fields (cycles_above_limit).
+	legacyNotes []string
 }
 
 // Step is one file of a sequence and how it is used.
@@ -124,9 +126,9 @@ func (e *SequenceError) Error() string {
 // sequenceJSON is the sequence file: the schema ParseSequence reads and MarshalJSON writes.
 // The json tags are the one list of its fields (README, "Sequence files").
 type sequenceJSON struct {
-	PathModel *string          `json:"path_model,omitempty"`
-	Alloys    map[string]Alloy `json:"alloys,omitempty"`
-	Steps     []stepJSON       `json:"steps" doc:"a list of steps is required"`
+	PathModel *string              `json:"path_model,omitempty"`
+	Alloys    map[string]alloyJSON `json:"alloys,omitempty"`
+	Steps     []stepJSON           `json:"steps" doc:"a list of steps is required"`
 }
 
 // stepJSON is one step of a sequence file. Fields marked use:"step" say how the file is used;
@@ -216,15 +218,17 @@ func ParseSequence(name string, data []byte) (*Sequence, error) {
 }
 
 // takeAlloys adds a file's alloys, each checked and named by its key.
-func (s *Sequence) takeAlloys(alloys map[string]Alloy) error {
+func (s *Sequence) takeAlloys(alloys map[string]alloyJSON) error {
 	names := make([]string, 0, len(alloys))
 	for k := range alloys {
 		names = append(names, k)
 	}
 	sort.Strings(names)
 	for _, k := range names {
-		a := alloys[k]
-		a.Name = k
+		a, legacy := alloys[k].alloy(k)
+		if legacy {
+			s.legacyNotes = append(s.legacyNotes, fmt.Sprintf("%s: alloys: %q: %s (%g here)", s.file(), k, LegacyCyclesAboveLimitNote, a.LowCycleB))
+		}
 		if err := s.checkAlloy(a); err != nil {
 			return err
 		}
@@ -289,7 +293,7 @@ func (s *Sequence) Validate() error {
 // Notes are the sequence's plausibility warnings: sizes off the ISO list, tapers steeper than
 // files are made.
 func (s *Sequence) Notes() []string {
-	var out []string
+	out := append([]string(nil), s.legacyNotes...)
 	for i, st := range s.Steps {
 		out = append(out, instrumentNotes(s.file(), "step", i+1, st.Instrument)...)
 	}
@@ -595,9 +599,9 @@ func (s *Sequence) MarshalJSON() ([]byte, error) {
 	if s.PathModel != "" {
 		out.PathModel = &s.PathModel
 	}
-	alloys := make(map[string]Alloy, len(s.Alloys))
+	alloys := make(map[string]alloyJSON, len(s.Alloys))
 	for k, a := range s.Alloys {
-		alloys[k] = a
+		alloys[k] = a.fileForm()
 	}
 	num := func(v float64) *float64 { return &v }
 	str := func(v string) *string { return &v }
@@ -626,7 +630,7 @@ func (s *Sequence) MarshalJSON() ([]byte, error) {
 		j.Alloy = str(alloy)
 		if _, listed := alloys[alloy]; !listed && in.Alloy.Name == alloy {
 			if b, ok := BuiltinAlloy(alloy); !ok || !sameAlloyParams(b, in.Alloy) {
-				alloys[alloy] = in.Alloy
+				alloys[alloy] = in.Alloy.fileForm()
 			}
 		}
 		section := st.SectionName

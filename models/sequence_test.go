@@ -13,7 +13,7 @@ import (
 
 // designExample uses every field of a sequence step (README, "Sequence files").
 const designExample = `{"alloys": {"my-alloy": {"elastic_modulus_gpa": 40, "shear_ultimate_mpa": 900, "recoverable_strain": 0.07,
-                         "strain_life_c": 0.33, "strain_life_b": 0.3, "cycles_above_limit": 3}},
+                         "strain_life_c": 0.33, "strain_life_b": 0.3, "low_cycle_b": 0.1}},
  "steps": [{"size": 25, "taper": 0.06, "depth": "WL-2"},
            {"size": 25, "taper": 0.04, "depth": "WL", "rpm": 400, "peck_mm": 1.0, "retract_mm": 2.0,
             "advance_mm_s": 1.5, "torque_limit_ncm": 2.0, "alloy": "niti-superelastic",
@@ -96,11 +96,14 @@ func TestParseSequenceErrors(t *testing.T) {
 		{"alloy field missing", `{"alloys": {"x": {"elastic_modulus_gpa": 40}}, "steps": [` + ok + `]}`,
 			"demo.json: alloys: \"x\": shear_ultimate_mpa: missing"},
 		{"alloy b zero", `{"alloys": {"x": {"elastic_modulus_gpa": 40, "shear_ultimate_mpa": 900, "recoverable_strain": 0.07,
-			"strain_life_c": 0.33, "strain_life_b": 0, "cycles_above_limit": 3}}, "steps": [` + ok + `]}`,
+			"strain_life_c": 0.33, "strain_life_b": 0, "low_cycle_b": 0.1}}, "steps": [` + ok + `]}`,
 			"demo.json: alloys: \"x\": strain_life_b: must be above 0"},
 		{"alloy strain as percent", `{"alloys": {"x": {"elastic_modulus_gpa": 40, "shear_ultimate_mpa": 900, "recoverable_strain": 7,
-			"strain_life_c": 0.33, "strain_life_b": 0.3, "cycles_above_limit": 3}}, "steps": [` + ok + `]}`,
+			"strain_life_c": 0.33, "strain_life_b": 0.3, "low_cycle_b": 0.1}}, "steps": [` + ok + `]}`,
 			"demo.json: alloys: \"x\": recoverable_strain: must be below 0.2"},
+		{"alloy low-cycle b negative", `{"alloys": {"x": {"elastic_modulus_gpa": 40, "shear_ultimate_mpa": 900, "recoverable_strain": 0.07,
+			"strain_life_c": 0.33, "strain_life_b": 0.3, "low_cycle_b": -1}}, "steps": [` + ok + `]}`,
+			"demo.json: alloys: \"x\": low_cycle_b: must be above 0"},
 		{"alloy unknown field", `{"alloys": {"x": {"density": 6.4}}, "steps": [` + ok + `]}`, "demo.json: alloys: \"x\": \"density\": unknown field"},
 	}
 	for _, c := range cases {
@@ -159,13 +162,32 @@ func TestParseSequenceNonISOWarning(t *testing.T) {
 func TestSequenceAlloyOverride(t *testing.T) {
 	seq, err := ParseSequence("demo.json", []byte(`{"alloys": {"niti-superelastic": {"elastic_modulus_gpa": 50,
 		"shear_ultimate_mpa": 950, "recoverable_strain": 0.065, "strain_life_c": 0.3, "strain_life_b": 0.35,
-		"cycles_above_limit": 2}}, "path_model": "elastic", "steps": [{"size": 25, "taper": 0.04, "depth": 17}]}`))
+		"low_cycle_b": 0.08}}, "path_model": "elastic", "steps": [{"size": 25, "taper": 0.04, "depth": 17}]}`))
 	if err != nil {
 		t.Fatal(err)
 	}
 	a := seq.Steps[0].Instrument.Alloy
-	if a.ElasticModulusGPa != 50 || a.Illustrative || seq.PathModel != PathElastic || seq.Steps[0].Depth != DepthMM(17) {
+	if a.ElasticModulusGPa != 50 || a.LowCycleB != 0.08 || a.Illustrative || seq.PathModel != PathElastic || seq.Steps[0].Depth != DepthMM(17) {
 		t.Errorf("override not applied: %+v, path %q", a, seq.PathModel)
+	}
+}
+
+// TestSequenceLegacyAlloyField: files written before the strain-life law became continuous
+// carry cycles_above_limit; they still load, the field is set aside with a note naming it, and
+// the alloy takes the default low-cycle exponent.
+func TestSequenceLegacyAlloyField(t *testing.T) {
+	seq, err := ParseSequence("old.json", []byte(`{"alloys": {"mine": {"elastic_modulus_gpa": 40,
+		"shear_ultimate_mpa": 900, "recoverable_strain": 0.07, "strain_life_c": 0.33, "strain_life_b": 0.3,
+		"cycles_above_limit": 3}}, "steps": [{"size": 25, "taper": 0.04, "depth": 17, "alloy": "mine"}]}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a := seq.Steps[0].Instrument.Alloy; a.LowCycleB != DefaultLowCycleB {
+		t.Errorf("low-cycle exponent %g, want the default %g", a.LowCycleB, DefaultLowCycleB)
+	}
+	if len(seq.Warnings) != 1 || !strings.Contains(seq.Warnings[0], "old.json") ||
+		!strings.Contains(seq.Warnings[0], "cycles_above_limit is no longer used") {
+		t.Errorf("warnings %q", seq.Warnings)
 	}
 }
 
@@ -189,7 +211,7 @@ func TestSequenceRoundTrip(t *testing.T) {
 	// A sequence built in code (as a planner would) with an alloy of its own is written so that it
 	// reads back the same.
 	custom := Alloy{Name: "test-alloy", ElasticModulusGPa: 45, ShearUltimateMPa: 850, RecoverableStrain: 0.06,
-		StrainLifeC: 0.3, StrainLifeB: 0.32, CyclesAboveLimit: 4}
+		StrainLifeC: 0.3, StrainLifeB: 0.32, LowCycleB: 0.09}
 	in := NewInstrument(30, 0.05)
 	in.Alloy = custom
 	in.Section = Section{Name: SectionSquare}
@@ -259,7 +281,7 @@ func FuzzParseSequence(f *testing.F) {
 	f.Add([]byte(`{"alloys": {"niti-superelastic": {"elastic_modulus_gpa": 50, "shear_ultimate_mpa": 950,
 		"recoverable_strain": 0.065, "strain_life_c": 0.3, "strain_life_b": 0.35, "cycles_above_limit": 2},
 		"b": {"elastic_modulus_gpa": 1e3, "shear_ultimate_mpa": 1e-3, "recoverable_strain": 0.19,
-		"strain_life_c": 1e-9, "strain_life_b": 9, "cycles_above_limit": 1e9}},
+		"strain_life_c": 1e-9, "strain_life_b": 9, "low_cycle_b": 1e9}},
 		"steps": [{"size": 140, "taper": 1, "depth": "WL-1e-3", "alloy": "b", "rpm": 20000, "peck_mm": 0.01,
 		"retract_mm": 0, "advance_mm_s": 100, "torque_limit_ncm": 100, "cutting_length": 50, "max_flute_d": 10}]}`))
 	f.Fuzz(func(t *testing.T, data []byte) {

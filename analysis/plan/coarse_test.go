@@ -102,13 +102,13 @@ func TestSweepMatchesRun(t *testing.T) {
 		// The same step measured on the canal before the previous file, widened on the fly.
 		if k > 0 {
 			prev := newMove(g, k-1, seq.Steps[k-1])
-			lazy := g.sweep(res.Steps[k-1].Before, prev.radius, mv)
+			lazy := g.sweep(res.Steps[k-1].Before, prev, mv)
 			if lazy != sm {
 				t.Errorf("step %d: widening on the fly gives %+v, the widened canal %+v", k+1, lazy, sm)
 			}
 		}
 		next := make([]float32, len(before))
-		g.widen(next, before, mv.radius)
+		g.widen(next, before, mv)
 		for i := range next {
 			if next[i] != res.Steps[k].Prepared[i] {
 				t.Fatalf("step %d: prepared canal differs from analysis.Run at cell %d", k+1, i)

@@ -14,13 +14,23 @@
 //
 // Constraints: at most MaxSteps files (6 by default), each file on the list used at most once,
 // each file before the target engaged over at least 1 mm (one that touches less does no real
-// work);
-// every change of file changes the taper (common practice of the trade; can be lifted); no file
+// work), except one taken to working length to open the glide path the target needs; every
+// change of file changes the taper (common practice of the trade; can be lifted); no file
 // engaged over more than MaxEngagedMM (if set); no file using more of its fatigue life than
 // MaxFatigue (by default the use of the target file taken to working length, which every plan
-// has to accept anyway, and below 1, the model's fracture point, for the files before it); and no file engaged over a longer stretch or needing more torque than
+// has to accept anyway); and no file engaged over a longer stretch or needing more torque than
 // the target file taken straight to working length, so a plan never does worse than that single
 // file on any measure.
+//
+// A proposal also passes the tool's own advice (analysis.Blocking): tip sizes never go down; a
+// file whose tip is wider than the canal at working length follows a smaller file taken there (a
+// glide path, analysis.GlidePath); no file is bent past its alloy's recoverable strain or reaches
+// the model's fracture point (a fatigue use of 1), whatever MaxFatigue says. Where the target
+// itself breaks one of these (it fractures or is bent past its recoverable strain in this canal,
+// or no file on the shelf can open a glide path for it), or no plan within the steps allowed
+// passes, the answer is an *InfeasibleError saying why. Each change to a smaller taper is
+// explained (the next file goes deeper or carries a larger tip; or the earlier file only opened
+// the glide path).
 //
 // Depths: each preparing file may go to working length or 1 to 5 mm short of it, or to three
 // crown-down depths: where the canal leaves its straight coronal part (Schneider's departure

@@ -16,13 +16,22 @@ const curve60r3JSON = `{"name": "test canal: 60 deg curve on a 3 mm radius (inve
               {"kind": "straight", "length": 2}],
  "orifice_d": 1.0, "apical_d": 0.25}`
 
+// curve45r5JSON is an invented canal: 10 mm straight, a 45 degree arc on a 5 mm radius, 3 mm
+// straight; 1.0 mm across at the orifice narrowing to 0.25 mm.
+const curve45r5JSON = `{"name": "test canal: 45 deg curve on a 5 mm radius (invented)",
+ "segments": [{"kind": "straight", "length": 10}, {"kind": "arc", "radius": 5, "angle": 45},
+              {"kind": "straight", "length": 3}],
+ "orifice_d": 1.0, "apical_d": 0.25}`
+
 var (
 	canalsOnce            sync.Once
 	demoCanal, curveCanal *analysis.Canal
+	gentleCanal           *analysis.Canal
 	canalsErr             error
 )
 
-// testCanals measures the demo canal and the 60 degree curve once for all tests.
+// testCanals measures the demo canal and the 60 degree curve once for all tests (and the 45
+// degree one, gentleTestCanal).
 func testCanals(t testing.TB) (demo, curve *analysis.Canal) {
 	t.Helper()
 	canalsOnce.Do(func() {
@@ -35,7 +44,13 @@ func testCanals(t testing.TB) (demo, curve *analysis.Canal) {
 			canalsErr = err
 			return
 		}
-		curveCanal, canalsErr = analysis.CanalFromSpec(ctx, "curve60r3", spec, analysis.CanalOptions{})
+		if curveCanal, canalsErr = analysis.CanalFromSpec(ctx, "curve60r3", spec, analysis.CanalOptions{}); canalsErr != nil {
+			return
+		}
+		if spec, canalsErr = models.ParseCanalSpec("curve45r5.json", []byte(curve45r5JSON)); canalsErr != nil {
+			return
+		}
+		gentleCanal, canalsErr = analysis.CanalFromSpec(ctx, "curve45r5", spec, analysis.CanalOptions{})
 	})
 	if canalsErr != nil {
 		t.Fatal(canalsErr)
@@ -63,4 +78,10 @@ func runSteps(t testing.TB, c *analysis.Canal, steps string) *analysis.Result {
 		t.Fatal(err)
 	}
 	return res
+}
+
+// gentleTestCanal is the 45 degree curve on a 5 mm radius.
+func gentleTestCanal(t testing.TB) *analysis.Canal {
+	testCanals(t)
+	return gentleCanal
 }

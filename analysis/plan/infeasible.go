@@ -3,6 +3,7 @@ package plan
 import (
 	"context"
 	"fmt"
+	"strconv"
 	"strings"
 )
 
@@ -12,6 +13,9 @@ const (
 	ConstraintFatigue    = "fatigue-use"    // Options.MaxFatigue
 	ConstraintTaper      = "taper-change"   // consecutive files of different taper
 	ConstraintSingleFile = "single-file"    // no file worse than the target file alone
+	ConstraintGlidePath  = "glide-path"     // a smaller file before any wider than the canal at working length
+	ConstraintStrain     = "recoverable-strain"
+	ConstraintAdvice     = "advice" // the least-breaking plan draws advice that rules it out
 )
 
 // InfeasibleError says that no plan within the steps allowed keeps the constraints, which
@@ -80,8 +84,8 @@ func (p *planner) infeasible(ctx context.Context, rule bool) (*checked, error) {
 	over := func(v, l float64) bool { return l > 0 && overCap(v, l) }
 	if over(m.engaged, lim.maxEngaged) {
 		note(ConstraintEngaged, lim.maxEngaged, m.engaged, m.engagedAt, fmt.Sprintf(
-			"%s keeps every file's engaged length under %.1f mm; the best found needs %.1f mm%s",
-			within, lim.maxEngaged, m.engaged, at(m.engagedAt)))
+			"%s keeps every file's engaged length under %s mm; the best found needs %s mm%s",
+			within, mmText(lim.maxEngaged), mmText(m.engaged), at(m.engagedAt)))
 	}
 	if over(m.fatigue, lim.maxFatigue) {
 		note(ConstraintFatigue, lim.maxFatigue, m.fatigue, m.fatigueAt, fmt.Sprintf(
@@ -103,6 +107,17 @@ func (p *planner) infeasible(ctx context.Context, rule bool) (*checked, error) {
 			"%s keeps every file's peak torque within the %.3f N*cm of the %s taken straight to working length; "+
 				"the best found needs %.3f N*cm%s", within, lim.ref.torque, tl, m.torque, at(m.torqueAt)))
 	}
+	for _, b := range best.blocked {
+		note(ConstraintAdvice, 0, 0, b.step, fmt.Sprintf("%s passes the tool's own advice; the best found draws%s: %s",
+			within, at(b.step), b.advice.Text))
+	}
+	if first == nil {
+		return best, nil
+	}
 	first.Msg = strings.Join(clauses, "; also, ")
 	return nil, first
 }
+
+// mmText writes a length with as many digits as it needs, up to four significant ones: a cap
+// of 0.001 mm reads "0.001", not "0.0".
+func mmText(v float64) string { return strconv.FormatFloat(v, 'g', 4, 64) }

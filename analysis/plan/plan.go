@@ -71,6 +71,7 @@ type planner struct {
 	moves      []*move
 	target     *move
 	baseline   *analysis.Result
+	glide      analysis.GlidePath
 	fullLim    limits
 	coarseLim  limits
 	evaluated  int
@@ -85,6 +86,7 @@ func (p *planner) prepare(ctx context.Context) error {
 	cc := coarse(c, ds, opt.CoarseAngles)
 	p.g = newGrid(cc, opt.Run)
 	p.depths = depthChoices(c)
+	p.glide = analysis.GlidePathOf(c)
 	targetStep := models.NewStep(opt.Instruments[p.targetInst], models.DepthWL(0))
 	p.target = newMove(p.g, p.targetInst, targetStep)
 	for i, in := range opt.Instruments {
@@ -94,6 +96,7 @@ func (p *planner) prepare(ctx context.Context) error {
 		for _, d := range p.depths {
 			mv := newMove(p.g, i, models.NewStep(in, d.depth))
 			mv.index = len(p.moves)
+			mv.overStrain = strainOver(c.Line, in, mv.depth)
 			p.moves = append(p.moves, mv)
 		}
 	}
@@ -185,7 +188,7 @@ func fatigueOf(ctx context.Context, cc *analysis.Canal, mv *move, opt analysis.R
 }
 
 func (p *planner) searcher(strict, taperRule bool) *searcher {
-	return &searcher{g: p.g, moves: p.moves, target: p.target, lim: p.coarseLim, beamWidth: p.opt.BeamWidth,
+	return &searcher{g: p.g, glide: p.glide, moves: p.moves, target: p.target, lim: p.coarseLim, beamWidth: p.opt.BeamWidth,
 		keep: p.opt.Recheck, maxSteps: p.opt.MaxSteps, sameTaper: taperRule, strict: strict, workers: p.opt.Workers}
 }
 
@@ -196,6 +199,13 @@ type checked struct {
 	m      measures
 	excess float64
 	cost   float64
+	// blocked is the advice at full resolution that rules the plan out, by step (from 1).
+	blocked []blockedStep
+}
+
+type blockedStep struct {
+	step   int
+	advice analysis.Advice
 }
 
 // recheck runs the plans through the full-resolution canal and returns them best first
@@ -218,7 +228,14 @@ func (p *planner) recheck(ctx context.Context, found []*complete) ([]*checked, e
 			}
 			m = add(k+1, s.Metrics.EngagedLengthMM, s.Metrics.PeakTorqueIndex, s.Metrics.FatigueDamage)
 		}
-		out[i] = &checked{seq: seq, res: res, m: m, excess: p.fullLim.excess(m), cost: p.fullLim.cost(m)}
+		ck := &checked{seq: seq, res: res, m: m, excess: p.fullLim.excess(m), cost: p.fullLim.cost(m)}
+		for k, s := range res.Steps {
+			for _, a := range analysis.Blocking(&s.Metrics) {
+				ck.blocked = append(ck.blocked, blockedStep{k + 1, a})
+				ck.excess++
+			}
+		}
+		out[i] = ck
 	})
 	for _, err := range errs {
 		if err != nil {
@@ -265,6 +282,9 @@ func (p *planner) search(ctx context.Context, strict, taperRule bool) ([]*checke
 }
 
 func (p *planner) propose(ctx context.Context) (*Plan, error) {
+	if err := p.targetFails(); err != nil {
+		return nil, err
+	}
 	if f, lim := p.fullLim.ref.fatigue, p.fullLim.maxFatigue; lim > 0 && overCap(f, lim) {
 		return nil, &InfeasibleError{Constraint: ConstraintFatigue, Limit: lim, Needed: f, Msg: fmt.Sprintf(
 			"the %s taken to working length, which ends every plan, uses %.3g of its fatigue life, above the cap of %.3g",
@@ -283,6 +303,38 @@ func (p *planner) propose(ctx context.Context) (*Plan, error) {
 		return nil, err
 	}
 	return p.explain(best), nil
+}
+
+// targetFails says why no plan can pass the tool's own advice whatever comes before the target:
+// the target file taken to working length fractures or is bent past its recoverable strain in
+// this canal (neither depends on the files before it), or no file on the shelf is narrow enough
+// to open a glide path for it.
+func (p *planner) targetFails() error {
+	tl := p.opt.Target.Label()
+	for _, a := range analysis.Blocking(&p.baseline.Steps[0].Metrics) {
+		switch a.Code {
+		case analysis.AdviceStrainLimit:
+			return &InfeasibleError{Constraint: ConstraintStrain, Msg: fmt.Sprintf(
+				"the %s taken to working length, which ends every plan, is bent past its recoverable strain in this canal: %s", tl, a.Text)}
+		case analysis.AdviceFatigue:
+			m := p.baseline.Steps[0].Metrics
+			return &InfeasibleError{Constraint: ConstraintFatigue, Limit: 1, Needed: m.FatigueDamage, Msg: fmt.Sprintf(
+				"the %s taken to working length, which ends every plan, fractures in this canal in the model whatever files go "+
+					"before it: %s", tl, a.Text)}
+		}
+	}
+	in := p.target.step.Instrument
+	if p.glide.Missing(in, 0) {
+		for _, mv := range p.moves {
+			if mv.size() < in.Size && p.glide.Opens(mv.depth) && !p.glide.Missing(mv.step.Instrument, 0) && !mv.overStrain {
+				return nil
+			}
+		}
+		return &InfeasibleError{Constraint: ConstraintGlidePath, Msg: fmt.Sprintf(
+			"the %s's tip (%.2f mm) is wider than the canal at working length (%.2f mm) and no file on the shelf is narrow "+
+				"enough to be taken there before it (a glide path)", tl, in.TipDiameter(), p.glide.Width)}
+	}
+	return nil
 }
 
 // stepText names a step: "25/.06 to WL-2".
@@ -318,8 +370,9 @@ func (p *planner) explain(best *checked) *Plan {
 		cons = append(cons, fmt.Sprintf("no file using more than %.3g of its fatigue life", opt.MaxFatigue))
 	case opt.MaxFatigue == 0:
 		cons = append(cons, fmt.Sprintf("no file using more of its fatigue life than the %s at working length (%.3g)", tl, ref.fatigue))
-		cons = append(cons, "no file before it reaching the model's fracture point (a fatigue use of 1)")
 	}
+	cons = append(cons, "the tool's own advice: sizes never go down, a glide path before any file wider than the canal at "+
+		"working length, no file bent past its recoverable strain or reaching the model's fracture point")
 	cons = append(cons, fmt.Sprintf("no file engaged over a longer stretch or needing more torque than the %s taken straight to working length", tl))
 	add("Constraints: %s.", strings.Join(cons, "; "))
 	add("Depths tried for each preparing file: %s.", depthText(p.depths, wl))
@@ -334,12 +387,49 @@ func (p *planner) explain(best *checked) *Plan {
 	if len(best.res.Steps) == 1 {
 		add("No sequence of these instruments within the constraints does better than the %s taken straight to working length.", tl)
 	}
-	if ref.fatigue >= 1 {
-		add("Caution: the %s taken to working length alone uses up its fatigue life in this canal in the model "+
-			"(%.3g); no sequence changes that, since its bending does not depend on the files before it.", tl, ref.fatigue)
+	for _, r := range taperDownReasons(best.res) {
+		add("%s", r)
+	}
+	if p.opt.MaxFatigue < 0 {
+		add("The fatigue cap was lifted; no file reaches the model's fracture point all the same (the tool's own advice).")
 	}
 	add("Searched on a coarse copy of the canal (%.2f mm between stations, %d directions): %d partial plans "+
-		"measured; the best %d full plans re-checked at full resolution.", p.g.canal.Line.DS, p.g.na,
+		"measured; the best %d full plans re-checked at full resolution.", p.g.canal.Line.DS, p.g.canal.Angles,
 		p.evaluated, p.rechecked)
 	return pl
+}
+
+// taperDownReasons says, for each change of file to a smaller taper, why the plan makes it: the
+// next file goes deeper or carries a larger tip, while the smaller taper keeps the rest of it
+// off the wall the earlier file already shaped (common practice: shape the coronal part with
+// larger tapers, then carry smaller ones apically).
+func taperDownReasons(res *analysis.Result) []string {
+	var out []string
+	for k := 1; k < len(res.Steps); k++ {
+		a, b := res.Steps[k-1], res.Steps[k]
+		ia, ib := a.Step.Instrument, b.Step.Instrument
+		if ia.IsVariableTaper() || ib.IsVariableTaper() || !(ib.TaperAt(0) < ia.TaperAt(0)-1e-9) {
+			continue
+		}
+		if a.Metrics.EngagedLengthMM == 0 {
+			out = append(out, fmt.Sprintf("The taper goes down from %s (step %d, %s) to %s (step %d, %s): the %s cut nothing; it "+
+				"only opened a glide path to working length.", models.TaperLabel(ia.TaperAt(0)), a.Number, ia.Label(),
+				models.TaperLabel(ib.TaperAt(0)), b.Number, ib.Label(), ia.Label()))
+			continue
+		}
+		var why []string
+		if d := b.TipDepth - a.TipDepth; d > 1e-6 {
+			why = append(why, fmt.Sprintf("it goes %.1f mm deeper, to %.2f mm", d, b.TipDepth))
+		}
+		if ib.Size > ia.Size {
+			why = append(why, fmt.Sprintf("its tip is larger (%.2f against %.2f mm)", ib.TipDiameter(), ia.TipDiameter()))
+		}
+		if len(why) == 0 {
+			why = append(why, fmt.Sprintf("it still cuts %.2f mm of wall the earlier file left", b.Metrics.EngagedLengthMM))
+		}
+		out = append(out, fmt.Sprintf("The taper goes down from %s (step %d, %s) to %s (step %d, %s): %s, while the smaller taper "+
+			"keeps the rest of the file off the wall the %s already shaped.", models.TaperLabel(ia.TaperAt(0)), a.Number,
+			ia.Label(), models.TaperLabel(ib.TaperAt(0)), b.Number, ib.Label(), strings.Join(why, " and "), ia.Label()))
+	}
+	return out
 }

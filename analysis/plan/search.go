@@ -5,8 +5,8 @@ import (
 	"math"
 	"slices"
 
+	"tapersweep/analysis"
 	"tapersweep/mesh/parallel"
-	"tapersweep/models"
 )
 
 // measures are a plan's three figures: the largest of each over its files so far, and the step
@@ -80,6 +80,7 @@ type state struct {
 	parent   *state
 	mv       *move // nil for the untouched canal
 	steps    int
+	glide    int // the smallest ISO size taken to working length so far (0: none)
 	prepared []float32
 	m        measures
 	excess   float64
@@ -95,16 +96,12 @@ func (s *state) uses(inst int) bool {
 	return false
 }
 
-// smallerTipWhereLargerWent: a file whose tip is smaller than one already taken as deep or
-// deeper enlarges nothing at its tip; common practice goes up in tip size where files have
-// reached, and shapes coronally with larger tapers instead.
-func (s *state) smallerTipWhereLargerWent(mv *move) bool {
-	for p := s; p != nil && p.mv != nil; p = p.parent {
-		if p.mv.depth >= mv.depth-models.LengthTolerance && p.mv.step.Instrument.Size > mv.step.Instrument.Size {
-			return true
-		}
+// after is the smallest size taken to working length once mv is added.
+func (s *state) after(g analysis.GlidePath, mv *move) int {
+	if g.Opens(mv.depth) && (s.glide == 0 || mv.size() < s.glide) {
+		return mv.size()
 	}
-	return false
+	return s.glide
 }
 
 // path lists the moves from the first file on.
@@ -144,6 +141,7 @@ type complete struct {
 // searcher runs one beam search on the coarse canal.
 type searcher struct {
 	g         *grid
+	glide     analysis.GlidePath // the full canal's glide-path yardstick
 	moves     []*move
 	target    *move
 	lim       limits
@@ -209,7 +207,11 @@ func (s *searcher) run(ctx context.Context) ([]*complete, error) {
 			}
 		}
 	}
-	addComplete(&complete{m: s.lim.ref, excess: s.lim.excess(s.lim.ref), cost: s.lim.cost(s.lim.ref)})
+	alone := &complete{m: s.lim.ref, excess: s.lim.excess(s.lim.ref), cost: s.lim.cost(s.lim.ref)}
+	if s.glide.Missing(s.target.step.Instrument, 0) {
+		alone.excess++ // the target alone would need a glide path first
+	}
+	addComplete(alone)
 	seen := map[uint64][]*state{}
 	beam := []*state{root}
 	for depth := 1; depth < s.maxSteps && len(beam) > 0; depth++ {
@@ -255,12 +257,12 @@ func (s *searcher) run(ctx context.Context) ([]*complete, error) {
 			if len(next) == s.beamWidth {
 				break
 			}
-			g.widen(scratch, c.parent.prepared, c.mv.radius)
+			g.widen(scratch, c.parent.prepared, c.mv)
 			h := s.shapeKey(scratch, c.mv)
 			if s.dominated(seen[h], scratch, c) {
 				continue
 			}
-			st := &state{parent: c.parent, mv: c.mv, steps: c.parent.steps + 1,
+			st := &state{parent: c.parent, mv: c.mv, steps: c.parent.steps + 1, glide: c.parent.after(s.glide, c.mv),
 				prepared: slices.Clone(scratch), m: c.m, excess: c.excess, cost: c.cost}
 			seen[h] = append(seen[h], st)
 			next = append(next, st)
@@ -299,7 +301,14 @@ func (s *searcher) evaluate(c *candidate, p *state, mv *move, order int, bound f
 	if s.sameTaper && p.mv != nil && sameTaper(p.mv, mv) {
 		return
 	}
-	if p.smallerTipWhereLargerWent(mv) {
+	// Sizes never go down (common practice: a smaller tip after a larger one enlarges nothing
+	// at its tip), and a file wider than the canal at working length needs a smaller one before
+	// it (the tool's own glide-path advice).
+	if p.mv != nil && mv.size() < p.mv.size() || s.glide.Missing(mv.step.Instrument, p.glide) {
+		return
+	}
+	// No file the tool would warn cannot follow the canal or fractures in it.
+	if s.strict && (mv.overStrain || mv.fatigue >= 1) {
 		return
 	}
 	if s.strict && (s.lim.maxFatigue > 0 && overCap(mv.fatigue, s.lim.maxFatigue) ||
@@ -308,8 +317,11 @@ func (s *searcher) evaluate(c *candidate, p *state, mv *move, order int, bound f
 	}
 	g := s.g
 	sm := g.sweep(p.prepared, nil, mv)
-	if !sm.cuts || sm.engaged < minEngagedMM {
-		return // a file that barely touches the wall only adds a step
+	// A file that barely touches the wall only adds a step, unless it opens the glide path the
+	// target needs.
+	opens := s.glide.Missing(s.target.step.Instrument, p.glide) && !s.glide.Missing(s.target.step.Instrument, p.after(s.glide, mv))
+	if (!sm.cuts || sm.engaged < minEngagedMM) && !opens {
+		return
 	}
 	step := p.steps + 1
 	c.m = p.m.addPrep(step, sm.engaged, sm.torque, mv.fatigue)
@@ -318,11 +330,12 @@ func (s *searcher) evaluate(c *candidate, p *state, mv *move, order int, bound f
 	if s.strict && (c.excess > 0 || c.cost >= bound) {
 		return
 	}
-	fs := g.sweep(p.prepared, mv.radius, s.target)
+	fs := g.sweep(p.prepared, mv, s.target)
 	c.fin = c.m.add(step+1, fs.engaged, fs.torque, s.target.fatigue)
 	c.finExcess = s.lim.excess(c.fin)
 	c.finCost = s.lim.cost(c.fin)
-	c.canFinish = !(s.sameTaper && sameTaper(mv, s.target))
+	c.canFinish = !(s.sameTaper && sameTaper(mv, s.target)) && mv.size() <= s.target.size() &&
+		!s.glide.Missing(s.target.step.Instrument, p.after(s.glide, mv))
 	c.valid = true
 }
 

@@ -112,6 +112,7 @@ func writeStepsTable(w io.Writer, res *analysis.Result) {
 	head, rows := report.TextRows(analysis.PickColumns(tableColumns...), res)
 	writeTabbed(w, append([][]string{head}, rows...))
 	mv := res.Moved
+	fmt.Fprintf(w, "\nEngaged figures count cuts deeper than the contact threshold, %g mm.", res.Options.ContactThreshold)
 	fmt.Fprintf(w, "\nFile path model: %s. The whole sequence moved the canal %.3f mm at 1 mm, %.3f mm at 3 mm and %.3f mm at 5 mm from the apical end; the foramen by %.3f mm.\n",
 		res.Options.PathModel, mv.TransportationMM["1"], mv.TransportationMM["3"], mv.TransportationMM["5"], mv.ForamenShiftMM)
 	for _, s := range res.Steps {

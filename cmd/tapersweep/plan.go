@@ -33,7 +33,7 @@ func planCommand() command {
 			out := fs.String("out", "", "write the proposed sequence (JSON, as analyze reads it) to `FILE`; default: print it after the table")
 			compare := fs.String("compare", "", "sequence `file` to compare with; default: the target file taken straight to working length")
 			maxEngaged := fs.Float64("max-engaged", 0, "no file engaged over more than `MM` mm (0: no cap)")
-			maxFatigue := fs.Float64("max-fatigue", 0, "no file using more than `F` of its fatigue life (0: what the target file alone uses at working length; -1: no cap)")
+			maxFatigue := fs.Float64("max-fatigue", 0, "no file using more than `F` of its fatigue life (0: what the target file alone uses at working length; -1: no cap below the model's fracture point, which no plan reaches)")
 			weights := fs.String("weights", "1,1,1", "weights `a,b,c` of largest engaged length, peak torque and fatigue use, each relative to the target file alone")
 			sameTaper := fs.Bool("allow-same-taper", false, "allow two consecutive files of the same taper")
 			return func(stdout, stderr io.Writer) int {
@@ -96,7 +96,7 @@ func planCommand() command {
 				if err != nil {
 					var inf *plan.InfeasibleError
 					if errors.As(err, &inf) {
-						fmt.Fprintf(stderr, "tapersweep plan: %s: %s\n", models.Printable(c.Name, models.MaxNameRunes), explain(err))
+						fmt.Fprintf(stderr, "tapersweep plan: %s: infeasible: %s\n", models.Printable(c.Name, models.MaxNameRunes), explain(err))
 						return exitBadInput
 					}
 					return inputError(stderr, "plan", err)
@@ -183,6 +183,9 @@ func writePlanTable(w io.Writer, c *analysis.Canal, pl *plan.Plan, other *analys
 	}
 	overall = append(overall, []string{"files", strconv.Itoa(len(pl.Result.Steps)), strconv.Itoa(len(other.Steps))})
 	writeTabbed(w, overall)
+	for _, d := range plan.Differences(pl.Result, other) {
+		fmt.Fprintf(w, "note: %s.\n", d)
+	}
 	fmt.Fprintln(w)
 	for _, line := range pl.Explanation {
 		fmt.Fprintf(w, "%s\n", line)

@@ -11,9 +11,15 @@ import (
 	"tapersweep/models"
 )
 
-// planCanalJSON is an invented canal: 10 mm straight, a 60 degree arc on a 3 mm radius, 2 mm
+// planCanalJSON is an invented canal: 10 mm straight, a 45 degree arc on a 5 mm radius, 3 mm
 // straight, 1.0 mm across at the orifice narrowing to 0.25 mm.
-const planCanalJSON = `{"name": "test canal: 60 deg curve on a 3 mm radius (invented)",
+const planCanalJSON = `{"name": "test canal: 45 deg curve on a 5 mm radius (invented)",
+ "segments": [{"kind": "straight", "length": 10}, {"kind": "arc", "radius": 5, "angle": 45},
+              {"kind": "straight", "length": 3}], "orifice_d": 1.0, "apical_d": 0.25}`
+
+// tightCanalJSON is an invented canal with a 60 degree arc on a 3 mm radius, where a 30/.04 is
+// bent past its recoverable strain.
+const tightCanalJSON = `{"name": "test canal: 60 deg curve on a 3 mm radius (invented)",
  "segments": [{"kind": "straight", "length": 10}, {"kind": "arc", "radius": 3, "angle": 60},
               {"kind": "straight", "length": 2}], "orifice_d": 1.0, "apical_d": 0.25}`
 
@@ -40,7 +46,7 @@ func TestPlanCommand(t *testing.T) {
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
-	for _, want := range []string{"proposed plan", "compared with: " + series, "largest engaged length, mm",
+	for _, want := range []string{"proposed plan", "compared with: " + series, "largest engaged length (cuts past the contact threshold), mm",
 		"largest peak torque, N·cm (illustrative)", "largest fatigue use (1 = fracture)", "Objective:", "proposed sequence written to"} {
 		if !strings.Contains(stdout, want) {
 			t.Errorf("output lacks %q:\n%s", want, stdout)
@@ -61,7 +67,7 @@ func TestPlanCommand(t *testing.T) {
 		t.Errorf("analyze rejects the plan: exit %d: %s", code, stderr)
 	}
 	// The overall rows: plan then compared.
-	for _, row := range []string{"largest engaged length, mm", "largest peak torque, N·cm (illustrative)"} {
+	for _, row := range []string{"largest engaged length (cuts past the contact threshold), mm", "largest peak torque, N·cm (illustrative)"} {
 		i := strings.Index(stdout, row)
 		if i < 0 {
 			continue
@@ -89,8 +95,20 @@ func TestPlanCommandInputs(t *testing.T) {
 	shelf := filepath.Join(dir, "shelf.json")
 	os.WriteFile(shelf, []byte(`[{"size": 20, "taper": 0.06}, {"size": 30, "taper": 0.04}]`), 0o644)
 	code, _, stderr := runPlanCLI("plan", "--canal", canal, "--target", "30/.04", "--instruments", shelf, "--max-engaged", "0.5")
-	if code != exitBadInput || !strings.Contains(stderr, "engaged length under 0.5 mm") {
+	if code != exitBadInput || !strings.Contains(stderr, "infeasible: ") || !strings.Contains(stderr, "engaged length under 0.5 mm") {
 		t.Errorf("cap: exit %d: %s", code, stderr)
+	}
+	// A cap of 0.001 mm is stated as given, not rounded to "0.0 mm".
+	code, _, stderr = runPlanCLI("plan", "--canal", canal, "--target", "30/.04", "--instruments", shelf, "--max-engaged", "0.001")
+	if code != exitBadInput || !strings.Contains(stderr, "engaged length under 0.001 mm") {
+		t.Errorf("tiny cap: exit %d: %s", code, stderr)
+	}
+	// A target the tool would warn cannot follow the canal is refused, with the reason.
+	tight := filepath.Join(dir, "tight.json")
+	os.WriteFile(tight, []byte(tightCanalJSON), 0o644)
+	code, _, stderr = runPlanCLI("plan", "--canal", tight, "--target", "30/.04")
+	if code != exitBadInput || !strings.Contains(stderr, "infeasible: ") || !strings.Contains(stderr, "recoverable strain") {
+		t.Errorf("tight canal: exit %d: %s", code, stderr)
 	}
 	if code, _, stderr := runPlanCLI("plan", "--canal", canal); code != exitUsage || !strings.Contains(stderr, "--target is required") {
 		t.Errorf("no target: exit %d: %s", code, stderr)
@@ -109,5 +127,34 @@ func TestPlanCommandInputs(t *testing.T) {
 	}
 	if code, stdout, _ := runPlanCLI("plan", "--help"); code != exitOK || !strings.Contains(stdout, "Example:") {
 		t.Errorf("help: exit %d", code)
+	}
+}
+
+// TestPlanCompareSaysWhatElseDiffers: compared with a sequence in another alloy and at another
+// speed, the comparison says so (fatigue use counts revolutions and depends on the alloy:
+// Pruett et al. 1997), and says nothing of the kind when the compared sequence differs only in
+// its files.
+func TestPlanCompareSaysWhatElseDiffers(t *testing.T) {
+	dir := t.TempDir()
+	canal := filepath.Join(dir, "canal.json")
+	os.WriteFile(canal, []byte(planCanalJSON), 0o644)
+	other := filepath.Join(dir, "other.json")
+	os.WriteFile(other, []byte(`{"steps": [{"size": 15, "taper": 0.02, "depth": "WL", "rpm": 300},
+		{"size": 30, "taper": 0.04, "depth": "WL", "alloy": "niti-martensitic", "rpm": 300}]}`), 0o644)
+	same := filepath.Join(dir, "same.json")
+	os.WriteFile(same, []byte(`{"steps": [{"size": 15, "taper": 0.02, "depth": "WL"}, {"size": 30, "taper": 0.04, "depth": "WL"}]}`), 0o644)
+	code, stdout, stderr := runPlanCLI("plan", "--canal", canal, "--target", "30/.04", "--max-steps", "3", "--compare", other)
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	for _, want := range []string{"note: the compared sequence uses the alloy(s)", "niti-martensitic",
+		"note: the compared sequence uses rotation at 300 rpm where the plan uses 400 rpm"} {
+		if !strings.Contains(stdout, want) {
+			t.Errorf("output lacks %q:\n%s", want, stdout)
+		}
+	}
+	code, stdout, stderr = runPlanCLI("plan", "--canal", canal, "--target", "30/.04", "--max-steps", "3", "--compare", same)
+	if code != exitOK || strings.Contains(stdout, "note: the compared sequence") {
+		t.Errorf("exit %d, notes where only the files differ:\n%s%s", code, stdout, stderr)
 	}
 }

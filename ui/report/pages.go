@@ -203,7 +203,7 @@ func modelSection(pdf *fpdf.Fpdf, res *analysis.Result, sum analysis.ResultSumma
 		{"wall stiffness", fmt.Sprintf("%g N/mm² (illustrative): the dentine's resistance to being cut; elastic path only", m.WallStiffnessNPerMM2)},
 		{"depth of cut", fmt.Sprintf("the file's radius less the distance from the centerline to the wall, per place around the wall; contact below %.3f mm is drawn and counted as none", m.ContactThresholdMM)},
 		{"bending strain", "outer-fibre strain d·k/2 of the file's diameter d where the curvature of the file's path is k (the canal's centerline when centred)"},
-		{"fatigue", "Miner's sum of revolutions over cycles to failure at each point of the file through the insertion schedule; the strain-life law of the alloy below its recoverable strain, a few cycles above it"},
+		{"fatigue", "Miner's sum of revolutions over cycles to failure at each point of the file through the insertion schedule; the alloy's strain-life law, eps = C N^-b below its recoverable strain, steeper above it"},
 		{"torsion", fmt.Sprintf("cutting torque from a cutting coefficient of %g N/mm² (illustrative) against the section's torsional capacity", m.CuttingCoefficientNPerMM2)},
 		{"note", m.Note},
 	}
@@ -213,8 +213,8 @@ func modelSection(pdf *fpdf.Fpdf, res *analysis.Result, sum analysis.ResultSumma
 			src = "built in: " + models.IllustrativeNote
 		}
 		pairs = append(pairs, [2]string{"alloy", fmt.Sprintf(
-			"%s: E %g GPa, shear ultimate %g MPa, recoverable strain %.4g %%, strain-life C %g, b %g, %g cycles above the recoverable strain (%s)",
-			models.Printable(a.Name, models.MaxNameRunes), a.ElasticModulusGPa, a.ShearUltimateMPa, 100*a.RecoverableStrain, a.StrainLifeC, a.StrainLifeB, a.CyclesAboveLimit, src)})
+			"%s: E %g GPa, shear ultimate %g MPa, recoverable strain %.4g %%, strain-life C %g, b %g, b2 %g (%s)",
+			models.Printable(a.Name, models.MaxNameRunes), a.ElasticModulusGPa, a.ShearUltimateMPa, 100*a.RecoverableStrain, a.StrainLifeC, a.StrainLifeB, a.LowCycleB, src)})
 	}
 	keyValue(pdf, margin, 42, bodyW-42, pairs)
 }

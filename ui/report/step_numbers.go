@@ -23,8 +23,8 @@ func numbersAndAdvice(pdf *fpdf.Fpdf, st *analysis.StepResult, x float64) {
 		case "step", "label", "alloy", "advice", "tip_depth_mm", "tip_from_apex_mm":
 			continue
 		}
-		if isTransportColumn(c) {
-			continue // stated below, under "How this step moved the canal"
+		if statedApart(c) {
+			continue // stated below, under "How this step moved the canal", or in the model section
 		}
 		// To the decimals the measurement supports (the column's Shown), as the summary's table.
 		v := c.Format(m)

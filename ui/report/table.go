@@ -14,8 +14,19 @@ import (
 // direction.
 func isTransportColumn(c analysis.Column) bool {
 	return strings.HasPrefix(c.Key, "transportation_") || strings.HasPrefix(c.Key, "centering_ratio_") ||
-		c.Key == "foramen_shift_mm"
+		strings.HasPrefix(c.Key, "centre_shift_") || c.Key == "foramen_shift_mm"
 }
+
+// statedApart tells the columns the report states in its own words elsewhere: the
+// transportation columns, and the contact threshold, which the model section states once (the
+// engaged figures' labels refer to it).
+func statedApart(c analysis.Column) bool {
+	return isTransportColumn(c) || c.Key == "contact_threshold_mm"
+}
+
+// onStepPagesOnly tells the figures the summary's step table leaves to the step pages (page 1
+// has no room for them).
+func onStepPagesOnly(c analysis.Column) bool { return c.Key == "shank_contact_mm" }
 
 // fixed writes v with d decimals, never "-0".
 func fixed(v float64, d int) string {
@@ -39,7 +50,7 @@ func StepTable(sum analysis.ResultSummary) (labels []string, cells [][]string) {
 		switch {
 		case c.Key == "advice":
 			advice = &c
-		case !isTransportColumn(c):
+		case !statedApart(c) && !onStepPagesOnly(c):
 			cols = append(cols, c)
 		}
 	}
