@@ -60,6 +60,6 @@ func ExampleColumn() {
 		fmt.Printf("%s: %q, %d decimals in the JSON, %d shown\n", c.Key, c.Label, c.Digits, c.Shown)
 	}
 	// Output:
-	// engaged_length_mm: "engaged length, mm", 3 decimals in the JSON, 2 shown
+	// engaged_length_mm: "engaged length (cuts past the contact threshold), mm", 3 decimals in the JSON, 2 shown
 	// fatigue_damage: "fatigue use (1 = fracture)", 5 decimals in the JSON, 3 shown
 }
