@@ -57,7 +57,7 @@ func Measure(c *Centerline, tol float64) Measures {
 		m.RadiusRange[1] = 1 / klo
 	}
 	m.SRange = c.placeBand(star, klo)
-	m.DepartureS, m.SchneiderDeg = schneider(c, tol)
+	m.DepartureS, m.SchneiderDeg, _ = schneider(c, tol)
 	m.SchneiderRange = schneiderBand(c, tol, m.SchneiderDeg)
 	if kmax > straightCurvature {
 		lo, hi := c.peakStretch(0.5)
@@ -136,12 +136,18 @@ func (c *Centerline) placeBand(star int, klo float64) [2]float64 {
 func schneiderBand(c *Centerline, tol, deg float64) [2]float64 {
 	lo, hi := deg, deg
 	for _, f := range []float64{0.5, 2} {
-		_, d := schneider(c, f*tol)
+		_, d, _ := schneider(c, f*tol)
 		lo, hi = math.Min(lo, d), math.Max(hi, d)
 	}
-	dep, _ := schneider(c, tol)
+	dep, _, left := schneider(c, tol)
 	slack := 0.0
-	if reach := c.Points[len(c.Points)-1].Sub(c.Points[c.Station(dep)]).Len(); reach > 0 {
+	// Where the line leaves its axis, the apical end is known to within tol as seen from the
+	// departure point; a line that never leaves it is straight to within tol over its length.
+	from := c.Points[c.Station(dep)]
+	if !left {
+		from = c.Points[c.zone[0]]
+	}
+	if reach := c.Points[len(c.Points)-1].Sub(from).Len(); reach > 0 {
 		slack += mgl64.RadToDeg(math.Atan(tol / reach))
 	}
 	z := c.zone[0]
@@ -168,17 +174,22 @@ func schneiderTolerance(voxel, surfaceDetail float64) float64 {
 // from it first exceeds tol, and since a curve that starts tangent to the axis departs as the
 // square of the arc length, the departure point is carried back to where that square law
 // starts (a fit of sqrt(distance) against s over the stations from tol to 3 tol). It returns
-// the departure (mm from the orifice) and the angle in degrees.
-func schneider(c *Centerline, tol float64) (departure, deg float64) {
+// the departure (mm from the orifice), the angle in degrees, and whether the line leaves its
+// axis at all: one that never does is straight to within tol (Schneider: 0 degrees), and the
+// departure is then the end of the measured line.
+func schneider(c *Centerline, tol float64) (departure, deg float64, left bool) {
 	lo, hi := c.zone[0], c.zone[1]
 	n := len(c.Points)
 	apex := c.Points[n-1]
 	if hi-lo < 4 {
-		return c.S[lo], 0
+		return c.S[lo], 0, false
 	}
 	origin, axis, end := coronalAxis(c.Points[lo:hi+1], tol/2)
 	end += lo
-	dep := departureOf(c, origin, axis, lo, end, hi, tol)
+	dep, left := departureOf(c, origin, axis, lo, end, hi, tol)
+	if !left {
+		return c.S[hi], 0, false
+	}
 	// The departure point on the line, between stations.
 	i := min(int(dep), n-2)
 	f := dep - float64(i)
@@ -186,10 +197,10 @@ func schneider(c *Centerline, tol float64) (departure, deg float64) {
 	departure = c.S[i] + f*(c.S[i+1]-c.S[i])
 	toApex := apex.Sub(p)
 	if toApex.Len() < 1e-9 {
-		return departure, 0
+		return departure, 0, true
 	}
 	cos := axis.Dot(toApex.Normalize())
-	return departure, mgl64.RadToDeg(math.Acos(math.Max(-1, math.Min(1, cos))))
+	return departure, mgl64.RadToDeg(math.Acos(math.Max(-1, math.Min(1, cos)))), true
 }
 
 // coronalAxis fits a line to the longest first stretch of pts (at least 1 mm or a quarter of
@@ -238,8 +249,8 @@ func coronalAxis(pts []mgl64.Vec3, tol float64) (origin, axis mgl64.Vec3, end in
 
 // departureOf finds where the line leaves the axis (origin, unit axis) by more than tol after
 // station from, and carries it back along the square law of a tangent curve. It returns a
-// fractional station; hi when the line never leaves.
-func departureOf(c *Centerline, origin, axis mgl64.Vec3, lo, from, hi int, tol float64) float64 {
+// fractional station, and false (with hi) when the line never leaves.
+func departureOf(c *Centerline, origin, axis mgl64.Vec3, lo, from, hi int, tol float64) (float64, bool) {
 	dist := func(i int) float64 {
 		d := c.Points[i].Sub(origin)
 		return d.Sub(axis.Mul(d.Dot(axis))).Len()
@@ -252,7 +263,7 @@ func departureOf(c *Centerline, origin, axis mgl64.Vec3, lo, from, hi int, tol f
 		}
 	}
 	if first < 0 {
-		return float64(hi)
+		return float64(hi), false
 	}
 	// sqrt(d) = (s - s0)/sqrt(2R) for a circle leaving the axis at s0: fit over tol..3 tol.
 	var sx, sy, sxx, sxy, cnt float64
@@ -276,7 +287,7 @@ func departureOf(c *Centerline, origin, axis mgl64.Vec3, lo, from, hi int, tol f
 		}
 	}
 	s0 = math.Max(c.S[lo], math.Min(s0, c.S[first]))
-	return float64(lo) + (s0-c.S[lo])/c.DS
+	return float64(lo) + (s0-c.S[lo])/c.DS, true
 }
 
 // fitArc fits a circle to points of a nearly planar curve: best plane by the smallest

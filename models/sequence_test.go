@@ -316,6 +316,7 @@ func FuzzParseSequence(f *testing.F) {
 			t.Fatalf("re-reading %s: %v", out, err)
 		}
 		back.Warnings, seq.Warnings = nil, nil
+		back.legacyNotes, seq.legacyNotes = nil, nil
 		if !reflect.DeepEqual(seq, back) {
 			t.Fatalf("round trip differs:\n%+v\n%+v", seq, back)
 		}
