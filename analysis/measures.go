@@ -45,9 +45,16 @@ func Measure(c *Centerline, tol float64) Measures {
 	kmax := c.K[star]
 	kStar := kmax
 	klo, khi := kmax, kmax
+	var bend bendFit
+	fitted := false
 	if c.fits != nil {
 		kStar = c.tightest()
 		klo, khi = c.curvatureBand()
+		if b, ok := c.tightestBend(); ok {
+			bend, fitted = b, true
+			kStar = 1 / b.circle.radius
+			klo, khi = bendBand(kStar, klo, khi)
+		}
 	}
 	if kStar > straightCurvature {
 		m.MaxCurvatureR = 1 / kStar
@@ -57,11 +64,20 @@ func Measure(c *Centerline, tol float64) Measures {
 		m.RadiusRange[1] = 1 / klo
 	}
 	m.SRange = c.placeBand(star, klo)
+	if fitted {
+		// The tightest bend lies somewhere on the stretch the circle was fitted to: on a long
+		// arc of one radius the line cannot say where.
+		m.SRange = [2]float64{math.Min(m.SRange[0], c.S[bend.lo]), math.Max(m.SRange[1], c.S[bend.hi])}
+	}
 	m.DepartureS, m.SchneiderDeg, _ = schneider(c, tol)
 	m.SchneiderRange = schneiderBand(c, tol, m.SchneiderDeg)
 	if kmax > straightCurvature {
 		lo, hi := c.peakStretch(0.5)
 		m.ArcRadius, _ = fitArc(c.Points[lo : hi+1])
+		if fitted {
+			lo, hi = bend.lo, bend.hi
+			m.ArcRadius = bend.circle.radius
+		}
 		// The arc's angle is the turn of the tangent over the stretch: exact for a planar arc
 		// and near zero for a wiggle, where a fitted circle's sweep could be anything.
 		// Tangents are read one fit window beyond the stretch, where a blurred curvature has
