@@ -55,7 +55,7 @@ func TestFitCircleNoise(t *testing.T) {
 	for range trials {
 		pts := arcPoints(r, mgl64.RadToDeg(1/r), StationSpacing, 0.0046, rng)
 		geo += fitCircle(pts).radius / r
-		ra, _ := fitArc(pts)
+		_, _, ra, _ := kasa(inPlane(pts))
 		alg += ra / r
 	}
 	geo, alg = geo/trials-1, alg/trials-1

@@ -24,22 +24,7 @@ func fitCircle(pts []mgl64.Vec3) circleFit {
 	if len(pts) < 3 {
 		return none
 	}
-	var mean mgl64.Vec3
-	for _, p := range pts {
-		mean = mean.Add(p)
-	}
-	mean = mean.Mul(1 / float64(len(pts)))
-	var cov mgl64.Mat3
-	for _, p := range pts {
-		cov = cov.Add(outer(p.Sub(mean), p.Sub(mean)))
-	}
-	e1, e2 := planeAxes(cov)
-	xs := make([]float64, len(pts))
-	ys := make([]float64, len(pts))
-	for i, p := range pts {
-		d := p.Sub(mean)
-		xs[i], ys[i] = d.Dot(e1), d.Dot(e2)
-	}
+	xs, ys := inPlane(pts)
 	cx, cy, r, ok := kasa(xs, ys)
 	if !ok {
 		return none
@@ -107,4 +92,26 @@ func kasa(xs, ys []float64) (cx, cy, r float64, ok bool) {
 		return 0, 0, 0, false
 	}
 	return cx, cy, math.Sqrt(r2), true
+}
+
+// inPlane gives the coordinates of points in their best plane (the two largest principal
+// axes about their mean).
+func inPlane(pts []mgl64.Vec3) (xs, ys []float64) {
+	var mean mgl64.Vec3
+	for _, p := range pts {
+		mean = mean.Add(p)
+	}
+	mean = mean.Mul(1 / float64(len(pts)))
+	var cov mgl64.Mat3
+	for _, p := range pts {
+		cov = cov.Add(outer(p.Sub(mean), p.Sub(mean)))
+	}
+	e1, e2 := planeAxes(cov)
+	xs = make([]float64, len(pts))
+	ys = make([]float64, len(pts))
+	for i, p := range pts {
+		d := p.Sub(mean)
+		xs[i], ys[i] = d.Dot(e1), d.Dot(e2)
+	}
+	return xs, ys
 }
