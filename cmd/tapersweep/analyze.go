@@ -105,10 +105,21 @@ func writeTabbed(w io.Writer, rows [][]string) {
 func writeStepsTable(w io.Writer, res *analysis.Result) {
 	sum := res.Canal.Summary(false)
 	fmt.Fprintf(w, "%s: length %.2f mm, working length %.2f mm", models.Printable(sum.Name, models.MaxNameRunes), sum.LengthMM, sum.WorkingLengthMM)
-	if r := sum.MaxCurvature.RadiusMM; r != nil {
-		fmt.Fprintf(w, ", tightest bend r %.2f mm at %.2f mm from the apical end", *r, sum.MaxCurvature.FromApexMM)
+	mc := sum.MaxCurvature
+	if r := mc.RadiusMM; r != nil {
+		band := "band unknown"
+		switch lo, hi := mc.RadiusRangeMM[0], mc.RadiusRangeMM[1]; {
+		case lo != nil && hi != nil:
+			band = fmt.Sprintf("%.2f-%.2f", *lo, *hi)
+		case lo != nil:
+			band = fmt.Sprintf("above %.2f", *lo)
+		}
+		fmt.Fprintf(w, ", tightest bend r %.2f mm (%s) at %.2f mm (%.2f-%.2f) from the apical end",
+			*r, band, mc.FromApexMM, mc.FromApexRangeMM[0], mc.FromApexRangeMM[1])
 	}
-	fmt.Fprintf(w, ", Schneider angle %.1f deg\n\n", sum.SchneiderDeg)
+	a := sum.SchneiderRangeDeg
+	fmt.Fprintf(w, ", Schneider angle %.1f deg (%.1f-%.1f; the canal leaves its axis once %.3f mm off it)\n\n",
+		sum.SchneiderDeg, a[0], a[1], sum.SchneiderToleranceMM)
 	head, rows := report.TextRows(analysis.PickColumns(tableColumns...), res)
 	writeTabbed(w, append([][]string{head}, rows...))
 	mv := res.Moved
