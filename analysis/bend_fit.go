@@ -20,12 +20,12 @@ type bendFit struct {
 }
 
 // tightestBend fits a circle to the centerline's own points over the stretch of the
-// tightest bend (bendStretch). A local fit of the curvature reads a bend shorter than its
+// tightest bend around s*, station star (bendStretch). A local fit of the curvature reads a bend shorter than its
 // window as flatter than it is, and over a long bend it reads the top of the line's wander;
 // a circle through the bend's own points does neither, once the bend's extent is known.
 // ok is false when the stretch is too short to fit.
-func (c *Centerline) tightestBend() (bendFit, bool) {
-	lo, hi := c.bendStretch()
+func (c *Centerline) tightestBend(star int) (bendFit, bool) {
+	lo, hi := c.bendStretch(star)
 	if hi-lo+1 < 5 {
 		return bendFit{}, false
 	}
@@ -33,13 +33,16 @@ func (c *Centerline) tightestBend() (bendFit, bool) {
 	return f, !math.IsInf(f.circle.radius, 1)
 }
 
-// bendStretch is the tightest bend as a stretch of stations: at each fit half-width, from
-// the widest, the stations around the curvature peak where the curvature keeps bendLevel of
-// the peak and the bend's plane (the binormal, which an arc keeps and the next bend of an
-// S-curve or a bend out of plane turns) stays within bendTwistDeg of the peak's. The first
-// stretch at least bendLength half-widths long is the bend: a fit that wide has not spread
-// the bend beyond its ends. The narrowest fit's stretch is taken when none is.
-func (c *Centerline) bendStretch() (lo, hi int) {
+// bendStretch is the tightest bend as a stretch of stations holding s* (station star): at
+// each fit half-width, from the widest, the curvature peak reached by climbing from s*, and the
+// stations around it where the curvature keeps bendLevel of that peak and the bend's plane
+// (the binormal, which an arc keeps and the next bend of an S-curve or a bend out of plane
+// turns) stays within bendTwistDeg of the peak's. The first such stretch that holds s* and is
+// at least bendLength half-widths long is the bend: a fit that wide has not spread the bend
+// beyond its ends. A wide fit flattens a short tight bend more than a long gentle one, so its
+// highest peak may be another bend: climbing from s* keeps to the one the narrower fits found.
+// The narrowest fit's stretch is taken when none qualifies.
+func (c *Centerline) bendStretch(star int) (lo, hi int) {
 	minCos := math.Cos(mgl64.DegToRad(bendTwistDeg))
 	for i := len(c.fits) - 1; i >= 0; i-- {
 		w := c.fits[i].window
@@ -47,11 +50,17 @@ func (c *Centerline) bendStretch() (lo, hi int) {
 		d1, d2 := derivatives(c.Points, c.DS, m)
 		_, k := curvatureOf(d1, d2)
 		zlo, zhi := whole(c.zone[0], c.zone[1], m, len(k))
-		arg := zlo
-		for j := zlo; j <= zhi; j++ {
-			if k[j] > k[arg] {
-				arg = j
+		arg := max(zlo, min(star, zhi))
+		for {
+			switch {
+			case arg > zlo && k[arg-1] > k[arg]:
+				arg--
+				continue
+			case arg < zhi && k[arg+1] > k[arg]:
+				arg++
+				continue
 			}
+			break
 		}
 		binormal := func(j int) mgl64.Vec3 {
 			b := d1[j].Cross(d2[j])
@@ -69,7 +78,7 @@ func (c *Centerline) bendStretch() (lo, hi int) {
 		for hi < zhi && in(hi+1) {
 			hi++
 		}
-		if c.S[hi]-c.S[lo] >= bendLength*w {
+		if lo <= star && star <= hi && c.S[hi]-c.S[lo] >= bendLength*w {
 			return lo, hi
 		}
 	}

@@ -50,7 +50,7 @@ func Measure(c *Centerline, tol float64) Measures {
 	if c.fits != nil {
 		kStar = c.tightest()
 		klo, khi = c.curvatureBand()
-		if b, ok := c.tightestBend(); ok {
+		if b, ok := c.tightestBend(star); ok {
 			bend, fitted = b, true
 			kStar = 1 / b.circle.radius
 			klo, khi = bendBand(kStar, klo, khi)
