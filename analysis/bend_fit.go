@@ -47,30 +47,42 @@ func (c *Centerline) bendStretch(star int) (lo, hi int) {
 	for i := len(c.fits) - 1; i >= 0; i-- {
 		w := c.fits[i].window
 		m := max(1, int(math.Round(w/c.DS)))
-		d1, d2 := derivatives(c.Points, c.DS, m)
-		_, k := curvatureOf(d1, d2)
-		zlo, zhi := whole(c.zone[0], c.zone[1], m, len(k))
+		// The fit at the few stations the search visits, each once.
+		n := len(c.Points)
+		k := make([]float64, n)
+		bin := make([]mgl64.Vec3, n)
+		seen := make([]bool, n)
+		at := func(j int) {
+			if seen[j] {
+				return
+			}
+			seen[j] = true
+			d1, d2 := derivativesAt(c.Points, c.DS, m, j)
+			if l := d1.Len(); l > 0 {
+				b := d1.Cross(d2)
+				k[j] = b.Len() / (l * l * l)
+				if bl := b.Len(); bl > 0 {
+					bin[j] = b.Mul(1 / bl)
+				}
+			}
+		}
+		curv := func(j int) float64 { at(j); return k[j] }
+		zlo, zhi := whole(c.zone[0], c.zone[1], m, n)
 		arg := max(zlo, min(star, zhi))
 		for {
 			switch {
-			case arg > zlo && k[arg-1] > k[arg]:
+			case arg > zlo && curv(arg-1) > curv(arg):
 				arg--
 				continue
-			case arg < zhi && k[arg+1] > k[arg]:
+			case arg < zhi && curv(arg+1) > curv(arg):
 				arg++
 				continue
 			}
 			break
 		}
-		binormal := func(j int) mgl64.Vec3 {
-			b := d1[j].Cross(d2[j])
-			if l := b.Len(); l > 0 {
-				return b.Mul(1 / l)
-			}
-			return b
-		}
-		b0 := binormal(arg)
-		in := func(j int) bool { return k[j] >= bendLevel*k[arg] && binormal(j).Dot(b0) >= minCos }
+		at(arg)
+		b0 := bin[arg]
+		in := func(j int) bool { return curv(j) >= bendLevel*k[arg] && bin[j].Dot(b0) >= minCos }
 		lo, hi = arg, arg
 		for lo > zlo && in(lo-1) {
 			lo--
