@@ -90,7 +90,7 @@ func transportText(tr analysis.Transport) string {
 		mm = append(mm, fmt.Sprintf("%.3f", tr.TransportationMM[k]))
 		cen = append(cen, optional(tr.CenteringRatio[k], "%.2f"))
 	}
-	s := fmt.Sprintf("transportation %s mm at %s mm from the apical end (centring %s), foramen shift %.3f mm",
+	s := fmt.Sprintf("transportation %s mm at %s mm from the end (centring %s), foramen shift %.3f mm",
 		strings.Join(mm, " / "), strings.Join(lev, " / "), strings.Join(cen, " / "), tr.ForamenShiftMM)
 	if tr.Largest.MM > 0 {
 		s += fmt.Sprintf("; largest %.3f mm, %.2f mm up, %s", tr.Largest.MM, tr.Largest.FromApexMM, towardText(tr.Largest.TowardDeg))

@@ -132,3 +132,28 @@ func TestClickOnTheCanalPicksASection(t *testing.T) {
 	}
 	t.Fatal("no wall pixel to click")
 }
+
+// At the two usual screen sizes the 3D view is clearly the largest part of the window (half
+// as large again as any other), and the table shows every step of the demo without scrolling.
+func TestLayoutGivesTheViewTheRoomAndTheTableEveryStep(t *testing.T) {
+	w := openDemo(t)
+	for _, size := range []fyne.Size{fyne.NewSize(1280, 800), fyne.NewSize(1440, 900)} {
+		w.win.Resize(size)
+		w.wait()
+		area := func(o fyne.CanvasObject) float32 { s := o.Size(); return s.Width * s.Height }
+		view := area(w.view)
+		// The table counts with the rows it fills (the space under them is free).
+		table := w.table.table.Size().Width * min(w.table.table.Size().Height, w.table.fullHeight())
+		for name, a := range map[string]float32{"cross-sections": area(w.sections.raster),
+			"profiles": area(w.profiles.raster), "table": table, "editor": area(w.editor.box)} {
+			if a*1.5 > view {
+				t.Errorf("%v: the %s take %.0f units², the 3D view %.0f", size, name, a, view)
+			}
+		}
+		need := headerHeight() + float32(len(w.res.Steps))*rowHeight()
+		if h := w.table.table.Size().Height; h < need {
+			t.Errorf("%v: the table is %.0f high, its %d steps need %.0f", size, h, len(w.res.Steps), need)
+		}
+		t.Logf("%v: view %v, sections %v, table %v", size, w.view.Size(), w.sections.raster.Size(), w.table.table.Size())
+	}
+}
