@@ -19,6 +19,7 @@ import (
 	"fyne.io/fyne/v2/widget"
 
 	"tapersweep/analysis"
+	"tapersweep/mesh"
 	"tapersweep/models"
 	"tapersweep/ui/scene"
 )
@@ -55,7 +56,9 @@ type mainWindow struct {
 	seq      *models.Sequence // the last valid sequence
 	res      *analysis.Result // seq run through canal; nil until a run succeeds
 	selected int              // step shown, from 1; 0 shows the canal alone
-	scale    float64          // STL units to mm for canals opened from the command line
+	// others are the other canals found in the same scan, drawn around the shown one.
+	others []*mesh.Mesh
+	scale  float64 // STL units to mm for canals opened from the command line
 
 	gen       uint64 // generation of the latest analysis asked for
 	cancelRun context.CancelFunc
@@ -328,6 +331,7 @@ func (w *mainWindow) showScene(aim bool) {
 		return
 	}
 	opt := w.controls.sceneOptions()
+	opt.Others = w.others
 	w.sections.setFixedScale(opt.FixedScale)
 	res := w.res
 	if res == nil || w.selected > len(res.Steps) {
