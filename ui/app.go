@@ -136,7 +136,7 @@ func newMainWindow(a fyne.App, ui *handOver) *mainWindow {
 		container.NewBorder(nil, nil, nil, widget.NewButton("Propose a sequence…", w.proposeDialog), w.tableTitle))
 	right := container.NewBorder(top, w.editor.box, nil, nil, container.New(&atLeast{height: w.table.fullHeight}, w.table.table))
 	split := container.NewHSplit(left, right)
-	split.Offset = 0.6
+	split.Offset = 0.58
 	w.win.SetContent(container.NewBorder(nil, w.status, nil, nil, split))
 	w.win.SetMainMenu(w.menu())
 	w.win.SetOnDropped(w.dropped)
@@ -163,6 +163,30 @@ func (l *atLeast) MinSize(objs []fyne.CanvasObject) fyne.Size {
 		s = s.Max(o.MinSize())
 	}
 	s.Height = max(s.Height, l.height())
+	return s
+}
+
+// atMost lays its one object (a scroll) over its whole area and asks for the height of the
+// scroll's content, up to height.
+type atMost struct{ height float32 }
+
+func (l *atMost) Layout(objs []fyne.CanvasObject, size fyne.Size) {
+	for _, o := range objs {
+		o.Move(fyne.NewPos(0, 0))
+		o.Resize(size)
+	}
+}
+
+func (l *atMost) MinSize(objs []fyne.CanvasObject) fyne.Size {
+	var s fyne.Size
+	for _, o := range objs {
+		m := o.MinSize()
+		if sc, ok := o.(*container.Scroll); ok && sc.Content != nil {
+			m.Height = max(m.Height, sc.Content.MinSize().Height)
+		}
+		s = s.Max(m)
+	}
+	s.Height = min(s.Height, l.height)
 	return s
 }
 

@@ -7,6 +7,7 @@ import (
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/theme"
 	"fyne.io/fyne/v2/widget"
 
 	"tapersweep/analysis"
@@ -42,9 +43,16 @@ func newCanalPanel() *canalPanel {
 	// The working length sits on the title's row, so the measures get the lines below.
 	wlBox := container.NewBorder(nil, nil, widget.NewLabel("Working length (mm)"), nil,
 		container.NewGridWrap(fyne.NewSize(76, p.wl.MinSize().Height), p.wl))
-	p.box = container.NewVBox(container.NewBorder(nil, nil, nil, wlBox, p.title), p.text, p.wlErr)
+	// Many warnings (a hard scan) scroll inside the panel rather than push the table and the
+	// editor out of the window.
+	lineH := widget.NewLabel("0").MinSize().Height - 2*theme.InnerPadding()
+	text := container.New(&atMost{height: canalTextLines*lineH + 2*theme.InnerPadding()}, container.NewVScroll(p.text))
+	p.box = container.NewVBox(container.NewBorder(nil, nil, nil, wlBox, p.title), text, p.wlErr)
 	return p
 }
+
+// canalTextLines is how many lines of measures and warnings show before they scroll.
+const canalTextLines = 6
 
 // bendMark marks, in the step table, the figures that inherit a wide band of the tightest bend.
 const bendMark = "*"
@@ -60,21 +68,22 @@ func canalText(c *analysis.Canal) string {
 	} else {
 		lines = append(lines, "Straight: no bend found")
 	}
-	var third []string
-	if r := s.Arc.RadiusMM; r != nil {
-		third = append(third, fmt.Sprintf("Arc r %.2f mm over %.1f°", *r, s.Arc.AngleDeg))
-	}
-	if len(s.Warnings) == 0 {
-		third = append(third, "surface: no warnings")
-	}
-	if len(third) > 0 {
-		lines = append(lines, upperFirst(strings.Join(third, " · ")))
-	}
+	// Warnings before the fitted arc: with many of them the last lines scroll.
 	for _, wn := range s.Warnings {
 		lines = append(lines, "⚠ "+models.Printable(wn, models.MaxMessageRunes))
 	}
 	if c.BendUncertain() {
 		lines = append(lines, "⚠ "+upperFirst(analysis.BendInheritNote(bendMark)))
+	}
+	var last []string
+	if r := s.Arc.RadiusMM; r != nil {
+		last = append(last, fmt.Sprintf("Arc r %.2f mm over %.1f°", *r, s.Arc.AngleDeg))
+	}
+	if len(s.Warnings) == 0 {
+		last = append(last, "surface: no warnings")
+	}
+	if len(last) > 0 {
+		lines = append(lines, upperFirst(strings.Join(last, " · ")))
 	}
 	return strings.Join(lines, "\n")
 }

@@ -171,11 +171,11 @@ func headerHeight() float32 {
 
 // fullHeight is the height the table needs to show every row without scrolling (up to
 // shownRows; a longer sequence scrolls), with room for the horizontal scroll bar, which the
-// toolkit draws over the last row.
+// toolkit draws in the padding under the last row.
 func (t *stepTable) fullHeight() float32 {
 	rows, _ := t.size()
 	rows = max(2, min(rows, shownRows))
-	return headerHeight() + float32(rows)*(rowHeight()+theme.Padding()) + 2*theme.Padding() + 8
+	return headerHeight() + float32(rows)*(rowHeight()+theme.Padding()) + 2*theme.Padding()
 }
 
 func (t *stepTable) size() (int, int) {
