@@ -139,6 +139,8 @@ func TestClickOnTheCanalPicksASection(t *testing.T) {
 func TestLayoutGivesTheViewTheRoomAndTheTableEveryStep(t *testing.T) {
 	w := openDemo(t)
 	for _, size := range []fyne.Size{fyne.NewSize(1280, 800), fyne.NewSize(1440, 900)} {
+		// A size of its own first: the test driver lays the window out again only on a change.
+		w.win.Resize(fyne.NewSize(1000, 700))
 		w.win.Resize(size)
 		w.wait()
 		area := func(o fyne.CanvasObject) float32 { s := o.Size(); return s.Width * s.Height }
