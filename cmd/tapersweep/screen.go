@@ -25,7 +25,12 @@ func fitScreen(w fyne.Window) {
 	if mode := m.GetVideoMode(); mode != nil && ht < mode.Height {
 		ht -= titleBarAllowance
 	}
+	// The canvas may not know its scale before the window is drawn; the monitor's content
+	// scale (2 on a high-density screen) keeps the window inside the screen either way.
 	scale := w.Canvas().Scale()
+	if xs, ys := m.GetContentScale(); max(xs, ys) > scale {
+		scale = max(xs, ys)
+	}
 	if wd <= 0 || ht <= 0 || !(scale > 0) {
 		return
 	}
