@@ -81,7 +81,7 @@ func SectionsImage(secs []*analysis.Section, w, h int, opt SectionOptions) *imag
 	textH := 2.4 * lineH
 	barH := 1.8 * lineH
 	if opt.Compact {
-		textH, barH = 2.2*lineH, 0.2*lineH
+		textH, barH = 2.2*lineH, 1.0*lineH // the bar in the corner, under the outline
 	}
 	// In the window's narrow column a level's figures that do not fit the cell's width take
 	// a line each.
