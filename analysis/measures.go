@@ -253,7 +253,7 @@ func schneiderTolerance(voxel, surfaceDetail float64) float64 {
 // axis at all: one that never does is straight to within tol (Schneider: 0 degrees), and the
 // departure is then the end of the measured line.
 func schneider(c *Centerline, tol float64) (departure, deg float64, left bool) {
-	lo, hi := coronalStart(c), c.zone[1]
+	lo, hi := c.zone[0], c.zone[1]
 	n := len(c.Points)
 	// The apical end is taken midway between the two places the line allows (apicalEnds).
 	straight, bent := c.apicalEnds()
@@ -274,34 +274,28 @@ func schneider(c *Centerline, tol float64) (departure, deg float64, left bool) {
 	return departure, math.Max(0, angleBetween(axis, apex.Sub(p))), true
 }
 
-// coronalStart is the first station the coronal axis may use: past the orifice zone and
-// past the stretch the extraction carried straight from the orifice to the wall (a line
-// drawn along a guessed tangent, which an oblique access cut can tilt by degrees: fitted
-// into the axis it tilts the axis, and the canal seems to leave it at once).
-func coronalStart(c *Centerline) int {
-	lo := c.zone[0]
-	for lo < c.zone[1]-4 && c.S[lo] < c.measured[0] {
-		lo++
-	}
-	return lo
-}
-
-// coronalSlide is how far (mm) the coronal axis may start past coronalStart: the first
-// stations of the measured stretch, re-centred on sections near a dropped or cut end, may
-// hook by a fraction of a voxel, and a fit that must hold them tilts and ends at once.
+// coronalSlide is how far (mm) past the orifice zone, and past the piece the extraction
+// carried straight from the orifice to the wall, the coronal axis may start. The carried piece
+// follows a guessed tangent: square to the orifice it continues the axis, but an oblique access
+// cut tilts it by degrees, and fitted into the axis it tilts the axis so that the canal seems
+// to leave it at once. The first stations re-centred next to a dropped end may also hook by a
+// fraction of a voxel.
 const coronalSlide = 1.0
 
 // coronalLine is the coronal axis of Schneider's construction for tolerance tol: of the
-// stretches that start within coronalSlide of coronalStart and stay within tol/2 of their
-// fitted line (coronalAxis), the one that reaches furthest toward the apex (the earliest
-// start among equals). It returns the stretch's first and last stations and the line.
+// stretches that start in the orifice zone's edge up to coronalSlide past the carried piece
+// and stay within tol/2 of their fitted line (coronalAxis), the longest (the earliest start
+// among equals; a later start reaches a little further into a gentle coronal curve, so the
+// reach alone would favour it). It returns the stretch's first and last stations and the line.
 func coronalLine(c *Centerline, tol float64) (from int, origin, axis mgl64.Vec3, end int) {
-	start, hi := coronalStart(c), c.zone[1]
+	start, hi := c.zone[0], c.zone[1]
+	last := math.Max(c.S[start], c.measured[0]) + coronalSlide
 	from, end = start, -1
-	for a := start; a == start || (a+4 < hi && c.S[a] <= c.S[start]+coronalSlide); a += 2 {
+	best := -1.0
+	for a := start; a == start || (a+4 < hi && c.S[a] <= last); a += 2 {
 		o, d, e := coronalAxis(c.Points[a:hi+1], tol/2)
-		if a+e > end {
-			from, origin, axis, end = a, o, d, a+e
+		if l := c.S[a+e] - c.S[a]; l > best {
+			best, from, origin, axis, end = l, a, o, d, a+e
 		}
 	}
 	return from, origin, axis, end
