@@ -36,19 +36,146 @@ func weld(corners []mgl64.Vec3, tol, relTol float64, workers int) *Mesh {
 		return m
 	}
 	first := firstOccurrences(corners, workers)
-	w := newWelder(corners, tol, relTol, len(corners)/6)
+	distinct := make([]int32, 0, len(corners)/5)
+	for i, f := range first {
+		if int(f) == i {
+			distinct = append(distinct, int32(i))
+		}
+	}
+	w := newWelder(corners, distinct, tol, relTol)
+	alone := w.alone(corners, distinct, workers)
+	w.reserve(len(distinct), len(distinct)-countTrue(alone))
 	// out[i] is corner i's vertex; first[i] <= i, so a repeat finds its vertex already set
 	// (through its stand-in, whose own vertex was set from its first corner).
 	out := unsafeFlatten(m.Triangles)
+	d := 0
 	for i, f := range first {
-		if int(f) == i {
-			out[i] = w.lookup(corners[i])
-		} else {
+		if int(f) != i {
 			out[i] = out[f]
+			continue
 		}
+		if alone[d] {
+			out[i] = w.add(corners[i])
+		} else {
+			out[i] = w.lookup(corners[i])
+		}
+		d++
 	}
 	m.Vertices = w.verts
 	return m
+}
+
+func countTrue(b []bool) int {
+	n := 0
+	for _, x := range b {
+		if x {
+			n++
+		}
+	}
+	return n
+}
+
+// alone tells, for each distinct position (ascending corner indices), whether no other
+// distinct position can lie within the tolerance of it: it is the only one in its grid cell
+// and twice its tolerance box stays inside that cell (the margin covers rounding). Such a
+// position can neither find nor be found by another, so it becomes a vertex without the grid
+// hash, whose random probes into a table far larger than the cache are most of a weld;
+// the positions left (about a tenth) go through the hash in the same order as before, so
+// the mesh is the same. Cells are compared through their 64-bit hash: two cells that share
+// one only send their positions through the hash.
+func (w *welder) alone(corners []mgl64.Vec3, distinct []int32, workers int) []bool {
+	n := len(distinct)
+	alone := make([]bool, n)
+	if w.exact {
+		// Distinct positions are never identical, and only identical ones merge.
+		for j := range alone {
+			alone[j] = true
+		}
+		return alone
+	}
+	hs := make([]uint64, n)
+	for j, ci := range distinct {
+		p := corners[ci]
+		if !finiteVec(p) {
+			hs[j] = 0 // never merged: alone whatever its hash meets
+			alone[j] = true
+			continue
+		}
+		k := w.cellOf(p)
+		alone[j] = true
+		for a := range 3 {
+			if weldCellIndex((p[a]-2*w.tol)*w.inv) != k[a] || weldCellIndex((p[a]+2*w.tol)*w.inv) != k[a] {
+				alone[j] = false
+			}
+		}
+		hs[j] = weldHash(k)
+	}
+	// Group by the top bits of the hash into cache-sized blocks, then find shared cells in
+	// each block through a small open-addressing table.
+	bits := 0
+	for n>>bits > dedupBlock {
+		bits++
+	}
+	shift := 64 - bits
+	count := make([]int32, 1<<bits+1)
+	recs := make([]int32, n)
+	if bits > 0 {
+		for _, h := range hs {
+			count[h>>shift+1]++
+		}
+		for b := 1; b <= 1<<bits; b++ {
+			count[b] += count[b-1]
+		}
+		fill := append([]int32(nil), count[:1<<bits]...)
+		for j, h := range hs {
+			b := h >> shift
+			recs[fill[b]] = int32(j)
+			fill[b]++
+		}
+	} else {
+		for j := range recs {
+			recs[j] = int32(j)
+		}
+		count[1] = int32(n)
+	}
+	blocks := 1 << bits
+	k := min(parallel.Workers(workers, blocks), maxDedupWorkers)
+	tables := make([][]int32, k)
+	parallel.For(k, blocks, func(wk, b int) {
+		blk := recs[count[b]:count[b+1]]
+		size := 16
+		for size < 2*len(blk) {
+			size <<= 1
+		}
+		if cap(tables[wk]) < size {
+			tables[wk] = make([]int32, size)
+		}
+		table := tables[wk][:size]
+		for i := range table {
+			table[i] = -1
+		}
+		mask := uint64(size - 1)
+		for _, j := range blk {
+			if !finiteVec(corners[distinct[j]]) {
+				continue
+			}
+			h := hs[j]
+			s := h & mask
+			for {
+				e := table[s]
+				if e < 0 {
+					table[s] = j
+					break
+				}
+				if hs[e] == h {
+					alone[e], alone[j] = false, false
+					break
+				}
+				s = (s + 1) & mask
+			}
+		}
+	})
+	return alone
 }
 
 // unsafeFlatten views the triangles as one list of corner indices.
@@ -213,11 +340,14 @@ const weldCellTols = 64
 // weldMaxCell keeps cell indices far inside int64 whatever the coordinates.
 const weldMaxCell = 1 << 40
 
-func newWelder(corners []mgl64.Vec3, tol, relTol float64, expect int) *welder {
+// newWelder sets the tolerance and grid; distinct are the corners that stand for every
+// position (the largest coordinate is theirs). Call reserve before adding vertices.
+func newWelder(corners []mgl64.Vec3, distinct []int32, tol, relTol float64) *welder {
 	w := &welder{}
 	maxAbs := 0.0
 	if tol > 0 || relTol > 0 {
-		for _, c := range corners {
+		for _, ci := range distinct {
+			c := &corners[ci]
 			for k := 0; k < 3; k++ {
 				if a := math.Abs(c[k]); a > maxAbs && a <= math.MaxFloat64 {
 					maxAbs = a
@@ -237,15 +367,27 @@ func newWelder(corners []mgl64.Vec3, tol, relTol float64, expect int) *welder {
 		cell := math.Max(weldCellTols*tol, maxAbs/weldMaxCell)
 		w.tol, w.tol2, w.inv = tol, tol*tol, 1/cell
 	}
-	// Room for the expected vertices under half load, so the table never grows.
+	return w
+}
+
+// reserve makes room for verts vertices, hashed of them through the grid hash, so that
+// neither the lists nor the table (under half load) grow.
+func (w *welder) reserve(verts, hashed int) {
 	size := 1024
-	for size <= 2*expect {
+	for size <= 2*hashed {
 		size <<= 1
 	}
 	w.alloc(size)
-	w.verts = make([]mgl64.Vec3, 0, expect+16)
-	w.next = make([]int32, 0, expect+16)
-	return w
+	w.verts = make([]mgl64.Vec3, 0, verts)
+	w.next = make([]int32, 0, verts)
+}
+
+// add makes p a vertex of its own without entering it in the grid hash (a position alone
+// in its cell, or a non-finite one).
+func (w *welder) add(p mgl64.Vec3) int32 {
+	w.verts = append(w.verts, p)
+	w.next = append(w.next, -1)
+	return int32(len(w.verts) - 1)
 }
 
 func (w *welder) alloc(size int) {
