@@ -201,24 +201,46 @@ const maxDedupWorkers = 4
 func firstOccurrences(corners []mgl64.Vec3, workers int) []int32 {
 	n := len(corners)
 	first := make([]int32, n)
-	var recent [weldRecentSize]weldRecent
-	for i := range recent {
-		recent[i].i = -1
-	}
-	// Only indices are kept: copying the corners into the blocks would be faster on a file
-	// whose triangles are scattered, but would triple the memory of the weld.
-	missed := make([]int32, 0, n/4)
-	for i, c := range corners {
-		r := &recent[exactHash(c)>>(64-weldRecentBits)]
-		if r.i >= 0 && r.p == c {
-			first[i] = r.i
-			continue
+	// The corners split into one stretch per core, each with its own cache. A corner a cache
+	// answers points at a corner the cache missed, and the exact pass below points every
+	// missed corner at the first corner of its position (always missed: no cache has seen it
+	// before), so first[first[i]] is right however the stretches fall.
+	segs := parallel.Workers(workers, max(1, n/weldRecentMinStretch))
+	missedIn := make([][]int32, segs)
+	parallel.For(segs, segs, func(_, sg int) {
+		lo, hi := sg*n/segs, (sg+1)*n/segs
+		recent := make([]int32, weldRecentSize)
+		for i := range recent {
+			recent[i] = -1
 		}
-		// Provisionally its own first; the exact pass below finds an earlier twin if any.
-		first[i] = int32(i)
-		missed = append(missed, int32(i))
-		if finiteVec(c) {
-			r.p, r.i = c, int32(i)
+		// Only indices are kept: copying the corners into the blocks would be faster on a
+		// file whose triangles are scattered, but would triple the memory of the weld.
+		missed := make([]int32, 0, (hi-lo)/4)
+		for i := lo; i < hi; i++ {
+			c := corners[i]
+			r := &recent[exactHash(c)>>(64-weldRecentBits)]
+			if *r >= 0 && corners[*r] == c {
+				first[i] = *r
+				continue
+			}
+			// Provisionally its own first; the exact pass below finds an earlier twin if any.
+			first[i] = int32(i)
+			missed = append(missed, int32(i))
+			if finiteVec(c) {
+				*r = int32(i)
+			}
+		}
+		missedIn[sg] = missed
+	})
+	missed := missedIn[0]
+	if segs > 1 {
+		total := 0
+		for _, m := range missedIn {
+			total += len(m)
+		}
+		missed = make([]int32, 0, total)
+		for _, m := range missedIn {
+			missed = append(missed, m...)
 		}
 	}
 	bits := 0
@@ -259,16 +281,13 @@ func firstOccurrences(corners []mgl64.Vec3, workers int) []int32 {
 	return first
 }
 
-// weldRecent is a slot of the recent-positions cache: a position and the corner that
-// stands for it.
-type weldRecent struct {
-	p mgl64.Vec3
-	i int32
-}
-
+// The recent-positions cache holds the index of the last corner the cache missed for each
+// hash slot (64 kB, so it stays in L1/L2; the corner it names was read moments ago).
 const (
 	weldRecentBits = 14
 	weldRecentSize = 1 << weldRecentBits
+	// weldRecentMinStretch: fewer corners than this per stretch are not worth a goroutine.
+	weldRecentMinStretch = 1 << 18
 )
 
 // dedupInto sets first[] for one block of corner indices (ascending) through an
