@@ -143,8 +143,8 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	if err := ctx.Err(); err != nil {
 		return nil, rep, fmt.Errorf("%s: loading stopped: %w", name, err)
 	}
-	m, removed := weldAndClean(rd.corners, opt.Workers)
-	rd.corners = nil
+	m, removed := weldAndClean(rd.corners, rd.first, rd.missed, opt.Workers)
+	rd.corners, rd.first, rd.missed = nil, nil, nil
 	rep.DegenerateRemoved = removed
 	if len(m.Triangles) == 0 {
 		return nil, rep, fmt.Errorf("%s: all %d triangles have zero area or a repeated corner", name, rep.TrianglesRead)
@@ -164,8 +164,15 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 }
 
 // weldAndClean welds the soup, drops degenerate triangles and the vertices only they used.
-func weldAndClean(corners []mgl64.Vec3, workers int) (*Mesh, int) {
-	m := weld(corners, 0, weldRelTol, workers)
+// first and missed, when not nil, are the result of the weld's first pass (recentPass).
+func weldAndClean(corners []mgl64.Vec3, first, missed []int32, workers int) (*Mesh, int) {
+	var m *Mesh
+	if first != nil {
+		exactPass(corners, first, missed, workers)
+		m = weldFirst(corners, first, 0, weldRelTol, workers)
+	} else {
+		m = weld(corners, 0, weldRelTol, workers)
+	}
 	keep := make([]int32, 0, len(m.Triangles))
 	for t := range m.Triangles {
 		if !isDegenerate(m, t) {
@@ -244,6 +251,9 @@ type stlReader struct {
 	workers  int
 	binary   bool
 	corners  []mgl64.Vec3
+	// first and missed are the weld's first pass over the corners (recentPass), when the
+	// reader ran it.
+	first, missed []int32
 	// boxed says lo and hi bound every corner (the binary reader finds them as it decodes).
 	boxed  bool
 	lo, hi mgl64.Vec3
@@ -328,6 +338,11 @@ func (rd *stlReader) readBinary(head []byte) error {
 		return fmt.Errorf("%s: %w", name, err)
 	}
 	bufs := make([][]byte, k)
+	// The weld's first pass (identical corners close together in the file) runs on each
+	// chunk as it is decoded, while its corners are still in the cache.
+	rd.first = make([]int32, 3*n)
+	recent := make([][]int32, k)
+	missedIn := make([][]int32, chunks)
 	boxes := make([][2]mgl64.Vec3, chunks)
 	// The first problem by place in the file wins, whatever the order chunks finish in.
 	var mu sync.Mutex
@@ -380,6 +395,11 @@ func (rd *stlReader) readBinary(head []byte) error {
 			fail(t0+bad, rd.notFinite(int(t0+bad)))
 			return
 		}
+		if recent[w] == nil {
+			recent[w] = newRecentCache()
+		}
+		// A goroutine's chunks come in ascending order, as recentPass needs.
+		missedIn[c] = recentPass(rd.corners, rd.first, int(3*t0), int(3*(t0+m)), recent[w])
 		if rd.progress != nil {
 			pos := stlHeaderSize + done.Add(m*stlRecordSize)
 			mu.Lock()
@@ -401,6 +421,7 @@ func (rd *stlReader) readBinary(head []byte) error {
 			}
 		}
 	}
+	rd.missed = joinMissed(missedIn)
 	if chunks > 0 {
 		rd.boxed = true
 		rd.lo, rd.hi = boxes[0][0], boxes[0][1]

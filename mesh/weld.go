@@ -31,11 +31,15 @@ func Weld(corners []mgl64.Vec3, tol float64) *Mesh {
 func weld(corners []mgl64.Vec3, tol, relTol float64, workers int) *Mesh {
 	nt := len(corners) / 3
 	corners = corners[:3*nt]
-	m := &Mesh{Triangles: make([][3]int32, nt)}
 	if nt == 0 {
-		return m
+		return &Mesh{Triangles: [][3]int32{}}
 	}
-	first := firstOccurrences(corners, workers)
+	return weldFirst(corners, firstOccurrences(corners, workers), tol, relTol, workers)
+}
+
+// weldFirst is weld once first (see firstOccurrences) is known.
+func weldFirst(corners []mgl64.Vec3, first []int32, tol, relTol float64, workers int) *Mesh {
+	m := &Mesh{Triangles: make([][3]int32, len(corners)/3)}
 	distinct := make([]int32, 0, len(corners)/5)
 	for i, f := range first {
 		if int(f) == i {
@@ -201,48 +205,72 @@ const maxDedupWorkers = 4
 func firstOccurrences(corners []mgl64.Vec3, workers int) []int32 {
 	n := len(corners)
 	first := make([]int32, n)
-	// The corners split into one stretch per core, each with its own cache. A corner a cache
-	// answers points at a corner the cache missed, and the exact pass below points every
-	// missed corner at the first corner of its position (always missed: no cache has seen it
-	// before), so first[first[i]] is right however the stretches fall.
+	// The corners split into one stretch per core, each with its own cache (see recentPass
+	// for why any split gives the same mesh).
 	segs := parallel.Workers(workers, max(1, n/weldRecentMinStretch))
 	missedIn := make([][]int32, segs)
 	parallel.For(segs, segs, func(_, sg int) {
-		lo, hi := sg*n/segs, (sg+1)*n/segs
-		recent := make([]int32, weldRecentSize)
-		for i := range recent {
-			recent[i] = -1
-		}
-		// Only indices are kept: copying the corners into the blocks would be faster on a
-		// file whose triangles are scattered, but would triple the memory of the weld.
-		missed := make([]int32, 0, (hi-lo)/4)
-		for i := lo; i < hi; i++ {
-			c := corners[i]
-			r := &recent[exactHash(c)>>(64-weldRecentBits)]
-			if *r >= 0 && corners[*r] == c {
-				first[i] = *r
-				continue
-			}
-			// Provisionally its own first; the exact pass below finds an earlier twin if any.
-			first[i] = int32(i)
-			missed = append(missed, int32(i))
-			if finiteVec(c) {
-				*r = int32(i)
-			}
-		}
-		missedIn[sg] = missed
+		missedIn[sg] = recentPass(corners, first, sg*n/segs, (sg+1)*n/segs, newRecentCache())
 	})
-	missed := missedIn[0]
-	if segs > 1 {
-		total := 0
-		for _, m := range missedIn {
-			total += len(m)
+	exactPass(corners, first, joinMissed(missedIn), workers)
+	return first
+}
+
+// newRecentCache is an empty cache for recentPass.
+func newRecentCache() []int32 {
+	recent := make([]int32, weldRecentSize)
+	for i := range recent {
+		recent[i] = -1
+	}
+	return recent
+}
+
+// recentPass sets first[i] for corners lo..hi-1 that repeat a position recent (a cache of
+// earlier corners that missed it) holds, provisionally first[i] = i for the others, and
+// returns those (ascending): they go to exactPass. A corner the cache answers points at a
+// corner the cache missed, and exactPass points every missed corner at the first corner of
+// its position (always missed: no cache has seen it before), so first[first[i]] is right
+// however the corners are split between caches, as long as each cache sees its corners in
+// ascending order.
+func recentPass(corners []mgl64.Vec3, first []int32, lo, hi int, recent []int32) []int32 {
+	// Only indices are kept: copying the corners into the blocks would be faster on a file
+	// whose triangles are scattered, but would triple the memory of the weld.
+	missed := make([]int32, 0, (hi-lo)/4)
+	for i := lo; i < hi; i++ {
+		c := corners[i]
+		r := &recent[exactHash(c)>>(64-weldRecentBits)]
+		if *r >= 0 && corners[*r] == c {
+			first[i] = *r
+			continue
 		}
-		missed = make([]int32, 0, total)
-		for _, m := range missedIn {
-			missed = append(missed, m...)
+		first[i] = int32(i)
+		missed = append(missed, int32(i))
+		if finiteVec(c) {
+			*r = int32(i)
 		}
 	}
+	return missed
+}
+
+// joinMissed puts lists of ascending, successive stretches end to end.
+func joinMissed(parts [][]int32) []int32 {
+	if len(parts) == 1 {
+		return parts[0]
+	}
+	total := 0
+	for _, m := range parts {
+		total += len(m)
+	}
+	missed := make([]int32, 0, total)
+	for _, m := range parts {
+		missed = append(missed, m...)
+	}
+	return missed
+}
+
+// exactPass points every missed corner (ascending) at the first missed corner of its
+// position, deduplicating exactly in cache-sized blocks.
+func exactPass(corners []mgl64.Vec3, first []int32, missed []int32, workers int) {
 	bits := 0
 	for len(missed)>>bits > dedupBlock {
 		bits++
@@ -278,7 +306,6 @@ func firstOccurrences(corners []mgl64.Vec3, workers int) []int32 {
 		}
 		dedupInto(first, corners, recs[count[b]:count[b+1]], tables[w])
 	})
-	return first
 }
 
 // The recent-positions cache holds the index of the last corner the cache missed for each
