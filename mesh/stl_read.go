@@ -341,7 +341,7 @@ func (rd *stlReader) readBinary(head []byte) error {
 	// The weld's first pass (identical corners close together in the file) runs on each
 	// chunk as it is decoded, while its corners are still in the cache.
 	rd.first = make([]int32, 3*n)
-	recent := make([][]int32, k)
+	recent := make([]*recentCache, k)
 	missedIn := make([][]int32, chunks)
 	boxes := make([][2]mgl64.Vec3, chunks)
 	// The first problem by place in the file wins, whatever the order chunks finish in.

@@ -216,25 +216,45 @@ func firstOccurrences(corners []mgl64.Vec3, workers int) []int32 {
 	return first
 }
 
-// newRecentCache is an empty cache for recentPass.
-func newRecentCache() []int32 {
-	recent := make([]int32, weldRecentSize)
-	for i := range recent {
-		recent[i] = -1
-	}
-	return recent
+// recentCache is the state of recentPass for one goroutine: the cache, and how well it has
+// done. A file whose triangles are scattered repeats almost no corner while it is still in
+// the cache: once the first recentProbe corners show that, the cache is no longer asked and
+// every corner goes to exactPass, which finds the repeats anyway.
+type recentCache struct {
+	slots        []int32
+	seen, missed int
+	off          bool
 }
 
-// recentPass sets first[i] for corners lo..hi-1 that repeat a position recent (a cache of
-// earlier corners that missed it) holds, provisionally first[i] = i for the others, and
+const recentProbe = 1 << 14
+
+// newRecentCache is an empty cache for recentPass.
+func newRecentCache() *recentCache {
+	rc := &recentCache{slots: make([]int32, weldRecentSize)}
+	for i := range rc.slots {
+		rc.slots[i] = -1
+	}
+	return rc
+}
+
+// recentPass sets first[i] for corners lo..hi-1 that repeat a position the cache holds (it
+// holds earlier corners that it missed), provisionally first[i] = i for the others, and
 // returns those (ascending): they go to exactPass. A corner the cache answers points at a
 // corner the cache missed, and exactPass points every missed corner at the first corner of
 // its position (always missed: no cache has seen it before), so first[first[i]] is right
 // however the corners are split between caches, as long as each cache sees its corners in
 // ascending order.
-func recentPass(corners []mgl64.Vec3, first []int32, lo, hi int, recent []int32) []int32 {
-	// Only indices are kept: copying the corners into the blocks would be faster on a file
-	// whose triangles are scattered, but would triple the memory of the weld.
+func recentPass(corners []mgl64.Vec3, first []int32, lo, hi int, rc *recentCache) []int32 {
+	// Only indices are kept here; exactPass packs the positions it needs.
+	if rc.off {
+		missed := make([]int32, hi-lo)
+		for i := lo; i < hi; i++ {
+			first[i] = int32(i)
+			missed[i-lo] = int32(i)
+		}
+		return missed
+	}
+	recent := rc.slots
 	missed := make([]int32, 0, (hi-lo)/4)
 	for i := lo; i < hi; i++ {
 		c := corners[i]
@@ -248,6 +268,12 @@ func recentPass(corners []mgl64.Vec3, first []int32, lo, hi int, recent []int32)
 		if finiteVec(c) {
 			*r = int32(i)
 		}
+	}
+	if rc.seen < recentProbe {
+		rc.seen += hi - lo
+		rc.missed += len(missed)
+		// Half the corners missed: an ordered file misses about one in six.
+		rc.off = rc.seen >= recentProbe && 2*rc.missed > rc.seen
 	}
 	return missed
 }
@@ -279,11 +305,18 @@ func exactPass(corners []mgl64.Vec3, first []int32, missed []int32, workers int)
 	count := make([]int32, 1<<bits+1)
 	recs := missed
 	if bits > 0 {
+		packable := true
 		for _, i := range missed {
-			count[exactHash(corners[i])>>shift+1]++
+			c := &corners[i]
+			count[exactHash(*c)>>shift+1]++
+			packable = packable && float32Exact(c)
 		}
 		for b := 1; b <= 1<<bits; b++ {
 			count[b] += count[b-1]
+		}
+		if packable {
+			exactPassPacked(corners, first, missed, count, shift, workers)
+			return
 		}
 		recs = make([]int32, len(missed))
 		fill := append([]int32(nil), count[:1<<bits]...)
@@ -306,6 +339,73 @@ func exactPass(corners []mgl64.Vec3, first []int32, missed []int32, workers int)
 		}
 		dedupInto(first, corners, recs[count[b]:count[b+1]], tables[w])
 	})
+}
+
+// float32Exact: every coordinate is finite and a float32 value exactly (a binary STL's are).
+func float32Exact(c *mgl64.Vec3) bool {
+	return float64(float32(c[0])) == c[0] && float64(float32(c[1])) == c[1] && float64(float32(c[2])) == c[2] &&
+		c[0]-c[0] == 0 && c[1]-c[1] == 0 && c[2]-c[2] == 0
+}
+
+// packedCorner is a missed corner's position (float32 holds it exactly) and index: a block
+// of them is deduplicated without reading the corners, which a scattered file would read in
+// random order, a cache miss each.
+type packedCorner struct {
+	x, y, z float32
+	i       int32
+}
+
+// exactPassPacked is exactPass's blocked dedup on packed copies of the corners, grouped by
+// the same top bits of exactHash (count holds the block starts).
+func exactPassPacked(corners []mgl64.Vec3, first, missed, count []int32, shift, workers int) {
+	blocks := len(count) - 1
+	recs := make([]packedCorner, len(missed))
+	fill := append([]int32(nil), count[:blocks]...)
+	for _, i := range missed {
+		c := &corners[i]
+		b := exactHash(*c) >> shift
+		// +0 folds -0 into 0, as == does.
+		recs[fill[b]] = packedCorner{float32(c[0]) + 0, float32(c[1]) + 0, float32(c[2]) + 0, i}
+		fill[b]++
+	}
+	k := min(parallel.Workers(workers, blocks), maxDedupWorkers)
+	tables := make([][]int32, k)
+	parallel.For(k, blocks, func(w, b int) {
+		blk := recs[count[b]:count[b+1]]
+		size := 16
+		for size < 2*len(blk) {
+			size <<= 1
+		}
+		if cap(tables[w]) < size {
+			tables[w] = make([]int32, size)
+		}
+		table := tables[w][:size]
+		for i := range table {
+			table[i] = -1
+		}
+		mask := uint32(size - 1)
+		for j := range blk {
+			p := &blk[j]
+			h := packedHash(p) & mask
+			for {
+				e := table[h]
+				if e < 0 {
+					table[h] = int32(j)
+					break // first[p.i] = p.i already
+				}
+				if q := &blk[e]; q.x == p.x && q.y == p.y && q.z == p.z {
+					first[p.i] = q.i
+					break
+				}
+				h = (h + 1) & mask
+			}
+		}
+	})
+}
+
+func packedHash(p *packedCorner) uint32 {
+	h := (uint64(math.Float32bits(p.x))<<32|uint64(math.Float32bits(p.y)))*0x9E3779B97F4A7C15 ^ uint64(math.Float32bits(p.z))*0xC2B2AE3D27D4EB4F
+	return uint32(h >> 32)
 }
 
 // The recent-positions cache holds the index of the last corner the cache missed for each
