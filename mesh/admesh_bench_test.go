@@ -25,16 +25,30 @@ var loadBenchFiles = sync.OnceValues(func() (ordered, scattered string) {
 	}
 	ordered = filepath.Join(dir, "ordered.stl")
 	scattered = filepath.Join(dir, "scattered.stl")
-	if err := WriteSTLFile(ordered, m); err != nil {
-		panic(err)
-	}
+	writeWhole(ordered, m)
 	rng := rand.New(rand.NewPCG(7, 7))
 	rng.Shuffle(len(m.Triangles), func(i, j int) { m.Triangles[i], m.Triangles[j] = m.Triangles[j], m.Triangles[i] })
-	if err := WriteSTLFile(scattered, m); err != nil {
-		panic(err)
-	}
+	writeWhole(scattered, m)
 	return ordered, scattered
 })
+
+// writeWhole writes beside path and renames, so another benchmark process reading the shared
+// file meanwhile never sees it half written.
+func writeWhole(path string, m *Mesh) {
+	f, err := os.CreateTemp(filepath.Dir(path), ".part-*")
+	if err != nil {
+		panic(err)
+	}
+	f.Close()
+	if err := WriteSTLFile(f.Name(), m); err != nil {
+		os.Remove(f.Name())
+		panic(err)
+	}
+	if err := os.Rename(f.Name(), path); err != nil {
+		os.Remove(f.Name())
+		panic(err)
+	}
+}
 
 // BenchmarkLoadVsAdmesh reads, welds and checks the same 1M-triangle binary STL as admesh
 // (Debian package admesh, run as `admesh FILE`: read, match edges, check) in one run, in both

@@ -258,6 +258,15 @@ func recentPass(corners []mgl64.Vec3, first []int32, lo, hi int, rc *recentCache
 	missed := make([]int32, 0, (hi-lo)/4)
 	for i := lo; i < hi; i++ {
 		c := corners[i]
+		// Neighbouring triangles in a file share corners: the two triangles before this
+		// one's answer most repeats without hashing. Their corners' first is set already
+		// (they lie in this stretch) and names a corner the cache missed, as needed.
+		if t0 := i - i%3 - 6; t0 >= lo {
+			if j := matchCorner(corners[t0:t0+6], c); j >= 0 {
+				first[i] = first[t0+j]
+				continue
+			}
+		}
 		r := &recent[exactHash(c)>>(64-weldRecentBits)]
 		if *r >= 0 && corners[*r] == c {
 			first[i] = *r
@@ -276,6 +285,16 @@ func recentPass(corners []mgl64.Vec3, first []int32, lo, hi int, rc *recentCache
 		rc.off = rc.seen >= recentProbe && 2*rc.missed > rc.seen
 	}
 	return missed
+}
+
+// matchCorner returns the place in cs of a corner equal to c (the last such), or -1.
+func matchCorner(cs []mgl64.Vec3, c mgl64.Vec3) int {
+	for j := len(cs) - 1; j >= 0; j-- {
+		if cs[j] == c {
+			return j
+		}
+	}
+	return -1
 }
 
 // joinMissed puts lists of ascending, successive stretches end to end.
