@@ -173,14 +173,22 @@ func weldAndClean(corners []mgl64.Vec3, first, missed []int32, workers int) (*Me
 	} else {
 		m = weld(corners, 0, weldRelTol, workers)
 	}
-	keep := make([]int32, 0, len(m.Triangles))
-	for t := range m.Triangles {
-		if !isDegenerate(m, t) {
-			keep = append(keep, int32(t))
+	nt := len(m.Triangles)
+	degenerate := make([]bool, nt)
+	const stretch = 1 << 15
+	parallel.For(workers, (nt+stretch-1)/stretch, func(_, st int) {
+		for t := st * stretch; t < min(nt, (st+1)*stretch); t++ {
+			degenerate[t] = isDegenerate(m, t)
 		}
-	}
-	removed := len(m.Triangles) - len(keep)
+	})
+	removed := countTrue(degenerate)
 	if removed > 0 {
+		keep := make([]int32, 0, nt-removed)
+		for t, d := range degenerate {
+			if !d {
+				keep = append(keep, int32(t))
+			}
+		}
 		m = m.Subset(keep)
 	}
 	return m, removed

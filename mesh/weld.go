@@ -98,22 +98,26 @@ func (w *welder) alone(corners []mgl64.Vec3, distinct []int32, workers int) []bo
 		return alone
 	}
 	hs := make([]uint64, n)
-	for j, ci := range distinct {
-		p := corners[ci]
-		if !finiteVec(p) {
-			hs[j] = 0 // never merged: alone whatever its hash meets
-			alone[j] = true
-			continue
-		}
-		k := w.cellOf(p)
-		alone[j] = true
-		for a := range 3 {
-			if weldCellIndex((p[a]-2*w.tol)*w.inv) != k[a] || weldCellIndex((p[a]+2*w.tol)*w.inv) != k[a] {
-				alone[j] = false
+	// Each position on its own: stretches of them on every core.
+	const stretch = 1 << 14
+	parallel.For(workers, (n+stretch-1)/stretch, func(_, sj int) {
+		for j := sj * stretch; j < min(n, (sj+1)*stretch); j++ {
+			p := corners[distinct[j]]
+			if !finiteVec(p) {
+				hs[j] = 0 // never merged: alone whatever its hash meets
+				alone[j] = true
+				continue
 			}
+			k := w.cellOf(p)
+			alone[j] = true
+			for a := range 3 {
+				if weldCellIndex((p[a]-2*w.tol)*w.inv) != k[a] || weldCellIndex((p[a]+2*w.tol)*w.inv) != k[a] {
+					alone[j] = false
+				}
+			}
+			hs[j] = weldHash(k)
 		}
-		hs[j] = weldHash(k)
-	}
+	})
 	// Group by the top bits of the hash into cache-sized blocks, then find shared cells in
 	// each block through a small open-addressing table.
 	bits := 0
