@@ -105,14 +105,18 @@ func writeTabbed(w io.Writer, rows [][]string) {
 func writeStepsTable(w io.Writer, res *analysis.Result) {
 	sum := res.Canal.Summary(false)
 	fmt.Fprintf(w, "%s: length %.2f mm, working length %.2f mm", models.Printable(sum.Name, models.MaxNameRunes), sum.LengthMM, sum.WorkingLengthMM)
-	if r := sum.MaxCurvature.RadiusMM; r != nil {
-		fmt.Fprintf(w, ", tightest bend r %.2f mm at %.2f mm from the apical end", *r, sum.MaxCurvature.FromApexMM)
+	// Each measure of the bend with its band (low–high), as the window and the report.
+	if sum.MaxCurvature.RadiusMM != nil {
+		fmt.Fprintf(w, ", tightest bend r %s at %s", sum.RadiusText(), sum.PlaceText())
 	}
-	fmt.Fprintf(w, ", Schneider angle %.1f deg\n\n", sum.SchneiderDeg)
+	fmt.Fprintf(w, ", Schneider angle %s\n\n", sum.SchneiderText())
 	head, rows := report.TextRows(analysis.PickColumns(tableColumns...), res)
 	writeTabbed(w, append([][]string{head}, rows...))
 	mv := res.Moved
 	fmt.Fprintf(w, "\nEngaged figures count cuts deeper than the contact threshold, %g mm.", res.Options.ContactThreshold)
+	if res.Canal.BendUncertain() {
+		fmt.Fprintf(w, "\nThe scan does not pin the tightest bend down well: %s.", analysis.BendInheritNote(""))
+	}
 	fmt.Fprintf(w, "\nFile path model: %s. The whole sequence moved the canal %.3f mm at 1 mm, %.3f mm at 3 mm and %.3f mm at 5 mm from the apical end; the foramen by %.3f mm.\n",
 		res.Options.PathModel, mv.TransportationMM["1"], mv.TransportationMM["3"], mv.TransportationMM["5"], mv.ForamenShiftMM)
 	for _, s := range res.Steps {

@@ -10,7 +10,8 @@ import (
 
 // numbersAndAdvice writes the step's numbers, its advice and how the file is used in a column
 // from x to the right margin.
-func numbersAndAdvice(pdf *fpdf.Fpdf, st *analysis.StepResult, x float64) {
+func numbersAndAdvice(pdf *fpdf.Fpdf, res *analysis.Result, st *analysis.StepResult, x float64) {
+	markBend := res.Canal.BendUncertain()
 	m := st.Metrics
 	colW := margin + bodyW - x
 
@@ -28,10 +29,14 @@ func numbersAndAdvice(pdf *fpdf.Fpdf, st *analysis.StepResult, x float64) {
 		}
 		// To the decimals the measurement supports (the column's Shown), as the summary's table.
 		v := c.Format(m)
-		if v == "" {
+		label := c.Label
+		switch {
+		case v == "":
 			v = "–"
+		case markBend && analysis.RestsOnTightestBend(c.Key):
+			v += bendMark
 		}
-		pairs = append(pairs, [2]string{c.Label, v})
+		pairs = append(pairs, [2]string{label, v})
 	}
 	opt := func(v *float64, d int) string {
 		if v == nil {
@@ -52,6 +57,13 @@ func numbersAndAdvice(pdf *fpdf.Fpdf, st *analysis.StepResult, x float64) {
 			opt(m.FractureTimeS, 1) + " (" + opt(m.FractureTipDepthMM, 2) + ")"})
 	}
 	numberLines(pdf, x, colW, pairs)
+	if markBend {
+		sum := res.Canal.Summary(false)
+		pdf.SetX(x)
+		pdf.SetFont(fontRegular, "", sizeSmall)
+		pdf.MultiCell(colW, lineSmall, fmt.Sprintf("%s rests on the tightest bend, which the scan pins down only to r %s, %s.",
+			bendMark, sum.RadiusText(), sum.PlaceText()), "", "L", false)
+	}
 	pdf.Ln(1.5)
 	pdf.SetX(x)
 	pdf.SetFont(fontBold, "", 9.5)

@@ -44,6 +44,15 @@ func fixed(v float64, d int) string {
 // figures of the JSON likewise rounded, so the PDF, the CSV and the JSON agree; a value that does
 // not exist is "–".
 func StepTable(sum analysis.ResultSummary) (labels []string, cells [][]string) {
+	return stepTableMarked(sum, false)
+}
+
+// bendMark marks the figures that rest on a tightest bend the scan does not pin down.
+const bendMark = "*"
+
+// stepTableMarked is StepTable with the figures that rest on the tightest bend marked when
+// markBend (the canal's band there is wide).
+func stepTableMarked(sum analysis.ResultSummary, markBend bool) (labels []string, cells [][]string) {
 	var cols []analysis.Column
 	var advice *analysis.Column
 	for _, c := range analysis.StepColumns() {
@@ -65,6 +74,15 @@ func StepTable(sum analysis.ResultSummary) (labels []string, cells [][]string) {
 		cells = append(cells, r)
 	}
 	for _, c := range cols {
+		if markBend && analysis.RestsOnTightestBend(c.Key) {
+			row(c.Label+" "+bendMark, func(m analysis.StepMetrics) string {
+				if v := c.Format(m); v != "" {
+					return v + bendMark
+				}
+				return ""
+			})
+			continue
+		}
 		row(c.Label, c.Format)
 	}
 	for _, r := range summaryTransportRows {

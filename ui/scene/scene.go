@@ -33,6 +33,9 @@ type Options struct {
 	// FixedScale tops the depth-of-cut legend at the run's deepest cut (rounded up), so colours
 	// compare across steps; otherwise at the shown step's own deepest cut.
 	FixedScale bool
+	// Others are the other canals of the same tooth (found in the same scan), drawn around
+	// the shown one (neighbours.go).
+	Others []*mesh.Mesh
 }
 
 // DefaultWallOpacity lets the file show through the wall.
@@ -174,6 +177,7 @@ func Build(c *analysis.Canal, res *analysis.Result, opt Options) (*Built, error)
 		}
 	}
 	b.Scene = s
+	addNeighbours(b, opt.Others)
 	return b, nil
 }
 
