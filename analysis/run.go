@@ -20,6 +20,11 @@ type RunOptions struct {
 	PathModel string
 	// WallStiffness k_w, N/mm2, for the elastic path (illustrative; 0 = the default).
 	WallStiffness float64
+	// MinWallMM is the least wall to the root's outer surface the thin-wall warning asks to keep
+	// (0 = DefaultMinWallMM); used only when the canal's root is known.
+	MinWallMM float64
+	// Workers bounds the goroutines of the wall measure (0 = every core).
+	Workers int
 }
 
 // Defaults of RunOptions.
@@ -39,6 +44,9 @@ func (o RunOptions) WithDefaults() RunOptions {
 	if o.WallStiffness <= 0 {
 		o.WallStiffness = DefaultWallStiffness
 	}
+	if o.MinWallMM <= 0 {
+		o.MinWallMM = DefaultMinWallMM
+	}
 	return o
 }
 
@@ -51,6 +59,8 @@ type Result struct {
 	Warnings []string
 	// Moved is how the whole sequence moved the canal (final prepared against scanned).
 	Moved Transport
+	// ScannedWall is the wall to the root's outer surface before any step (empty without a root).
+	ScannedWall Wall
 }
 
 // StepResult is what one file does. Maps are station-major like Canal.Rho.
@@ -72,7 +82,10 @@ type StepResult struct {
 	// Offset1, Offset2: the file's axis off the centerline along N1 and N2 at each station it
 	// reaches, mm (nil in the centred model).
 	Offset1, Offset2 []float64
-	Metrics          StepMetrics
+	// Thickness is the wall left to the root's outer surface after this step (like
+	// Canal.Thickness; nil without a root).
+	Thickness []float32
+	Metrics   StepMetrics
 	touched          float64 // the canal's own wall cut past the threshold so far, mm2
 }
 
@@ -115,9 +128,32 @@ func Run(ctx context.Context, c *Canal, seq *models.Sequence, opt RunOptions) (*
 		res.Steps = append(res.Steps, sr)
 		before = sr.Prepared
 	}
+
 	res.Moved = transportBetween(c, c.Rho, before)
+	res.measureWall()
 	addAdvice(res)
 	return res, nil
+}
+
+// measureWall states the wall to the root's outer surface as scanned and after each step; each
+// step's map is measured again only where the step moved the wall.
+func (res *Result) measureWall() {
+	c := res.Canal
+	if c.Root == nil {
+		return
+	}
+	limit := res.Options.MinWallMM
+	res.ScannedWall = c.wallOf(c.Thickness, nil, c.Rho, limit)
+	res.ScannedWall.WallThinnedMM = nil
+	if t := res.ScannedWall.ThinnestWallMM; t != nil && *t < limit {
+		res.Warnings = append(res.Warnings, "as scanned: "+thinWallText(res.ScannedWall))
+	}
+	from, fromTh := c.Rho, c.Thickness
+	for _, sr := range res.Steps {
+		sr.Thickness = c.WallThickness(sr.Prepared, from, fromTh, res.Options.Workers)
+		sr.Metrics.Wall = c.wallOf(sr.Thickness, fromTh, sr.Prepared, limit)
+		from, fromTh = sr.Prepared, sr.Thickness
+	}
 }
 
 func seqName(seq *models.Sequence) string {

@@ -514,11 +514,22 @@ func (b *BVH) Ray(orig, dir mgl64.Vec3, tMax float64) (Hit, bool) {
 // Closest returns the surface point nearest p, its triangle and the distance. With no
 // triangles it returns p, -1 and +Inf.
 func (b *BVH) Closest(p mgl64.Vec3) (q mgl64.Vec3, tri int32, dist float64) {
-	if len(b.nodes) == 0 {
+	q, tri, dist, _ = b.ClosestWithin(p, math.Inf(1))
+	if tri < 0 {
 		return p, -1, math.Inf(1)
 	}
-	best2 := math.Inf(1)
+	return q, tri, dist
+}
+
+// ClosestWithin is Closest among the surface points nearer p than limit: a bound known
+// beforehand (a nearby query's answer plus how far p moved) prunes most of the tree. ok is
+// false when no point is that near.
+func (b *BVH) ClosestWithin(p mgl64.Vec3, limit float64) (q mgl64.Vec3, tri int32, dist float64, ok bool) {
 	tri = -1
+	if len(b.nodes) == 0 {
+		return p, -1, math.Inf(1), false
+	}
+	best2 := limit * limit
 	var stack [bvhStackDepth]int32
 	sp := 1
 	for sp > 0 {
@@ -546,7 +557,10 @@ func (b *BVH) Closest(p mgl64.Vec3) (q mgl64.Vec3, tri int32, dist float64) {
 		stack[sp], stack[sp+1] = r, l
 		sp += 2
 	}
-	return q, tri, math.Sqrt(best2)
+	if tri < 0 {
+		return p, -1, math.Inf(1), false
+	}
+	return q, tri, math.Sqrt(best2), true
 }
 
 func boxDist2(lo, hi, p mgl64.Vec3) float64 {

@@ -1,0 +1,255 @@
+package analysis
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"testing"
+
+	"github.com/go-gl/mathgl/mgl64"
+
+	"tapersweep/mesh"
+	"tapersweep/models"
+)
+
+// rootSpec is a canal spec with a root object (JSON text of the "root" field).
+func rootSpec(t testing.TB, segments string, orificeD, apicalD float64, root string) *models.CanalSpec {
+	t.Helper()
+	js := fmt.Sprintf(`{"name": "wall test", "segments": [%s], "orifice_d": %g, "apical_d": %g, "root": %s}`,
+		segments, orificeD, apicalD, root)
+	spec, err := models.ParseCanalSpec("wall.json", []byte(js))
+	if err != nil {
+		t.Fatalf("spec: %v", err)
+	}
+	return spec
+}
+
+// cellDir is the unit direction of map cell k in the canal's frame.
+func cellDir(c *Canal, k int) mgl64.Vec3 {
+	i, j := k/c.Angles, k%c.Angles
+	th := 2 * math.Pi * float64(j) / float64(c.Angles)
+	return c.Line.N1[i].Mul(math.Cos(th)).Add(c.Line.N2[i].Mul(math.Sin(th)))
+}
+
+// TestWallConcentric: a round canal inside a round root on the same centerline, straight and
+// curved. Two tubes about one line are parallel surfaces, so the wall is the difference of the
+// radii at every point (analytic geometry); the mesh's polygons (96 and 192 sides) are within
+// 0.001 mm of their circles.
+func TestWallConcentric(t *testing.T) {
+	for _, tc := range []struct {
+		name, segments string
+		r, R           float64
+	}{
+		{"straight", `{"kind":"straight","length":12}`, 0.3, 1.5},
+		{"curved", `{"kind":"straight","length":5},{"kind":"arc","radius":15,"angle":30},{"kind":"straight","length":4}`, 0.25, 1.2},
+		{"wide", `{"kind":"straight","length":4},{"kind":"arc","radius":9,"angle":45},{"kind":"straight","length":3}`, 0.6, 2.4},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			spec := rootSpec(t, tc.segments, 2*tc.r, 2*tc.r, fmt.Sprintf(`{"coronal_d": %g, "apical_d": %g}`, 2*tc.R, 2*tc.R))
+			c, err := CanalFromSpec(context.Background(), "concentric", spec, CanalOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if c.Root == nil || len(c.Thickness) != len(c.Rho) {
+				t.Fatalf("no wall map (root %v)", c.Root != nil)
+			}
+			want := tc.R - tc.r
+			worst := 0.0
+			for _, v := range c.Thickness {
+				worst = max(worst, math.Abs(float64(v)-want))
+			}
+			if worst > 0.003 {
+				t.Errorf("wall off R - r = %.3f by up to %.4f mm", want, worst)
+			}
+			res, err := Run(context.Background(), c, &models.Sequence{}, RunOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if w := res.ScannedWall.ThinnestWallMM; w == nil || math.Abs(*w-want) > 0.003 {
+				t.Errorf("thinnest wall %v, want %.3f", w, want)
+			}
+		})
+	}
+}
+
+// TestWallEccentric: a round canal in a round root moved sideways by e. Two circles of radii r
+// and R with centres e apart leave R - r - e on the side away from the root's move, where the
+// canal lies nearest the root's surface, and R - |r - e| on the side toward it (analytic
+// geometry).
+func TestWallEccentric(t *testing.T) {
+	r, R := 0.3, 1.5
+	spec := rootSpec(t, `{"kind":"straight","length":12}`, 2*r, 2*r, fmt.Sprintf(`{"coronal_d": %g, "apical_d": %g}`, 2*R, 2*R))
+	for _, tc := range []struct {
+		e   float64
+		dir mgl64.Vec3
+	}{{0.1, mgl64.Vec3{1, 0, 0}}, {0.4, mgl64.Vec3{0.6, 0.8, 0}}, {0.9, mgl64.Vec3{-0.28, 0.96, 0}}, {1.1, mgl64.Vec3{0, -1, 0}}} {
+		t.Run(fmt.Sprint(tc.e), func(t *testing.T) {
+			root := spec.RootMesh(StationSpacing, 192)
+			for i, v := range root.Vertices {
+				root.Vertices[i] = v.Add(tc.dir.Mul(tc.e))
+			}
+			c, err := CanalFromSpec(context.Background(), "eccentric", spec, CanalOptions{Root: root, RootSource: "test"})
+			if err != nil {
+				t.Fatal(err)
+			}
+			p := thinnest(c.Thickness)
+			want := R - r - tc.e
+			if math.Abs(p.thickness-want) > 0.003 {
+				t.Errorf("thinnest wall %.4f, want R - r - e = %.4f", p.thickness, want)
+			}
+			// The cells are 360/128 = 2.8 degrees apart: the thinnest one lies within half of that.
+			if got := cellDir(c, p.cell).Dot(tc.dir.Mul(-1)); got < math.Cos(1.5*math.Pi/180) {
+				t.Errorf("thinnest wall faces %.1f degrees off the side away from the root's move", math.Acos(min(got, 1))*180/math.Pi)
+			}
+			// Half-way down, on the side toward the move: R - |r - e|.
+			i := c.Line.Station(6)
+			best, bestK := -2.0, 0
+			for j := 0; j < c.Angles; j++ {
+				if d := cellDir(c, i*c.Angles+j).Dot(tc.dir); d > best {
+					best, bestK = d, i*c.Angles+j
+				}
+			}
+			if got, want := float64(c.Thickness[bestK]), R-math.Abs(r-tc.e); math.Abs(got-want) > 0.005 {
+				t.Errorf("wall toward the move %.4f, want R - |r - e| = %.4f", got, want)
+			}
+		})
+	}
+}
+
+// TestWallConcavity: a groove of depth d in a round root around a curved canal, deepest f mm
+// from the apical end toward a stated side. Every other point of the root's surface lies
+// farther from the canal, so the thinnest wall is R - d - r there, toward that side (analytic
+// geometry; directions as the analysis states them: 0 is the inner side of the curve).
+func TestWallConcavity(t *testing.T) {
+	segs := `{"kind":"straight","length":6},{"kind":"arc","radius":12,"angle":35},{"kind":"straight","length":4}`
+	r, R, d := 0.25, 1.5, 0.6
+	for _, tc := range []struct{ toward, from float64 }{{90, 5}, {0, 8}, {200, 3}, {315, 11}} {
+		t.Run(fmt.Sprint(tc.toward), func(t *testing.T) {
+			spec := rootSpec(t, segs, 2*r, 2*r, fmt.Sprintf(
+				`{"coronal_d": %g, "apical_d": %g, "concavity": {"depth": %g, "toward_deg": %g, "width_deg": 100, "from_apex": %g, "length": 5}}`,
+				2*R, 2*R, d, tc.toward, tc.from))
+			c, err := CanalFromSpec(context.Background(), "groove", spec, CanalOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			res, err := Run(context.Background(), c, &models.Sequence{}, RunOptions{MinWallMM: 0.8})
+			if err != nil {
+				t.Fatal(err)
+			}
+			w := res.ScannedWall
+			if math.Abs(*w.ThinnestWallMM-(R-d-r)) > 0.004 {
+				t.Errorf("thinnest wall %.4f, want R - d - r = %.4f", *w.ThinnestWallMM, R-d-r)
+			}
+			if math.Abs(*w.ThinnestWallFromApexMM-tc.from) > 0.3 {
+				t.Errorf("thinnest wall %.2f mm from the apical end, want %.2f", *w.ThinnestWallFromApexMM, tc.from)
+			}
+			if off := math.Abs(math.Remainder(*w.ThinnestWallTowardDeg-tc.toward, 360)); off > 3 {
+				t.Errorf("thinnest wall toward %.1f degrees, want %.1f", *w.ThinnestWallTowardDeg, tc.toward)
+			}
+			if w.WallUnderLimitPct == nil || *w.WallUnderLimitPct <= 0 || *w.WallUnderLimitPct > 20 {
+				t.Errorf("share under 0.8 mm %v: want a small share (the groove only)", w.WallUnderLimitPct)
+			}
+		})
+	}
+}
+
+// TestWallAfterSteps: each step's map, measured only where the step moved the wall, equals a
+// map measured whole; a step's thinnest wall never grows; a wider file leaves less; the
+// thin-wall advice names the place when a step passes the limit, and never without a root.
+func TestWallAfterSteps(t *testing.T) {
+	spec := rootSpec(t, `{"kind":"straight","length":8},{"kind":"arc","radius":6,"angle":35},{"kind":"straight","length":3}`,
+		0.5, 0.2, `{"coronal_d": 3.2, "apical_d": 1.2, "concavity": {"depth": 0.35, "toward_deg": 180, "width_deg": 90}}`)
+	c, err := CanalFromSpec(context.Background(), "steps", spec, CanalOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	seq, err := models.ParseSequence("s.json", []byte(`{"steps": [{"size": 15, "taper": 0.02, "depth": "WL"},
+		{"size": 20, "taper": 0.04, "depth": "WL"}, {"size": 30, "taper": 0.06, "depth": "WL"}, {"size": 40, "taper": 0.06, "depth": "WL"}]}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := Run(context.Background(), c, seq, RunOptions{MinWallMM: 0.35})
+	if err != nil {
+		t.Fatal(err)
+	}
+	last := *res.ScannedWall.ThinnestWallMM
+	warned := false
+	for _, sr := range res.Steps {
+		whole := c.WallThickness(sr.Prepared, nil, nil, 0)
+		for k := range whole {
+			if math.Abs(float64(whole[k]-sr.Thickness[k])) > 1e-5 {
+				t.Fatalf("step %d cell %d: %.6f measured again, %.6f whole", sr.Number, k, sr.Thickness[k], whole[k])
+			}
+		}
+		w := sr.Metrics.Wall
+		if *w.ThinnestWallMM > last+1e-9 {
+			t.Errorf("step %d: thinnest wall grew from %.3f to %.3f", sr.Number, last, *w.ThinnestWallMM)
+		}
+		last = *w.ThinnestWallMM
+		for _, a := range sr.Metrics.Advice {
+			if a.Code == AdviceThinWall {
+				warned = true
+				if *w.ThinnestWallMM >= 0.35 {
+					t.Errorf("step %d: thin-wall advice with %.3f mm left", sr.Number, *w.ThinnestWallMM)
+				}
+			}
+		}
+		t.Logf("step %d %s: thinnest %.3f mm %.1f mm from apex toward %.0f, thinned %.3f, under %.1f %%", sr.Number, sr.Metrics.Label,
+			*w.ThinnestWallMM, *w.ThinnestWallFromApexMM, *w.ThinnestWallTowardDeg, *w.WallThinnedMM, *w.WallUnderLimitPct)
+	}
+	if !warned || last >= 0.35 {
+		t.Errorf("a 40/.06 at working length leaves %.3f mm and the advice was given: %v", last, warned)
+	}
+	// Without a root: no wall figures, no advice.
+	plain := *spec
+	plain.Root = nil
+	c2, err := CanalFromSpec(context.Background(), "plain", &plain, CanalOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	res2, err := Run(context.Background(), c2, seq, RunOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, sr := range res2.Steps {
+		if sr.Metrics.ThinnestWallMM != nil || sr.Thickness != nil {
+			t.Errorf("step %d: wall figures without a root", sr.Number)
+		}
+	}
+}
+
+// TestRootThatMissesTheCanal: a root surface elsewhere (other coordinates) is refused naming it.
+func TestRootThatMissesTheCanal(t *testing.T) {
+	spec := rootSpec(t, `{"kind":"straight","length":12}`, 0.6, 0.6, `{"coronal_d": 3, "apical_d": 3}`)
+	root := spec.RootMesh(StationSpacing, 64)
+	for i, v := range root.Vertices {
+		root.Vertices[i] = v.Add(mgl64.Vec3{20, 0, 0})
+	}
+	_, err := CanalFromSpec(context.Background(), "canal.json", spec, CanalOptions{Root: root, RootSource: "root.stl"})
+	if err == nil {
+		t.Fatal("a root 20 mm away was accepted")
+	}
+	if msg := err.Error(); !containsAll(msg, "root.stl", "does not enclose") {
+		t.Errorf("error %q does not name the root file and the reason", msg)
+	}
+}
+
+func containsAll(s string, parts ...string) bool {
+	for _, p := range parts {
+		if !stringsContains(s, p) {
+			return false
+		}
+	}
+	return true
+}
+
+func stringsContains(s, sub string) bool {
+	for i := 0; i+len(sub) <= len(s); i++ {
+		if s[i:i+len(sub)] == sub {
+			return true
+		}
+	}
+	return false
+}
+
+var _ = mesh.Validate
