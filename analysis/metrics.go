@@ -66,9 +66,9 @@ type ResultSummary struct {
 	// Sequence: how the whole sequence moved the canal against the canal as scanned.
 	Sequence Transport `json:"sequence"`
 	// WallAsScanned is the wall to the root's outer surface before any step (absent without a root).
-	WallAsScanned *Wall `json:"wall_as_scanned,omitempty"`
-	Warnings []string  `json:"warnings"`
-	Caution  string    `json:"caution"`
+	WallAsScanned *Wall    `json:"wall_as_scanned,omitempty"`
+	Warnings      []string `json:"warnings"`
+	Caution       string   `json:"caution"`
 }
 
 // ModelSummary states the settings behind the figures.
@@ -81,7 +81,7 @@ type ModelSummary struct {
 	MinWallMM *float64 `json:"min_wall_mm,omitempty"`
 	// RootSource says where the root's outer surface comes from (absent without one).
 	RootSource string `json:"root_source,omitempty"`
-	Note                      string  `json:"note"`
+	Note       string `json:"note"`
 }
 
 // Caution is the safety wording every report and the About box carry.

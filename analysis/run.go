@@ -86,7 +86,7 @@ type StepResult struct {
 	// Canal.Thickness; nil without a root).
 	Thickness []float32
 	Metrics   StepMetrics
-	touched          float64 // the canal's own wall cut past the threshold so far, mm2
+	touched   float64 // the canal's own wall cut past the threshold so far, mm2
 }
 
 // Run sweeps each file of the sequence through the canal in turn. Step N's depth of cut is
