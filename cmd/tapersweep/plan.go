@@ -27,6 +27,7 @@ func planCommand() command {
 		flags: func(fs *flag.FlagSet) func(stdout, stderr io.Writer) int {
 			var cf canalFlags
 			cf.register(fs)
+			cf.registerWall(fs)
 			target := fs.String("target", "", "the `SIZE/TAPER` of the last file, taken to working length (e.g. 30/.04)")
 			instruments := fs.String("instruments", "", "instruments `file` (JSON list of {\"size\": 25, \"taper\": 0.04, ...}); default: the generic catalogue from size 10 up to the target size, tapers .02-.08 (and .10 from size 20)")
 			maxSteps := fs.Int("max-steps", plan.DefaultMaxSteps, "at most `N` files, the target included")
@@ -103,7 +104,7 @@ func planCommand() command {
 				}
 				other, otherName := pl.Baseline, tg.Label()+" alone to WL"
 				if cmp != nil {
-					if other, err = analysis.Run(ctx, c, cmp, analysis.RunOptions{}); err != nil {
+					if other, err = analysis.Run(ctx, c, cmp, cf.runOptions(analysis.RunOptions{})); err != nil {
 						return inputError(stderr, "plan", err)
 					}
 					otherName = *compare
