@@ -159,3 +159,62 @@ func cpuSeconds() float64 {
 	}
 	return float64(ru.Utime.Sec+ru.Stime.Sec) + float64(ru.Utime.Usec+ru.Stime.Usec)/1e6
 }
+
+var (
+	benchRootOnce  sync.Once
+	benchRootCanal *Canal
+)
+
+// benchRootScan is the bench canal (the demo canal as a fine scan, about 200k triangles)
+// inside a root of about 200k triangles (an oval root with a groove, as the spec makes it).
+func benchRootScan(b *testing.B) *Canal {
+	_, c := benchScan(b)
+	benchRootOnce.Do(func() {
+		spec := models.DemoCanal()
+		spec.Root = &models.RootSpec{CoronalD: 4.4, ApicalD: 1.8, Oval: 1.6,
+			Concavity: &models.Concavity{DepthMM: 0.5, TowardDeg: 0, WidthDeg: 90}}
+		if err := spec.Validate(); err != nil {
+			b.Fatal(err)
+		}
+		root := spec.RootMesh(0.05, 256)
+		cc := *c
+		if err := cc.attachRoot(root, "bench", 0); err != nil {
+			b.Fatal(err)
+		}
+		benchRootCanal = &cc
+	})
+	if n := len(benchRootCanal.Root.Mesh.Triangles); n < 190_000 {
+		b.Fatalf("benchmark root has only %d triangles", n)
+	}
+	return benchRootCanal
+}
+
+// BenchmarkWallThickness is what the root adds to an 8-step run (the bench sequence) on a
+// 200k-triangle canal inside a 200k-triangle root: each step's wall map, measured again where
+// the step moved the wall. Target (issue 17): at most 50 ms. Also reports the map as scanned,
+// measured once when the root is attached.
+func BenchmarkWallThickness(b *testing.B) {
+	c := benchRootScan(b)
+	seq, err := models.ParseSequence("bench.json", []byte(benchSequence))
+	if err != nil {
+		b.Fatal(err)
+	}
+	res, err := Run(context.Background(), c, seq, RunOptions{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportMetric(float64(len(c.Root.Mesh.Triangles)), "root-triangles")
+	b.ReportMetric(float64(len(c.Mesh.Triangles)), "canal-triangles")
+	b.Run("steps", func(b *testing.B) {
+		start := cpuTime()
+		for i := 0; i < b.N; i++ {
+			res.measureWall()
+		}
+		b.ReportMetric(float64(cpuTime()-start)/1e6/float64(b.N), "cpu-ms/op")
+	})
+	b.Run("as-scanned", func(b *testing.B) {
+		for i := 0; i < b.N; i++ {
+			c.WallThickness(c.Rho, 0)
+		}
+	})
+}

@@ -48,8 +48,9 @@ type Canal struct {
 	// Root is the root's outer surface around the canal (nil when none is known), and
 	// Thickness the wall left to it from the canal as scanned (station-major like Rho, mm;
 	// negative where the canal passes outside the root).
-	Root      *Root
-	Thickness []float32
+	Root        *Root
+	Thickness   []float32
+	scannedWall *wallMap // with each cell's nearest root point
 }
 
 // CanalOptions tune how a canal is measured.

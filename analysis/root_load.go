@@ -77,4 +77,3 @@ func splitNested(m *mesh.Mesh, pick int) (canal, root *mesh.Mesh, notes []string
 	mesh.OrientConsistently(parts[c])
 	return parts[c], parts[best], notes
 }
-

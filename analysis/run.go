@@ -148,11 +148,12 @@ func (res *Result) measureWall() {
 	if t := res.ScannedWall.ThinnestWallMM; t != nil && *t < limit {
 		res.Warnings = append(res.Warnings, "as scanned: "+thinWallText(res.ScannedWall))
 	}
-	from, fromTh := c.Rho, c.Thickness
+	from := c.scannedWall
 	for _, sr := range res.Steps {
-		sr.Thickness = c.WallThickness(sr.Prepared, from, fromTh, res.Options.Workers)
-		sr.Metrics.Wall = c.wallOf(sr.Thickness, fromTh, sr.Prepared, limit)
-		from, fromTh = sr.Prepared, sr.Thickness
+		w := c.wallThickness(sr.Prepared, from, limit, res.Options.Workers)
+		sr.Thickness = w.th
+		sr.Metrics.Wall = c.wallOf(w.th, from.th, sr.Prepared, limit)
+		from = w
 	}
 }
 

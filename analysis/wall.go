@@ -44,58 +44,132 @@ func (c *Canal) wallPoint(m []float32, i, j int) mgl64.Vec3 {
 	return c.Line.Points[i].Add(dir.Mul(float64(m[i*c.Angles+j])))
 }
 
+// nearPoint is a surface point of the root and its triangle: the answer of one query, and the
+// seed of the next nearby one.
+type nearPoint struct {
+	q   mgl64.Vec3
+	tri int32
+}
+
 // signedDistance is the distance from p to the root surface, negative when p lies outside the
-// root; limit bounds the search (math.Inf(1) for none). The sign is the side of the nearest
-// triangle's plane, and the parity test where that is unclear (p in the plane).
-func (r *Root) signedDistance(p mgl64.Vec3, limit float64) float64 {
+// root, with the nearest point. A seed (a surface point found for a nearby query; tri < 0 for
+// none) bounds the search: nothing farther than it can be the nearest, which prunes most of the
+// tree. The sign is the side of the nearest triangle's plane, and the parity test where that is
+// unclear (p in the plane).
+func (r *Root) signedDistance(p mgl64.Vec3, seed nearPoint) (float64, nearPoint) {
+	limit := math.Inf(1)
+	if seed.tri >= 0 {
+		limit = p.Sub(seed.q).Len()*(1+1e-9) + 1e-12
+	}
 	q, tri, d, ok := r.Surface.ClosestWithin(p, limit)
 	if !ok {
-		q, tri, d = r.Surface.Closest(p)
-		if tri < 0 {
-			return math.Inf(1)
+		if seed.tri < 0 {
+			return math.Inf(1), seed
 		}
+		q, tri, d = seed.q, seed.tri, p.Sub(seed.q).Len()
 	}
+	near := nearPoint{q: q, tri: tri}
 	side := p.Sub(q).Dot(r.normals[tri])
 	switch {
 	case side > 1e-9*max(d, 1e-6):
-		return -d
+		return -d, near
 	case side < -1e-9*max(d, 1e-6):
-		return d
+		return d, near
 	case r.Surface.Inside(p):
-		return d
+		return d, near
 	}
-	return -d
+	return -d, near
 }
 
 // WallThickness is the wall left between a station-major map of the canal (the radius map, a
 // step's prepared canal) and the root's outer surface at every (station, direction): the
 // shortest distance from the canal's wall there to the root surface, negative where the canal
 // passes outside the root. nil without a root.
+func (c *Canal) WallThickness(m []float32, workers int) []float32 {
+	if w := c.wallThickness(m, nil, 0, workers); w != nil {
+		return w.th
+	}
+	return nil
+}
+
+// wallMap is a thickness map with each cell's nearest root point and a lower bound of its wall
+// (the wall itself where it was measured exactly).
+type wallMap struct {
+	rho, th, low []float32
+	near         []nearPoint
+}
+
+// wallMapTolerance is how far a cell of a step's map may lie above the exact wall: the bounds
+// of a cell that moved must be this close, or it is measured exactly.
+const wallMapTolerance = 0.05
+
+// wallThickness measures the wall of map m. Without from, every cell is measured exactly, each
+// seeded with its neighbour's nearest point around the station.
 //
-// With from and fromThickness (an earlier map and its thickness), only the cells where m
-// differs from it are measured again, each searched within its old thickness plus how far the
-// wall moved (the distance changes by no more than the wall moves).
-func (c *Canal) WallThickness(m, from, fromThickness []float32, workers int) []float32 {
+// With from (the map the step met) only the cells where m differs from it change. For such a
+// cell, moved by delta, the exact wall lies between its old lower bound less delta (the distance
+// cannot fall faster than the wall moves) and the distance to its old nearest root point (a
+// point of the root, so never nearer than the nearest). A cell is measured exactly when its
+// lower bound could put it under limit or make it the thinnest wall (below the least upper
+// bound of the map), or when its bounds lie more than wallMapTolerance apart: every figure of
+// the outputs is exact, and every cell within wallMapTolerance above the exact wall.
+func (c *Canal) wallThickness(m []float32, from *wallMap, limit float64, workers int) *wallMap {
 	if c.Root == nil {
 		return nil
 	}
 	n, na := c.Line.Len(), c.Angles
-	out := make([]float32, n*na)
-	if from != nil && fromThickness != nil {
-		copy(out, fromThickness)
+	out := &wallMap{rho: m, th: make([]float32, n*na), near: make([]nearPoint, n*na)}
+	if from == nil {
+		parallel.For(workers, n, func(_, i int) {
+			prev := nearPoint{tri: -1}
+			for j := 0; j < na; j++ {
+				var d float64
+				d, prev = c.Root.signedDistance(c.wallPoint(m, i, j), prev)
+				out.th[i*na+j], out.near[i*na+j] = float32(d), prev
+			}
+		})
+		out.low = out.th
+		return out
 	}
+	out.low = make([]float32, n*na)
+	copy(out.th, from.th)
+	copy(out.low, from.low)
+	copy(out.near, from.near)
+	exact := make([]bool, n*na)
+	least := make([]float64, n)
+	parallel.For(workers, n, func(_, i int) {
+		least[i] = math.Inf(1)
+		for j := 0; j < na; j++ {
+			k := i*na + j
+			if m[k] != from.rho[k] {
+				moved := math.Abs(float64(m[k] - from.rho[k]))
+				low := float64(from.low[k]) - moved
+				up := c.wallPoint(m, i, j).Sub(from.near[k].q).Len()
+				out.low[k], out.th[k] = float32(low), float32(up)
+				exact[k] = !(low > 0) || up-low > wallMapTolerance
+			}
+			least[i] = min(least[i], float64(out.th[k]))
+		}
+	})
+	top := math.Inf(1)
+	for _, v := range least {
+		top = min(top, v)
+	}
+	top += 1e-6
 	parallel.For(workers, n, func(_, i int) {
 		for j := 0; j < na; j++ {
 			k := i*na + j
-			limit := math.Inf(1)
-			if from != nil && fromThickness != nil {
-				moved := math.Abs(float64(m[k] - from[k]))
-				if moved == 0 {
-					continue
-				}
-				limit = math.Abs(float64(fromThickness[k])) + moved + 1e-6
+			if m[k] == from.rho[k] {
+				continue
 			}
-			out[k] = float32(c.Root.signedDistance(c.wallPoint(m, i, j), limit))
+			// Exact where the bounds do not tell whether the cell is under the limit, where it
+			// may be the thinnest, or where the bounds lie apart.
+			low, up := float64(out.low[k]), float64(out.th[k])
+			if !exact[k] && !(low < limit && up >= limit) && low >= top {
+				continue
+			}
+			d, q := c.Root.signedDistance(c.wallPoint(m, i, j), from.near[k])
+			out.th[k], out.low[k], out.near[k] = float32(d), float32(d), q
 		}
 	})
 	return out
@@ -214,7 +288,8 @@ func (c *Canal) attachRoot(m *mesh.Mesh, source string, workers int) error {
 		return &RootError{Source: source, Msg: fmt.Sprintf("the surface is not closed (%d edges border holes), so its inside is not known", rep.BoundaryEdges)}
 	}
 	c.Root = newRoot(m, source)
-	c.Thickness = c.WallThickness(c.Rho, nil, nil, workers)
+	c.scannedWall = c.wallThickness(c.Rho, nil, 0, workers)
+	c.Thickness = c.scannedWall.th
 	outside := 0
 	for _, v := range c.Thickness {
 		if v < 0 {

@@ -13,6 +13,84 @@ import (
 type BVH struct {
 	nodes []bvhNode
 	tris  []bvhTri // in leaf order
+	// slabs[i] bounds node i's triangles between two planes (nearly flat patches only), a
+	// lower bound of distance without the slack an axis-aligned box has across a tilted patch.
+	slabs []bvhSlab
+}
+
+// bvhSlab holds a node's triangles between the planes n.x = lo and n.x = hi; n is zero where
+// the patch is too curved for the planes to help.
+type bvhSlab struct {
+	n      mgl64.Vec3
+	lo, hi float64
+}
+
+// slabMaxTriangles: larger nodes are curved surfaces, whose slabs bound nothing.
+const slabMaxTriangles = 64
+
+// buildSlabs fits each small node's slab along its triangles' mean normal.
+func (b *BVH) buildSlabs() {
+	b.slabs = make([]bvhSlab, len(b.nodes))
+	first := make([]int32, len(b.nodes))
+	end := make([]int32, len(b.nodes))
+	for i := len(b.nodes) - 1; i >= 0; i-- {
+		nd := &b.nodes[i]
+		if nd.count > 0 {
+			first[i], end[i] = nd.first, nd.first+nd.count
+		} else {
+			l, r := nd.first, nd.first+1
+			first[i], end[i] = min(first[l], first[r]), max(end[l], end[r])
+		}
+		if end[i]-first[i] > slabMaxTriangles || end[i]-first[i] != b.countUnder(i) {
+			continue
+		}
+		var n mgl64.Vec3
+		area := 0.0
+		for t := first[i]; t < end[i]; t++ {
+			c := b.tris[t].e1.Cross(b.tris[t].e2)
+			n = n.Add(c)
+			area += c.Len()
+		}
+		if l := n.Len(); l > 0.9*area && l > 0 {
+			n = n.Mul(1 / l)
+		} else {
+			continue // curved: the planes would lie far apart
+		}
+		lo, hi := math.Inf(1), math.Inf(-1)
+		for t := first[i]; t < end[i]; t++ {
+			tr := &b.tris[t]
+			for _, p := range [3]mgl64.Vec3{tr.a, tr.a.Add(tr.e1), tr.a.Add(tr.e2)} {
+				d := n.Dot(p)
+				lo, hi = min(lo, d), max(hi, d)
+			}
+		}
+		pad := 1e-12 * (math.Abs(lo) + math.Abs(hi))
+		b.slabs[i] = bvhSlab{n: n, lo: lo - pad, hi: hi + pad}
+	}
+}
+
+// countUnder counts the triangles in node i's leaves (its range holds exactly these when the
+// tree keeps each subtree's triangles together, as the builder does).
+func (b *BVH) countUnder(i int) int32 {
+	nd := &b.nodes[i]
+	if nd.count > 0 {
+		return nd.count
+	}
+	return b.countUnder(int(nd.first)) + b.countUnder(int(nd.first+1))
+}
+
+// lowerDist2 is a lower bound of the squared distance from p to node i's triangles: the box's,
+// or the slab's where that is larger.
+func (b *BVH) lowerDist2(i int32, p mgl64.Vec3) float64 {
+	n := &b.nodes[i]
+	d2 := boxDist2(n.lo, n.hi, p)
+	if sl := &b.slabs[i]; sl.n != (mgl64.Vec3{}) {
+		x := sl.n.Dot(p)
+		if d := max(sl.lo-x, x-sl.hi); d > 0 && d*d > d2 {
+			return d * d
+		}
+	}
+	return d2
 }
 
 // bvhNode is a box; a leaf lists count triangles from first, an inner node (count 0) has its
@@ -135,6 +213,7 @@ func NewBVH(m *Mesh) *BVH {
 	out.tris = make([]bvhTri, n)
 	b.buildRoot(root, m, out.tris)
 	out.nodes = b.nodes
+	out.buildSlabs()
 	return out
 }
 
@@ -535,7 +614,7 @@ func (b *BVH) ClosestWithin(p mgl64.Vec3, limit float64) (q mgl64.Vec3, tri int3
 	for sp > 0 {
 		sp--
 		n := &b.nodes[stack[sp]]
-		if boxDist2(n.lo, n.hi, p) >= best2 {
+		if b.lowerDist2(stack[sp], p) >= best2 {
 			continue
 		}
 		if n.count > 0 {
@@ -549,8 +628,8 @@ func (b *BVH) ClosestWithin(p mgl64.Vec3, limit float64) (q mgl64.Vec3, tri int3
 			continue
 		}
 		l, r := n.first, n.first+1
-		dl := boxDist2(b.nodes[l].lo, b.nodes[l].hi, p)
-		dr := boxDist2(b.nodes[r].lo, b.nodes[r].hi, p)
+		dl := b.lowerDist2(l, p)
+		dr := b.lowerDist2(r, p)
 		if dl > dr {
 			l, r = r, l
 		}
