@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"sync"
 
 	"tapersweep/models"
 )
@@ -61,6 +62,9 @@ type Result struct {
 	Moved Transport
 	// ScannedWall is the wall to the root's outer surface before any step (empty without a root).
 	ScannedWall Wall
+
+	wallMapsOnce sync.Once
+	wallMaps     [][]float32 // WallMap's, per step
 }
 
 // StepResult is what one file does. Maps are station-major like Canal.Rho.
@@ -82,10 +86,7 @@ type StepResult struct {
 	// Offset1, Offset2: the file's axis off the centerline along N1 and N2 at each station it
 	// reaches, mm (nil in the centred model).
 	Offset1, Offset2 []float64
-	// Thickness is the wall left to the root's outer surface after this step (like
-	// Canal.Thickness; nil without a root).
-	Thickness []float32
-	Metrics   StepMetrics
+	Metrics          StepMetrics
 	touched   float64 // the canal's own wall cut past the threshold so far, mm2
 }
 
@@ -150,11 +151,33 @@ func (res *Result) measureWall() {
 	}
 	from := c.scannedWall
 	for _, sr := range res.Steps {
-		w := c.wallThickness(sr.Prepared, from, limit, res.Options.Workers)
-		sr.Thickness = w.th
+		w := c.wallThickness(sr.Prepared, from, limit, math.Inf(1), res.Options.Workers)
 		sr.Metrics.Wall = c.wallOf(w.th, from.th, sr.Prepared, limit)
 		from = w
 	}
+}
+
+// WallMap is the wall left to the root's outer surface after step k (from 1; 0 = as scanned) at
+// every cell of the canal's map, each at most wallMapTolerance (or a tenth of the wall) above the
+// exact distance, for pictures; nil without a root. The maps of all steps are measured on the
+// first call (about as long as measuring the canal's own map) and kept.
+func (res *Result) WallMap(k int) []float32 {
+	c := res.Canal
+	if c.Root == nil || k < 0 || k > len(res.Steps) {
+		return nil
+	}
+	if k == 0 {
+		return c.Thickness
+	}
+	res.wallMapsOnce.Do(func() {
+		from := c.scannedWall
+		for _, sr := range res.Steps {
+			w := c.wallThickness(sr.Prepared, from, res.Options.MinWallMM, wallMapTolerance, res.Options.Workers)
+			res.wallMaps = append(res.wallMaps, w.th)
+			from = w
+		}
+	})
+	return res.wallMaps[k-1]
 }
 
 func seqName(seq *models.Sequence) string {

@@ -86,7 +86,7 @@ func (r *Root) signedDistance(p mgl64.Vec3, seed nearPoint) (float64, nearPoint)
 // shortest distance from the canal's wall there to the root surface, negative where the canal
 // passes outside the root. nil without a root.
 func (c *Canal) WallThickness(m []float32, workers int) []float32 {
-	if w := c.wallThickness(m, nil, 0, workers); w != nil {
+	if w := c.wallThickness(m, nil, 0, 0, workers); w != nil {
 		return w.th
 	}
 	return nil
@@ -99,9 +99,12 @@ type wallMap struct {
 	near         []nearPoint
 }
 
-// wallMapTolerance is how far a cell of a step's map may lie above the exact wall: the bounds
-// of a cell that moved must be this close, or it is measured exactly.
+// wallMapTolerance is how far a cell of a step's map drawn in colour may lie above the exact
+// wall: the bounds of a cell that moved must be this close, or it is measured exactly.
 const wallMapTolerance = 0.05
+
+// wallMapShare: or this share of the wall, where that is more (a colour scale is read in shares).
+const wallMapShare = 0.1
 
 // wallThickness measures the wall of map m. Without from, every cell is measured exactly, each
 // seeded with its neighbour's nearest point around the station.
@@ -110,10 +113,11 @@ const wallMapTolerance = 0.05
 // cell, moved by delta, the exact wall lies between its old lower bound less delta (the distance
 // cannot fall faster than the wall moves) and the distance to its old nearest root point (a
 // point of the root, so never nearer than the nearest). A cell is measured exactly when its
-// lower bound could put it under limit or make it the thinnest wall (below the least upper
-// bound of the map), or when its bounds lie more than wallMapTolerance apart: every figure of
-// the outputs is exact, and every cell within wallMapTolerance above the exact wall.
-func (c *Canal) wallThickness(m []float32, from *wallMap, limit float64, workers int) *wallMap {
+// bounds do not tell whether it lies under limit, when it could be the thinnest wall (its
+// lower bound under the least upper bound of the map), or when its bounds lie more than
+// max(tol, wallMapShare of its wall) apart: every figure of the outputs is exact, and every
+// cell at most that far above the exact wall. tol = +Inf settles the figures only (Run).
+func (c *Canal) wallThickness(m []float32, from *wallMap, limit, tol float64, workers int) *wallMap {
 	if c.Root == nil {
 		return nil
 	}
@@ -146,7 +150,7 @@ func (c *Canal) wallThickness(m []float32, from *wallMap, limit float64, workers
 				low := float64(from.low[k]) - moved
 				up := c.wallPoint(m, i, j).Sub(from.near[k].q).Len()
 				out.low[k], out.th[k] = float32(low), float32(up)
-				exact[k] = !(low > 0) || up-low > wallMapTolerance
+				exact[k] = !(low > 0) || up-low > max(tol, wallMapShare*low)
 			}
 			least[i] = min(least[i], float64(out.th[k]))
 		}
@@ -288,7 +292,7 @@ func (c *Canal) attachRoot(m *mesh.Mesh, source string, workers int) error {
 		return &RootError{Source: source, Msg: fmt.Sprintf("the surface is not closed (%d edges border holes), so its inside is not known", rep.BoundaryEdges)}
 	}
 	c.Root = newRoot(m, source)
-	c.scannedWall = c.wallThickness(c.Rho, nil, 0, workers)
+	c.scannedWall = c.wallThickness(c.Rho, nil, 0, 0, workers)
 	c.Thickness = c.scannedWall.th
 	outside := 0
 	for _, v := range c.Thickness {
