@@ -87,7 +87,7 @@ type StepResult struct {
 	// reaches, mm (nil in the centred model).
 	Offset1, Offset2 []float64
 	Metrics          StepMetrics
-	touched   float64 // the canal's own wall cut past the threshold so far, mm2
+	touched          float64 // the canal's own wall cut past the threshold so far, mm2
 }
 
 // Run sweeps each file of the sequence through the canal in turn. Step N's depth of cut is

@@ -176,7 +176,7 @@ func TestWallAfterSteps(t *testing.T) {
 	warned := false
 	for _, sr := range res.Steps {
 		// Every cell is on the same side of the limit as measured whole, and at most
-		// wallMapTolerance above it; the thinnest wall is exact.
+		// wallMapTolerance (or a tenth of the wall) above it; the thinnest wall is exact.
 		whole := c.WallThickness(sr.Prepared, 0)
 		worst := 0.0
 		for k := range whole {
@@ -187,10 +187,10 @@ func TestWallAfterSteps(t *testing.T) {
 			if diff < -1e-5 {
 				t.Fatalf("step %d cell %d: %.6f is not an upper bound of %.6f", sr.Number, k, res.WallMap(sr.Number)[k], whole[k])
 			}
+			if diff > max(wallMapTolerance, wallMapShare*float64(whole[k]))+1e-5 {
+				t.Errorf("step %d cell %d: %.4f mm over the wall measured whole (%.4f)", sr.Number, k, diff, whole[k])
+			}
 			worst = max(worst, diff)
-		}
-		if worst > wallMapTolerance {
-			t.Errorf("step %d: a cell's wall is off by %.4f mm", sr.Number, worst)
 		}
 		if p := thinnest(whole); math.Abs(p.thickness-*sr.Metrics.ThinnestWallMM) > 0.0006 {
 			t.Errorf("step %d: thinnest wall %.4f, measured whole %.4f", sr.Number, *sr.Metrics.ThinnestWallMM, p.thickness)
