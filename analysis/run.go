@@ -140,8 +140,8 @@ func Run(ctx context.Context, c *Canal, seq *models.Sequence, opt RunOptions) (*
 // step's map is measured again only where the step moved the wall.
 func (res *Result) measureWall() {
 	c := res.Canal
-	if c.Root == nil {
-		return
+	if c.Root == nil || c.scannedWall == nil || len(c.scannedWall.th) != len(c.Rho) {
+		return // no root, or a copy of the canal on other stations (the planner's)
 	}
 	limit := res.Options.MinWallMM
 	res.ScannedWall = c.wallOf(c.Thickness, nil, c.Rho, limit)
@@ -163,7 +163,7 @@ func (res *Result) measureWall() {
 // first call (about as long as measuring the canal's own map) and kept.
 func (res *Result) WallMap(k int) []float32 {
 	c := res.Canal
-	if c.Root == nil || k < 0 || k > len(res.Steps) {
+	if c.Root == nil || c.scannedWall == nil || len(c.scannedWall.th) != len(c.Rho) || k < 0 || k > len(res.Steps) {
 		return nil
 	}
 	if k == 0 {
