@@ -67,7 +67,7 @@ func TestPlanKeepsTheWall(t *testing.T) {
 			t.Errorf("step %d leaves %v mm of wall, under the 0.05 to keep", s.Number, w)
 		}
 	}
-	plain, _ := testCanals(t)
+	plain := gentleTestCanal(t)
 	if _, err := Propose(context.Background(), plain, Options{Target: tg, KeepWallMM: 0.1}); err == nil || !strings.Contains(err.Error(), "root") {
 		t.Errorf("a wall to keep without a root: %v", err)
 	}
