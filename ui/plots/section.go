@@ -137,7 +137,9 @@ func SectionsImage(secs []*analysis.Section, w, h int, opt SectionOptions) *imag
 		sub.XAlign, sub.YAlign = draw.XCenter, draw.YTop
 		if opt.Compact {
 			dc.FillText(sub, vg.Point{X: cx, Y: top}, trim(s.FromApexMM)+" mm from the apical end")
-			dc.FillText(sub, vg.Point{X: cx, Y: top - 1.0*lineH}, strings.ReplaceAll(sectionFigures(s), " mm ·", ","))
+			// The thinnest wall is labelled on its line; the narrow title leaves it out.
+			dc.FillText(sub, vg.Point{X: cx, Y: top - 1.0*lineH}, strings.ReplaceAll(sectionFigures(&analysis.Section{
+				Step: s.Step, ScannedAreaMM2: s.ScannedAreaMM2, RemovedMM2: s.RemovedMM2, TransportationMM: s.TransportationMM}), " mm ·", ","))
 		} else {
 			dc.FillText(title, vg.Point{X: cx, Y: top}, fmt.Sprintf("%s mm from the apical end", trim(s.FromApexMM)))
 			dc.FillText(sub, vg.Point{X: cx, Y: top - 1.15*lineH}, sectionFigures(s))
