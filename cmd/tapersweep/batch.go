@@ -112,6 +112,7 @@ func parseShard(s string) (i, n int, err error) {
 type batchCanalFile struct {
 	file, path string
 	load       analysis.LoadOptions
+	scan       *scanFlags // set when the canal is to be found in a scan at path
 }
 
 // folderCanals lists the canal files directly in dir, sorted by name, all loaded alike.
@@ -235,7 +236,7 @@ func runBatch(ctx context.Context, w io.Writer, files []batchCanalFile, seq *mod
 			for k := range next {
 				load := files[k].load
 				load.Canal.Workers = workers
-				rows, err := batchCanal(ctx, files[k].path, files[k].file, seq, load)
+				rows, err := batchCanal(ctx, files[k], seq, load)
 				results <- done{k, rows, err}
 			}
 		}()
@@ -283,7 +284,8 @@ func runBatch(ctx context.Context, w io.Writer, files []batchCanalFile, seq *mod
 
 // batchCanal runs the sequence through one canal and returns its rows: one per step, or one
 // row carrying the error. A failure in one canal, even a crash in the analysis, stays in its row.
-func batchCanal(ctx context.Context, path, file string, seq *models.Sequence, opt analysis.LoadOptions) (rows [][]string, err error) {
+func batchCanal(ctx context.Context, src batchCanalFile, seq *models.Sequence, opt analysis.LoadOptions) (rows [][]string, err error) {
+	path, file := src.path, src.file
 	width := len(batchColumns())
 	errorRow := func(e error) [][]string {
 		row := make([]string, width)
@@ -297,7 +299,12 @@ func batchCanal(ctx context.Context, path, file string, seq *models.Sequence, op
 			rows = errorRow(err)
 		}
 	}()
-	c, err := analysis.LoadCanal(ctx, path, opt)
+	var c *analysis.Canal
+	if src.scan != nil {
+		c, err = loadScanCanal(ctx, src.scan, opt.Canal.Extract.Orifice, opt.Canal.Extract.Apex, opt.Canal)
+	} else {
+		c, err = analysis.LoadCanal(ctx, path, opt)
+	}
 	if err == nil {
 		var res *analysis.Result
 		if res, err = analysis.Run(ctx, c, seq, analysis.RunOptions{}); err == nil {

@@ -60,7 +60,7 @@ func TestBatchManifest(t *testing.T) {
 
 	for _, bad := range []struct{ text, say string }{
 		{"file,colour\nmm.stl,red\n", "line 1, column 2: unknown column \"colour\""},
-		{"working_length_mm\n12\n", "no \"file\" column"},
+		{"working_length_mm\n12\n", "no \"file\" or \"scan\" column"},
 		{"file,working_length_mm\nmm.stl,twelve\n", "line 2, column working_length_mm"},
 		{"file,orifice\nmm.stl,1 2\n", "line 2, column orifice"},
 		{"file,scale\nmm.stl,-1\n", "line 2, column scale"},

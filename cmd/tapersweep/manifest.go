@@ -14,14 +14,17 @@ import (
 	"tapersweep/mesh"
 )
 
-// Columns of a batch manifest. Only file is required; an empty cell takes the command's flag.
-var manifestColumns = []string{"file", "orifice", "apical_end", "working_length_mm", "scale"}
+// Columns of a batch manifest. Each row names a canal file or a scan; an empty cell takes the
+// command's flag.
+var manifestColumns = []string{"file", "scan", "voxel_mm", "label", "orifice", "apical_end", "working_length_mm", "scale"}
 
 // maxManifestBytes bounds a manifest: a study of 100,000 canals fits in a few MB.
 const maxManifestBytes = 16 << 20
 
 // readManifest reads a CSV whose rows name the canals of a study, each with its own orifice,
-// apical end (X,Y,Z or "X Y Z" in the file's coordinates), working length and scale. Files are
+// apical end (X,Y,Z or "X Y Z" in the file's coordinates), working length and scale. A row may
+// name a scan instead of a canal file: the canal is then found between its orifice and apical
+// end, which the row must give (several rows may name one scan, a canal each). Paths are
 // relative to the manifest's folder. Errors name the manifest, the line and the column.
 func readManifest(path string, base analysis.LoadOptions) ([]batchCanalFile, error) {
 	f, _, err := mesh.OpenInput(path, maxManifestBytes)
@@ -48,8 +51,10 @@ func readManifest(path string, base analysis.LoadOptions) ([]batchCanalFile, err
 		}
 		col[h] = i
 	}
-	if _, ok := col["file"]; !ok {
-		return nil, fmt.Errorf("%s: line 1: the header has no \"file\" column (columns: %s)", path, strings.Join(manifestColumns, ", "))
+	_, hasFile := col["file"]
+	_, hasScan := col["scan"]
+	if !hasFile && !hasScan {
+		return nil, fmt.Errorf("%s: line 1: the header has no \"file\" or \"scan\" column (columns: %s)", path, strings.Join(manifestColumns, ", "))
 	}
 	dir := filepath.Dir(path)
 	var out []batchCanalFile
@@ -72,20 +77,34 @@ func readManifest(path string, base analysis.LoadOptions) ([]batchCanalFile, err
 		fail := func(name, format string, a ...any) error {
 			return fmt.Errorf("%s: line %d, column %s: %s", path, line, name, fmt.Sprintf(format, a...))
 		}
-		file := cell("file")
-		if file == "" {
+		file, scan := cell("file"), cell("scan")
+		switch {
+		case file == "" && scan == "":
 			if strings.Join(rec, "") == "" {
 				continue
 			}
-			return nil, fail("file", "no canal file named")
+			return nil, fail("file", "no canal file or scan named")
+		case file != "" && scan != "":
+			return nil, fail("scan", "a row names a canal file or a scan, not both")
 		}
-		if prev, ok := seen[file]; ok {
-			return nil, fail("file", "%s is listed again (first on line %d)", file, prev)
+		key := file
+		if scan != "" {
+			// One scan may hold several canals: a row is one canal, told apart by its ends.
+			key = scan + " " + cell("orifice") + " " + cell("apical_end")
 		}
-		seen[file] = line
+		if prev, ok := seen[key]; ok {
+			return nil, fail(map[bool]string{true: "file", false: "scan"}[file != ""], "%s is listed again (first on line %d)", key, prev)
+		}
+		seen[key] = line
 		e := batchCanalFile{file: file, path: file, load: base}
-		if !filepath.IsAbs(file) {
-			e.path = filepath.Join(dir, file)
+		if scan != "" {
+			e.file, e.path = fmt.Sprintf("%s (line %d)", scan, line), scan
+		}
+		if label := cell("label"); label != "" {
+			e.file = label
+		}
+		if !filepath.IsAbs(e.path) {
+			e.path = filepath.Join(dir, e.path)
 		}
 		for _, name := range []string{"orifice", "apical_end"} {
 			v := strings.Join(strings.Fields(strings.ReplaceAll(cell(name), ",", " ")), ",")
@@ -115,6 +134,27 @@ func readManifest(path string, base analysis.LoadOptions) ([]batchCanalFile, err
 				return nil, fail("scale", "%q is not a factor above 0 and at most 1000", v)
 			}
 			e.load.Scale = k
+		}
+		if v := cell("voxel_mm"); v != "" && scan == "" {
+			return nil, fail("voxel_mm", "a voxel size goes with a scan (a stack of image slices), not a canal file")
+		}
+		if scan != "" {
+			if e.load.Canal.Extract.Orifice == nil || e.load.Canal.Extract.Apex == nil {
+				return nil, fail(map[bool]string{true: "orifice", false: "apical_end"}[e.load.Canal.Extract.Orifice == nil],
+					"a scan needs the canal's two ends (orifice and apical_end, X,Y,Z in the scan's coordinates, mm)")
+			}
+			if cell("scale") != "" {
+				return nil, fail("scale", "a scan states its own voxel size; scale goes with STL files")
+			}
+			voxel := 0.0
+			if v := cell("voxel_mm"); v != "" {
+				var err error
+				if voxel, err = strconv.ParseFloat(v, 64); err != nil || !(voxel > 0) || voxel > 10 {
+					return nil, fail("voxel_mm", "%q is not a voxel size in mm above 0 and at most 10", v)
+				}
+			}
+			label, noPatient := e.file, false
+			e.scan = &scanFlags{path: &e.path, voxel: &voxel, label: &label, showPatient: &noPatient}
 		}
 		out = append(out, e)
 	}
