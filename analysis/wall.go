@@ -30,6 +30,7 @@ type Root struct {
 func newRoot(m *mesh.Mesh, source string) *Root {
 	mesh.OrientConsistently(m)
 	r := &Root{Mesh: m, Surface: mesh.NewBVH(m), Source: source, normals: make([]mgl64.Vec3, len(m.Triangles))}
+	r.Surface.AddSlabs()
 	for t := range m.Triangles {
 		r.normals[t] = mesh.FaceNormal(m, t)
 	}

@@ -14,7 +14,8 @@ type BVH struct {
 	nodes []bvhNode
 	tris  []bvhTri // in leaf order
 	// slabs[i] bounds node i's triangles between two planes (nearly flat patches only), a
-	// lower bound of distance without the slack an axis-aligned box has across a tilted patch.
+	// lower bound of distance without the slack an axis-aligned box has across a tilted patch;
+	// nil unless AddSlabs was called.
 	slabs []bvhSlab
 }
 
@@ -28,20 +29,27 @@ type bvhSlab struct {
 // slabMaxTriangles: larger nodes are curved surfaces, whose slabs bound nothing.
 const slabMaxTriangles = 64
 
-// buildSlabs fits each small node's slab along its triangles' mean normal.
-func (b *BVH) buildSlabs() {
+// AddSlabs fits each small node's slab along its triangles' mean normal, for closest-point
+// queries from points whose distance to the surface hardly changes along it (inside a tube:
+// the wall to a root's outer surface); it costs about a fifth of the build, so only the users
+// that need it pay. Not safe to call while the BVH is queried.
+//
+// Children come after their parent, so one pass from the end gathers each node's range of
+// triangles (a subtree's triangles lie together in leaf order) and how many its leaves hold.
+func (b *BVH) AddSlabs() {
 	b.slabs = make([]bvhSlab, len(b.nodes))
 	first := make([]int32, len(b.nodes))
 	end := make([]int32, len(b.nodes))
+	count := make([]int32, len(b.nodes))
 	for i := len(b.nodes) - 1; i >= 0; i-- {
 		nd := &b.nodes[i]
 		if nd.count > 0 {
-			first[i], end[i] = nd.first, nd.first+nd.count
+			first[i], end[i], count[i] = nd.first, nd.first+nd.count, nd.count
 		} else {
 			l, r := nd.first, nd.first+1
-			first[i], end[i] = min(first[l], first[r]), max(end[l], end[r])
+			first[i], end[i], count[i] = min(first[l], first[r]), max(end[l], end[r]), count[l]+count[r]
 		}
-		if end[i]-first[i] > slabMaxTriangles || end[i]-first[i] != b.countUnder(i) {
+		if count[i] > slabMaxTriangles || end[i]-first[i] != count[i] {
 			continue
 		}
 		var n mgl64.Vec3
@@ -51,32 +59,22 @@ func (b *BVH) buildSlabs() {
 			n = n.Add(c)
 			area += c.Len()
 		}
-		if l := n.Len(); l > 0.9*area && l > 0 {
-			n = n.Mul(1 / l)
-		} else {
+		l := n.Len()
+		if !(l > 0.9*area) || l == 0 {
 			continue // curved: the planes would lie far apart
 		}
+		n = n.Mul(1 / l)
 		lo, hi := math.Inf(1), math.Inf(-1)
 		for t := first[i]; t < end[i]; t++ {
 			tr := &b.tris[t]
-			for _, p := range [3]mgl64.Vec3{tr.a, tr.a.Add(tr.e1), tr.a.Add(tr.e2)} {
-				d := n.Dot(p)
+			a := n.Dot(tr.a)
+			for _, d := range [3]float64{a, a + n.Dot(tr.e1), a + n.Dot(tr.e2)} {
 				lo, hi = min(lo, d), max(hi, d)
 			}
 		}
-		pad := 1e-12 * (math.Abs(lo) + math.Abs(hi))
+		pad := 1e-12*(math.Abs(lo)+math.Abs(hi)) + 1e-12
 		b.slabs[i] = bvhSlab{n: n, lo: lo - pad, hi: hi + pad}
 	}
-}
-
-// countUnder counts the triangles in node i's leaves (its range holds exactly these when the
-// tree keeps each subtree's triangles together, as the builder does).
-func (b *BVH) countUnder(i int) int32 {
-	nd := &b.nodes[i]
-	if nd.count > 0 {
-		return nd.count
-	}
-	return b.countUnder(int(nd.first)) + b.countUnder(int(nd.first+1))
 }
 
 // lowerDist2 is a lower bound of the squared distance from p to node i's triangles: the box's,
@@ -84,6 +82,9 @@ func (b *BVH) countUnder(i int) int32 {
 func (b *BVH) lowerDist2(i int32, p mgl64.Vec3) float64 {
 	n := &b.nodes[i]
 	d2 := boxDist2(n.lo, n.hi, p)
+	if b.slabs == nil {
+		return d2
+	}
 	if sl := &b.slabs[i]; sl.n != (mgl64.Vec3{}) {
 		x := sl.n.Dot(p)
 		if d := max(sl.lo-x, x-sl.hi); d > 0 && d*d > d2 {
@@ -213,7 +214,6 @@ func NewBVH(m *Mesh) *BVH {
 	out.tris = make([]bvhTri, n)
 	b.buildRoot(root, m, out.tris)
 	out.nodes = b.nodes
-	out.buildSlabs()
 	return out
 }
 
