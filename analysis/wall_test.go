@@ -363,3 +363,81 @@ for line in open(%q):
 }
 
 func ptr(p, _, _ mgl64.Vec3) *mgl64.Vec3 { return &p }
+
+// TestWallOnRandomRoots: random canals in random roots (tapered, oval, grooves of any depth
+// the spec accepts, on any side, curves in and out of plane): the spec is accepted or refused
+// naming the file; an accepted one measures, every wall figure is a number, the thinnest wall
+// lies between two analytic bounds (no less than the root's least radius less the canal's long
+// semi-axis, no more than the least gap between the two outlines along one ray, since the
+// shortest distance is no longer than that segment; 0.01 mm for the meshes' facets) and never
+// grows over the steps.
+func TestWallOnRandomRoots(t *testing.T) {
+	rng := rand.New(rand.NewSource(17))
+	seq, err := models.ParseSequence("s.json", []byte(`{"steps": [{"size": 20, "taper": 0.04, "depth": "WL"}, {"size": 30, "taper": 0.06, "depth": "WL-1"}]}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	accepted := 0
+	for k := 0; k < 6; k++ {
+		u := func(lo, hi float64) float64 { return lo + (hi-lo)*rng.Float64() }
+		od, ad, oval := u(0.4, 1.0), u(0.15, 0.35), []float64{0, 1.3, 2}[rng.Intn(3)]
+		js := fmt.Sprintf(`{"segments": [{"kind": "straight", "length": %.2f}, {"kind": "arc", "radius": %.2f, "angle": %.1f, "plane_turn": %.0f},
+			{"kind": "straight", "length": %.2f}], "orifice_d": %.3f, "apical_d": %.3f, "oval": %g,
+			"root": {"coronal_d": %.2f, "apical_d": %.2f, "oval": %.2f, "concavity": {"depth": %.3f, "toward_deg": %.0f, "width_deg": %.0f}}}`,
+			u(4, 10), u(6, 14), u(10, 50), u(-180, 180), u(1, 4), od, ad, oval, u(3, 5), u(1.4, 2.4), u(1, 1.8), u(0, 0.5), u(0, 360), u(30, 180))
+		spec, err := models.ParseCanalSpec("random.json", []byte(js))
+		if err != nil {
+			if !strings.Contains(err.Error(), "random.json") {
+				t.Errorf("refusal without the file: %v", err)
+			}
+			continue
+		}
+		accepted++
+		c, err := CanalFromSpec(context.Background(), "random.json", spec, CanalOptions{})
+		if err != nil {
+			t.Errorf("%s: %v", js, err)
+			continue
+		}
+		res, err := Run(context.Background(), c, seq, RunOptions{})
+		if err != nil {
+			t.Errorf("%s: %v", js, err)
+			continue
+		}
+		L := spec.Length()
+		a := math.Sqrt(math.Max(spec.Oval, 1))
+		lower, upper := math.Inf(1), math.Inf(1)
+		for s := 0.0; s <= L; s += 0.05 {
+			r := spec.Diameter(s) / 2
+			for d := 0.0; d < 360; d++ {
+				phi := d * math.Pi / 180
+				root := spec.Root.RadiusAt(s, L, phi)
+				// The canal's long axis lies at 90 degrees in the root's directions.
+				psi := phi - math.Pi/2
+				canal := r / math.Sqrt(math.Pow(math.Cos(psi)/a, 2)+math.Pow(math.Sin(psi)*a, 2))
+				lower = math.Min(lower, root-r*a)
+				upper = math.Min(upper, root-canal)
+			}
+		}
+		got := *res.ScannedWall.ThinnestWallMM
+		if got < lower-0.01 || got > upper+0.01 {
+			t.Errorf("%s: thinnest wall %.3f mm as scanned, outside the analytic bounds %.3f to %.3f", js, got, lower, upper)
+		}
+		last := got
+		for _, st := range res.Steps {
+			w := st.Metrics.Wall
+			for _, v := range []*float64{w.ThinnestWallMM, w.ThinnestWallFromApexMM, w.ThinnestWallTowardDeg, w.WallUnderLimitPct, w.WallThinnedMM} {
+				if v == nil || math.IsNaN(*v) || math.IsInf(*v, 0) {
+					t.Errorf("%s: step %d has a wall figure that is not a number", js, st.Number)
+				}
+			}
+			if *w.ThinnestWallMM > last+1e-9 || *w.ThinnestWallMM < 0 {
+				t.Errorf("%s: step %d thinnest wall %.3f after %.3f", js, st.Number, *w.ThinnestWallMM, last)
+			}
+			last = *w.ThinnestWallMM
+		}
+	}
+	t.Logf("%d of 6 random roots accepted", accepted)
+	if accepted < 3 {
+		t.Errorf("only %d of 6 random roots accepted: the family tests too little", accepted)
+	}
+}
