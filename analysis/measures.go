@@ -91,18 +91,19 @@ const (
 func (m Measures) Warnings() []string {
 	var out []string
 	r := m.RadiusRange
+	wideR, wideS, wideA := m.WideBands()
 	switch {
-	case math.IsInf(m.MaxCurvatureR, 1):
+	case !wideR:
 	case math.IsInf(r[1], 1):
 		out = append(out, fmt.Sprintf("the scan cannot tell the tightest bend (r %.1f mm) from a straight canal: its radius could be anything above %.1f mm", m.MaxCurvatureR, r[0]))
-	case r[1] > wideRadius*r[0]:
+	default:
 		out = append(out, fmt.Sprintf("the scan does not pin the tightest bend down better than r %.1f-%.1f mm", r[0], r[1]))
 	}
-	if !math.IsInf(m.MaxCurvatureR, 1) && m.SRange[1]-m.SRange[0] > widePlaceMM {
+	if wideS {
 		out = append(out, fmt.Sprintf("the scan does not pin the place of the tightest bend down better than %.1f-%.1f mm from the apical end",
 			m.Length-m.SRange[1], m.Length-m.SRange[0]))
 	}
-	if a := m.SchneiderRange; a[1]-a[0] > wideSchneider {
+	if a := m.SchneiderRange; wideA {
 		out = append(out, fmt.Sprintf("the scan does not pin the Schneider angle down better than %.0f-%.0f degrees", a[0], a[1]))
 	}
 	if !math.IsInf(m.MaxCurvatureR, 1) {
@@ -113,6 +114,19 @@ func (m Measures) Warnings() []string {
 		}
 	}
 	return out
+}
+
+// WideBands says which bands are wide enough to warn about: the tightest bend's radius
+// (including one the scan cannot tell from straight), its place, the Schneider angle. Every
+// output that marks a figure as uncertain asks here, so the marks and the warnings agree.
+func (m Measures) WideBands() (radius, place, schneider bool) {
+	if !math.IsInf(m.MaxCurvatureR, 1) {
+		r := m.RadiusRange
+		radius = math.IsInf(r[1], 1) || r[1] > wideRadius*r[0]
+		place = m.SRange[1]-m.SRange[0] > widePlaceMM
+	}
+	schneider = m.SchneiderRange[1]-m.SchneiderRange[0] > wideSchneider
+	return radius, place, schneider
 }
 
 // placeBand is the stretch around station star (within the measured zone) where the

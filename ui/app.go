@@ -19,6 +19,7 @@ import (
 	"fyne.io/fyne/v2/widget"
 
 	"tapersweep/analysis"
+	"tapersweep/mesh"
 	"tapersweep/models"
 	"tapersweep/ui/scene"
 )
@@ -55,7 +56,9 @@ type mainWindow struct {
 	seq      *models.Sequence // the last valid sequence
 	res      *analysis.Result // seq run through canal; nil until a run succeeds
 	selected int              // step shown, from 1; 0 shows the canal alone
-	scale    float64          // STL units to mm for canals opened from the command line
+	// others are the other canals found in the same scan, drawn around the shown one.
+	others []*mesh.Mesh
+	scale  float64 // STL units to mm for canals opened from the command line
 
 	gen       uint64 // generation of the latest analysis asked for
 	cancelRun context.CancelFunc
@@ -72,7 +75,9 @@ type mainWindow struct {
 	controls *viewControls
 	status   *widget.Label
 	hover    *widget.Label
-	loader   *loadProgress
+	// tableTitle names the table and the contact threshold its engaged figures count from.
+	tableTitle *widget.Label
+	loader     *loadProgress
 	// scanPatient names the patient on saved reports, set only while a scan window's switch
 	// asks for it (by default nothing names the patient).
 	scanPatient string
@@ -117,18 +122,21 @@ func newMainWindow(a fyne.App, ui *handOver) *mainWindow {
 	w.sections.withBelow(w.controls.fixed)
 
 	// Left: the controls, the 3D view with the cross-sections beside it (the canal stands
-	// upright, so the view needs height more than width), the profiles under both.
+	// upright, so the view needs height more than width), the profiles under both. The 3D
+	// view is the largest part of the window.
 	pictures := container.NewHSplit(w.view, w.sections.box)
-	pictures.Offset = 0.5
+	pictures.Offset = 0.64
 	left := container.NewBorder(w.controls.box, container.NewVBox(w.profiles.raster, w.hover), nil, nil, pictures)
 	// Right: the canal and the path model on top, the editor under the table at its full
-	// height; the table takes the rest and scrolls with its first columns frozen.
+	// height; the table takes the rest, at least the height of every step of a usual
+	// sequence, and scrolls sideways with its first columns frozen.
+	w.tableTitle = sectionTitle("Files in the sequence")
+	w.tableTitle.Truncation = fyne.TextTruncateEllipsis
 	top := container.NewVBox(w.summary.box, widget.NewSeparator(), w.path.box,
-		container.NewBorder(nil, nil, nil, widget.NewButton("Propose a sequence…", w.proposeDialog),
-			sectionTitle("Files in the sequence (select one to show it)")))
-	right := container.NewBorder(top, w.editor.box, nil, nil, w.table.table)
+		container.NewBorder(nil, nil, nil, widget.NewButton("Propose a sequence…", w.proposeDialog), w.tableTitle))
+	right := container.NewBorder(top, w.editor.box, nil, nil, container.New(&atLeast{height: w.table.fullHeight}, w.table.table))
 	split := container.NewHSplit(left, right)
-	split.Offset = 0.56
+	split.Offset = 0.58
 	w.win.SetContent(container.NewBorder(nil, w.status, nil, nil, split))
 	w.win.SetMainMenu(w.menu())
 	w.win.SetOnDropped(w.dropped)
@@ -137,6 +145,49 @@ func newMainWindow(a fyne.App, ui *handOver) *mainWindow {
 		w.win.Close()
 	})
 	return w
+}
+
+// atLeast lays its one object over its whole area and asks for at least height() of it.
+type atLeast struct{ height func() float32 }
+
+func (l *atLeast) Layout(objs []fyne.CanvasObject, size fyne.Size) {
+	for _, o := range objs {
+		o.Move(fyne.NewPos(0, 0))
+		o.Resize(size)
+	}
+}
+
+func (l *atLeast) MinSize(objs []fyne.CanvasObject) fyne.Size {
+	var s fyne.Size
+	for _, o := range objs {
+		s = s.Max(o.MinSize())
+	}
+	s.Height = max(s.Height, l.height())
+	return s
+}
+
+// atMost lays its one object (a scroll) over its whole area and asks for the height of the
+// scroll's content, up to height.
+type atMost struct{ height float32 }
+
+func (l *atMost) Layout(objs []fyne.CanvasObject, size fyne.Size) {
+	for _, o := range objs {
+		o.Move(fyne.NewPos(0, 0))
+		o.Resize(size)
+	}
+}
+
+func (l *atMost) MinSize(objs []fyne.CanvasObject) fyne.Size {
+	var s fyne.Size
+	for _, o := range objs {
+		m := o.MinSize()
+		if sc, ok := o.(*container.Scroll); ok && sc.Content != nil {
+			m.Height = max(m.Height, sc.Content.MinSize().Height)
+		}
+		s = s.Max(m)
+	}
+	s.Height = min(s.Height, l.height)
+	return s
 }
 
 func sectionTitle(s string) *widget.Label {
@@ -262,6 +313,7 @@ func (w *mainWindow) runDone(res *analysis.Result, err error) {
 		w.selected = mostEngagedStep(res)
 	}
 	w.path.show(w.seq.PathModel, &res.Moved)
+	w.tableTitle.SetText(fmt.Sprintf("Files in the sequence · engaged: cut past %g mm", res.Options.ContactThreshold))
 	w.showStepState()
 	w.showScene(first) // the first run brings the file: fit it in
 	w.setStatus(runStatus(res))
@@ -303,6 +355,7 @@ func (w *mainWindow) showScene(aim bool) {
 		return
 	}
 	opt := w.controls.sceneOptions()
+	opt.Others = w.others
 	w.sections.setFixedScale(opt.FixedScale)
 	res := w.res
 	if res == nil || w.selected > len(res.Steps) {

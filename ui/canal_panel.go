@@ -7,6 +7,7 @@ import (
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/theme"
 	"fyne.io/fyne/v2/widget"
 
 	"tapersweep/analysis"
@@ -39,33 +40,60 @@ func newCanalPanel() *canalPanel {
 	p.wlErr.Importance = widget.DangerImportance
 	p.wlErr.Wrapping = fyne.TextWrapWord
 	p.wlErr.Hide()
-	wlRow := container.NewBorder(nil, nil, widget.NewLabel("Working length (mm)"), nil, p.wl)
-	p.box = container.NewVBox(p.title, p.text, wlRow, p.wlErr)
+	// The working length sits on the title's row, so the measures get the lines below.
+	wlBox := container.NewBorder(nil, nil, widget.NewLabel("Working length (mm)"), nil,
+		container.NewGridWrap(fyne.NewSize(76, p.wl.MinSize().Height), p.wl))
+	// Many warnings (a hard scan) scroll inside the panel rather than push the table and the
+	// editor out of the window.
+	lineH := widget.NewLabel("0").MinSize().Height - 2*theme.InnerPadding()
+	text := container.New(&atMost{height: canalTextLines*lineH + 2*theme.InnerPadding()}, container.NewVScroll(p.text))
+	p.box = container.NewVBox(container.NewBorder(nil, nil, nil, wlBox, p.title), text, p.wlErr)
 	return p
 }
 
-// canalText is the summary in plain words, three short lines.
+// canalTextLines is how many lines of measures and warnings show before they scroll.
+const canalTextLines = 6
+
+// bendMark marks, in the step table, the figures that inherit a wide band of the tightest bend.
+const bendMark = "*"
+
+// canalText is the summary in plain words, a few short lines: each measure of the bend with
+// its band, and a warning where a band is wide.
 func canalText(c *analysis.Canal) string {
 	s := c.Summary(false)
 	var lines []string
-	first := fmt.Sprintf("Length %.2f mm · Schneider angle %.1f°", s.LengthMM, s.SchneiderDeg)
-	if r := s.Arc.RadiusMM; r != nil {
-		first += fmt.Sprintf(" · arc r %.2f mm over %.1f°", *r, s.Arc.AngleDeg)
-	}
-	lines = append(lines, first)
-	if r := s.MaxCurvature.RadiusMM; r != nil {
-		lines = append(lines, fmt.Sprintf("Tightest bend r %.2f mm, %.2f mm from the apical end (s* %.2f mm)",
-			*r, s.MaxCurvature.FromApexMM, s.MaxCurvature.SMM))
+	lines = append(lines, fmt.Sprintf("Length %.2f mm · Schneider angle %s", s.LengthMM, s.SchneiderText()))
+	if s.MaxCurvature.RadiusMM != nil {
+		lines = append(lines, fmt.Sprintf("Tightest bend r %s, %s", s.RadiusText(), s.PlaceText()))
 	} else {
 		lines = append(lines, "Straight: no bend found")
 	}
-	if len(s.Warnings) == 0 {
-		lines = append(lines, "Surface: no warnings")
-	}
+	// Warnings before the fitted arc: with many of them the last lines scroll.
 	for _, wn := range s.Warnings {
 		lines = append(lines, "⚠ "+models.Printable(wn, models.MaxMessageRunes))
 	}
+	if c.BendUncertain() {
+		lines = append(lines, "⚠ "+upperFirst(analysis.BendInheritNote(bendMark)))
+	}
+	var last []string
+	if r := s.Arc.RadiusMM; r != nil {
+		last = append(last, fmt.Sprintf("Arc r %.2f mm over %.1f°", *r, s.Arc.AngleDeg))
+	}
+	if len(s.Warnings) == 0 {
+		last = append(last, "surface: no warnings")
+	}
+	if len(last) > 0 {
+		lines = append(lines, upperFirst(strings.Join(last, " · ")))
+	}
 	return strings.Join(lines, "\n")
+}
+
+// upperFirst starts a sentence with a capital.
+func upperFirst(s string) string {
+	if s == "" {
+		return s
+	}
+	return strings.ToUpper(s[:1]) + s[1:]
 }
 
 // show states a measured canal and its working length.

@@ -107,6 +107,7 @@ func (w *mainWindow) loadCanal(name string, withDialog bool, load canalLoader) {
 				dialog.ShowError(err, w.win)
 				return
 			}
+			w.others = nil // a canal opened on its own has no neighbours from a scan
 			w.setCanal(c)
 		})
 	})

@@ -56,7 +56,7 @@ func (p *pathPanel) show(model string, moved *analysis.Transport) {
 		p.moved.SetText("")
 		return
 	}
-	p.moved.SetText("Whole sequence: " + transportText(*moved))
+	p.moved.SetText("Whole sequence: " + transportText(*moved, true))
 }
 
 func (p *pathPanel) chosen(text string) {
@@ -81,8 +81,9 @@ func (w *mainWindow) setPathModel(model string) {
 	w.rerun()
 }
 
-// transportText states Gambill's measures in one short sentence.
-func transportText(tr analysis.Transport) string {
+// transportText states Gambill's measures in one short sentence; withCentring adds the
+// centring ratios (the step table shows a step's at 1 mm).
+func transportText(tr analysis.Transport, withCentring bool) string {
 	var lev, mm, cen []string
 	for _, x := range analysis.TransportLevels() {
 		k := levelKey(x)
@@ -90,10 +91,13 @@ func transportText(tr analysis.Transport) string {
 		mm = append(mm, fmt.Sprintf("%.3f", tr.TransportationMM[k]))
 		cen = append(cen, optional(tr.CenteringRatio[k], "%.2f"))
 	}
-	s := fmt.Sprintf("transportation %s mm at %s mm from the apical end (centring %s), foramen shift %.3f mm",
-		strings.Join(mm, " / "), strings.Join(lev, " / "), strings.Join(cen, " / "), tr.ForamenShiftMM)
-	if tr.Largest.MM > 0 {
-		s += fmt.Sprintf("; largest %.3f mm, %.2f mm up, %s", tr.Largest.MM, tr.Largest.FromApexMM, towardText(tr.Largest.TowardDeg))
+	s := fmt.Sprintf("transportation %s mm at %s mm up", strings.Join(mm, " / "), strings.Join(lev, " / "))
+	if withCentring {
+		s += " (centring " + strings.Join(cen, " / ") + ")"
+	}
+	s += fmt.Sprintf(", foramen shift %.3f mm", tr.ForamenShiftMM)
+	if tr.Largest.MM >= 0.0005 { // shown to the micrometre: below it there is no place to name
+		s += fmt.Sprintf("; most %.3f mm, %.2f mm up, %s", tr.Largest.MM, tr.Largest.FromApexMM, towardText(tr.Largest.TowardDeg))
 	}
 	return s + "."
 }
@@ -111,9 +115,9 @@ func towardText(deg float64) string {
 	side := "across the curve"
 	switch {
 	case d <= 45 || d >= 315:
-		side = "to the inner side"
+		side = "inner side"
 	case d >= 135 && d <= 225:
-		side = "to the outer side"
+		side = "outer side"
 	}
 	return fmt.Sprintf("%s (%.0f°)", side, d)
 }

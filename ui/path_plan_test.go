@@ -17,9 +17,19 @@ func transportCells(w *mainWindow) []string {
 	var out []string
 	for i := range w.res.Steps {
 		row := w.table.rowText(i)
-		out = append(out, row[len(row)-2]+" "+row[len(row)-1]) // the last two columns
+		out = append(out, row[tableColumn("transportation_1_mm")]+" "+row[tableColumn("centering_ratio_1")])
 	}
 	return out
+}
+
+// tableColumn is where the figure with the given key stands in rowText's rows.
+func tableColumn(key string) int {
+	for i, c := range stepColumns {
+		if c.key == key {
+			return i - 1 // rowText leaves out the colour swatch
+		}
+	}
+	panic("the step table has no column " + key)
 }
 
 // TestSwitchingThePathModelRerunsAndChangesTransportation: choosing "bends as a beam" re-runs

@@ -11,6 +11,7 @@ import (
 	"fyne.io/fyne/v2/theme"
 
 	"tapersweep/analysis"
+	"tapersweep/models"
 )
 
 // Each test here keeps one rough edge a tester saw in the window from coming back.
@@ -131,4 +132,73 @@ func TestClickOnTheCanalPicksASection(t *testing.T) {
 		}
 	}
 	t.Fatal("no wall pixel to click")
+}
+
+// At the two usual screen sizes the 3D view is clearly the largest part of the window (half
+// as large again as any other), and the table shows every step of the demo without scrolling.
+func TestLayoutGivesTheViewTheRoomAndTheTableEveryStep(t *testing.T) {
+	w := openDemo(t)
+	for _, size := range []fyne.Size{fyne.NewSize(1280, 800), fyne.NewSize(1440, 900)} {
+		// A size of its own first: the test driver lays the window out again only on a change.
+		w.win.Resize(fyne.NewSize(1000, 700))
+		w.win.Resize(size)
+		w.wait()
+		area := func(o fyne.CanvasObject) float32 { s := o.Size(); return s.Width * s.Height }
+		view := area(w.view)
+		// The table counts with the rows it fills (the space under them is free).
+		table := w.table.table.Size().Width * min(w.table.table.Size().Height, w.table.fullHeight())
+		for name, a := range map[string]float32{"cross-sections": area(w.sections.raster),
+			"profiles": area(w.profiles.raster), "table": table, "editor": area(w.editor.box)} {
+			if a*1.5 > view {
+				t.Errorf("%v: the %s take %.0f units², the 3D view %.0f", size, name, a, view)
+			}
+		}
+		need := headerHeight() + float32(len(w.res.Steps))*rowHeight()
+		if h := w.table.table.Size().Height; h < need {
+			t.Errorf("%v: the table is %.0f high, its %d steps need %.0f", size, h, len(w.res.Steps), need)
+		}
+		t.Logf("%v: view %v, sections %v, table %v", size, w.view.Size(), w.sections.raster.Size(), w.table.table.Size())
+	}
+}
+
+// The canal panel states the tightest bend's radius, place and the Schneider angle with their
+// bands. A canal whose bend is long and gentle (r 25 mm over 12 degrees: the line cannot say
+// where on the arc it bends most) gets a warning, and the table marks the figures that rest on
+// the bend; the demo's narrow bands get neither.
+func TestCanalPanelStatesBandsAndTableMarksWhatInheritsAWideOne(t *testing.T) {
+	w := openDemo(t)
+	s := w.canal.Summary(false)
+	text := w.summary.text.Text
+	for _, want := range []string{s.RadiusText(), s.PlaceText(), s.SchneiderText()} {
+		if !strings.Contains(text, want) {
+			t.Errorf("the canal panel %q lacks %q", text, want)
+		}
+	}
+	strain := tableColumn("strain_at_max_curvature_pct")
+	if strings.Contains(text, "inherit") || strings.HasSuffix(w.table.rowText(2)[strain], bendMark) {
+		t.Errorf("the demo's narrow bands are marked as wide: %q / %v", text, w.table.rowText(2))
+	}
+
+	spec, err := models.ParseCanalSpec("gentle", []byte(`{"name": "gentle (invented)",
+		"segments": [{"kind": "straight", "length": 6}, {"kind": "arc", "radius": 25, "angle": 12},
+		{"kind": "straight", "length": 4}], "orifice_d": 1.0, "apical_d": 0.3, "working_length": 15}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, err := analysis.CanalFromSpec(context.Background(), "gentle", spec, analysis.CanalOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	w.setCanal(c)
+	w.wait()
+	text = w.summary.text.Text
+	if !strings.Contains(text, "⚠ The file's diameter, strain and fatigue use at the bend inherit") ||
+		!strings.Contains(text, "does not pin the place of the tightest bend") {
+		t.Errorf("a wide band of the bend's place is not warned of: %q", text)
+	}
+	for row := range w.res.Steps {
+		if got := w.table.rowText(row)[strain]; got != "–" && !strings.HasSuffix(got, bendMark) {
+			t.Errorf("row %d: strain at the bend %q is not marked", row+1, got)
+		}
+	}
 }

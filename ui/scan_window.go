@@ -317,6 +317,14 @@ func (sw *scanWindow) refreshControls() {
 func (sw *scanWindow) showCurrent() {
 	sw.refreshControls()
 	if c := sw.canals[sw.current]; c.canal != nil {
+		// The tooth's other canals found so far are drawn around this one.
+		var others []*mesh.Mesh
+		for i, o := range sw.canals {
+			if i != sw.current && o.canal != nil {
+				others = append(others, o.canal.Mesh)
+			}
+		}
+		sw.main.others = others
 		sw.main.setCanal(c.canal)
 		sw.main.win.SetTitle(fmt.Sprintf("tapersweep: %s, canal %d", sw.vol.Info.Label, sw.current+1))
 	}

@@ -72,6 +72,23 @@ func TestScanWindowFindsTheCanal(t *testing.T) {
 	if got := sw.canals[1].ends[1]; got == nil || got.Sub(p).Len() > 1e-9 {
 		t.Errorf("apical end %v, clicked %v", got, p)
 	}
+	// Found too, the second canal is shown with the first drawn around it, and the other
+	// way round when the first is chosen again (the phantom has one canal: found twice).
+	sw.canals[1].ends = sw.canals[0].ends
+	sw.find()
+	w.wait()
+	first, second := sw.canals[0].canal, sw.canals[1].canal
+	if second == nil || w.canal != second {
+		t.Fatalf("the second canal was not found and shown: %s", sw.status.Text)
+	}
+	if o := w.view.input().opt.Others; len(o) != 1 || o[0] != first.Mesh {
+		t.Errorf("showing canal 2 the view draws %d other canals, want canal 1", len(o))
+	}
+	sw.canalSelect.SetSelected("Canal 1")
+	w.wait()
+	if o := w.view.input().opt.Others; w.canal != first || len(o) != 1 || o[0] != second.Mesh {
+		t.Errorf("showing canal 1 again the view draws %d other canals, want canal 2", len(o))
+	}
 }
 
 // No file the window saves, nor its titles, labels or recent files, carries a patient

@@ -122,7 +122,7 @@ func (e *stepEditor) show(seq *models.Sequence, n int, st *analysis.StepResult) 
 	step := seq.Steps[n-1]
 	e.title.SetText(fmt.Sprintf("Step %d", n))
 	if st != nil {
-		e.detail.SetText("This step: " + transportText(st.Metrics.Transport))
+		e.detail.SetText("This step: " + transportText(st.Metrics.Transport, false))
 		e.detail.Show()
 	} else {
 		e.detail.Hide()

@@ -109,10 +109,11 @@ func writeTabbed(w io.Writer, rows [][]string) {
 func writeStepsTable(w io.Writer, res *analysis.Result) {
 	sum := res.Canal.Summary(false)
 	fmt.Fprintf(w, "%s: length %.2f mm, working length %.2f mm", models.Printable(sum.Name, models.MaxNameRunes), sum.LengthMM, sum.WorkingLengthMM)
-	if r := sum.MaxCurvature.RadiusMM; r != nil {
-		fmt.Fprintf(w, ", tightest bend r %.2f mm at %.2f mm from the apical end", *r, sum.MaxCurvature.FromApexMM)
+	// Each measure of the bend with its band (low–high), as the window and the report.
+	if sum.MaxCurvature.RadiusMM != nil {
+		fmt.Fprintf(w, ", tightest bend r %s at %s", sum.RadiusText(), sum.PlaceText())
 	}
-	fmt.Fprintf(w, ", Schneider angle %.1f deg\n\n", sum.SchneiderDeg)
+	fmt.Fprintf(w, ", Schneider angle %s\n\n", sum.SchneiderText())
 	keys := tableColumns
 	if res.Canal.Root != nil {
 		keys = append(append(append([]string{}, keys[:len(keys)-1]...), wallTableColumns...), keys[len(keys)-1])
@@ -121,6 +122,9 @@ func writeStepsTable(w io.Writer, res *analysis.Result) {
 	writeTabbed(w, append([][]string{head}, rows...))
 	mv := res.Moved
 	fmt.Fprintf(w, "\nEngaged figures count cuts deeper than the contact threshold, %g mm.", res.Options.ContactThreshold)
+	if res.Canal.BendUncertain() {
+		fmt.Fprintf(w, "\nThe scan does not pin the tightest bend down well: %s.", analysis.BendInheritNote(""))
+	}
 	if res.Canal.Root != nil {
 		fmt.Fprintf(w, "\nWall to the root's outer surface (%s): estimates from the two surfaces; the thin-wall warning keeps %g mm.",
 			models.Printable(res.Canal.Root.Source, models.MaxNameRunes), res.Options.MinWallMM)

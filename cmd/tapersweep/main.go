@@ -10,12 +10,18 @@ import (
 	"tapersweep/analysis"
 	// Before the window toolkit reads the user's language: quiet in the C.UTF-8 locale.
 	_ "tapersweep/cmd/tapersweep/internal/plainlocale"
+	"tapersweep/cmd/tapersweep/internal/quietlog"
 )
 
 func main() {
+	quietLibraries()
 	stopOnSignal(os.Stderr)
 	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
 }
+
+// quietLibraries keeps the DICOM reader's own log lines, which repeat the error a command
+// states, off stderr; the toolkit's lines still show.
+func quietLibraries() { quietlog.Install(os.Stderr) }
 
 // Exit codes shared by every subcommand.
 const (

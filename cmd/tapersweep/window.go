@@ -45,7 +45,8 @@ func runWindow(args []string, stderr io.Writer) int {
 		opt.Scan = &ui.ScanOptions{Path: *scan, Voxel: *voxel, Label: *label, Orifice: o, Apex: x}
 	}
 	a := app.NewWithID("org.tapersweep.desktop")
-	ui.Open(a, opt)
+	win := ui.Open(a, opt)
+	a.Lifecycle().SetOnStarted(func() { fitScreen(win) })
 	a.Run()
 	return exitOK
 }

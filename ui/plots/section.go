@@ -88,11 +88,32 @@ func SectionsImage(secs []*analysis.Section, w, h int, opt SectionOptions) *imag
 	textH := 2.4 * lineH
 	barH := 1.8 * lineH
 	if opt.Compact {
-		textH, barH = 2.2*lineH, 0.2*lineH
+		textH, barH = 2.2*lineH, 1.0*lineH // the bar in the corner, under the outline
+	}
+	// In the window's narrow column a level's figures that do not fit the cell's width take
+	// a line each.
+	compactLines := func(s *analysis.Section, cellW vg.Length) []string {
+		lines := []string{trim(s.FromApexMM) + " mm from the apical end"}
+		// The thinnest wall is labelled on its line; the narrow title leaves it out.
+		brief := *s
+		brief.Wall = nil
+		fig := sectionFigures(&brief)
+		if small.Width(fig) > cellW-pt {
+			return append(lines, strings.Split(fig, " · ")...)
+		}
+		return append(lines, fig)
 	}
 	layout := func(cols int) (cellW, cellH, picW, picH vg.Length, scale float64) {
 		rows := (len(secs) + cols - 1) / cols
 		cellW, cellH = W/vg.Length(cols), (H-keyH)/vg.Length(rows)
+		textH := textH
+		if opt.Compact {
+			n := 0
+			for _, s := range secs {
+				n = max(n, len(compactLines(s, cellW)))
+			}
+			textH = vg.Length(float64(n)+0.2) * lineH
+		}
 		picW, picH = cellW-2*pt, cellH-textH-barH
 		return cellW, cellH, picW, picH, math.Min(float64(picW), float64(picH)) / (2 * extent * 1.05)
 	}
@@ -136,10 +157,9 @@ func SectionsImage(secs []*analysis.Section, w, h int, opt SectionOptions) *imag
 		sub := small
 		sub.XAlign, sub.YAlign = draw.XCenter, draw.YTop
 		if opt.Compact {
-			dc.FillText(sub, vg.Point{X: cx, Y: top}, trim(s.FromApexMM)+" mm from the apical end")
-			// The thinnest wall is labelled on its line; the narrow title leaves it out.
-			dc.FillText(sub, vg.Point{X: cx, Y: top - 1.0*lineH}, strings.ReplaceAll(sectionFigures(&analysis.Section{
-				Step: s.Step, ScannedAreaMM2: s.ScannedAreaMM2, RemovedMM2: s.RemovedMM2, TransportationMM: s.TransportationMM}), " mm ·", ","))
+			for k, line := range compactLines(s, cellW) {
+				dc.FillText(sub, vg.Point{X: cx, Y: top - vg.Length(k)*lineH}, line)
+			}
 		} else {
 			dc.FillText(title, vg.Point{X: cx, Y: top}, fmt.Sprintf("%s mm from the apical end", trim(s.FromApexMM)))
 			dc.FillText(sub, vg.Point{X: cx, Y: top - 1.15*lineH}, sectionFigures(s))

@@ -25,9 +25,19 @@ const (
 	sizeSmall   = 7.5
 	lineBody    = 4.0
 	lineSmall   = 3.4
+	// tableLine is the line height of the summary's step table: close rows keep the summary
+	// on one page for a usual sequence.
+	tableLine = 3.1
 )
 
+// headingKeep is the room a heading needs below it (mm) to stay on the page with the
+// first lines of what it heads.
+const headingKeep = 20.0
+
 func heading(pdf *fpdf.Fpdf, text string) {
+	if pdf.GetY()+2+6+headingKeep > pageH-bottomM-6 {
+		pdf.AddPage()
+	}
 	pdf.Ln(2)
 	pdf.SetFont(fontBold, "", sizeHeading)
 	pdf.CellFormat(bodyW, 6, text, "", 1, "L", false, 0, "")
@@ -36,13 +46,18 @@ func heading(pdf *fpdf.Fpdf, text string) {
 
 // keyValue writes "key: value" lines in two columns of the given widths from x.
 func keyValue(pdf *fpdf.Fpdf, x, keyW, valW float64, pairs [][2]string) {
+	keyValueSized(pdf, x, keyW, valW, pairs, sizeBody, lineBody)
+}
+
+// keyValueSized is keyValue in a given font size (points) and line height (mm).
+func keyValueSized(pdf *fpdf.Fpdf, x, keyW, valW float64, pairs [][2]string, size, line float64) {
 	for _, kv := range pairs {
 		pdf.SetX(x)
-		pdf.SetFont(fontRegular, "", sizeBody)
+		pdf.SetFont(fontRegular, "", size)
 		pdf.SetTextColor(90, 90, 90)
-		pdf.CellFormat(keyW, lineBody, kv[0], "", 0, "L", false, 0, "")
+		pdf.CellFormat(keyW, line, kv[0], "", 0, "L", false, 0, "")
 		pdf.SetTextColor(0, 0, 0)
-		pdf.MultiCell(valW, lineBody, kv[1], "", "L", false)
+		pdf.MultiCell(valW, line, kv[1], "", "L", false)
 	}
 }
 
@@ -67,17 +82,17 @@ func summaryPage(pdf *fpdf.Fpdf, res *analysis.Result, sum analysis.ResultSummar
 	if opt.SequenceFile != "" {
 		src = append(src, "sequence file: "+opt.SequenceFile)
 	}
-	src = append(src, fmt.Sprintf("%d steps, one page each after this one", len(res.Steps)))
+	src = append(src, fmt.Sprintf("%d steps, a page each after the summary", len(res.Steps)))
 	pdf.MultiCell(bodyW, lineSmall+0.4, strings.Join(src, "   ·   "), "", "L", false)
 	pdf.SetTextColor(0, 0, 0)
 	caution(pdf, sum.Caution)
 
 	heading(pdf, "The canal")
 	c := sum.Canal
+	// Each measure of the bend with the band the line pins it down to (low–high).
 	bend := "none: the canal is straight"
-	if r := c.MaxCurvature.RadiusMM; r != nil {
-		bend = fmt.Sprintf("radius %.2f mm, %.2f mm from the orifice (%.2f mm from the apical end)",
-			*r, c.MaxCurvature.SMM, c.MaxCurvature.FromApexMM)
+	if c.MaxCurvature.RadiusMM != nil {
+		bend = fmt.Sprintf("radius %s, %s", c.RadiusText(), c.PlaceText())
 	}
 	arc := "no curved part"
 	if r := c.Arc.RadiusMM; r != nil {
@@ -88,11 +103,14 @@ func summaryPage(pdf *fpdf.Fpdf, res *analysis.Result, sum analysis.ResultSummar
 		{"centerline length", mm(c.LengthMM)},
 		{"working length", mm(c.WorkingLengthMM)},
 		{"tightest bend", bend},
-		{"Schneider angle", fmt.Sprintf("%.1f°", c.SchneiderDeg)},
+		{"Schneider angle", c.SchneiderText()},
 		{"curved part (fitted arc)", arc},
 		{"voxel for the centerline", fmt.Sprintf("%.3f mm", c.VoxelMM)},
 	}
 	notes := append(append([]string{}, c.Warnings...), sum.Warnings...)
+	if res.Canal.BendUncertain() {
+		notes = append(notes, analysis.BendInheritNote(bendMark)+": the figures say where to look, not how much")
+	}
 	for i, n := range notes {
 		key := ""
 		if i == 0 {
@@ -103,7 +121,7 @@ func summaryPage(pdf *fpdf.Fpdf, res *analysis.Result, sum analysis.ResultSummar
 	keyValue(pdf, margin, 42, bodyW-42, pairs)
 
 	heading(pdf, "Steps")
-	labels, cells := StepTable(sum)
+	labels, cells := stepTableMarked(sum, res.Canal.BendUncertain())
 	stepTable(pdf, labels, cells)
 
 	heading(pdf, "How the whole sequence moved the canal")
@@ -158,13 +176,14 @@ func stepTable(pdf *fpdf.Fpdf, labels []string, cells [][]string) {
 					vals[k] = strings.ReplaceAll(v, ";", " ")
 				}
 			}
-			// Row height: the tallest cell once wrapped.
+			// Row height: the tallest cell, the label included, once wrapped.
 			pdf.SetFont(fontRegular, "", sizeSmall)
-			lines := 1
+			labelLines := len(pdf.SplitText(label, labelW-1.5))
+			lines := max(1, labelLines)
 			for _, v := range vals {
 				lines = max(lines, len(pdf.SplitText(v, colW-1.5)))
 			}
-			h := float64(lines) * lineSmall
+			h := float64(lines) * tableLine
 			if pdf.GetY()+h > pageH-bottomM-8 {
 				pdf.AddPage()
 			}
@@ -175,7 +194,14 @@ func stepTable(pdf *fpdf.Fpdf, labels []string, cells [][]string) {
 				pdf.SetFont(fontBold, "", sizeSmall)
 			}
 			pdf.SetXY(margin, y)
-			pdf.CellFormat(labelW, h, label, "", 0, "L", fill, 0, "")
+			if labelLines > 1 {
+				if fill {
+					pdf.Rect(margin, y, labelW, h, "F")
+				}
+				pdf.MultiCell(labelW, tableLine, label, "", "L", false)
+			} else {
+				pdf.CellFormat(labelW, h, label, "", 0, "L", fill, 0, "")
+			}
 			for k, v := range vals {
 				x := margin + labelW + float64(k)*colW
 				pdf.SetXY(x, y)
@@ -186,7 +212,7 @@ func stepTable(pdf *fpdf.Fpdf, labels []string, cells [][]string) {
 				if fill {
 					pdf.Rect(x, y, colW, h, "F")
 				}
-				pdf.MultiCell(colW, lineSmall, v, "", "R", false)
+				pdf.MultiCell(colW, tableLine, v, "", "R", false)
 			}
 			pdf.SetXY(margin, y+h)
 		}
@@ -219,7 +245,8 @@ func modelSection(pdf *fpdf.Fpdf, res *analysis.Result, sum analysis.ResultSumma
 			"%s: E %g GPa, shear ultimate %g MPa, recoverable strain %.4g %%, strain-life C %g, b %g, b2 %g (%s)",
 			models.Printable(a.Name, models.MaxNameRunes), a.ElasticModulusGPa, a.ShearUltimateMPa, 100*a.RecoverableStrain, a.StrainLifeC, a.StrainLifeB, a.LowCycleB, src)})
 	}
-	keyValue(pdf, margin, 42, bodyW-42, pairs)
+	// The model section is reference: in the small size, so the summary stays on one page.
+	keyValueSized(pdf, margin, 42, bodyW-42, pairs, sizeSmall+0.5, lineSmall+0.2)
 }
 
 // pathModelText states how the file runs in the canal.
@@ -289,7 +316,7 @@ func stepPage(pdf *fpdf.Fpdf, res *analysis.Result, st *analysis.StepResult, opt
 		return err
 	}
 	pdf.SetY(top)
-	numbersAndAdvice(pdf, st, margin+imgW+5)
+	numbersAndAdvice(pdf, res, st, margin+imgW+5)
 	pdf.SetY(max(top+imgH, pdf.GetY()) + 2)
 	if err := sectionRow(pdf, res, st); err != nil {
 		return err
@@ -343,21 +370,33 @@ func sectionRow(pdf *fpdf.Fpdf, res *analysis.Result, st *analysis.StepResult) e
 const (
 	plotWMM = 59.0
 	plotHMM = 56.0
-	plotDPI = 220
+	// plotMinHMM is the smallest height a profile plot keeps its tick labels readable at.
+	plotMinHMM = 40.0
+	plotDPI    = 220
 )
 
 // profilePlots puts the three profiles side by side.
 func profilePlots(pdf *fpdf.Fpdf, c *analysis.Canal, st *analysis.StepResult) error {
 	pr := analysis.ProfileOf(c, st)
 	gap := (bodyW - 3*plotWMM) / 2
+	// The plots take the room left above the footer, down to plotMinHMM; less than that and
+	// they go on the next page.
+	h := plotHMM
+	if room := pageH - bottomM - 7 - pdf.GetY(); room < h {
+		if room >= plotMinHMM {
+			h = room
+		} else {
+			pdf.AddPage()
+		}
+	}
 	y := pdf.GetY()
 	px := func(mm float64) int { return int(math.Round(mm / 25.4 * plotDPI)) }
 	for k, p := range []*plot.Plot{plots.CutPlot(pr, plots.Print), plots.DiameterPlot(pr, plots.Print), plots.StrainPlot(pr, plots.Print)} {
-		img := plots.Image(p, px(plotWMM), px(plotHMM), plotDPI)
-		if err := placePNG(pdf, fmt.Sprintf("step%d-plot%d", st.Number, k), img, margin+float64(k)*(plotWMM+gap), y, plotWMM, plotHMM); err != nil {
+		img := plots.Image(p, px(plotWMM), px(h), plotDPI)
+		if err := placePNG(pdf, fmt.Sprintf("step%d-plot%d", st.Number, k), img, margin+float64(k)*(plotWMM+gap), y, plotWMM, h); err != nil {
 			return err
 		}
 	}
-	pdf.SetY(y + plotHMM + 2)
+	pdf.SetY(y + h + 2)
 	return nil
 }

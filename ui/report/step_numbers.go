@@ -10,7 +10,8 @@ import (
 
 // numbersAndAdvice writes the step's numbers, its advice and how the file is used in a column
 // from x to the right margin.
-func numbersAndAdvice(pdf *fpdf.Fpdf, st *analysis.StepResult, x float64) {
+func numbersAndAdvice(pdf *fpdf.Fpdf, res *analysis.Result, st *analysis.StepResult, x float64) {
+	markBend := res.Canal.BendUncertain()
 	m := st.Metrics
 	colW := margin + bodyW - x
 
@@ -23,15 +24,19 @@ func numbersAndAdvice(pdf *fpdf.Fpdf, st *analysis.StepResult, x float64) {
 		case "step", "label", "alloy", "advice", "tip_depth_mm", "tip_from_apex_mm":
 			continue
 		}
-		if statedApart(c) {
-			continue // stated below, under "How this step moved the canal", or in the model section
+		if statedApart(c) || isWallColumn(c) {
+			continue // stated below, under "How this step moved the canal", in the model section, or on one line (the wall)
 		}
 		// To the decimals the measurement supports (the column's Shown), as the summary's table.
 		v := c.Format(m)
-		if v == "" {
+		label := c.Label
+		switch {
+		case v == "":
 			v = "–"
+		case markBend && analysis.RestsOnTightestBend(c.Key):
+			v += bendMark
 		}
-		pairs = append(pairs, [2]string{c.Label, v})
+		pairs = append(pairs, [2]string{label, v})
 	}
 	opt := func(v *float64, d int) string {
 		if v == nil {
@@ -47,11 +52,23 @@ func numbersAndAdvice(pdf *fpdf.Fpdf, st *analysis.StepResult, x float64) {
 		[2]string{"capacity 3 mm from tip, N·cm", fixed(m.CapacityAt3mmNcm, 3)},
 		[2]string{"schedule, s (revolutions)", fixed(m.ScheduleTimeS, 1) + " (" + fixed(m.Revolutions, 0) + ")"},
 	)
+	if w := m.Wall; w.ThinnestWallMM != nil {
+		pairs = append(pairs, [2]string{"thinnest wall to root, mm (from apex, toward, under limit)",
+			fmt.Sprintf("%s (%s mm, %s°, %s %%)", fixed(*w.ThinnestWallMM, 2), fixed(*w.ThinnestWallFromApexMM, 1),
+				fixed(*w.ThinnestWallTowardDeg, 0), opt(w.WallUnderLimitPct, 1))})
+	}
 	if m.FractureTimeS != nil {
 		pairs = append(pairs, [2]string{"fracture after, s (tip depth, mm)",
 			opt(m.FractureTimeS, 1) + " (" + opt(m.FractureTipDepthMM, 2) + ")"})
 	}
 	numberLines(pdf, x, colW, pairs)
+	if markBend {
+		sum := res.Canal.Summary(false)
+		pdf.SetX(x)
+		pdf.SetFont(fontRegular, "", sizeSmall)
+		pdf.MultiCell(colW, lineSmall, fmt.Sprintf("%s rests on the tightest bend, which the scan pins down only to r %s, %s.",
+			bendMark, sum.RadiusText(), sum.PlaceText()), "", "L", false)
+	}
 	pdf.Ln(1.5)
 	pdf.SetX(x)
 	pdf.SetFont(fontBold, "", 9.5)

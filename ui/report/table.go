@@ -26,8 +26,12 @@ func statedApart(c analysis.Column) bool {
 
 // onStepPagesOnly tells the figures the summary's step table leaves to the step pages (page 1
 // has no room for them): the shank's contact and the wall to the root's surface.
-func onStepPagesOnly(c analysis.Column) bool {
-	return c.Key == "shank_contact_mm" || strings.Contains(c.Key, "wall_") && c.Key != "untouched_wall_pct"
+func onStepPagesOnly(c analysis.Column) bool { return c.Key == "shank_contact_mm" || isWallColumn(c) }
+
+// isWallColumn tells the figures of the wall to the root's surface (the step pages state them on
+// one line).
+func isWallColumn(c analysis.Column) bool {
+	return strings.Contains(c.Key, "wall_") && c.Key != "untouched_wall_pct"
 }
 
 // fixed writes v with d decimals, never "-0".
@@ -46,6 +50,15 @@ func fixed(v float64, d int) string {
 // figures of the JSON likewise rounded, so the PDF, the CSV and the JSON agree; a value that does
 // not exist is "–".
 func StepTable(sum analysis.ResultSummary) (labels []string, cells [][]string) {
+	return stepTableMarked(sum, false)
+}
+
+// bendMark marks the figures that rest on a tightest bend the scan does not pin down.
+const bendMark = "*"
+
+// stepTableMarked is StepTable with the figures that rest on the tightest bend marked when
+// markBend (the canal's band there is wide).
+func stepTableMarked(sum analysis.ResultSummary, markBend bool) (labels []string, cells [][]string) {
 	var cols []analysis.Column
 	var advice *analysis.Column
 	for _, c := range analysis.StepColumns() {
@@ -67,6 +80,15 @@ func StepTable(sum analysis.ResultSummary) (labels []string, cells [][]string) {
 		cells = append(cells, r)
 	}
 	for _, c := range cols {
+		if markBend && analysis.RestsOnTightestBend(c.Key) {
+			row(c.Label+" "+bendMark, func(m analysis.StepMetrics) string {
+				if v := c.Format(m); v != "" {
+					return v + bendMark
+				}
+				return ""
+			})
+			continue
+		}
 		row(c.Label, c.Format)
 	}
 	for _, r := range summaryTransportRows {

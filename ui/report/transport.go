@@ -28,6 +28,15 @@ func ratio(v *float64) string {
 
 func deg(v float64) string { return fixed(v, 0) }
 
+// signed prints a directional transportation with its sign ("+0.012", "-0.004", "0.000").
+func signed(v float64) string {
+	s := mm3(v)
+	if s != mm3(0) && s[0] != '-' {
+		s = "+" + s
+	}
+	return s
+}
+
 // level names a transportation level as the JSON keys it ("1" for 1 mm).
 func level(x float64) string { return strconv.FormatFloat(x, 'f', -1, 64) }
 
@@ -35,38 +44,6 @@ func level(x float64) string { return strconv.FormatFloat(x, 'f', -1, 64) }
 const transportLevelsNote = "Gambill et al. (J Endod 1996): wall removed on one side against the opposite side, in and " +
 	"across the plane of the main curve; a centring ratio of 1 is centred; directions in degrees about the axis from " +
 	"the inner side of the main curve."
-
-// transportRows lists transportation and centring at each level, the foramen shift and the
-// largest transportation with its place and direction.
-var transportRows = func() []transportRow {
-	var rows []transportRow
-	for _, x := range analysis.TransportLevels() {
-		key := level(x)
-		rows = append(rows, transportRow{"transportation at " + key + " mm, mm",
-			func(tr analysis.Transport) string { return mm3(tr.TransportationMM[key]) }})
-	}
-	for _, x := range analysis.TransportLevels() {
-		key := level(x)
-		rows = append(rows, transportRow{"centring ratio at " + key + " mm",
-			func(tr analysis.Transport) string { return ratio(tr.CenteringRatio[key]) }})
-	}
-	return append(rows,
-		transportRow{"apical foramen shift, mm", func(tr analysis.Transport) string { return mm3(tr.ForamenShiftMM) }},
-		transportRow{"largest transportation, mm", func(tr analysis.Transport) string { return mm3(tr.Largest.MM) }},
-		transportRow{"  its place, mm from apical end", func(tr analysis.Transport) string {
-			if tr.Largest.MM == 0 {
-				return "–"
-			}
-			return fixed(tr.Largest.FromApexMM, 2)
-		}},
-		transportRow{"  its direction (0° = inner side)", func(tr analysis.Transport) string {
-			if tr.Largest.MM == 0 {
-				return "–"
-			}
-			return deg(tr.Largest.TowardDeg) + "° " + sideWord(tr.Largest.TowardDeg)
-		}},
-	)
-}()
 
 // sideWord names a direction about the canal's axis: 0° is the inner side of the main curve
 // (the centerline's N1 at its tightest bend), 180° the outer side.
@@ -84,17 +61,35 @@ func sideWord(deg float64) string {
 	return "across"
 }
 
-// transportPairs states a Transport as label/value pairs.
+// transportPairs states a Transport as label/value pairs, as the step pages print it: the
+// summary's rows with the signed parts in and across the plane of the main curve under the
+// size.
 func transportPairs(tr analysis.Transport) [][2]string {
-	out := make([][2]string, len(transportRows))
-	for i, r := range transportRows {
-		out[i] = [2]string{r.label, r.value(tr)}
+	var out [][2]string
+	for i, r := range summaryTransportRows {
+		out = append(out, [2]string{r.label, r.value(tr)})
+		if i == 0 {
+			for _, d := range directionalRows {
+				out = append(out, [2]string{d.label, d.value(tr)})
+			}
+		}
 	}
 	return out
 }
 
-// summaryTransportRows are the same measures folded into fewer rows for the summary page's
-// table: the three levels side by side.
+// directionalRows are the transportation's signed parts, on the step pages.
+var directionalRows = []transportRow{
+	{"  in the curve's plane (+ inner side), mm", func(tr analysis.Transport) string {
+		return levels(func(k string) string { return signed(tr.TransportationInPlaneMM[k]) })
+	}},
+	{"  across it (+ toward 90°), mm", func(tr analysis.Transport) string {
+		return levels(func(k string) string { return signed(tr.TransportationAcrossMM[k]) })
+	}},
+}
+
+// summaryTransportRows are Gambill's measures with the three levels side by side in each row
+// (the summary's table and the step pages): the size, the centring ratio, the foramen shift
+// and the largest transportation with its place and direction.
 var summaryTransportRows = []transportRow{
 	{"transportation at 1 / 3 / 5 mm, mm", func(tr analysis.Transport) string {
 		return levels(func(k string) string { return mm3(tr.TransportationMM[k]) })
@@ -104,8 +99,8 @@ var summaryTransportRows = []transportRow{
 	}},
 	{"apical foramen shift, mm", func(tr analysis.Transport) string { return mm3(tr.ForamenShiftMM) }},
 	{"largest, mm (mm from apex, toward)", func(tr analysis.Transport) string {
-		if tr.Largest.MM == 0 {
-			return "0"
+		if mm3(tr.Largest.MM) == mm3(0) {
+			return "0" // under a micrometre: no place or direction to speak of
 		}
 		return mm3(tr.Largest.MM) + " (" + fixed(tr.Largest.FromApexMM, 2) + ", " + deg(tr.Largest.TowardDeg) + "° " +
 			sideWord(tr.Largest.TowardDeg) + ")"
@@ -129,7 +124,7 @@ func transportSentence(tr analysis.Transport) string {
 	s := fmt.Sprintf("Transportation at 1, 3 and 5 mm from the apical end: %s mm; centring ratio %s; apical foramen shift %s mm",
 		levels(func(k string) string { return mm3(tr.TransportationMM[k]) }),
 		levels(func(k string) string { return ratio(tr.CenteringRatio[k]) }), mm3(tr.ForamenShiftMM))
-	if tr.Largest.MM > 0 {
+	if mm3(tr.Largest.MM) != mm3(0) {
 		s += fmt.Sprintf("; the largest, %s mm, lies %s mm from the apical end toward %s° (%s side)",
 			mm3(tr.Largest.MM), fixed(tr.Largest.FromApexMM, 2), deg(tr.Largest.TowardDeg), sideWord(tr.Largest.TowardDeg))
 	}

@@ -37,6 +37,9 @@ type Options struct {
 	// canal as the step leaves it, or as scanned without a step), drawn solid inside the root
 	// drawn see-through; without a known root it changes nothing.
 	WallThickness bool
+	// Others are the other canals of the same tooth (found in the same scan), drawn around
+	// the shown one (neighbours.go).
+	Others []*mesh.Mesh
 }
 
 // WallLegendTop is the wall thickness, mm, at the pale end of the wall scale.
@@ -191,6 +194,7 @@ func Build(c *analysis.Canal, res *analysis.Result, opt Options) (*Built, error)
 		}
 	}
 	b.Scene = s
+	addNeighbours(b, opt.Others)
 	return b, nil
 }
 
