@@ -1,0 +1,55 @@
+package ui
+
+import (
+	"image/color"
+	"testing"
+
+	"tapersweep/ui/scene"
+)
+
+// TestWallToRootColours: the demo canal has a root, so "Wall to root" can be ticked; the view
+// then draws the wall in the wall scale's colours (red-orange where thin), none of the
+// depth-of-cut teal, and the thinnest part of the demo's wall (0.14 mm after step 3) in the
+// scale's thin end.
+func TestWallToRootColours(t *testing.T) {
+	w := openDemo(t)
+	vc := w.controls
+	if vc.wall.Disabled() {
+		t.Fatal("the demo canal has a root, yet \"Wall to root\" is disabled")
+	}
+	vc.wall.SetChecked(true)
+	in := w.view.input()
+	in.opt = vc.sceneOptions()
+	if !in.opt.WallThickness {
+		t.Fatal("ticking \"Wall to root\" does not reach the scene's options")
+	}
+	in.opt.Step, in.res = 3, w.res
+	cam, view := w.view.camera()
+	img, err := viewPicture(in, cam, view, 900, 600)
+	if err != nil {
+		t.Fatal(err)
+	}
+	near := func(a, b color.RGBA, tol int) bool {
+		d := func(x, y uint8) int { return max(int(x), int(y)) - min(int(x), int(y)) }
+		return d(a.R, b.R) <= tol && d(a.G, b.G) <= tol && d(a.B, b.B) <= tol
+	}
+	thin := scene.WallScale().At(0.14 / scene.WallLegendTop)
+	teal := scene.DepthScale().At(0.6)
+	var thinPx, tealPx int
+	b := img.Bounds()
+	for y := b.Min.Y; y < b.Max.Y; y++ {
+		for x := b.Min.X + 160; x < b.Max.X; x++ { // right of the legend
+			c := img.RGBAAt(x, y)
+			if near(c, thin, 28) {
+				thinPx++
+			}
+			if near(c, teal, 12) {
+				tealPx++
+			}
+		}
+	}
+	t.Logf("%d pixels near the thin wall's colour, %d in depth-of-cut teal", thinPx, tealPx)
+	if thinPx < 20 || tealPx > 20 {
+		t.Errorf("the wall view shows %d thin-wall pixels and %d depth-of-cut pixels", thinPx, tealPx)
+	}
+}
