@@ -52,6 +52,34 @@ func TestSpecEndsAreNotGuessed(t *testing.T) {
 	t.Logf("s* %.2f, R %.2f %v, Schneider %.2f %v", m.MaxCurvatureS, m.MaxCurvatureR, m.RadiusRange, m.SchneiderDeg, m.SchneiderRange)
 }
 
+// TestSpecEndsFileFractures: in the canal of TestSpecEndsAreNotGuessed, read the right way
+// round, a 25/.02 taken to working length meets the 3 mm arc 18-19 mm from its tip, where it
+// is about 0.62 mm across (ISO 3630-1 sizes and taper): an outer-fibre strain of d/(2R),
+// about 10 % (beam theory), beyond the recoverable strain of the default alloy (7 %). The model
+// must call it fractured; read the wrong way round, the arc met the thin tip and it did not.
+func TestSpecEndsFileFractures(t *testing.T) {
+	spec := specJSON(t, `{"kind":"straight","length":3},{"kind":"arc","radius":3,"angle":90},{"kind":"straight","length":17}`, 1.6, 1.4, 0)
+	c, err := CanalFromSpec(context.Background(), "uniform", spec, CanalOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	seq, err := models.ParseSequence("one file.json", []byte(`{"steps":[{"size":25,"taper":0.02,"depth":"WL"}]}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := Run(context.Background(), c, seq, RunOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := res.Steps[0].Metrics
+	if m.StrainAtMaxCurvaturePct == nil || math.Abs(*m.StrainAtMaxCurvaturePct-10) > 1.5 {
+		t.Errorf("strain at the tightest bend %v %%, want about 10", m.StrainAtMaxCurvaturePct)
+	}
+	if m.FractureTimeS == nil {
+		t.Errorf("a 25/.02 through a 3 mm arc 18-19 mm from its tip does not fracture in the model (fatigue use %.3g)", m.FatigueDamage)
+	}
+}
+
 // TestTwoCurveSpecs: 54 canals with a gentle coronal curve and a sharp apical one (straight 8,
 // r 8 mm 20 deg, straight 2, r 3 mm 20-40 deg, a 0.5-2 mm tail, 0.9 -> 0.3 mm), whose plane
 // of symmetry holds a row of voxel centres for some of them. None may fold back, report a

@@ -45,9 +45,16 @@ func Measure(c *Centerline, tol float64) Measures {
 	kmax := c.K[star]
 	kStar := kmax
 	klo, khi := kmax, kmax
+	var bend bendFit
+	fitted := false
 	if c.fits != nil {
 		kStar = c.tightest()
 		klo, khi = c.curvatureBand()
+		if b, ok := c.tightestBend(star); ok {
+			bend, fitted = b, true
+			kStar = 1 / b.circle.radius
+			klo, khi = bendBand(kStar, klo, khi)
+		}
 	}
 	if kStar > straightCurvature {
 		m.MaxCurvatureR = 1 / kStar
@@ -57,11 +64,21 @@ func Measure(c *Centerline, tol float64) Measures {
 		m.RadiusRange[1] = 1 / klo
 	}
 	m.SRange = c.placeBand(star, klo)
+	if fitted {
+		// The middle of the bend the circle was fitted to is the other reading of its place:
+		// on a long arc of one radius the curvature's wander may put s* far from it. Each end
+		// of the stretch is known to about a tenth of its length.
+		mid, half := (c.S[bend.lo]+c.S[bend.hi])/2, 0.1*(c.S[bend.hi]-c.S[bend.lo])
+		m.SRange = [2]float64{math.Min(m.SRange[0], mid-half), math.Max(m.SRange[1], mid+half)}
+	}
 	m.DepartureS, m.SchneiderDeg, _ = schneider(c, tol)
 	m.SchneiderRange = schneiderBand(c, tol, m.SchneiderDeg)
 	if kmax > straightCurvature {
 		lo, hi := c.peakStretch(0.5)
-		m.ArcRadius, _ = fitArc(c.Points[lo : hi+1])
+		if fitted {
+			lo, hi = bend.lo, bend.hi
+		}
+		m.ArcRadius = fitCircle(c.Points[lo : hi+1]).radius
 		// The arc's angle is the turn of the tangent over the stretch: exact for a planar arc
 		// and near zero for a wiggle, where a fitted circle's sweep could be anything.
 		// Tangents are read one fit window beyond the stretch, where a blurred curvature has
@@ -302,73 +319,6 @@ func departureOf(c *Centerline, origin, axis mgl64.Vec3, lo, from, hi int, tol f
 	}
 	s0 = math.Max(c.S[lo], math.Min(s0, c.S[first]))
 	return float64(lo) + (s0-c.S[lo])/c.DS, true
-}
-
-// fitArc fits a circle to points of a nearly planar curve: best plane by the smallest
-// principal axis, then an algebraic (Kasa) circle fit in that plane. It returns the radius and
-// the angle swept from the first to the last point about the centre, in degrees.
-func fitArc(pts []mgl64.Vec3) (radius, angleDeg float64) {
-	if len(pts) < 3 {
-		return math.Inf(1), 0
-	}
-	var mean mgl64.Vec3
-	for _, p := range pts {
-		mean = mean.Add(p)
-	}
-	mean = mean.Mul(1 / float64(len(pts)))
-	var cov mgl64.Mat3
-	for _, p := range pts {
-		d := p.Sub(mean)
-		for r := 0; r < 3; r++ {
-			for q := 0; q < 3; q++ {
-				cov[q*3+r] += d[r] * d[q]
-			}
-		}
-	}
-	e1, e2 := planeAxes(cov)
-	// Kasa fit: x^2 + y^2 + D x + E y + F = 0 by least squares.
-	var sxx, sxy, syy, sx, sy, sxz, syz, sz, cnt float64
-	for _, p := range pts {
-		d := p.Sub(mean)
-		x, y := d.Dot(e1), d.Dot(e2)
-		z := x*x + y*y
-		sxx += x * x
-		sxy += x * y
-		syy += y * y
-		sx += x
-		sy += y
-		sxz += x * z
-		syz += y * z
-		sz += z
-		cnt++
-	}
-	a := mgl64.Mat3{sxx, sxy, sx, sxy, syy, sy, sx, sy, cnt}
-	if math.Abs(a.Det()) < 1e-18 {
-		return math.Inf(1), 0
-	}
-	sol := a.Inv().Mul3x1(mgl64.Vec3{-sxz, -syz, -sz})
-	cx, cy := -sol[0]/2, -sol[1]/2
-	r2 := cx*cx + cy*cy - sol[2]
-	if r2 <= 0 {
-		return math.Inf(1), 0
-	}
-	var swept, prev float64
-	for i, p := range pts {
-		d := p.Sub(mean)
-		ang := math.Atan2(d.Dot(e2)-cy, d.Dot(e1)-cx)
-		if i > 0 {
-			step := ang - prev
-			for step > math.Pi {
-				step -= 2 * math.Pi
-			}
-			for step < -math.Pi {
-				step += 2 * math.Pi
-			}
-			swept += step
-		}
-		prev = ang
-	}
-	return math.Sqrt(r2), math.Abs(mgl64.RadToDeg(swept))
 }
 
 // planeAxes returns two orthonormal axes spanning the plane of the two largest principal

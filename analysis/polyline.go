@@ -91,26 +91,7 @@ func derivatives(pts []mgl64.Vec3, ds float64, m int) (d1, d2 []mgl64.Vec3) {
 	d1 = make([]mgl64.Vec3, n)
 	d2 = make([]mgl64.Vec3, n)
 	for i := range pts {
-		h := min(m, i, n-1-i)
-		if h < 1 {
-			continue
-		}
-		var s2, s4 float64
-		for j := -h; j <= h; j++ {
-			s2 += float64(j * j)
-			s4 += float64(j * j * j * j)
-		}
-		cnt := float64(2*h + 1)
-		mean2 := s2 / cnt
-		den2 := s4 - cnt*mean2*mean2
-		var a, b mgl64.Vec3
-		for j := -h; j <= h; j++ {
-			p := pts[i+j]
-			a = a.Add(p.Mul(float64(j) / s2))
-			b = b.Add(p.Mul((float64(j*j) - mean2) / den2))
-		}
-		d1[i] = a.Mul(1 / ds)
-		d2[i] = b.Mul(2 / (ds * ds))
+		d1[i], d2[i] = derivativesAt(pts, ds, m, i)
 	}
 	// Ends: carry the nearest fitted value outward.
 	for i := 0; i < n; i++ {
@@ -130,6 +111,30 @@ func derivatives(pts []mgl64.Vec3, ds float64, m int) (d1, d2 []mgl64.Vec3) {
 		}
 	}
 	return d1, d2
+}
+
+// derivativesAt is the fit of derivatives at one point i (zero where the window has no
+// point on either side).
+func derivativesAt(pts []mgl64.Vec3, ds float64, m, i int) (d1, d2 mgl64.Vec3) {
+	h := min(m, i, len(pts)-1-i)
+	if h < 1 {
+		return d1, d2
+	}
+	var s2, s4 float64
+	for j := -h; j <= h; j++ {
+		s2 += float64(j * j)
+		s4 += float64(j * j * j * j)
+	}
+	cnt := float64(2*h + 1)
+	mean2 := s2 / cnt
+	den2 := s4 - cnt*mean2*mean2
+	var a, b mgl64.Vec3
+	for j := -h; j <= h; j++ {
+		p := pts[i+j]
+		a = a.Add(p.Mul(float64(j) / s2))
+		b = b.Add(p.Mul((float64(j*j) - mean2) / den2))
+	}
+	return a.Mul(1 / ds), b.Mul(2 / (ds * ds))
 }
 
 // curvatureOf returns unit tangents and curvature from first and second derivatives.

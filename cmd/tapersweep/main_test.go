@@ -232,6 +232,16 @@ func TestAnalyzeFormats(t *testing.T) {
 	if lines := strings.Count(strings.TrimSpace(out), "\n") + 1; code != exitOK || lines != len(got.Steps)+1 {
 		t.Errorf("csv: exit %d, %d lines for %d steps", code, lines, len(got.Steps))
 	}
+	// The terminal's first line states the tightest bend's band with its radius, and the band
+	// holds the demo's 5 mm arc (analytic geometry: the spec's tightest arc).
+	code, out, _ = runCLI(t, "analyze", "--canal", "../../models/demo/canal.json", "--sequence", "../../models/demo/sequence.json", "--format", "table")
+	first, _, _ := strings.Cut(out, "\n")
+	var r, lo, hi float64
+	if i := strings.Index(first, "tightest bend r "); code != exitOK || i < 0 {
+		t.Errorf("table: exit %d, first line %q", code, first)
+	} else if _, err := fmt.Sscanf(first[i:], "tightest bend r %f mm (%f–%f)", &r, &lo, &hi); err != nil || !(lo <= 5 && 5 <= hi) {
+		t.Errorf("table: the first line %q states no band holding r 5 mm (%v)", first, err)
+	}
 	bad := writeFile(t, "seq.json", []byte(`{"steps":[{"size":25,"taper":0.06,"depth":"WL"},{"size":30,"taper":0,"depth":"WL"}]}`))
 	code, _, errOut = runCLI(t, "analyze", "--canal", "../../models/demo/canal.json", "--sequence", bad)
 	if code != exitBadInput || !strings.Contains(errOut, "step 2") || !strings.Contains(errOut, "taper") {
