@@ -1,7 +1,10 @@
 package ui
 
 import (
+	"fmt"
 	"image/color"
+	"path/filepath"
+	"strings"
 	"testing"
 
 	"tapersweep/ui/scene"
@@ -51,5 +54,30 @@ func TestWallToRootColours(t *testing.T) {
 	t.Logf("%d pixels near the thin wall's colour, %d in depth-of-cut teal", thinPx, tealPx)
 	if thinPx < 20 || tealPx > 20 {
 		t.Errorf("the wall view shows %d thin-wall pixels and %d depth-of-cut pixels", thinPx, tealPx)
+	}
+}
+
+// TestWholeSequenceStatesTheWall: with a root the panel under the file path states the wall
+// as scanned and after the last step, each equal to the run's own figure (as analyze's JSON
+// gives it); a canal without a root (an STL of the canal alone) states none.
+func TestWholeSequenceStatesTheWall(t *testing.T) {
+	w := openDemo(t)
+	res := w.res
+	last := res.Steps[len(res.Steps)-1].Metrics.Wall
+	if res.ScannedWall.ThinnestWallMM == nil || last.ThinnestWallMM == nil {
+		t.Fatal("the demo canal's run has no wall figures")
+	}
+	want := fmt.Sprintf("thinnest %.2f mm as scanned, %.2f mm after the sequence", *res.ScannedWall.ThinnestWallMM, *last.ThinnestWallMM)
+	if got := w.path.moved.Text; !strings.Contains(got, want) || !strings.Contains(got, "estimate") {
+		t.Errorf("the whole-sequence text %q does not state %q as an estimate", got, want)
+	}
+	stl, err := filepath.Abs("../testdata/curve_20deg_r5.stl")
+	if err != nil {
+		t.Fatal(err)
+	}
+	w.openPath(stl)
+	w.wait()
+	if got := w.path.moved.Text; w.res == nil || strings.Contains(got, "Root wall") {
+		t.Errorf("a canal without a root: %q", got)
 	}
 }
