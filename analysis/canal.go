@@ -46,6 +46,12 @@ type Canal struct {
 	// Exact is the known centerline of a parametric canal, sampled every StationSpacing from
 	// the orifice (nil for scans). Kept for checks, never used by the analysis.
 	Exact []mgl64.Vec3
+	// Root is the root's outer surface around the canal (nil when none is known), and
+	// Thickness the wall left to it from the canal as scanned (station-major like Rho, mm;
+	// negative where the canal passes outside the root).
+	Root        *Root
+	Thickness   []float32
+	scannedWall *wallMap // with each cell's nearest root point
 }
 
 // CanalOptions tune how a canal is measured.
@@ -56,6 +62,9 @@ type CanalOptions struct {
 	// Workers is the number of goroutines the measuring may keep busy; 0 uses every core. The
 	// canal does not depend on it.
 	Workers int
+	// Root is the root's outer surface (nil: none known), named by RootSource in the outputs.
+	Root       *mesh.Mesh
+	RootSource string
 }
 
 // NewCanal measures a closed canal mesh whose units are not known to be mm (a scan): a size no
@@ -132,6 +141,11 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	}
 	c.buildRadiusMap(opt.Workers)
 	c.placeVertices(opt.Workers)
+	if opt.Root != nil {
+		if err := c.attachRoot(opt.Root, opt.RootSource, opt.Workers); err != nil {
+			return nil, err
+		}
+	}
 	return c, nil
 }
 
@@ -140,6 +154,9 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 // diameters, so the ends are never guessed. The exact centerline is kept alongside for checks.
 func CanalFromSpec(ctx context.Context, name string, spec *models.CanalSpec, opt CanalOptions) (*Canal, error) {
 	m := spec.Mesh(StationSpacing, 96)
+	if root := spec.RootMesh(StationSpacing, 192); root != nil && opt.Root == nil {
+		opt.Root, opt.RootSource = root, "the canal spec"
+	}
 	if opt.WorkingLength == 0 {
 		opt.WorkingLength = spec.WorkingLength()
 	}

@@ -44,6 +44,9 @@ func Propose(ctx context.Context, c *analysis.Canal, opt Options) (*Plan, error)
 	if ti < 0 {
 		return nil, fmt.Errorf("plan: the target %s is not among the %d instruments given", opt.Target.Label(), len(opt.Instruments))
 	}
+	if opt.KeepWallMM > 0 && c.Root == nil {
+		return nil, fmt.Errorf("plan: %s: a wall to keep needs the root's outer surface (a root in the canal spec, a surface around the canal in its file, or a root file)", c.Name)
+	}
 	p := &planner{full: c, opt: opt, targetInst: ti}
 	if err := p.prepare(ctx); err != nil {
 		return nil, err
@@ -76,6 +79,8 @@ type planner struct {
 	coarseLim  limits
 	evaluated  int
 	rechecked  int
+	// wallRuled counts the plans re-checked at full resolution that the wall to keep ruled out.
+	wallRuled int
 }
 
 // prepare builds the coarse canal, lays out every (file, depth) move on it, finds each move's
@@ -206,6 +211,7 @@ type checked struct {
 type blockedStep struct {
 	step   int
 	advice analysis.Advice
+	wall   *float64 // the wall left, when the wall to keep rules the step out
 }
 
 // recheck runs the plans through the full-resolution canal and returns them best first
@@ -231,8 +237,16 @@ func (p *planner) recheck(ctx context.Context, found []*complete) ([]*checked, e
 		ck := &checked{seq: seq, res: res, m: m, excess: p.fullLim.excess(m), cost: p.fullLim.cost(m)}
 		for k, s := range res.Steps {
 			for _, a := range analysis.Blocking(&s.Metrics) {
-				ck.blocked = append(ck.blocked, blockedStep{k + 1, a})
+				ck.blocked = append(ck.blocked, blockedStep{step: k + 1, advice: a})
 				ck.excess++
+			}
+			if p.opt.KeepWallMM > 0 {
+				for _, a := range s.Metrics.Advice {
+					if a.Code == analysis.AdviceThinWall {
+						ck.blocked = append(ck.blocked, blockedStep{step: k + 1, advice: a, wall: s.Metrics.ThinnestWallMM})
+						ck.excess++
+					}
+				}
 			}
 		}
 		out[i] = ck
@@ -240,6 +254,14 @@ func (p *planner) recheck(ctx context.Context, found []*complete) ([]*checked, e
 	for _, err := range errs {
 		if err != nil {
 			return nil, err
+		}
+	}
+	for _, ck := range out {
+		for _, b := range ck.blocked {
+			if b.wall != nil {
+				p.wallRuled++
+				break
+			}
 		}
 	}
 	// A stable insertion sort keeps the search's order among equals.
@@ -323,6 +345,16 @@ func (p *planner) targetFails() error {
 					"before it: %s", tl, a.Text)}
 		}
 	}
+	if p.opt.KeepWallMM > 0 {
+		for _, a := range p.baseline.Steps[0].Metrics.Advice {
+			if a.Code == analysis.AdviceThinWall {
+				w := p.baseline.Steps[0].Metrics.ThinnestWallMM
+				return &InfeasibleError{Constraint: ConstraintWall, Limit: p.opt.KeepWallMM, Needed: *w, Step: 0, Msg: fmt.Sprintf(
+					"the %s taken to working length, which ends every plan, leaves %s mm of wall to the root's outer surface, under the "+
+						"%s mm to keep: %s", tl, mmText(*w), mmText(p.opt.KeepWallMM), a.Text)}
+			}
+		}
+	}
 	in := p.target.step.Instrument
 	if p.glide.Missing(in, 0) {
 		for _, mv := range p.moves {
@@ -371,6 +403,10 @@ func (p *planner) explain(best *checked) *Plan {
 	case opt.MaxFatigue == 0:
 		cons = append(cons, fmt.Sprintf("no file using more of its fatigue life than the %s at working length (%.3g)", tl, ref.fatigue))
 	}
+	if opt.KeepWallMM > 0 {
+		cons = append(cons, fmt.Sprintf("every file leaves at least %s mm of wall to the root's outer surface (where the canal as scanned "+
+			"has less, it does not thin the wall)", mmText(opt.KeepWallMM)))
+	}
 	cons = append(cons, "the tool's own advice: sizes never go down, a glide path before any file wider than the canal at "+
 		"working length, no file bent past its recoverable strain or reaching the model's fracture point")
 	cons = append(cons, fmt.Sprintf("no file engaged over a longer stretch or needing more torque than the %s taken straight to working length", tl))
@@ -389,6 +425,18 @@ func (p *planner) explain(best *checked) *Plan {
 	}
 	for _, r := range taperDownReasons(best.res) {
 		add("%s", r)
+	}
+	if opt.KeepWallMM > 0 {
+		w := best.res.Steps[len(best.res.Steps)-1].Metrics.Wall
+		switch {
+		case p.wallRuled > 0:
+			add("The wall to keep (%s mm) binds: it ruled out %d of the %d plans re-checked at full resolution; this plan leaves "+
+				"%.2f mm at its thinnest, %.1f mm from the apical end toward %.0f°.", mmText(opt.KeepWallMM), p.wallRuled, p.rechecked,
+				*w.ThinnestWallMM, *w.ThinnestWallFromApexMM, *w.ThinnestWallTowardDeg)
+		case w.ThinnestWallMM != nil:
+			add("The wall to keep (%s mm) does not bind: the plan leaves %.2f mm at its thinnest, %.1f mm from the apical end toward %.0f°.",
+				mmText(opt.KeepWallMM), *w.ThinnestWallMM, *w.ThinnestWallFromApexMM, *w.ThinnestWallTowardDeg)
+		}
 	}
 	if p.opt.MaxFatigue < 0 {
 		add("The fatigue cap was lifted; no file reaches the model's fracture point all the same (the tool's own advice).")

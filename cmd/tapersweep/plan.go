@@ -22,11 +22,13 @@ func planCommand() command {
 		name:    "plan",
 		summary: "propose a file sequence that reaches a target size and taper at working length with the least engagement, torque and fatigue use",
 		usage: "--canal PATH --target SIZE/TAPER [--instruments PATH] [--max-steps N] [--out FILE] [--compare PATH]\n" +
-			"       [--max-engaged MM] [--max-fatigue F] [--weights a,b,c] [--allow-same-taper] [--working-length MM] [--scale K]",
+			"       [--max-engaged MM] [--max-fatigue F] [--weights a,b,c] [--allow-same-taper] [--working-length MM] [--scale K]\n" +
+			"       [--root ROOT.stl] [--min-wall MM] [--keep-wall MM]",
 		example: "tapersweep plan --canal canal.stl --target 30/.04 --instruments shelf.json --max-engaged 6 --out plan.json --compare mine.json",
 		flags: func(fs *flag.FlagSet) func(stdout, stderr io.Writer) int {
 			var cf canalFlags
 			cf.register(fs)
+			cf.registerWall(fs)
 			target := fs.String("target", "", "the `SIZE/TAPER` of the last file, taken to working length (e.g. 30/.04)")
 			instruments := fs.String("instruments", "", "instruments `file` (JSON list of {\"size\": 25, \"taper\": 0.04, ...}); default: the generic catalogue from size 10 up to the target size, tapers .02-.08 (and .10 from size 20)")
 			maxSteps := fs.Int("max-steps", plan.DefaultMaxSteps, "at most `N` files, the target included")
@@ -36,6 +38,7 @@ func planCommand() command {
 			maxFatigue := fs.Float64("max-fatigue", 0, "no file using more than `F` of its fatigue life (0: what the target file alone uses at working length; -1: no cap below the model's fracture point, which no plan reaches)")
 			weights := fs.String("weights", "1,1,1", "weights `a,b,c` of largest engaged length, peak torque and fatigue use, each relative to the target file alone")
 			sameTaper := fs.Bool("allow-same-taper", false, "allow two consecutive files of the same taper")
+			keepWall := fs.Float64("keep-wall", 0, "every file leaves at least `MM` mm of wall to the root's outer surface (0: no such constraint; needs the root)")
 			return func(stdout, stderr io.Writer) int {
 				if code := cf.check(stderr, "plan"); code != exitOK {
 					return code
@@ -60,13 +63,17 @@ func planCommand() command {
 				if math.IsNaN(*maxFatigue) || *maxFatigue < 0 && *maxFatigue != -1 {
 					return usageError(stderr, "plan", "--max-fatigue must be above 0, 0 (the default cap) or -1 (no cap)")
 				}
+				if !(*keepWall >= 0) || *keepWall > 10 {
+					return usageError(stderr, "plan", "--keep-wall must be a number of mm from 0 to 10, not %g", *keepWall)
+				}
 				if *out != "" {
 					if err := checkOutput(*out, *cf.path, *instruments, *compare); err != nil {
 						return inputError(stderr, "plan", err)
 					}
 				}
 				opt := plan.Options{Target: tg, MaxSteps: *maxSteps, MaxEngagedMM: *maxEngaged,
-					MaxFatigue: *maxFatigue, AllowSameTaper: *sameTaper, Weights: w}
+					MaxFatigue: *maxFatigue, AllowSameTaper: *sameTaper, Weights: w, KeepWallMM: *keepWall,
+					Run: cf.runOptions(analysis.RunOptions{})}
 				if *instruments != "" {
 					if err := checkInput(*instruments); err != nil {
 						return inputError(stderr, "plan", err)
@@ -103,7 +110,7 @@ func planCommand() command {
 				}
 				other, otherName := pl.Baseline, tg.Label()+" alone to WL"
 				if cmp != nil {
-					if other, err = analysis.Run(ctx, c, cmp, analysis.RunOptions{}); err != nil {
+					if other, err = analysis.Run(ctx, c, cmp, cf.runOptions(analysis.RunOptions{})); err != nil {
 						return inputError(stderr, "plan", err)
 					}
 					otherName = *compare
