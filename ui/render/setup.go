@@ -58,8 +58,11 @@ func (r *Renderer) cullChunk(c int) {
 			atomic.StoreUint32(&marks[i], stamp)
 		}
 	}
+	// Locals, not fields: the appends below write memory, which would make the compiler reload
+	// fields through the pointers on every triangle.
+	cull, t1 := o.cull, ch.t1
 	var ts triSetup
-	for t := ch.t0; t < ch.t1; t++ {
+	for t := ch.t0; t < t1; t++ {
 		tri := tris[t]
 		if uint32(tri[0]) >= nv || uint32(tri[1]) >= nv || uint32(tri[2]) >= nv {
 			continue // a bad index draws nothing rather than panicking
@@ -77,10 +80,10 @@ func (r *Renderer) cullChunk(c int) {
 		}
 		// Facing away or edge-on: no need to set it up (setupGeometry decides the rest).
 		area := int64(b.s.x-a.s.x)*int64(cc.s.y-a.s.y) - int64(b.s.y-a.s.y)*int64(cc.s.x-a.s.x)
-		if area == 0 || o.cull && area > 0 {
+		if area == 0 || cull && area > 0 {
 			continue
 		}
-		swapped, ok := r.setupGeometryArea(&a.s, &b.s, &cc.s, area, o.cull, &ts)
+		swapped, ok := r.setupGeometryArea(&a.s, &b.s, &cc.s, area, cull, &ts)
 		if !ok {
 			continue
 		}
