@@ -123,9 +123,10 @@ func (p *planner) wallText(best *checked) []string {
 			for _, st := range wf.seq.Steps {
 				names = append(names, stepText(st))
 			}
-			out = append(out, fmt.Sprintf("The wall to keep (%s mm) binds: without it the search would have proposed %s (cost %.3f "+
-				"against %.3f), whose step %d leaves %.2f mm of wall to the root's outer surface, %.1f mm from the apical end toward %.0f°; %s.",
-				keep, strings.Join(names, ", "), wf.cost, best.cost, step, *w.ThinnestWallMM, *w.ThinnestWallFromApexMM,
+			out = append(out, fmt.Sprintf("The wall to keep (%s mm) binds: the search set aside plans it ranked above this one for "+
+				"the wall alone; the best of them, %s (cost %.3f against %.3f), leaves %.2f mm of wall to the root's outer surface "+
+				"at step %d, %.1f mm from the apical end toward %.0f°; %s.",
+				keep, strings.Join(names, ", "), wf.cost, best.cost, *w.ThinnestWallMM, step, *w.ThinnestWallFromApexMM,
 				*w.ThinnestWallTowardDeg, leaves))
 		}
 	}
