@@ -11,6 +11,7 @@ import (
 	"github.com/go-gl/mathgl/mgl64"
 
 	"tapersweep/mesh"
+	"tapersweep/mesh/parallel"
 	"tapersweep/models"
 )
 
@@ -91,9 +92,24 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	if c.Angles <= 0 {
 		c.Angles = DefaultAngles
 	}
-	c.Warnings = append(c.Warnings, mesh.Validate(m).Warnings()...)
-	c.Wall = mesh.NewBVH(m)
-	pts, info, err := extractCenterline(ctx, m, c.Wall, opt.Extract, opt.Workers)
+	// The surface's check and its BVH are not needed until the centerline's sections are
+	// outlined: with a core to spare they are made while the voxel searches run.
+	var check mesh.Report
+	ready := make(chan struct{})
+	prepare := func() {
+		check = mesh.Validate(m)
+		c.Wall = mesh.NewBVH(m)
+		close(ready)
+	}
+	if parallel.Workers(opt.Workers, 2) > 1 {
+		go prepare()
+	} else {
+		prepare()
+	}
+	wall := func() *mesh.BVH { <-ready; return c.Wall }
+	pts, info, err := extractCenterline(ctx, m, wall, opt.Extract, opt.Workers)
+	<-ready
+	c.Warnings = append(c.Warnings, check.Warnings()...)
 	if err != nil {
 		return nil, fmt.Errorf("centerline: %w", err)
 	}

@@ -549,14 +549,26 @@ func (b *BVH) Ray(orig, dir mgl64.Vec3, tMax float64) (Hit, bool) {
 	inv := inverse(dir)
 	best := tMax
 	found := false
-	var stack [bvhStackDepth]int32
+	// Each entry keeps where the ray enters its box: both children are tested at their
+	// parent, the nearer is visited first, and a box entered beyond the best hit so far is
+	// dropped when its turn comes.
+	var stack [bvhStackDepth]struct {
+		node  int32
+		enter float64
+	}
+	root := &b.nodes[0]
+	t0, ok := rayBoxEnter(root.lo, root.hi, orig, inv, best)
+	if !ok {
+		return hit, false
+	}
+	stack[0].enter = t0
 	sp := 1
 	for sp > 0 {
 		sp--
-		n := &b.nodes[stack[sp]]
-		if !rayBox(n.lo, n.hi, orig, inv, best) {
+		if stack[sp].enter > best {
 			continue
 		}
+		n := &b.nodes[stack[sp].node]
 		if n.count > 0 {
 			for i := n.first; i < n.first+n.count; i++ {
 				tr := &b.tris[i]
@@ -567,20 +579,24 @@ func (b *BVH) Ray(orig, dir mgl64.Vec3, tMax float64) (Hit, bool) {
 			}
 			continue
 		}
-		// Visit the child on the ray's near side first (pushed last).
 		l, r := n.first, n.first+1
-		axis := 0
-		if math.Abs(dir[1]) > math.Abs(dir[axis]) {
-			axis = 1
+		tl, okl := rayBoxEnter(b.nodes[l].lo, b.nodes[l].hi, orig, inv, best)
+		tr, okr := rayBoxEnter(b.nodes[r].lo, b.nodes[r].hi, orig, inv, best)
+		switch {
+		case okl && okr:
+			if tr < tl {
+				l, r, tl, tr = r, l, tr, tl
+			}
+			stack[sp].node, stack[sp].enter = r, tr
+			stack[sp+1].node, stack[sp+1].enter = l, tl
+			sp += 2
+		case okl:
+			stack[sp].node, stack[sp].enter = l, tl
+			sp++
+		case okr:
+			stack[sp].node, stack[sp].enter = r, tr
+			sp++
 		}
-		if math.Abs(dir[2]) > math.Abs(dir[axis]) {
-			axis = 2
-		}
-		if dir[axis] < 0 {
-			l, r = r, l
-		}
-		stack[sp], stack[sp+1] = r, l
-		sp += 2
 	}
 	if !found {
 		return Hit{}, false
@@ -588,6 +604,26 @@ func (b *BVH) Ray(orig, dir mgl64.Vec3, tMax float64) (Hit, bool) {
 	hit.T = best
 	hit.Point = orig.Add(dir.Mul(best))
 	return hit, true
+}
+
+// rayBoxEnter is rayBox that also returns where the ray enters the box (0 from inside).
+func rayBoxEnter(lo, hi, o, inv mgl64.Vec3, tMax float64) (float64, bool) {
+	tn, tf := 0.0, tMax
+	for k := 0; k < 3; k++ {
+		t1 := (lo[k] - o[k]) * inv[k]
+		t2 := (hi[k] - o[k]) * inv[k]
+		if t1 > t2 {
+			t1, t2 = t2, t1
+		}
+		// NaN (origin on a slab plane of a flat direction) constrains nothing.
+		if t1 > tn {
+			tn = t1
+		}
+		if t2 < tf {
+			tf = t2
+		}
+	}
+	return tn, tn <= tf
 }
 
 // Closest returns the surface point nearest p, its triangle and the distance. With no
