@@ -3,6 +3,7 @@ package analysis
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"tapersweep/mesh"
 	"tapersweep/models"
@@ -23,6 +24,7 @@ const (
 	AdviceFatigue        = "fatigue"
 	AdviceTorsion        = "torsion"
 	AdviceTransportation = "apical-transportation"
+	AdviceThinWall       = "thin-wall"
 )
 
 // apicalTransportLimit: apical transportation above about 0.3 mm harmed the seal of root fillings
@@ -112,6 +114,16 @@ func addAdvice(res *Result) {
 					"0.3 mm of such a shift the apical seal was found to suffer.", shift, transportAt(c, c.Rho, sr.Prepared, at).size())
 				transportNoted = true
 			}
+		}
+		// The wall to the root's surface: said when this step leaves it under the user's limit
+		// where it cut (a wall already that thin as scanned is said once, in the warnings).
+		metShare := res.ScannedWall.WallUnderLimitPct
+		if prev != nil {
+			metShare = prev.Metrics.WallUnderLimitPct
+		}
+		if w := m.Wall; w.ThinnestWallMM != nil && *w.ThinnestWallMM < *w.WallLimitMM &&
+			(*w.WallThinnedMM > 0.0005 || metShare == nil || *w.WallUnderLimitPct > *metShare) {
+			add(AdviceThinWall, "%s.", upperFirst(thinWallText(w)))
 		}
 		if mg := m.TorsionMargin; mg != nil && *mg < 1.5 {
 			add(AdviceTorsion, "Cutting torque comes within a factor of %.2f of what the file carries %.1f mm from its tip.", *mg, *m.TorsionMarginFromTipMM)
@@ -226,4 +238,12 @@ func Blocking(m *StepMetrics) []Advice {
 		}
 	}
 	return out
+}
+
+// upperFirst starts a sentence.
+func upperFirst(s string) string {
+	if s == "" {
+		return s
+	}
+	return strings.ToUpper(s[:1]) + s[1:]
 }

@@ -11,6 +11,7 @@ import (
 	"github.com/go-gl/mathgl/mgl64"
 
 	"tapersweep/mesh"
+	"tapersweep/mesh/parallel"
 	"tapersweep/models"
 )
 
@@ -45,6 +46,12 @@ type Canal struct {
 	// Exact is the known centerline of a parametric canal, sampled every StationSpacing from
 	// the orifice (nil for scans). Kept for checks, never used by the analysis.
 	Exact []mgl64.Vec3
+	// Root is the root's outer surface around the canal (nil when none is known), and
+	// Thickness the wall left to it from the canal as scanned (station-major like Rho, mm;
+	// negative where the canal passes outside the root).
+	Root        *Root
+	Thickness   []float32
+	scannedWall *wallMap // with each cell's nearest root point
 }
 
 // CanalOptions tune how a canal is measured.
@@ -55,6 +62,9 @@ type CanalOptions struct {
 	// Workers is the number of goroutines the measuring may keep busy; 0 uses every core. The
 	// canal does not depend on it.
 	Workers int
+	// Root is the root's outer surface (nil: none known), named by RootSource in the outputs.
+	Root       *mesh.Mesh
+	RootSource string
 }
 
 // NewCanal measures a closed canal mesh whose units are not known to be mm (a scan): a size no
@@ -82,9 +92,24 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	if c.Angles <= 0 {
 		c.Angles = DefaultAngles
 	}
-	c.Warnings = append(c.Warnings, mesh.Validate(m).Warnings()...)
-	c.Wall = mesh.NewBVH(m)
-	pts, info, err := extractCenterline(ctx, m, c.Wall, opt.Extract, opt.Workers)
+	// The surface's check and its BVH are not needed until the centerline's sections are
+	// outlined: with a core to spare they are made while the voxel searches run.
+	var check mesh.Report
+	ready := make(chan struct{})
+	prepare := func() {
+		check = mesh.Validate(m)
+		c.Wall = mesh.NewBVH(m)
+		close(ready)
+	}
+	if parallel.Workers(opt.Workers, 2) > 1 {
+		go prepare()
+	} else {
+		prepare()
+	}
+	wall := func() *mesh.BVH { <-ready; return c.Wall }
+	pts, info, err := extractCenterline(ctx, m, wall, opt.Extract, opt.Workers)
+	<-ready
+	c.Warnings = append(c.Warnings, check.Warnings()...)
 	if err != nil {
 		return nil, fmt.Errorf("centerline: %w", err)
 	}
@@ -116,6 +141,11 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	}
 	c.buildRadiusMap(opt.Workers)
 	c.placeVertices(opt.Workers)
+	if opt.Root != nil {
+		if err := c.attachRoot(opt.Root, opt.RootSource, opt.Workers); err != nil {
+			return nil, err
+		}
+	}
 	return c, nil
 }
 
@@ -124,6 +154,9 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 // diameters, so the ends are never guessed. The exact centerline is kept alongside for checks.
 func CanalFromSpec(ctx context.Context, name string, spec *models.CanalSpec, opt CanalOptions) (*Canal, error) {
 	m := spec.Mesh(StationSpacing, 96)
+	if root := spec.RootMesh(StationSpacing, 192); root != nil && opt.Root == nil {
+		opt.Root, opt.RootSource = root, "the canal spec"
+	}
 	if opt.WorkingLength == 0 {
 		opt.WorkingLength = spec.WorkingLength()
 	}

@@ -20,10 +20,10 @@ func squaredDistance(g *mesh.Grid, workers int) []float32 {
 			d[i] = far
 		}
 	}
-	// Axis x: lines indexed by (j,k); stride 1.
-	parallelLines(workers, g.NY*g.NZ, g.NX, func(line int, f, out []float64, v []int, z []float64) {
-		base := line * g.NX
-		edt1D(d, base, 1, g.NX, f, out, v, z)
+	// Axis x: lines indexed by (j,k); stride 1. Values are still 0 or far, where the lower
+	// envelope is the squared distance to the nearest 0 on the line: two sweeps find it.
+	parallel.For(workers, g.NY*g.NZ, func(_, line int) {
+		nearestZero1D(d[line*g.NX : (line+1)*g.NX])
 	})
 	parallelLines(workers, g.NX*g.NZ, g.NY, func(line int, f, out []float64, v []int, z []float64) {
 		i, k := line%g.NX, line/g.NX
@@ -51,6 +51,36 @@ func parallelLines(workers, lines, length int, fn func(line int, f, out []float6
 		}
 		fn(line, b.f, b.out, b.v, b.z)
 	})
+}
+
+// nearestZero1D replaces every non-zero value of a line holding only 0 and far by its squared
+// distance to the nearest 0, and leaves a line without a 0 as it is: what edt1D gives such a
+// line, exactly (integers), for a fraction of the work.
+func nearestZero1D(line []float32) {
+	n := len(line)
+	last := -1
+	for q := 0; q < n; q++ {
+		if line[q] == 0 {
+			last = q
+		} else if last >= 0 {
+			dq := q - last
+			line[q] = float32(dq * dq)
+		}
+	}
+	if last < 0 {
+		return // no 0 on the line
+	}
+	next := -1
+	for q := n - 1; q >= 0; q-- {
+		if line[q] == 0 {
+			next = q
+		} else if next >= 0 {
+			dq := next - q
+			if v := float32(dq * dq); v < line[q] {
+				line[q] = v
+			}
+		}
+	}
 }
 
 // edt1D is the lower envelope of parabolas along one line of d (start, stride, n).

@@ -51,7 +51,7 @@ func ExampleUnitsError() {
 		fmt.Printf("%v: scale it by 0.001\n", err)
 	}
 	// Output:
-	// scan.stl: the mesh spans 17974 units, far more than a tooth in mm: scale it by 0.001
+	// scan.stl: the mesh spans 17886 units, far more than a tooth in mm: scale it by 0.001
 }
 
 // The step figures are described once; every table picks its columns from them.

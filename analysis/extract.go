@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"math"
 	"slices"
-	"sort"
 
 	"github.com/go-gl/mathgl/mgl64"
 
@@ -55,9 +54,18 @@ func (e extension) add(pts []mgl64.Vec3, tail extension) []mgl64.Vec3 {
 // extractCenterline finds the canal's axis in a closed mesh: voxelise, distance transform,
 // the two ends of the longest geodesic path, a minimal path through the middle, smoothing,
 // ends carried to the wall by ray casts, and each station re-centred on its cross-section.
-func extractCenterline(ctx context.Context, m *mesh.Mesh, bvh *mesh.BVH, opt ExtractOptions, workers int) ([]mgl64.Vec3, extraction, error) {
+// wall gives the mesh's BVH, waiting until it is built (it is made meanwhile).
+func extractCenterline(ctx context.Context, m *mesh.Mesh, wall func() *mesh.BVH, opt ExtractOptions, workers int) ([]mgl64.Vec3, extraction, error) {
 	var info extraction
-	area, vol := mesh.Area(m), mesh.Volume(m)
+	// Two sums over every triangle, each in its own order, side by side when a core is spare.
+	var area, vol float64
+	parallel.For(workers, 2, func(_, i int) {
+		if i == 0 {
+			area = mesh.Area(m)
+		} else {
+			vol = mesh.Volume(m)
+		}
+	})
 	if area <= 0 || vol <= 0 {
 		return nil, info, errors.New("the surface encloses no volume (is it closed, with normals facing out?)")
 	}
@@ -161,6 +169,7 @@ func extractCenterline(ctx context.Context, m *mesh.Mesh, bvh *mesh.BVH, opt Ext
 	if err := ctx.Err(); err != nil {
 		return nil, info, err
 	}
+	bvh := wall()
 	pts, sec := recentre(pts, bvh, ds, workers)
 	// Stations whose cross-section could not be outlined (a ray slipped out through a hole or
 	// past the end) are cut off the ends and bridged inside.
@@ -514,8 +523,49 @@ func medianEdge(m *mesh.Mesh) float64 {
 	if len(ls) == 0 {
 		return 0
 	}
-	sort.Float64s(ls)
-	return ls[len(ls)/2]
+	return nthSmallest(ls, len(ls)/2)
+}
+
+// nthSmallest returns the value a sort would put at place k (from 0), reordering xs: a
+// quickselect with the median of three as pivot, a tenth of the cost of sorting.
+func nthSmallest(xs []float64, k int) float64 {
+	lo, hi := 0, len(xs)-1
+	for hi > lo {
+		mid := lo + (hi-lo)/2
+		if xs[mid] < xs[lo] {
+			xs[mid], xs[lo] = xs[lo], xs[mid]
+		}
+		if xs[hi] < xs[lo] {
+			xs[hi], xs[lo] = xs[lo], xs[hi]
+		}
+		if xs[hi] < xs[mid] {
+			xs[hi], xs[mid] = xs[mid], xs[hi]
+		}
+		pivot := xs[mid]
+		i, j := lo, hi
+		for i <= j {
+			for xs[i] < pivot {
+				i++
+			}
+			for xs[j] > pivot {
+				j--
+			}
+			if i <= j {
+				xs[i], xs[j] = xs[j], xs[i]
+				i++
+				j--
+			}
+		}
+		switch {
+		case k <= j:
+			hi = j
+		case k >= i:
+			lo = i
+		default:
+			return xs[k]
+		}
+	}
+	return xs[k]
 }
 
 // endRadius is the widest distance to the wall over the first (or last) 2 mm of the path.

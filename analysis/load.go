@@ -107,6 +107,15 @@ func canalFromSurface(ctx context.Context, name string, m *mesh.Mesh, rep mesh.L
 	// found is carried over from the load.
 	notes := rep.Notes
 	surface := rep.Surface
+	if opt.Canal.Root == nil && surface.Shells > 1 {
+		// A surface that encloses the canal is the root's: the canal is measured on its own.
+		if canal, root, more := splitNested(m, opt.Shell); root != nil {
+			m, opt.Canal.Root, opt.Canal.RootSource = canal, root, "the root's surface in "+name
+			notes = append(notes, more...)
+			surface = mesh.Validate(m)
+			opt.Shell = 0
+		}
+	}
 	if opt.Shell > 0 {
 		shells := mesh.Shells(m)
 		if opt.Shell > len(shells) {

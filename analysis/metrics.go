@@ -46,6 +46,9 @@ type StepMetrics struct {
 	// How this step moved the canal against the canal as it met it (Gambill et al. 1996).
 	Transport
 
+	// The wall left to the root's outer surface after the step (absent without a root).
+	Wall
+
 	Advice []Advice `json:"advice"`
 }
 
@@ -62,8 +65,10 @@ type ResultSummary struct {
 	Steps []StepMetrics `json:"steps"`
 	// Sequence: how the whole sequence moved the canal against the canal as scanned.
 	Sequence Transport `json:"sequence"`
-	Warnings []string  `json:"warnings"`
-	Caution  string    `json:"caution"`
+	// WallAsScanned is the wall to the root's outer surface before any step (absent without a root).
+	WallAsScanned *Wall    `json:"wall_as_scanned,omitempty"`
+	Warnings      []string `json:"warnings"`
+	Caution       string   `json:"caution"`
 }
 
 // ModelSummary states the settings behind the figures.
@@ -72,7 +77,11 @@ type ModelSummary struct {
 	ContactThresholdMM        float64 `json:"contact_threshold_mm"`
 	CuttingCoefficientNPerMM2 float64 `json:"cutting_coefficient_n_per_mm2"`
 	WallStiffnessNPerMM2      float64 `json:"wall_stiffness_n_per_mm2"`
-	Note                      string  `json:"note"`
+	// MinWallMM is the wall the thin-wall warning asks to keep (absent without a root).
+	MinWallMM *float64 `json:"min_wall_mm,omitempty"`
+	// RootSource says where the root's outer surface comes from (absent without one).
+	RootSource string `json:"root_source,omitempty"`
+	Note       string `json:"note"`
 }
 
 // Caution is the safety wording every report and the About box carry.
@@ -89,6 +98,8 @@ func (r *Result) Summary() ResultSummary {
 			WallStiffnessNPerMM2:      r.Options.WallStiffness,
 			ContactThresholdMM:        r.Options.ContactThreshold,
 			CuttingCoefficientNPerMM2: r.Options.CuttingCoefficient,
+			MinWallMM:                 r.wallLimit(),
+			RootSource:                r.rootSource(),
 			Note: "built-in alloy parameters, the cutting coefficient and the wall stiffness are illustrative; " +
 				"torque, fatigue and transportation figures compare steps, they are not measurements",
 		},
@@ -96,8 +107,27 @@ func (r *Result) Summary() ResultSummary {
 		Caution:  Caution,
 		Sequence: r.Moved,
 	}
+	if r.ScannedWall.ThinnestWallMM != nil {
+		w := r.ScannedWall
+		out.WallAsScanned = &w
+	}
 	for _, s := range r.Steps {
 		out.Steps = append(out.Steps, s.Metrics)
 	}
 	return out
+}
+
+// wallLimit is the thin-wall limit when a root is known, else nil.
+func (r *Result) wallLimit() *float64 {
+	if r.Canal.Root == nil {
+		return nil
+	}
+	return finite(r.Options.MinWallMM)
+}
+
+func (r *Result) rootSource() string {
+	if r.Canal.Root == nil {
+		return ""
+	}
+	return r.Canal.Root.Source
 }

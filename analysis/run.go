@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"sync"
 
 	"tapersweep/models"
 )
@@ -20,6 +21,11 @@ type RunOptions struct {
 	PathModel string
 	// WallStiffness k_w, N/mm2, for the elastic path (illustrative; 0 = the default).
 	WallStiffness float64
+	// MinWallMM is the least wall to the root's outer surface the thin-wall warning asks to keep
+	// (0 = DefaultMinWallMM); used only when the canal's root is known.
+	MinWallMM float64
+	// Workers bounds the goroutines of the wall measure (0 = every core).
+	Workers int
 }
 
 // Defaults of RunOptions.
@@ -39,6 +45,9 @@ func (o RunOptions) WithDefaults() RunOptions {
 	if o.WallStiffness <= 0 {
 		o.WallStiffness = DefaultWallStiffness
 	}
+	if o.MinWallMM <= 0 {
+		o.MinWallMM = DefaultMinWallMM
+	}
 	return o
 }
 
@@ -51,6 +60,11 @@ type Result struct {
 	Warnings []string
 	// Moved is how the whole sequence moved the canal (final prepared against scanned).
 	Moved Transport
+	// ScannedWall is the wall to the root's outer surface before any step (empty without a root).
+	ScannedWall Wall
+
+	wallMapsOnce sync.Once
+	wallMaps     [][]float32 // WallMap's, per step
 }
 
 // StepResult is what one file does. Maps are station-major like Canal.Rho.
@@ -115,9 +129,55 @@ func Run(ctx context.Context, c *Canal, seq *models.Sequence, opt RunOptions) (*
 		res.Steps = append(res.Steps, sr)
 		before = sr.Prepared
 	}
+
 	res.Moved = transportBetween(c, c.Rho, before)
+	res.measureWall()
 	addAdvice(res)
 	return res, nil
+}
+
+// measureWall states the wall to the root's outer surface as scanned and after each step; each
+// step's map is measured again only where the step moved the wall.
+func (res *Result) measureWall() {
+	c := res.Canal
+	if c.Root == nil || c.scannedWall == nil || len(c.scannedWall.th) != len(c.Rho) {
+		return // no root, or a copy of the canal on other stations (the planner's)
+	}
+	limit := res.Options.MinWallMM
+	res.ScannedWall = c.wallOf(c.Thickness, nil, c.Rho, limit)
+	res.ScannedWall.WallThinnedMM = nil
+	if t := res.ScannedWall.ThinnestWallMM; t != nil && *t < limit {
+		res.Warnings = append(res.Warnings, "as scanned: "+thinWallText(res.ScannedWall))
+	}
+	from := c.scannedWall
+	for _, sr := range res.Steps {
+		w := c.wallThickness(sr.Prepared, from, limit, math.Inf(1), res.Options.Workers)
+		sr.Metrics.Wall = c.wallOf(w.th, from.th, sr.Prepared, limit)
+		from = w
+	}
+}
+
+// WallMap is the wall left to the root's outer surface after step k (from 1; 0 = as scanned) at
+// every cell of the canal's map, each at most wallMapTolerance (or a tenth of the wall) above the
+// exact distance, for pictures; nil without a root. The maps of all steps are measured on the
+// first call (about as long as measuring the canal's own map) and kept.
+func (res *Result) WallMap(k int) []float32 {
+	c := res.Canal
+	if c.Root == nil || c.scannedWall == nil || len(c.scannedWall.th) != len(c.Rho) || k < 0 || k > len(res.Steps) {
+		return nil
+	}
+	if k == 0 {
+		return c.Thickness
+	}
+	res.wallMapsOnce.Do(func() {
+		from := c.scannedWall
+		for _, sr := range res.Steps {
+			w := c.wallThickness(sr.Prepared, from, res.Options.MinWallMM, wallMapTolerance, res.Options.Workers)
+			res.wallMaps = append(res.wallMaps, w.th)
+			from = w
+		}
+	})
+	return res.wallMaps[k-1]
 }
 
 func seqName(seq *models.Sequence) string {

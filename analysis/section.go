@@ -98,6 +98,19 @@ type Section struct {
 	CenteringRatio   *float64
 	// DeepestCutMM is the deepest wall removed by the step around this level's outline.
 	DeepestCutMM float64
+	// Root is the root's outer surface in this plane (nil when no root is known), and Wall the
+	// thinnest wall the shown step leaves at this level (as scanned for step 0).
+	Root *Outline
+	Wall *SectionWall
+}
+
+// SectionWall is the thinnest wall at one level: its thickness (the shortest distance to the
+// root's surface in 3D), the side it faces (degrees, as TowardDeg) and the segment from the
+// canal's outline to the nearest root point, that point projected into the section's plane
+// (mm, x along N1, y along N2).
+type SectionWall struct {
+	MM, TowardDeg          float64
+	FromX, FromY, ToX, ToY float64
 }
 
 // SectionAt is the cross-section fromApexMM from the apical end with step (from 1) of res shown;
@@ -120,6 +133,7 @@ func SectionAt(c *Canal, res *Result, step int, fromApexMM float64) (*Section, e
 	sec.Before, sec.After = sec.Scanned, sec.Scanned
 	sec.AfterAreaMM2 = sec.ScannedAreaMM2
 	if step == 0 {
+		sec.Root, sec.Wall = c.rootAt(s, sec.After)
 		return sec, nil
 	}
 	for _, st := range res.Steps[:step-1] {
@@ -136,7 +150,39 @@ func SectionAt(c *Canal, res *Result, step int, fromApexMM float64) (*Section, e
 	at := transportAt(c, st.Before, st.Prepared, s)
 	sec.TransportationMM, sec.TowardDeg, sec.CenteringRatio = at.size(), towardDeg(at.inPlane, at.across), at.ratioAlong
 	sec.File = fileSectionAt(c, st, s)
+	sec.Root, sec.Wall = c.rootAt(s, sec.After)
 	return sec, nil
+}
+
+// rootAt is the root's outline at arc length s (rays in the section's plane from the centerline
+// to the root's surface) and the thinnest wall from the canal's outline o there; nil without a
+// root.
+func (c *Canal) rootAt(s float64, o Outline) (*Outline, *SectionWall) {
+	if c.Root == nil {
+		return nil, nil
+	}
+	p, _, n1, n2 := c.Line.At(s)
+	n := len(o.R)
+	root := &Outline{R: make([]float64, n)}
+	w := &SectionWall{MM: math.Inf(1)}
+	seed := nearPoint{tri: -1}
+	for j := 0; j < n; j++ {
+		sin, cos := math.Sincos(2 * math.Pi * float64(j) / float64(n))
+		dir := n1.Mul(cos).Add(n2.Mul(sin))
+		if hit, ok := c.Root.Surface.Ray(p, dir, 4*c.Measures.Length); ok {
+			root.R[j] = hit.T
+		}
+		var d float64
+		d, seed = c.Root.signedDistance(p.Add(dir.Mul(o.R[j])), seed)
+		if d < w.MM {
+			q := seed.q.Sub(p)
+			w.MM, w.TowardDeg = d, towardDeg(cos, sin)
+			w.FromX, w.FromY = o.R[j]*cos, o.R[j]*sin
+			w.ToX, w.ToY = q.Dot(n1), q.Dot(n2)
+		}
+	}
+	w.MM = math.Max(w.MM, 0)
+	return root, w
 }
 
 // outlineAt reads a station-major map of the canal at arc length s, one sample per angle.

@@ -231,6 +231,15 @@ var stepColumns = func() []Column {
 	cols = append(cols,
 		scalar("foramen_shift_mm", "apical foramen shift, mm", "foramen\nshift mm", "mm", 4, 3,
 			func(m *StepMetrics) *float64 { return &m.ForamenShiftMM }),
+		// The wall to the root's outer surface (empty cells without a root; estimates).
+		optional("thinnest_wall_mm", "thinnest wall left to the root surface, mm (estimate)", "thinnest\nwall mm", "mm", 3, 2,
+			func(m *StepMetrics) **float64 { return &m.ThinnestWallMM }),
+		optional("thinnest_wall_from_apex_mm", "thinnest wall from apical end, mm", "thin wall\nto end mm", "mm", 2, 1,
+			func(m *StepMetrics) **float64 { return &m.ThinnestWallFromApexMM }),
+		optional("thinnest_wall_toward_deg", "thinnest wall toward (0° = inner side of the main curve), °", "thin wall\ntoward °", "°", 1, 0,
+			func(m *StepMetrics) **float64 { return &m.ThinnestWallTowardDeg }),
+		optional("wall_under_limit_pct", "wall under the limit you keep, %", "wall under\nlimit %", "%", 2, 1,
+			func(m *StepMetrics) **float64 { return &m.WallUnderLimitPct }),
 		textColumn("advice", "advice", "advice", func(m *StepMetrics, sep string) string {
 			codes := make([]string, len(m.Advice))
 			for i, a := range m.Advice {
@@ -265,6 +274,11 @@ var stepDetails = []Column{
 		func(m *StepMetrics) **float64 { return &m.TorsionMarginFromTipMM }),
 	scalar("capacity_at_3mm_ncm", "capacity 3 mm from tip, N·cm", "capacity\nN·cm", "N·cm", 4, 3,
 		func(m *StepMetrics) *float64 { return &m.CapacityAt3mmNcm }),
+	optional("wall_thinned_mm", "the step thinned the wall at its thinnest place by, mm", "wall\nthinned mm", "mm", 3, 2,
+		func(m *StepMetrics) **float64 { return &m.WallThinnedMM }),
+	// The limit is the user's own number, stated as given.
+	optional("wall_limit_mm", "wall the thin-wall warning keeps, mm", "wall\nlimit mm", "mm", -1, 2,
+		func(m *StepMetrics) **float64 { return &m.WallLimitMM }),
 	// The motor's torque limit is the sequence's own number, stated as given.
 	optional("torque_limit_ncm", "motor torque limit, N·cm", "limit\nN·cm", "N·cm", -1, 2,
 		func(m *StepMetrics) **float64 { return &m.TorqueLimitNcm }),

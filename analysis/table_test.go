@@ -24,10 +24,11 @@ func fullMetrics() StepMetrics {
 		m.CenteringRatio[k], m.CenteringRatioInPlane[k], m.CenteringRatioAcross[k] = v(0), v(0), v(0)
 	}
 	// Every optional figure exists (reflect, so that a field added later is covered too).
-	rv := reflect.ValueOf(&m).Elem()
-	for i := 0; i < rv.NumField(); i++ {
-		if f := rv.Field(i); f.Type() == reflect.TypeFor[*float64]() {
-			f.Set(reflect.ValueOf(v(0)))
+	for _, rv := range []reflect.Value{reflect.ValueOf(&m).Elem(), reflect.ValueOf(&m.Wall).Elem()} {
+		for i := 0; i < rv.NumField(); i++ {
+			if f := rv.Field(i); f.Type() == reflect.TypeFor[*float64]() {
+				f.Set(reflect.ValueOf(v(0)))
+			}
 		}
 	}
 	m.TorqueLimitNcm = v(2.123456789)

@@ -77,15 +77,29 @@ func graphOf(g *mesh.Grid) *voxelGraph {
 // than a search) and counts them.
 func (vg *voxelGraph) component(seed int32) ([]bool, int) {
 	in := make([]bool, len(vg.cells))
-	queue := []int32{seed}
+	queue := make([]int32, 1, len(vg.cells))
+	queue[0] = seed
 	in[seed] = true
+	node, cells, nbr := vg.node, vg.cells, &vg.nbr
 	for q := 0; q < len(queue); q++ {
-		vg.neighbours(queue[q], func(m int32, _ float64) {
-			if !in[m] {
+		p := queue[q]
+		if !vg.interior {
+			vg.neighbours(p, func(m int32, _ float64) {
+				if !in[m] {
+					in[m] = true
+					queue = append(queue, m)
+				}
+			})
+			continue
+		}
+		// Inlined as in search: no voxel inside touches the border, so no bounds to check.
+		c := cells[p]
+		for k := range nbr {
+			if m := node[c+nbr[k].off]; m >= 0 && !in[m] {
 				in[m] = true
 				queue = append(queue, m)
 			}
-		})
+		}
 	}
 	return in, len(queue)
 }
@@ -162,58 +176,65 @@ func (vg *voxelGraph) neighbours(n int32, fn func(m int32, step float64)) {
 
 // nodeHeap is an indexed 4-ary heap of nodes keyed by their distance (smallest first, ties by
 // node so every search is deterministic). A node sits in it at most once: lowering its
-// distance moves it up in place, so the heap never holds stale entries.
+// distance moves it up in place, so the heap never holds stale entries. Each entry carries
+// its key, so sifting compares within the heap's own array instead of looking keys up.
 type nodeHeap struct {
-	items []int32
+	items []heapItem
 	pos   []int32   // node -> place in items, -1 when not in the heap
 	key   []float64 // the search's distances
 }
 
+type heapItem struct {
+	key float64
+	n   int32
+}
+
 func newNodeHeap(key []float64) *nodeHeap {
-	h := &nodeHeap{items: make([]int32, 0, 1024), pos: make([]int32, len(key)), key: key}
+	h := &nodeHeap{items: make([]heapItem, 0, 1024), pos: make([]int32, len(key)), key: key}
 	for i := range h.pos {
 		h.pos[i] = -1
 	}
 	return h
 }
 
-func (h *nodeHeap) less(a, b int32) bool {
-	if ka, kb := h.key[a], h.key[b]; ka != kb {
-		return ka < kb
-	}
-	return a < b
+// before orders entries by key, then by node.
+func before(a, b heapItem) bool {
+	return a.key < b.key || a.key == b.key && a.n < b.n
 }
 
 // update puts node n in the heap or moves it up after its key was lowered.
 func (h *nodeHeap) update(n int32) {
+	it := heapItem{h.key[n], n}
 	i := h.pos[n]
 	if i < 0 {
 		i = int32(len(h.items))
-		h.items = append(h.items, n)
+		h.items = append(h.items, it)
 	}
+	items, pos := h.items, h.pos
 	for i > 0 {
 		p := (i - 1) / 4
-		if !h.less(n, h.items[p]) {
+		if !before(it, items[p]) {
 			break
 		}
-		h.items[i] = h.items[p]
-		h.pos[h.items[i]] = i
+		items[i] = items[p]
+		pos[items[i].n] = i
 		i = p
 	}
-	h.items[i] = n
-	h.pos[n] = i
+	items[i] = it
+	pos[n] = i
 }
 
 // pop removes and returns the node of smallest key.
 func (h *nodeHeap) pop() int32 {
-	top := h.items[0]
+	top := h.items[0].n
 	h.pos[top] = -1
 	last := h.items[len(h.items)-1]
 	h.items = h.items[:len(h.items)-1]
 	if len(h.items) == 0 {
 		return top
 	}
-	i, n := int32(0), int32(len(h.items))
+	items, pos := h.items, h.pos
+	i, n := int32(0), int32(len(items))
 	for {
 		c := 4*i + 1
 		if c >= n {
@@ -221,19 +242,19 @@ func (h *nodeHeap) pop() int32 {
 		}
 		best := c
 		for k := c + 1; k < min(c+4, n); k++ {
-			if h.less(h.items[k], h.items[best]) {
+			if before(items[k], items[best]) {
 				best = k
 			}
 		}
-		if !h.less(h.items[best], last) {
+		if !before(items[best], last) {
 			break
 		}
-		h.items[i] = h.items[best]
-		h.pos[h.items[i]] = i
+		items[i] = items[best]
+		pos[items[i].n] = i
 		i = best
 	}
-	h.items[i] = last
-	h.pos[last] = i
+	items[i] = last
+	pos[last.n] = i
 	return top
 }
 

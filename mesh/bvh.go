@@ -13,6 +13,85 @@ import (
 type BVH struct {
 	nodes []bvhNode
 	tris  []bvhTri // in leaf order
+	// slabs[i] bounds node i's triangles between two planes (nearly flat patches only), a
+	// lower bound of distance without the slack an axis-aligned box has across a tilted patch;
+	// nil unless AddSlabs was called.
+	slabs []bvhSlab
+}
+
+// bvhSlab holds a node's triangles between the planes n.x = lo and n.x = hi; n is zero where
+// the patch is too curved for the planes to help.
+type bvhSlab struct {
+	n      mgl64.Vec3
+	lo, hi float64
+}
+
+// slabMaxTriangles: larger nodes are curved surfaces, whose slabs bound nothing.
+const slabMaxTriangles = 64
+
+// AddSlabs fits each small node's slab along its triangles' mean normal, for closest-point
+// queries from points whose distance to the surface hardly changes along it (inside a tube:
+// the wall to a root's outer surface); it costs about a fifth of the build, so only the users
+// that need it pay. Not safe to call while the BVH is queried.
+//
+// Children come after their parent, so one pass from the end gathers each node's range of
+// triangles (a subtree's triangles lie together in leaf order) and how many its leaves hold.
+func (b *BVH) AddSlabs() {
+	b.slabs = make([]bvhSlab, len(b.nodes))
+	first := make([]int32, len(b.nodes))
+	end := make([]int32, len(b.nodes))
+	count := make([]int32, len(b.nodes))
+	for i := len(b.nodes) - 1; i >= 0; i-- {
+		nd := &b.nodes[i]
+		if nd.count > 0 {
+			first[i], end[i], count[i] = nd.first, nd.first+nd.count, nd.count
+		} else {
+			l, r := nd.first, nd.first+1
+			first[i], end[i], count[i] = min(first[l], first[r]), max(end[l], end[r]), count[l]+count[r]
+		}
+		if count[i] > slabMaxTriangles || end[i]-first[i] != count[i] {
+			continue
+		}
+		var n mgl64.Vec3
+		area := 0.0
+		for t := first[i]; t < end[i]; t++ {
+			c := b.tris[t].e1.Cross(b.tris[t].e2)
+			n = n.Add(c)
+			area += c.Len()
+		}
+		l := n.Len()
+		if !(l > 0.9*area) || l == 0 {
+			continue // curved: the planes would lie far apart
+		}
+		n = n.Mul(1 / l)
+		lo, hi := math.Inf(1), math.Inf(-1)
+		for t := first[i]; t < end[i]; t++ {
+			tr := &b.tris[t]
+			a := n.Dot(tr.a)
+			for _, d := range [3]float64{a, a + n.Dot(tr.e1), a + n.Dot(tr.e2)} {
+				lo, hi = min(lo, d), max(hi, d)
+			}
+		}
+		pad := 1e-12*(math.Abs(lo)+math.Abs(hi)) + 1e-12
+		b.slabs[i] = bvhSlab{n: n, lo: lo - pad, hi: hi + pad}
+	}
+}
+
+// lowerDist2 is a lower bound of the squared distance from p to node i's triangles: the box's,
+// or the slab's where that is larger.
+func (b *BVH) lowerDist2(i int32, p mgl64.Vec3) float64 {
+	n := &b.nodes[i]
+	d2 := boxDist2(n.lo, n.hi, p)
+	if b.slabs == nil {
+		return d2
+	}
+	if sl := &b.slabs[i]; sl.n != (mgl64.Vec3{}) {
+		x := sl.n.Dot(p)
+		if d := max(sl.lo-x, x-sl.hi); d > 0 && d*d > d2 {
+			return d * d
+		}
+	}
+	return d2
 }
 
 // bvhNode is a box; a leaf lists count triangles from first, an inner node (count 0) has its
@@ -416,22 +495,8 @@ func growBox(lo, hi *mgl64.Vec3, plo, phi mgl64.Vec3) {
 
 // rayBox returns whether the ray enters the box before tMax (and after 0).
 func rayBox(lo, hi, o, inv mgl64.Vec3, tMax float64) bool {
-	tn, tf := 0.0, tMax
-	for k := 0; k < 3; k++ {
-		t1 := (lo[k] - o[k]) * inv[k]
-		t2 := (hi[k] - o[k]) * inv[k]
-		if t1 > t2 {
-			t1, t2 = t2, t1
-		}
-		// NaN (origin on a slab plane of a flat direction) constrains nothing.
-		if t1 > tn {
-			tn = t1
-		}
-		if t2 < tf {
-			tf = t2
-		}
-	}
-	return tn <= tf
+	_, ok := rayBoxEnter(lo, hi, o, inv, tMax)
+	return ok
 }
 
 // rayTri is the Moller-Trumbore test; it returns t, the barycentric u, v and det.
@@ -470,14 +535,26 @@ func (b *BVH) Ray(orig, dir mgl64.Vec3, tMax float64) (Hit, bool) {
 	inv := inverse(dir)
 	best := tMax
 	found := false
-	var stack [bvhStackDepth]int32
+	// Each entry keeps where the ray enters its box: both children are tested at their
+	// parent, the nearer is visited first, and a box entered beyond the best hit so far is
+	// dropped when its turn comes.
+	var stack [bvhStackDepth]struct {
+		node  int32
+		enter float64
+	}
+	root := &b.nodes[0]
+	t0, ok := rayBoxEnter(root.lo, root.hi, orig, inv, best)
+	if !ok {
+		return hit, false
+	}
+	stack[0].enter = t0
 	sp := 1
 	for sp > 0 {
 		sp--
-		n := &b.nodes[stack[sp]]
-		if !rayBox(n.lo, n.hi, orig, inv, best) {
+		if stack[sp].enter > best {
 			continue
 		}
+		n := &b.nodes[stack[sp].node]
 		if n.count > 0 {
 			for i := n.first; i < n.first+n.count; i++ {
 				tr := &b.tris[i]
@@ -488,20 +565,24 @@ func (b *BVH) Ray(orig, dir mgl64.Vec3, tMax float64) (Hit, bool) {
 			}
 			continue
 		}
-		// Visit the child on the ray's near side first (pushed last).
 		l, r := n.first, n.first+1
-		axis := 0
-		if math.Abs(dir[1]) > math.Abs(dir[axis]) {
-			axis = 1
+		tl, okl := rayBoxEnter(b.nodes[l].lo, b.nodes[l].hi, orig, inv, best)
+		tr, okr := rayBoxEnter(b.nodes[r].lo, b.nodes[r].hi, orig, inv, best)
+		switch {
+		case okl && okr:
+			if tr < tl {
+				l, r, tl, tr = r, l, tr, tl
+			}
+			stack[sp].node, stack[sp].enter = r, tr
+			stack[sp+1].node, stack[sp+1].enter = l, tl
+			sp += 2
+		case okl:
+			stack[sp].node, stack[sp].enter = l, tl
+			sp++
+		case okr:
+			stack[sp].node, stack[sp].enter = r, tr
+			sp++
 		}
-		if math.Abs(dir[2]) > math.Abs(dir[axis]) {
-			axis = 2
-		}
-		if dir[axis] < 0 {
-			l, r = r, l
-		}
-		stack[sp], stack[sp+1] = r, l
-		sp += 2
 	}
 	if !found {
 		return Hit{}, false
@@ -511,20 +592,51 @@ func (b *BVH) Ray(orig, dir mgl64.Vec3, tMax float64) (Hit, bool) {
 	return hit, true
 }
 
+// rayBoxEnter is rayBox that also returns where the ray enters the box (0 from inside).
+func rayBoxEnter(lo, hi, o, inv mgl64.Vec3, tMax float64) (float64, bool) {
+	tn, tf := 0.0, tMax
+	for k := 0; k < 3; k++ {
+		t1 := (lo[k] - o[k]) * inv[k]
+		t2 := (hi[k] - o[k]) * inv[k]
+		if t1 > t2 {
+			t1, t2 = t2, t1
+		}
+		// NaN (origin on a slab plane of a flat direction) constrains nothing.
+		if t1 > tn {
+			tn = t1
+		}
+		if t2 < tf {
+			tf = t2
+		}
+	}
+	return tn, tn <= tf
+}
+
 // Closest returns the surface point nearest p, its triangle and the distance. With no
 // triangles it returns p, -1 and +Inf.
 func (b *BVH) Closest(p mgl64.Vec3) (q mgl64.Vec3, tri int32, dist float64) {
-	if len(b.nodes) == 0 {
+	q, tri, dist, _ = b.ClosestWithin(p, math.Inf(1))
+	if tri < 0 {
 		return p, -1, math.Inf(1)
 	}
-	best2 := math.Inf(1)
+	return q, tri, dist
+}
+
+// ClosestWithin is Closest among the surface points nearer p than limit: a bound known
+// beforehand (a nearby query's answer plus how far p moved) prunes most of the tree. ok is
+// false when no point is that near.
+func (b *BVH) ClosestWithin(p mgl64.Vec3, limit float64) (q mgl64.Vec3, tri int32, dist float64, ok bool) {
 	tri = -1
+	if len(b.nodes) == 0 {
+		return p, -1, math.Inf(1), false
+	}
+	best2 := limit * limit
 	var stack [bvhStackDepth]int32
 	sp := 1
 	for sp > 0 {
 		sp--
 		n := &b.nodes[stack[sp]]
-		if boxDist2(n.lo, n.hi, p) >= best2 {
+		if b.lowerDist2(stack[sp], p) >= best2 {
 			continue
 		}
 		if n.count > 0 {
@@ -538,15 +650,18 @@ func (b *BVH) Closest(p mgl64.Vec3) (q mgl64.Vec3, tri int32, dist float64) {
 			continue
 		}
 		l, r := n.first, n.first+1
-		dl := boxDist2(b.nodes[l].lo, b.nodes[l].hi, p)
-		dr := boxDist2(b.nodes[r].lo, b.nodes[r].hi, p)
+		dl := b.lowerDist2(l, p)
+		dr := b.lowerDist2(r, p)
 		if dl > dr {
 			l, r = r, l
 		}
 		stack[sp], stack[sp+1] = r, l
 		sp += 2
 	}
-	return q, tri, math.Sqrt(best2)
+	if tri < 0 {
+		return p, -1, math.Inf(1), false
+	}
+	return q, tri, math.Sqrt(best2), true
 }
 
 func boxDist2(lo, hi, p mgl64.Vec3) float64 {

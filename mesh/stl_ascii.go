@@ -312,6 +312,10 @@ func (rd *stlReader) checkOutliers() error {
 	for a := range 3 {
 		minV[a], maxV[a] = lo[a]-4*extent, hi[a]+4*extent
 	}
+	if rd.boxed && rd.lo[0] >= minV[0] && rd.lo[1] >= minV[1] && rd.lo[2] >= minV[2] &&
+		rd.hi[0] <= maxV[0] && rd.hi[1] <= maxV[1] && rd.hi[2] <= maxV[2] {
+		return nil // every corner is inside: no need to look at each
+	}
 	first, count := -1, 0
 	for i, c := range rd.corners {
 		if c[0] < minV[0] || c[0] > maxV[0] || c[1] < minV[1] || c[1] > maxV[1] || c[2] < minV[2] || c[2] > maxV[2] {

@@ -7,8 +7,13 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"os"
+	"sync"
+	"sync/atomic"
 
 	"github.com/go-gl/mathgl/mgl64"
+
+	"tapersweep/mesh/parallel"
 )
 
 // LoadOptions tune reading an STL surface.
@@ -112,7 +117,7 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	if _, err := r.Seek(0, io.SeekStart); err != nil {
 		return nil, rep, fmt.Errorf("%s: %w", name, err)
 	}
-	rd := &stlReader{ctx: ctx, name: name, scale: scale, r: r, size: size, progress: opt.Progress}
+	rd := &stlReader{ctx: ctx, name: name, scale: scale, r: r, size: size, progress: opt.Progress, workers: opt.Workers}
 	var err error
 	if looksASCII(head) {
 		rep.Format = "ascii"
@@ -138,8 +143,8 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	if err := ctx.Err(); err != nil {
 		return nil, rep, fmt.Errorf("%s: loading stopped: %w", name, err)
 	}
-	m, removed := weldAndClean(rd.corners, opt.Workers)
-	rd.corners = nil
+	m, removed := weldAndClean(rd.corners, rd.first, rd.missed, opt.Workers)
+	rd.corners, rd.first, rd.missed = nil, nil, nil
 	rep.DegenerateRemoved = removed
 	if len(m.Triangles) == 0 {
 		return nil, rep, fmt.Errorf("%s: all %d triangles have zero area or a repeated corner", name, rep.TrianglesRead)
@@ -159,16 +164,31 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 }
 
 // weldAndClean welds the soup, drops degenerate triangles and the vertices only they used.
-func weldAndClean(corners []mgl64.Vec3, workers int) (*Mesh, int) {
-	m := weld(corners, 0, weldRelTol, workers)
-	keep := make([]int32, 0, len(m.Triangles))
-	for t := range m.Triangles {
-		if !isDegenerate(m, t) {
-			keep = append(keep, int32(t))
-		}
+// first and missed, when not nil, are the result of the weld's first pass (recentPass).
+func weldAndClean(corners []mgl64.Vec3, first, missed []int32, workers int) (*Mesh, int) {
+	var m *Mesh
+	if first != nil {
+		exactPass(corners, first, missed, workers)
+		m = weldFirst(corners, first, 0, weldRelTol, workers)
+	} else {
+		m = weld(corners, 0, weldRelTol, workers)
 	}
-	removed := len(m.Triangles) - len(keep)
+	nt := len(m.Triangles)
+	degenerate := make([]bool, nt)
+	const stretch = 1 << 15
+	parallel.For(workers, (nt+stretch-1)/stretch, func(_, st int) {
+		for t := st * stretch; t < min(nt, (st+1)*stretch); t++ {
+			degenerate[t] = isDegenerate(m, t)
+		}
+	})
+	removed := countTrue(degenerate)
 	if removed > 0 {
+		keep := make([]int32, 0, nt-removed)
+		for t, d := range degenerate {
+			if !d {
+				keep = append(keep, int32(t))
+			}
+		}
 		m = m.Subset(keep)
 	}
 	return m, removed
@@ -236,8 +256,15 @@ type stlReader struct {
 	r        io.Reader
 	size     int64
 	progress func(int64, int64)
+	workers  int
 	binary   bool
 	corners  []mgl64.Vec3
+	// first and missed are the weld's first pass over the corners (recentPass), when the
+	// reader ran it.
+	first, missed []int32
+	// boxed says lo and hi bound every corner (the binary reader finds them as it decodes).
+	boxed  bool
+	lo, hi mgl64.Vec3
 	// lines[t] is the line where ASCII facet t starts (nil for binary files).
 	lines []int32
 	// What an ASCII read skipped, as "line N: what" (the first few) and how many in all.
@@ -278,8 +305,8 @@ func (rd *stlReader) stopped() error {
 const stlBinaryChunk = 4096
 
 // readBinary checks the length against the header's count before reading anything, so a
-// hostile count can never make us allocate, then decodes the records straight from a read
-// buffer.
+// hostile count can never make us allocate, then decodes the records straight from read
+// buffers, chunks on several cores when the input can be read at an offset (a file).
 func (rd *stlReader) readBinary(head []byte) error {
 	name, size := rd.name, rd.size
 	if size < stlHeaderSize {
@@ -302,55 +329,114 @@ func (rd *stlReader) readBinary(head []byte) error {
 			"export the surface at a coarser resolution", name, n, MaxTriangles)
 	}
 	rd.binary = true
-	if _, err := io.ReadFull(rd.r, make([]byte, stlHeaderSize)); err != nil {
+	rd.corners = make([]mgl64.Vec3, 3*n)
+	chunks := int((n + stlBinaryChunk - 1) / stlBinaryChunk)
+	// Only the plain readers are read at offsets: a wrapper's Read may do more than read.
+	var ra io.ReaderAt
+	switch r := rd.r.(type) {
+	case *os.File:
+		ra = r
+	case *bytes.Reader:
+		ra = r
+	}
+	k := 1
+	if ra != nil {
+		k = parallel.Workers(rd.workers, chunks)
+	} else if _, err := io.ReadFull(rd.r, make([]byte, stlHeaderSize)); err != nil {
 		return fmt.Errorf("%s: %w", name, err)
 	}
-	rd.corners = make([]mgl64.Vec3, 3*n)
-	buf := make([]byte, stlRecordSize*stlBinaryChunk)
-	s := rd.scale
+	bufs := make([][]byte, k)
+	// The weld's first pass (identical corners close together in the file) runs on each
+	// chunk as it is decoded, while its corners are still in the cache.
+	rd.first = make([]int32, 3*n)
+	recent := make([]*recentCache, k)
+	missedIn := make([][]int32, chunks)
+	boxes := make([][2]mgl64.Vec3, chunks)
+	// The first problem by place in the file wins, whatever the order chunks finish in.
+	var mu sync.Mutex
+	firstBad, firstErr := int64(-1), error(nil)
+	fail := func(t int64, err error) {
+		mu.Lock()
+		if firstBad < 0 || t < firstBad {
+			firstBad, firstErr = t, err
+		}
+		mu.Unlock()
+	}
+	// A chunk past a problem already found need not be read; one before it must be.
+	pastFailure := func(t int64) bool {
+		mu.Lock()
+		defer mu.Unlock()
+		return firstBad >= 0 && t > firstBad
+	}
+	var done atomic.Int64
 	lastProg := int64(0)
-	for t0 := int64(0); t0 < n; t0 += stlBinaryChunk {
+	parallel.For(k, chunks, func(w, c int) {
+		t0 := int64(c) * stlBinaryChunk
+		if pastFailure(t0) {
+			return
+		}
 		if err := rd.stopped(); err != nil {
-			return err
+			fail(t0, err)
+			return
 		}
-		k := min(stlBinaryChunk, n-t0)
-		chunk := buf[:k*stlRecordSize]
-		if _, err := io.ReadFull(rd.r, chunk); err != nil {
+		if bufs[w] == nil {
+			bufs[w] = make([]byte, stlRecordSize*stlBinaryChunk)
+		}
+		m := min(stlBinaryChunk, n-t0)
+		chunk := bufs[w][:m*stlRecordSize]
+		var err error
+		if ra != nil {
+			_, err = ra.ReadAt(chunk, stlHeaderSize+t0*stlRecordSize)
+		} else {
+			_, err = io.ReadFull(rd.r, chunk)
+		}
+		if err != nil {
 			if err == io.EOF || err == io.ErrUnexpectedEOF {
-				return fmt.Errorf("%s: the file ended at triangle %d of the %d its header announces (it shrank while being read)", name, t0+1, n)
+				err = fmt.Errorf("%s: the file ended at triangle %d of the %d its header announces (it shrank while being read)", name, t0+1, n)
+			} else {
+				err = fmt.Errorf("%s: %w", name, err)
 			}
-			return fmt.Errorf("%s: %w", name, err)
+			fail(t0, err)
+			return
 		}
-		out := rd.corners[3*t0 : 3*(t0+k)]
-		for i := range k {
-			rec := chunk[i*stlRecordSize+12 : i*stlRecordSize+48]
-			bad := uint32(0)
-			for c := range 3 {
-				var v mgl64.Vec3
-				for a := range 3 {
-					bits := binary.LittleEndian.Uint32(rec[12*c+4*a:])
-					// An exponent of all ones (an infinity or a NaN) carries into the top bit.
-					bad |= (bits&0x7F800000 + 0x00800000) & 0x80000000
-					v[a] = float64(math.Float32frombits(bits)) * s
-				}
-				out[3*i+int64(c)] = v
-			}
-			if bad != 0 {
-				return rd.notFinite(int(t0 + i))
-			}
+		if bad, ok := decodeBinaryChunk(chunk, rd.corners[3*t0:3*(t0+m)], rd.scale, &boxes[c]); !ok {
+			fail(t0+bad, rd.notFinite(int(t0+bad)))
+			return
 		}
+		if recent[w] == nil {
+			recent[w] = newRecentCache()
+		}
+		// A goroutine's chunks come in ascending order, as recentPass needs.
+		missedIn[c] = recentPass(rd.corners, rd.first, int(3*t0), int(3*(t0+m)), recent[w])
 		if rd.progress != nil {
-			if pos := stlHeaderSize + (t0+k)*stlRecordSize; pos-lastProg >= 1<<20 {
+			pos := stlHeaderSize + done.Add(m*stlRecordSize)
+			mu.Lock()
+			if pos-lastProg >= 1<<20 {
 				lastProg = pos
 				rd.progress(pos, size)
 			}
+			mu.Unlock()
 		}
+	})
+	if firstErr != nil {
+		return firstErr
 	}
-	if s != 1 && !allFinite(rd.corners) {
+	if rd.scale != 1 && !allFinite(rd.corners) {
 		// Finite float32 times a large scale can overflow.
 		for i, c := range rd.corners {
 			if !finiteVec(c) {
-				return fmt.Errorf("%s: %s: a coordinate times the scale %g is too large to hold", name, rd.where(i/3), s)
+				return fmt.Errorf("%s: %s: a coordinate times the scale %g is too large to hold", name, rd.where(i/3), rd.scale)
+			}
+		}
+	}
+	rd.missed = joinMissed(missedIn)
+	if chunks > 0 {
+		rd.boxed = true
+		rd.lo, rd.hi = boxes[0][0], boxes[0][1]
+		for _, b := range boxes[1:] {
+			for a := range 3 {
+				rd.lo[a] = min(rd.lo[a], b[0][a])
+				rd.hi[a] = max(rd.hi[a], b[1][a])
 			}
 		}
 	}
@@ -358,6 +444,34 @@ func (rd *stlReader) readBinary(head []byte) error {
 		rd.progress(size, size)
 	}
 	return nil
+}
+
+// decodeBinaryChunk turns records into corners times s and their bounds into box. It stops at
+// the first record with a coordinate that is not finite and returns its place in the chunk.
+func decodeBinaryChunk(chunk []byte, out []mgl64.Vec3, s float64, box *[2]mgl64.Vec3) (int64, bool) {
+	lo := mgl64.Vec3{math.Inf(1), math.Inf(1), math.Inf(1)}
+	hi := lo.Mul(-1)
+	for i := range int64(len(out) / 3) {
+		rec := chunk[i*stlRecordSize+12 : i*stlRecordSize+48]
+		bad := uint32(0)
+		for c := range 3 {
+			var v mgl64.Vec3
+			for a := range 3 {
+				bits := binary.LittleEndian.Uint32(rec[12*c+4*a:])
+				// An exponent of all ones (an infinity or a NaN) carries into the top bit.
+				bad |= (bits&0x7F800000 + 0x00800000) & 0x80000000
+				v[a] = float64(math.Float32frombits(bits)) * s
+				lo[a] = min(lo[a], v[a])
+				hi[a] = max(hi[a], v[a])
+			}
+			out[3*i+int64(c)] = v
+		}
+		if bad != 0 {
+			return i, false
+		}
+	}
+	*box = [2]mgl64.Vec3{lo, hi}
+	return 0, true
 }
 
 // allFinite: one pass, no branches per coordinate.

@@ -39,6 +39,7 @@ func validate(m *Mesh, degenerate bool) Report {
 	done := make(chan struct{})
 	go func() {
 		r.Shells = countShells(m)
+		r.SignedVolume = signedVolume(m)
 		close(done)
 	}()
 	if degenerate {
@@ -49,7 +50,6 @@ func validate(m *Mesh, degenerate bool) Report {
 		}
 	}
 	r.BoundaryEdges, r.NonManifoldEdges, r.InconsistentOrientation = edgeCounts(m)
-	r.SignedVolume = signedVolume(m)
 	<-done
 	r.Closed = r.BoundaryEdges == 0 && len(m.Triangles) > 0
 	r.Manifold = r.NonManifoldEdges == 0

@@ -31,24 +31,159 @@ func Weld(corners []mgl64.Vec3, tol float64) *Mesh {
 func weld(corners []mgl64.Vec3, tol, relTol float64, workers int) *Mesh {
 	nt := len(corners) / 3
 	corners = corners[:3*nt]
-	m := &Mesh{Triangles: make([][3]int32, nt)}
 	if nt == 0 {
-		return m
+		return &Mesh{Triangles: [][3]int32{}}
 	}
-	first := firstOccurrences(corners, workers)
-	w := newWelder(corners, tol, relTol, len(corners)/6)
+	return weldFirst(corners, firstOccurrences(corners, workers), tol, relTol, workers)
+}
+
+// weldFirst is weld once first (see firstOccurrences) is known.
+func weldFirst(corners []mgl64.Vec3, first []int32, tol, relTol float64, workers int) *Mesh {
+	m := &Mesh{Triangles: make([][3]int32, len(corners)/3)}
+	distinct := make([]int32, 0, len(corners)/5)
+	for i, f := range first {
+		if int(f) == i {
+			distinct = append(distinct, int32(i))
+		}
+	}
+	w := newWelder(corners, distinct, tol, relTol)
+	alone := w.alone(corners, distinct, workers)
+	w.reserve(len(distinct), len(distinct)-countTrue(alone))
 	// out[i] is corner i's vertex; first[i] <= i, so a repeat finds its vertex already set
 	// (through its stand-in, whose own vertex was set from its first corner).
 	out := unsafeFlatten(m.Triangles)
+	d := 0
 	for i, f := range first {
-		if int(f) == i {
-			out[i] = w.lookup(corners[i])
-		} else {
+		if int(f) != i {
 			out[i] = out[f]
+			continue
 		}
+		if alone[d] {
+			out[i] = w.add(corners[i])
+		} else {
+			out[i] = w.lookup(corners[i])
+		}
+		d++
 	}
 	m.Vertices = w.verts
 	return m
+}
+
+func countTrue(b []bool) int {
+	n := 0
+	for _, x := range b {
+		if x {
+			n++
+		}
+	}
+	return n
+}
+
+// alone tells, for each distinct position (ascending corner indices), whether no other
+// distinct position can lie within the tolerance of it: it is the only one in its grid cell
+// and twice its tolerance box stays inside that cell (the margin covers rounding). Such a
+// position can neither find nor be found by another, so it becomes a vertex without the grid
+// hash, whose random probes into a table far larger than the cache are most of a weld;
+// the positions left (about a tenth) go through the hash in the same order as before, so
+// the mesh is the same. Cells are compared through their 64-bit hash: two cells that share
+// one only send their positions through the hash.
+func (w *welder) alone(corners []mgl64.Vec3, distinct []int32, workers int) []bool {
+	n := len(distinct)
+	alone := make([]bool, n)
+	if w.exact {
+		// Distinct positions are never identical, and only identical ones merge.
+		for j := range alone {
+			alone[j] = true
+		}
+		return alone
+	}
+	hs := make([]uint64, n)
+	// Each position on its own: stretches of them on every core.
+	const stretch = 1 << 14
+	parallel.For(workers, (n+stretch-1)/stretch, func(_, sj int) {
+		for j := sj * stretch; j < min(n, (sj+1)*stretch); j++ {
+			p := corners[distinct[j]]
+			if !finiteVec(p) {
+				hs[j] = 0 // never merged: alone whatever its hash meets
+				alone[j] = true
+				continue
+			}
+			k := w.cellOf(p)
+			alone[j] = true
+			for a := range 3 {
+				if weldCellIndex((p[a]-2*w.tol)*w.inv) != k[a] || weldCellIndex((p[a]+2*w.tol)*w.inv) != k[a] {
+					alone[j] = false
+				}
+			}
+			hs[j] = weldHash(k)
+		}
+	})
+	// Group by the top bits of the hash into cache-sized blocks, then find shared cells in
+	// each block through a small open-addressing table.
+	bits := 0
+	for n>>bits > dedupBlock {
+		bits++
+	}
+	shift := 64 - bits
+	count := make([]int32, 1<<bits+1)
+	recs := make([]int32, n)
+	if bits > 0 {
+		for _, h := range hs {
+			count[h>>shift+1]++
+		}
+		for b := 1; b <= 1<<bits; b++ {
+			count[b] += count[b-1]
+		}
+		fill := append([]int32(nil), count[:1<<bits]...)
+		for j, h := range hs {
+			b := h >> shift
+			recs[fill[b]] = int32(j)
+			fill[b]++
+		}
+	} else {
+		for j := range recs {
+			recs[j] = int32(j)
+		}
+		count[1] = int32(n)
+	}
+	blocks := 1 << bits
+	k := min(parallel.Workers(workers, blocks), maxDedupWorkers)
+	tables := make([][]int32, k)
+	parallel.For(k, blocks, func(wk, b int) {
+		blk := recs[count[b]:count[b+1]]
+		size := 16
+		for size < 2*len(blk) {
+			size <<= 1
+		}
+		if cap(tables[wk]) < size {
+			tables[wk] = make([]int32, size)
+		}
+		table := tables[wk][:size]
+		for i := range table {
+			table[i] = -1
+		}
+		mask := uint64(size - 1)
+		for _, j := range blk {
+			if !finiteVec(corners[distinct[j]]) {
+				continue
+			}
+			h := hs[j]
+			s := h & mask
+			for {
+				e := table[s]
+				if e < 0 {
+					table[s] = j
+					break
+				}
+				if hs[e] == h {
+					alone[e], alone[j] = false, false
+					break
+				}
+				s = (s + 1) & mask
+			}
+		}
+	})
+	return alone
 }
 
 // unsafeFlatten views the triangles as one list of corner indices.
@@ -74,26 +209,117 @@ const maxDedupWorkers = 4
 func firstOccurrences(corners []mgl64.Vec3, workers int) []int32 {
 	n := len(corners)
 	first := make([]int32, n)
-	var recent [weldRecentSize]weldRecent
-	for i := range recent {
-		recent[i].i = -1
+	// The corners split into one stretch per core, each with its own cache (see recentPass
+	// for why any split gives the same mesh).
+	segs := parallel.Workers(workers, max(1, n/weldRecentMinStretch))
+	missedIn := make([][]int32, segs)
+	parallel.For(segs, segs, func(_, sg int) {
+		missedIn[sg] = recentPass(corners, first, sg*n/segs, (sg+1)*n/segs, newRecentCache())
+	})
+	exactPass(corners, first, joinMissed(missedIn), workers)
+	return first
+}
+
+// recentCache is the state of recentPass for one goroutine: the cache, and how well it has
+// done. A file whose triangles are scattered repeats almost no corner while it is still in
+// the cache: once the first recentProbe corners show that, the cache is no longer asked and
+// every corner goes to exactPass, which finds the repeats anyway.
+type recentCache struct {
+	slots        []int32
+	seen, missed int
+	off          bool
+}
+
+const recentProbe = 1 << 14
+
+// newRecentCache is an empty cache for recentPass.
+func newRecentCache() *recentCache {
+	rc := &recentCache{slots: make([]int32, weldRecentSize)}
+	for i := range rc.slots {
+		rc.slots[i] = -1
 	}
-	// Only indices are kept: copying the corners into the blocks would be faster on a file
-	// whose triangles are scattered, but would triple the memory of the weld.
-	missed := make([]int32, 0, n/4)
-	for i, c := range corners {
+	return rc
+}
+
+// recentPass sets first[i] for corners lo..hi-1 that repeat a position the cache holds (it
+// holds earlier corners that it missed), provisionally first[i] = i for the others, and
+// returns those (ascending): they go to exactPass. A corner the cache answers points at a
+// corner the cache missed, and exactPass points every missed corner at the first corner of
+// its position (always missed: no cache has seen it before), so first[first[i]] is right
+// however the corners are split between caches, as long as each cache sees its corners in
+// ascending order.
+func recentPass(corners []mgl64.Vec3, first []int32, lo, hi int, rc *recentCache) []int32 {
+	// Only indices are kept here; exactPass packs the positions it needs.
+	if rc.off {
+		missed := make([]int32, hi-lo)
+		for i := lo; i < hi; i++ {
+			first[i] = int32(i)
+			missed[i-lo] = int32(i)
+		}
+		return missed
+	}
+	recent := rc.slots
+	missed := make([]int32, 0, (hi-lo)/4)
+	for i := lo; i < hi; i++ {
+		c := corners[i]
+		// Neighbouring triangles in a file share corners: the two triangles before this
+		// one's answer most repeats without hashing. Their corners' first is set already
+		// (they lie in this stretch) and names a corner the cache missed, as needed.
+		if t0 := i - i%3 - 6; t0 >= lo {
+			if j := matchCorner(corners[t0:t0+6], c); j >= 0 {
+				first[i] = first[t0+j]
+				continue
+			}
+		}
 		r := &recent[exactHash(c)>>(64-weldRecentBits)]
-		if r.i >= 0 && r.p == c {
-			first[i] = r.i
+		if *r >= 0 && corners[*r] == c {
+			first[i] = *r
 			continue
 		}
-		// Provisionally its own first; the exact pass below finds an earlier twin if any.
 		first[i] = int32(i)
 		missed = append(missed, int32(i))
 		if finiteVec(c) {
-			r.p, r.i = c, int32(i)
+			*r = int32(i)
 		}
 	}
+	if rc.seen < recentProbe {
+		rc.seen += hi - lo
+		rc.missed += len(missed)
+		// Half the corners missed: an ordered file misses about one in six.
+		rc.off = rc.seen >= recentProbe && 2*rc.missed > rc.seen
+	}
+	return missed
+}
+
+// matchCorner returns the place in cs of a corner equal to c (the last such), or -1.
+func matchCorner(cs []mgl64.Vec3, c mgl64.Vec3) int {
+	for j := len(cs) - 1; j >= 0; j-- {
+		if cs[j] == c {
+			return j
+		}
+	}
+	return -1
+}
+
+// joinMissed puts lists of ascending, successive stretches end to end.
+func joinMissed(parts [][]int32) []int32 {
+	if len(parts) == 1 {
+		return parts[0]
+	}
+	total := 0
+	for _, m := range parts {
+		total += len(m)
+	}
+	missed := make([]int32, 0, total)
+	for _, m := range parts {
+		missed = append(missed, m...)
+	}
+	return missed
+}
+
+// exactPass points every missed corner (ascending) at the first missed corner of its
+// position, deduplicating exactly in cache-sized blocks.
+func exactPass(corners []mgl64.Vec3, first []int32, missed []int32, workers int) {
 	bits := 0
 	for len(missed)>>bits > dedupBlock {
 		bits++
@@ -102,11 +328,18 @@ func firstOccurrences(corners []mgl64.Vec3, workers int) []int32 {
 	count := make([]int32, 1<<bits+1)
 	recs := missed
 	if bits > 0 {
+		packable := true
 		for _, i := range missed {
-			count[exactHash(corners[i])>>shift+1]++
+			c := &corners[i]
+			count[exactHash(*c)>>shift+1]++
+			packable = packable && float32Exact(c)
 		}
 		for b := 1; b <= 1<<bits; b++ {
 			count[b] += count[b-1]
+		}
+		if packable {
+			exactPassPacked(corners, first, missed, count, shift, workers)
+			return
 		}
 		recs = make([]int32, len(missed))
 		fill := append([]int32(nil), count[:1<<bits]...)
@@ -129,19 +362,82 @@ func firstOccurrences(corners []mgl64.Vec3, workers int) []int32 {
 		}
 		dedupInto(first, corners, recs[count[b]:count[b+1]], tables[w])
 	})
-	return first
 }
 
-// weldRecent is a slot of the recent-positions cache: a position and the corner that
-// stands for it.
-type weldRecent struct {
-	p mgl64.Vec3
-	i int32
+// float32Exact: every coordinate is finite and a float32 value exactly (a binary STL's are).
+func float32Exact(c *mgl64.Vec3) bool {
+	return float64(float32(c[0])) == c[0] && float64(float32(c[1])) == c[1] && float64(float32(c[2])) == c[2] &&
+		c[0]-c[0] == 0 && c[1]-c[1] == 0 && c[2]-c[2] == 0
 }
 
+// packedCorner is a missed corner's position (float32 holds it exactly) and index: a block
+// of them is deduplicated without reading the corners, which a scattered file would read in
+// random order, a cache miss each.
+type packedCorner struct {
+	x, y, z float32
+	i       int32
+}
+
+// exactPassPacked is exactPass's blocked dedup on packed copies of the corners, grouped by
+// the same top bits of exactHash (count holds the block starts).
+func exactPassPacked(corners []mgl64.Vec3, first, missed, count []int32, shift, workers int) {
+	blocks := len(count) - 1
+	recs := make([]packedCorner, len(missed))
+	fill := append([]int32(nil), count[:blocks]...)
+	for _, i := range missed {
+		c := &corners[i]
+		b := exactHash(*c) >> shift
+		// +0 folds -0 into 0, as == does.
+		recs[fill[b]] = packedCorner{float32(c[0]) + 0, float32(c[1]) + 0, float32(c[2]) + 0, i}
+		fill[b]++
+	}
+	k := min(parallel.Workers(workers, blocks), maxDedupWorkers)
+	tables := make([][]int32, k)
+	parallel.For(k, blocks, func(w, b int) {
+		blk := recs[count[b]:count[b+1]]
+		size := 16
+		for size < 2*len(blk) {
+			size <<= 1
+		}
+		if cap(tables[w]) < size {
+			tables[w] = make([]int32, size)
+		}
+		table := tables[w][:size]
+		for i := range table {
+			table[i] = -1
+		}
+		mask := uint32(size - 1)
+		for j := range blk {
+			p := &blk[j]
+			h := packedHash(p) & mask
+			for {
+				e := table[h]
+				if e < 0 {
+					table[h] = int32(j)
+					break // first[p.i] = p.i already
+				}
+				if q := &blk[e]; q.x == p.x && q.y == p.y && q.z == p.z {
+					first[p.i] = q.i
+					break
+				}
+				h = (h + 1) & mask
+			}
+		}
+	})
+}
+
+func packedHash(p *packedCorner) uint32 {
+	h := (uint64(math.Float32bits(p.x))<<32|uint64(math.Float32bits(p.y)))*0x9E3779B97F4A7C15 ^ uint64(math.Float32bits(p.z))*0xC2B2AE3D27D4EB4F
+	return uint32(h >> 32)
+}
+
+// The recent-positions cache holds the index of the last corner the cache missed for each
+// hash slot (64 kB, so it stays in L1/L2; the corner it names was read moments ago).
 const (
 	weldRecentBits = 14
 	weldRecentSize = 1 << weldRecentBits
+	// weldRecentMinStretch: fewer corners than this per stretch are not worth a goroutine.
+	weldRecentMinStretch = 1 << 18
 )
 
 // dedupInto sets first[] for one block of corner indices (ascending) through an
@@ -213,11 +509,14 @@ const weldCellTols = 64
 // weldMaxCell keeps cell indices far inside int64 whatever the coordinates.
 const weldMaxCell = 1 << 40
 
-func newWelder(corners []mgl64.Vec3, tol, relTol float64, expect int) *welder {
+// newWelder sets the tolerance and grid; distinct are the corners that stand for every
+// position (the largest coordinate is theirs). Call reserve before adding vertices.
+func newWelder(corners []mgl64.Vec3, distinct []int32, tol, relTol float64) *welder {
 	w := &welder{}
 	maxAbs := 0.0
 	if tol > 0 || relTol > 0 {
-		for _, c := range corners {
+		for _, ci := range distinct {
+			c := &corners[ci]
 			for k := 0; k < 3; k++ {
 				if a := math.Abs(c[k]); a > maxAbs && a <= math.MaxFloat64 {
 					maxAbs = a
@@ -237,15 +536,27 @@ func newWelder(corners []mgl64.Vec3, tol, relTol float64, expect int) *welder {
 		cell := math.Max(weldCellTols*tol, maxAbs/weldMaxCell)
 		w.tol, w.tol2, w.inv = tol, tol*tol, 1/cell
 	}
-	// Room for the expected vertices under half load, so the table never grows.
+	return w
+}
+
+// reserve makes room for verts vertices, hashed of them through the grid hash, so that
+// neither the lists nor the table (under half load) grow.
+func (w *welder) reserve(verts, hashed int) {
 	size := 1024
-	for size <= 2*expect {
+	for size <= 2*hashed {
 		size <<= 1
 	}
 	w.alloc(size)
-	w.verts = make([]mgl64.Vec3, 0, expect+16)
-	w.next = make([]int32, 0, expect+16)
-	return w
+	w.verts = make([]mgl64.Vec3, 0, verts)
+	w.next = make([]int32, 0, verts)
+}
+
+// add makes p a vertex of its own without entering it in the grid hash (a position alone
+// in its cell, or a non-finite one).
+func (w *welder) add(p mgl64.Vec3) int32 {
+	w.verts = append(w.verts, p)
+	w.next = append(w.next, -1)
+	return int32(len(w.verts) - 1)
 }
 
 func (w *welder) alloc(size int) {

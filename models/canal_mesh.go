@@ -34,16 +34,19 @@ func (c *CanalSpec) Mesh(ds float64, around int) *mesh.Mesh {
 		p, t, long := pc.frameAt(u)
 		centers[i], n1[i], n2[i] = p, long, t.Cross(long)
 	}
-	oval := max(c.Oval, 1)
-	a, b := math.Sqrt(oval), 1/math.Sqrt(oval)
 	radius := func(i int, theta float64) float64 {
-		r := c.Diameter(s[i]) / 2
-		if oval == 1 {
-			return r
-		}
-		// Polar radius of the ellipse (r a, r b) in the direction theta.
 		sin, cos := math.Sincos(theta)
-		return r / math.Sqrt(cos*cos/(a*a)+sin*sin/(b*b))
+		return ovalRadius(c.Diameter(s[i])/2, c.Oval, cos, sin)
 	}
 	return mesh.SweepTube(centers, n1, n2, radius, around, true, true)
+}
+
+// ovalRadius is the polar radius of the ellipse of area pi r^2 whose long over short axis is
+// oval (0 or 1 = round), in the direction (cos, sin) of an angle from its long axis.
+func ovalRadius(r, oval, cos, sin float64) float64 {
+	if oval <= 1 {
+		return r
+	}
+	a, b := math.Sqrt(oval), 1/math.Sqrt(oval)
+	return r / math.Sqrt(cos*cos/(a*a)+sin*sin/(b*b))
 }

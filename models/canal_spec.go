@@ -21,6 +21,8 @@ type CanalSpec struct {
 	Oval float64
 	// GivenWorkingLength is the working length from the file; 0 means the centerline length.
 	GivenWorkingLength float64
+	// Root is the root's outer surface around the canal (nil: not described).
+	Root *RootSpec
 
 	path canalPath // built by ParseCanalSpec or on first use
 }
@@ -47,6 +49,7 @@ type canalSpecJSON struct {
 	ApicalD       *float64      `json:"apical_d"`
 	Oval          *float64      `json:"oval,omitempty"`
 	WorkingLength *float64      `json:"working_length,omitempty"`
+	Root          *rootJSON     `json:"root,omitempty"`
 }
 
 type segmentJSON struct {
@@ -116,7 +119,7 @@ func ParseCanalSpec(name string, data []byte) (*CanalSpec, error) {
 		return nil, specProblem(name, err)
 	}
 	c := &CanalSpec{OrificeD: *f.OrificeD, ApicalD: *f.ApicalD, Oval: orDefault(f.Oval, 0),
-		GivenWorkingLength: orDefault(f.WorkingLength, 0)}
+		GivenWorkingLength: orDefault(f.WorkingLength, 0), Root: f.Root.root()}
 	if f.Name != nil {
 		c.Name = *f.Name
 	}
@@ -182,7 +185,8 @@ func (c CanalSpec) MarshalJSON() ([]byte, error) {
 	}
 	name := c.Name
 	f := canalSpecJSON{Name: &name, OrificeD: &c.OrificeD, ApicalD: &c.ApicalD, Oval: given(c.Oval),
-		WorkingLength: given(c.GivenWorkingLength), Segments: make([]segmentJSON, len(c.Segments))}
+		WorkingLength: given(c.GivenWorkingLength), Segments: make([]segmentJSON, len(c.Segments)),
+		Root: c.Root.toJSON()}
 	for i, s := range c.Segments {
 		kind := s.Kind
 		f.Segments[i] = segmentJSON{Kind: &kind, Length: given(s.Length), Radius: given(s.Radius),
@@ -275,7 +279,7 @@ func (c *CanalSpec) Validate() error {
 	if c.GivenWorkingLength < 0 || math.IsNaN(c.GivenWorkingLength) || c.GivenWorkingLength > MaxCanalLengthMM {
 		return fmt.Errorf("field \"working_length\" = %g: want a length in mm above 0 and at most %g", c.GivenWorkingLength, MaxCanalLengthMM)
 	}
-	return nil
+	return c.validateRoot()
 }
 
 func (s CanalSegment) check() error {

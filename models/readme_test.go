@@ -41,7 +41,7 @@ func TestReadmeDocumentsEveryField(t *testing.T) {
 	sec := filesYouWrite(t)
 	for title, types := range map[string][]reflect.Type{
 		"Sequence files":    {reflect.TypeFor[sequenceJSON](), reflect.TypeFor[stepJSON](), reflect.TypeFor[Alloy]()},
-		"Canal spec files":  {reflect.TypeFor[canalSpecJSON](), reflect.TypeFor[segmentJSON]()},
+		"Canal spec files":  {reflect.TypeFor[canalSpecJSON](), reflect.TypeFor[segmentJSON](), reflect.TypeFor[rootJSON](), reflect.TypeFor[concavityJSON]()},
 		"Instruments lists": {reflect.TypeFor[instrumentsJSON]()},
 	} {
 		body, ok := sec[title]

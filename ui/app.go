@@ -312,7 +312,7 @@ func (w *mainWindow) runDone(res *analysis.Result, err error) {
 	if first && w.selected == 0 {
 		w.selected = mostEngagedStep(res)
 	}
-	w.path.show(w.seq.PathModel, &res.Moved)
+	w.path.show(w.seq.PathModel, res)
 	w.tableTitle.SetText(fmt.Sprintf("Files in the sequence · engaged: cut past %g mm", res.Options.ContactThreshold))
 	w.showStepState()
 	w.showScene(first) // the first run brings the file: fit it in

@@ -2,6 +2,7 @@ package ui
 
 import (
 	"context"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -275,6 +276,10 @@ func TestHoverReadsTheWallUnderThePointer(t *testing.T) {
 			text := hoverText(in, w.view.built, w.view.renderer, x, y)
 			if !strings.Contains(text, "depth of cut") || !strings.Contains(text, "from the apical end") {
 				t.Errorf("hover at a contact pixel says %q", text)
+			}
+			// The demo has a root: the readout adds the wall to it as scanned at that place.
+			if want := fmt.Sprintf("wall to the root %.2f mm as scanned", w.canal.MapAt(w.canal.Thickness, p.S, p.Theta)); !strings.Contains(text, want) {
+				t.Errorf("hover says %q, want %q", text, want)
 			}
 			// The wall as the step leaves it lies at least as far out as the spec's short
 			// semi-axis: D(s)/2 / sqrt(oval) for an area-equivalent ellipse (analytic geometry).

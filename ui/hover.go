@@ -51,12 +51,27 @@ func hoverText(in sceneInput, b *scene.Built, r *render.Renderer, x, y int) stri
 	}
 	radius := c.MapAt(rhoMap, p.S, p.Theta)
 	if st == nil {
-		return fmt.Sprintf("wall %.2f mm from the apical end · canal radius %.3f mm", fromApex, radius)
+		return fmt.Sprintf("wall %.2f mm from the apical end · canal radius %.3f mm", fromApex, radius) + rootWallText(in, c, nil, p)
 	}
 	cut := c.MapAt(st.Cut, p.S, p.Theta)
 	cutText := "no contact"
 	if cut > in.res.Options.ContactThreshold {
 		cutText = fmt.Sprintf("depth of cut %.3f mm", cut)
 	}
-	return fmt.Sprintf("%s · %.2f mm from the apical end · canal radius %.3f mm", cutText, fromApex, radius)
+	return fmt.Sprintf("%s · %.2f mm from the apical end · canal radius %.3f mm", cutText, fromApex, radius) + rootWallText(in, c, st, p)
+}
+
+// rootWallText adds the wall left to the root at the place ("" without a root): after the shown
+// step where the view is coloured by it (its maps are measured then), else as scanned, and
+// says which.
+func rootWallText(in sceneInput, c *analysis.Canal, st *analysis.StepResult, p analysis.WallPlace) string {
+	if c.Root == nil || len(c.Thickness) != len(c.Rho) {
+		return ""
+	}
+	if st != nil && in.opt.WallThickness && !in.opt.Before {
+		if th := in.res.WallMap(st.Number); len(th) == len(c.Rho) {
+			return fmt.Sprintf(" · wall to the root %.2f mm after this step", c.MapAt(th, p.S, p.Theta))
+		}
+	}
+	return fmt.Sprintf(" · wall to the root %.2f mm as scanned", c.MapAt(c.Thickness, p.S, p.Theta))
 }

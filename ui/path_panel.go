@@ -42,8 +42,9 @@ func newPathPanel() *pathPanel {
 	return p
 }
 
-// show selects the path model and states the whole sequence's transportation (nil: no run yet).
-func (p *pathPanel) show(model string, moved *analysis.Transport) {
+// show selects the path model and states the whole sequence's transportation and, when the
+// root is known, the wall it leaves (res nil: no run yet).
+func (p *pathPanel) show(model string, res *analysis.Result) {
 	text := pathCentredText
 	if model == models.PathElastic {
 		text = pathElasticText
@@ -52,11 +53,36 @@ func (p *pathPanel) show(model string, moved *analysis.Transport) {
 	p.choice.OnChanged = nil
 	p.choice.SetSelected(text)
 	p.choice.OnChanged = f
-	if moved == nil {
+	if res == nil {
 		p.moved.SetText("")
 		return
 	}
-	p.moved.SetText("Whole sequence: " + transportText(*moved, true))
+	text = "Whole sequence: " + transportText(res.Moved, true)
+	if w := sequenceWallText(res); w != "" {
+		text += "\n" + w
+	}
+	p.moved.SetText(text)
+}
+
+// sequenceWallText states the wall to the root as scanned and after the last step, with the
+// share under the limit ("" without a root): the figure a thin root asks for first.
+func sequenceWallText(res *analysis.Result) string {
+	before := res.ScannedWall
+	if before.ThinnestWallMM == nil || len(res.Steps) == 0 {
+		return ""
+	}
+	after := res.Steps[len(res.Steps)-1].Metrics.Wall
+	if after.ThinnestWallMM == nil {
+		return ""
+	}
+	s := fmt.Sprintf("Root wall (estimate): thinnest %.2f mm as scanned, %.2f mm after the sequence", *before.ThinnestWallMM, *after.ThinnestWallMM)
+	if at, dir := after.ThinnestWallFromApexMM, after.ThinnestWallTowardDeg; at != nil && dir != nil {
+		s += fmt.Sprintf(", %.1f mm from the apical end, %s", *at, towardText(*dir))
+	}
+	if pct, lim := after.WallUnderLimitPct, after.WallLimitMM; pct != nil && lim != nil {
+		s += fmt.Sprintf("; %.1f %% of the wall under %.2f mm", *pct, *lim)
+	}
+	return s + "."
 }
 
 func (p *pathPanel) chosen(text string) {

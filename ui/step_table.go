@@ -53,6 +53,9 @@ var stepColumns = []stepColumn{
 	// Fatigue use as every output states it: Miner's sum, 1 = fracture.
 	metricColumn("fatigue_damage"),
 	metricColumn("torsion_margin"),
+	// The wall left to the root's surface ("–" when no root is known).
+	metricColumn("thinnest_wall_mm"),
+	metricColumn("wall_under_limit_pct"),
 	// Gambill's measures 1 mm from the apical end, where transportation matters for the seal.
 	metricColumn("transportation_1_mm"),
 	// Signed: toward the inner (+) or outer (-) side of the main curve.

@@ -26,6 +26,7 @@ type viewControls struct {
 	when       *selectList
 	centerline *widget.Check
 	fixed      *widget.Check // shown under the cross-sections, whose colours it sets too
+	wall       *widget.Check // colour the wall by the wall left to the root (when the root is known)
 	insertion  *widget.Slider
 	depthLabel *widget.Label
 	length     float64 // the canal's length, for the Tip label
@@ -79,6 +80,8 @@ func newViewControls() *viewControls {
 	vc.when.SetSelected(whenAfter)
 	vc.centerline = widget.NewCheck("Centerline", func(bool) { changed() })
 	vc.fixed = widget.NewCheck("One colour scale for all steps", func(bool) { changed() })
+	vc.wall = widget.NewCheck("Wall to root", func(bool) { changed() })
+	vc.wall.Disable()
 
 	vc.insertion = widget.NewSlider(0.5, 20)
 	vc.insertion.Step = 0.05
@@ -99,7 +102,7 @@ func newViewControls() *viewControls {
 		widget.NewLabel("Wall"), sized(vc.opacity, 70),
 		vc.clip, vc.clipLabel, sized(vc.clipOffset, 70), vc.centerline,
 	)
-	row2 := container.NewBorder(nil, nil, container.NewHBox(sized(vc.when, 180), widget.NewLabel("Tip")), vc.depthLabel, vc.insertion)
+	row2 := container.NewBorder(nil, nil, container.NewHBox(sized(vc.when, 180), vc.wall, widget.NewLabel("Tip")), vc.depthLabel, vc.insertion)
 	vc.box = container.NewVBox(row1, row2)
 	vc.showStep(0, false)
 	return vc
@@ -126,6 +129,7 @@ func (vc *viewControls) sceneOptions() scene.Options {
 	opt.Before = vc.when.Selected == whenBefore
 	opt.Centerline = vc.centerline.Checked
 	opt.FixedScale = vc.fixed.Checked
+	opt.WallThickness = vc.wall.Checked && !vc.wall.Disabled()
 	return opt
 }
 
@@ -135,6 +139,11 @@ func (vc *viewControls) fixedScale() bool { return vc.fixed.Checked }
 // showCanal fits the slider ranges to a canal.
 func (vc *viewControls) showCanal(c *analysis.Canal) {
 	vc.length = c.Line.Length()
+	if c.Root != nil {
+		vc.wall.Enable()
+	} else {
+		vc.wall.Disable()
+	}
 	vc.insertion.Max = math.Floor(vc.length*100) / 100
 	vc.insertion.Refresh()
 	r := 0.0

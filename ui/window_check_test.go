@@ -1,6 +1,7 @@
 package ui
 
 import (
+	"context"
 	"image"
 	"image/color"
 	"image/draw"
@@ -8,6 +9,8 @@ import (
 	"os"
 	"testing"
 
+	"tapersweep/analysis"
+	"tapersweep/models"
 	"tapersweep/ui/render"
 )
 
@@ -126,9 +129,22 @@ func TestWindowCheckRejectsBlankAndContactFreeFrames(t *testing.T) {
 	if _, _, ok := checkWindowPicture(blank); ok {
 		t.Error("a blank window passes")
 	}
+	// Every file of the demo engages its (narrow) canal: a small file held short of the canal's
+	// narrow part gives the frame without contact.
+	free, err := models.ParseSequence("free.json", []byte(`{"steps": [{"size": 6, "taper": 0.02, "depth": 8}]}`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	freeRes, err := analysis.Run(context.Background(), w.canal, free, analysis.RunOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
 	frame := func(step int) image.Image {
 		in := w.view.input()
 		in.opt.Step, in.res = step, w.res
+		if step < 0 {
+			in.opt.Step, in.res = 1, freeRes
+		}
 		if step == 0 {
 			in.res = nil
 		}
@@ -139,10 +155,10 @@ func TestWindowCheckRejectsBlankAndContactFreeFrames(t *testing.T) {
 		}
 		return img
 	}
-	if w.res.Steps[0].Metrics.EngagedAreaMM2 != 0 {
-		t.Fatalf("demo step 1 is expected to run free of the wall (area %v)", w.res.Steps[0].Metrics.EngagedAreaMM2)
+	if a := freeRes.Steps[0].Metrics.EngagedAreaMM2; a != 0 {
+		t.Fatalf("a 06/.02 to 8 mm is expected to run free of the wall (area %v)", a)
 	}
-	if c, d, ok := checkWindowPicture(frame(1)); ok {
+	if c, d, ok := checkWindowPicture(frame(-1)); ok {
 		t.Errorf("a step without contact passes (%d colours, %d depth pixels)", c, d)
 	}
 	if c, d, ok := checkWindowPicture(frame(3)); !ok {

@@ -59,6 +59,9 @@ func coarse(c *analysis.Canal, ds float64, angles int) *analysis.Canal {
 		line.K[i], line.KN1[i], line.KN2[i] = mixF(src.K), mixF(src.KN1), mixF(src.KN2)
 	}
 	out := *c
+	// The root's map is the full canal's; the search sees the wall through newKeepWall, and runs
+	// on this copy (fatigue use) do not measure it.
+	out.Root, out.Thickness = nil, nil
 	out.Line = line
 	out.Angles = angles
 	out.Rho = make([]float32, n*angles)
@@ -88,6 +91,7 @@ func fewAngles(c *analysis.Canal) *analysis.Canal {
 		return c
 	}
 	out := *c
+	out.Root, out.Thickness = nil, nil
 	stride := c.Angles / keep
 	out.Angles = keep
 	out.Rho = make([]float32, c.Line.Len()*keep)

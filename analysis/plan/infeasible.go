@@ -16,6 +16,7 @@ const (
 	ConstraintGlidePath  = "glide-path"     // a smaller file before any wider than the canal at working length
 	ConstraintStrain     = "recoverable-strain"
 	ConstraintAdvice     = "advice" // the least-breaking plan draws advice that rules it out
+	ConstraintWall       = "wall"   // Options.KeepWallMM
 )
 
 // InfeasibleError says that no plan within the steps allowed keeps the constraints, which
@@ -108,6 +109,11 @@ func (p *planner) infeasible(ctx context.Context, rule bool) (*checked, error) {
 				"the best found needs %.3f N*cm%s", within, lim.ref.torque, tl, m.torque, at(m.torqueAt)))
 	}
 	for _, b := range best.blocked {
+		if b.wall != nil {
+			note(ConstraintWall, p.opt.KeepWallMM, *b.wall, b.step, fmt.Sprintf("%s keeps %s mm of wall to the root's outer surface; the best found leaves %s mm%s: %s",
+				within, mmText(p.opt.KeepWallMM), mmText(*b.wall), at(b.step), b.advice.Text))
+			continue
+		}
 		note(ConstraintAdvice, 0, 0, b.step, fmt.Sprintf("%s passes the tool's own advice; the best found draws%s: %s",
 			within, at(b.step), b.advice.Text))
 	}

@@ -26,6 +26,10 @@ type Options struct {
 	// working length: every plan has to accept that one, no other file needs to use more.
 	// A negative value lifts the cap.
 	MaxFatigue float64
+	// KeepWallMM is the least wall to the root's outer surface every file must leave, mm (0 =
+	// none; the canal's root must be known). Where the canal as scanned already has less, a
+	// file keeps it by not thinning the wall there.
+	KeepWallMM float64
 	// AllowSameTaper lets two consecutive files share a taper. By default (false) every change
 	// of file changes the taper (common practice of the trade).
 	AllowSameTaper bool
@@ -101,6 +105,9 @@ func (o Options) withDefaults() (Options, error) {
 	if o.MaxEngagedMM < 0 || math.IsNaN(o.MaxEngagedMM) {
 		return o, fmt.Errorf("plan: the engaged length cap must not be negative (got %g)", o.MaxEngagedMM)
 	}
+	if o.KeepWallMM < 0 || math.IsNaN(o.KeepWallMM) || math.IsInf(o.KeepWallMM, 0) {
+		return o, fmt.Errorf("plan: the wall to keep must be a number of mm, not %g", o.KeepWallMM)
+	}
 	if math.IsNaN(o.MaxFatigue) {
 		return o, fmt.Errorf("plan: the fatigue cap must be a number")
 	}
@@ -124,6 +131,12 @@ func (o Options) withDefaults() (Options, error) {
 	}
 	if o.Recheck <= 0 {
 		o.Recheck = DefaultRecheck
+	}
+	if o.KeepWallMM > 0 {
+		// The run's thin-wall advice is the constraint's final test; more plans are re-checked,
+		// since the coarse search sees the wall only through a bound, sampled coarsely.
+		o.Run.MinWallMM = o.KeepWallMM
+		o.Recheck *= 3
 	}
 	o.Run = runDefaults(o.Run)
 	return o, nil

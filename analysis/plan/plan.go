@@ -44,6 +44,9 @@ func Propose(ctx context.Context, c *analysis.Canal, opt Options) (*Plan, error)
 	if ti < 0 {
 		return nil, fmt.Errorf("plan: the target %s is not among the %d instruments given", opt.Target.Label(), len(opt.Instruments))
 	}
+	if opt.KeepWallMM > 0 && c.Root == nil {
+		return nil, fmt.Errorf("plan: %s: a wall to keep needs the root's outer surface (a root in the canal spec, a surface around the canal in its file, or a root file)", c.Name)
+	}
 	p := &planner{full: c, opt: opt, targetInst: ti}
 	if err := p.prepare(ctx); err != nil {
 		return nil, err
@@ -76,6 +79,15 @@ type planner struct {
 	coarseLim  limits
 	evaluated  int
 	rechecked  int
+	// wallRuled counts the plans re-checked at full resolution that the wall to keep ruled out.
+	wallRuled int
+	// wall is the wall to keep on the coarse canal (nil: none); wallSetAside counts the partial
+	// plans the first search set aside for it, and wallFree is the best full plan among them.
+	wall         *keepWall
+	wallSetAside int
+	wallFree     *complete
+	// wallFreeChecked is wallFree re-checked at full resolution (nil: not needed).
+	wallFreeChecked *checked
 }
 
 // prepare builds the coarse canal, lays out every (file, depth) move on it, finds each move's
@@ -85,6 +97,7 @@ func (p *planner) prepare(ctx context.Context) error {
 	ds := math.Max(opt.CoarseDS, c.Line.DS)
 	cc := coarse(c, ds, opt.CoarseAngles)
 	p.g = newGrid(cc, opt.Run)
+	p.wall = newKeepWall(c, cc, opt.KeepWallMM, opt.Workers)
 	p.depths = depthChoices(c)
 	p.glide = analysis.GlidePathOf(c)
 	targetStep := models.NewStep(opt.Instruments[p.targetInst], models.DepthWL(0))
@@ -133,7 +146,7 @@ func (p *planner) prepare(ctx context.Context) error {
 	p.fullLim = limits{w: opt.Weights, maxEngaged: opt.MaxEngagedMM,
 		ref: measures{}.add(1, bm.EngagedLengthMM, bm.PeakTorqueIndex, bm.FatigueDamage)}
 	sm := p.g.sweep(cc.Rho, nil, p.target)
-	p.coarseLim = limits{w: opt.Weights, maxEngaged: opt.MaxEngagedMM,
+	p.coarseLim = limits{w: opt.Weights, maxEngaged: opt.MaxEngagedMM, keepWall: opt.KeepWallMM,
 		ref: measures{}.add(1, sm.engaged, sm.torque, p.target.fatigue)}
 	switch {
 	case opt.MaxFatigue > 0:
@@ -189,7 +202,7 @@ func fatigueOf(ctx context.Context, cc *analysis.Canal, mv *move, opt analysis.R
 
 func (p *planner) searcher(strict, taperRule bool) *searcher {
 	return &searcher{g: p.g, glide: p.glide, moves: p.moves, target: p.target, lim: p.coarseLim, beamWidth: p.opt.BeamWidth,
-		keep: p.opt.Recheck, maxSteps: p.opt.MaxSteps, sameTaper: taperRule, strict: strict, workers: p.opt.Workers}
+		keep: p.opt.Recheck, maxSteps: p.opt.MaxSteps, sameTaper: taperRule, strict: strict, workers: p.opt.Workers, wall: p.wall}
 }
 
 // checked is a plan found on the coarse canal and run at full resolution.
@@ -201,11 +214,14 @@ type checked struct {
 	cost   float64
 	// blocked is the advice at full resolution that rules the plan out, by step (from 1).
 	blocked []blockedStep
+	// found is the plan as the coarse search found and ranked it.
+	found *complete
 }
 
 type blockedStep struct {
 	step   int
 	advice analysis.Advice
+	wall   *float64 // the wall left, when the wall to keep rules the step out
 }
 
 // recheck runs the plans through the full-resolution canal and returns them best first
@@ -228,11 +244,19 @@ func (p *planner) recheck(ctx context.Context, found []*complete) ([]*checked, e
 			}
 			m = add(k+1, s.Metrics.EngagedLengthMM, s.Metrics.PeakTorqueIndex, s.Metrics.FatigueDamage)
 		}
-		ck := &checked{seq: seq, res: res, m: m, excess: p.fullLim.excess(m), cost: p.fullLim.cost(m)}
+		ck := &checked{seq: seq, res: res, m: m, excess: p.fullLim.excess(m), cost: p.fullLim.cost(m), found: found[i]}
 		for k, s := range res.Steps {
 			for _, a := range analysis.Blocking(&s.Metrics) {
-				ck.blocked = append(ck.blocked, blockedStep{k + 1, a})
+				ck.blocked = append(ck.blocked, blockedStep{step: k + 1, advice: a})
 				ck.excess++
+			}
+			if p.opt.KeepWallMM > 0 {
+				for _, a := range s.Metrics.Advice {
+					if a.Code == analysis.AdviceThinWall {
+						ck.blocked = append(ck.blocked, blockedStep{step: k + 1, advice: a, wall: s.Metrics.ThinnestWallMM})
+						ck.excess++
+					}
+				}
 			}
 		}
 		out[i] = ck
@@ -240,6 +264,14 @@ func (p *planner) recheck(ctx context.Context, found []*complete) ([]*checked, e
 	for _, err := range errs {
 		if err != nil {
 			return nil, err
+		}
+	}
+	for _, ck := range out {
+		for _, b := range ck.blocked {
+			if b.wall != nil {
+				p.wallRuled++
+				break
+			}
 		}
 	}
 	// A stable insertion sort keeps the search's order among equals.
@@ -275,6 +307,9 @@ func (p *planner) search(ctx context.Context, strict, taperRule bool) ([]*checke
 	found, err := s.run(ctx)
 	p.evaluated += s.evaluated
 	p.rechecked += len(found)
+	if p.evaluated == s.evaluated { // the first search: the one whose plan is proposed when any keeps the limits
+		p.wallSetAside, p.wallFree = s.wallSetAside, s.wallFree
+	}
 	if err != nil {
 		return nil, err
 	}
@@ -296,7 +331,16 @@ func (p *planner) propose(ctx context.Context) (*Plan, error) {
 		return nil, err
 	}
 	if len(plans) > 0 && plans[0].excess == 0 {
-		return p.explain(plans[0]), nil
+		best := plans[0]
+		wf, err := p.checkWallFree(ctx, best)
+		if err != nil {
+			return nil, err
+		}
+		p.wallFreeChecked = wf
+		if wf != nil && wf.excess == 0 && wf.cost < best.cost {
+			best = wf // the search's bound of the wall was too cautious for this one
+		}
+		return p.explain(best), nil
 	}
 	best, err := p.infeasible(ctx, rule)
 	if err != nil {
@@ -321,6 +365,16 @@ func (p *planner) targetFails() error {
 			return &InfeasibleError{Constraint: ConstraintFatigue, Limit: 1, Needed: m.FatigueDamage, Msg: fmt.Sprintf(
 				"the %s taken to working length, which ends every plan, fractures in this canal in the model whatever files go "+
 					"before it: %s", tl, a.Text)}
+		}
+	}
+	if p.opt.KeepWallMM > 0 {
+		for _, a := range p.baseline.Steps[0].Metrics.Advice {
+			if a.Code == analysis.AdviceThinWall {
+				w := p.baseline.Steps[0].Metrics.ThinnestWallMM
+				return &InfeasibleError{Constraint: ConstraintWall, Limit: p.opt.KeepWallMM, Needed: *w, Step: 0, Msg: fmt.Sprintf(
+					"the %s taken to working length, which ends every plan, leaves %s mm of wall to the root's outer surface, under the "+
+						"%s mm to keep: %s", tl, mmText(*w), mmText(p.opt.KeepWallMM), a.Text)}
+			}
 		}
 	}
 	in := p.target.step.Instrument
@@ -371,6 +425,10 @@ func (p *planner) explain(best *checked) *Plan {
 	case opt.MaxFatigue == 0:
 		cons = append(cons, fmt.Sprintf("no file using more of its fatigue life than the %s at working length (%.3g)", tl, ref.fatigue))
 	}
+	if opt.KeepWallMM > 0 {
+		cons = append(cons, fmt.Sprintf("every file leaves at least %s mm of wall to the root's outer surface (where the canal as scanned "+
+			"has less, it does not thin the wall)", mmText(opt.KeepWallMM)))
+	}
 	cons = append(cons, "the tool's own advice: sizes never go down, a glide path before any file wider than the canal at "+
 		"working length, no file bent past its recoverable strain or reaching the model's fracture point")
 	cons = append(cons, fmt.Sprintf("no file engaged over a longer stretch or needing more torque than the %s taken straight to working length", tl))
@@ -389,6 +447,11 @@ func (p *planner) explain(best *checked) *Plan {
 	}
 	for _, r := range taperDownReasons(best.res) {
 		add("%s", r)
+	}
+	if opt.KeepWallMM > 0 {
+		for _, line := range p.wallText(best) {
+			add("%s", line)
+		}
 	}
 	if p.opt.MaxFatigue < 0 {
 		add("The fatigue cap was lifted; no file reaches the model's fracture point all the same (the tool's own advice).")

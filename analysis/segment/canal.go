@@ -17,6 +17,11 @@ func (r *Result) Measure(ctx context.Context, name string, opt analysis.CanalOpt
 	last := len(r.Path) - 1
 	o, a := r.Path[0], r.Path[last]
 	opt.Extract.Orifice, opt.Extract.Apex = &o, &a
+	if opt.Root == nil {
+		if root := r.rootForWall(); root != nil {
+			opt.Root, opt.RootSource = root, "found in the scan"
+		}
+	}
 	c, err := analysis.NewCanal(ctx, name, r.Lumen, opt)
 	if err != nil {
 		return nil, err

@@ -238,3 +238,44 @@ func (res *Result) rootMesh() *mesh.Mesh {
 		return (1-w)*row[j] + w*row[(j+1)%n]
 	}, res.Rays, true, true)
 }
+
+// rootForWall is the root's outer surface carried past both ends of the path along its end
+// tangents by the root's mean radius there, with the end stations' outline: the wall around
+// the canal is then measured to the root's side, never through a cap cut where the path ends
+// (the orifice lies inside the tooth, not on its surface).
+func (res *Result) rootForWall() *mesh.Mesh {
+	f := res.Frames
+	n := len(f.Points)
+	if n < 2 || len(res.RootRadius) != n {
+		return nil
+	}
+	mean := func(row []float64) float64 {
+		sum := 0.0
+		for _, v := range row {
+			sum += v
+		}
+		return sum / float64(len(row))
+	}
+	t0 := f.Points[1].Sub(f.Points[0]).Normalize()
+	t1 := f.Points[n-1].Sub(f.Points[n-2]).Normalize()
+	e0, e1 := mean(res.RootRadius[0]), mean(res.RootRadius[n-1])
+	var pts, n1, n2 []mgl64.Vec3
+	var rows [][]float64
+	for k := 4; k >= 1; k-- {
+		pts = append(pts, f.Points[0].Sub(t0.Mul(e0*float64(k)/4)))
+		n1, n2, rows = append(n1, f.N1[0]), append(n2, f.N2[0]), append(rows, res.RootRadius[0])
+	}
+	pts, n1, n2, rows = append(pts, f.Points...), append(n1, f.N1...), append(n2, f.N2...), append(rows, res.RootRadius...)
+	for k := 1; k <= 4; k++ {
+		pts = append(pts, f.Points[n-1].Add(t1.Mul(e1*float64(k)/4)))
+		n1, n2, rows = append(n1, f.N1[n-1]), append(n2, f.N2[n-1]), append(rows, res.RootRadius[n-1])
+	}
+	return mesh.SweepTube(pts, n1, n2, func(i int, theta float64) float64 {
+		row := rows[i]
+		m := len(row)
+		x := theta / (2 * math.Pi) * float64(m)
+		j := int(math.Floor(x)) % m
+		w := x - math.Floor(x)
+		return (1-w)*row[j] + w*row[(j+1)%m]
+	}, res.Rays, true, true)
+}

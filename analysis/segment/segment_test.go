@@ -124,6 +124,42 @@ func (f *found) checkRoot(t *testing.T, fromS, toS float64) {
 	}
 }
 
+// checkWall: the wall from the canal to the root's outer surface found in the scan (issue 17)
+// agrees with the wall to the exact root surface from the same canal points within one voxel
+// (95 % of the cells; median within half a voxel), away from the cut ends, since both are
+// shortest distances and the found root lies within a voxel of the exact one.
+func (f *found) checkWall(t *testing.T, fromS, toS float64) {
+	t.Helper()
+	c := f.canal
+	if c.Root == nil || len(c.Thickness) != len(c.Rho) {
+		t.Fatal("the canal found in the scan has no root")
+	}
+	exact := f.e.rootMesh()
+	for i := range exact.Vertices {
+		exact.Vertices[i] = exact.Vertices[i].Add(f.shift)
+	}
+	bvh := mesh.NewBVH(exact)
+	var ds []float64
+	for i := range c.Line.Points {
+		k, _ := f.exactAt(c.Line.Points[i])
+		if s := f.e.Stations[k][0]; s < fromS || s > toS {
+			continue
+		}
+		for j := 0; j < c.Angles; j += 4 {
+			th := 2 * math.Pi * float64(j) / float64(c.Angles)
+			dir := c.Line.N1[i].Mul(math.Cos(th)).Add(c.Line.N2[i].Mul(math.Sin(th)))
+			_, _, d := bvh.Closest(c.Line.Points[i].Add(dir.Mul(float64(c.Rho[i*c.Angles+j]))))
+			ds = append(ds, math.Abs(float64(c.Thickness[i*c.Angles+j])-d))
+		}
+	}
+	voxel := f.v.MaxSpacing()
+	med, p95 := percentile(append([]float64(nil), ds...), 0.5), percentile(append([]float64(nil), ds...), 0.95)
+	t.Logf("wall to the root: %d cells, off the exact root's by median %.3f, 95%% %.3f mm (voxel %.3f)", len(ds), med, p95, voxel)
+	if len(ds) < 100 || p95 > voxel || med > voxel/2 {
+		t.Errorf("wall to the found root: median %.3f, 95%% %.3f mm off the exact: want within one voxel (%.3f mm)", med, p95, voxel)
+	}
+}
+
 // checkUnresolved: the stretch where the exact canal is under two voxels wide is reported as
 // not resolved, and nothing is reported where it is over 3.5 voxels wide (a canal between
 // the two is at the edge of what a blurred scan shows).
@@ -152,6 +188,7 @@ func TestCBCTSeries(t *testing.T) {
 	f.checkCenterline(t, end, f.canal.Line.Length()-end)
 	f.checkDiameter(t, end, f.canal.Line.Length()-end)
 	f.checkRoot(t, 0.5, e.Length-1.3)
+	f.checkWall(t, 0.5, e.Length-1.3)
 	f.checkUnresolved(t)
 	if len(f.canal.Unresolved) == 0 || f.canal.Unresolved[len(f.canal.Unresolved)-1].To < f.canal.Line.Length()-1e-9 {
 		t.Errorf("the apical stretch should be reported unresolved to the apical end: %+v", f.canal.Unresolved)
@@ -174,6 +211,7 @@ func TestCoarseCBCTNIfTI(t *testing.T) {
 	f.checkCenterline(t, end, f.canal.Line.Length()-end)
 	f.checkDiameter(t, end, f.canal.Line.Length()-end)
 	f.checkRoot(t, 0.5, e.Length-1.3)
+	f.checkWall(t, 0.5, e.Length-1.3)
 	f.checkUnresolved(t)
 }
 

@@ -18,11 +18,12 @@ func analyzeCommand() command {
 	return command{
 		name:    "analyze",
 		summary: "run a file sequence through a canal and state, per step, engagement, strain, fatigue use, torsional margin and transportation",
-		usage:   "--canal PATH --sequence PATH [--format json|csv|table] [--path-model centred|elastic] [--working-length MM] [--scale K]",
+		usage:   "--canal PATH --sequence PATH [--format json|csv|table] [--path-model centred|elastic] [--working-length MM] [--scale K] [--root ROOT.stl] [--min-wall MM]",
 		example: "tapersweep analyze --canal canal.stl --sequence plan.json --format table",
 		flags: func(fs *flag.FlagSet) func(stdout, stderr io.Writer) int {
 			var cf canalFlags
 			cf.register(fs)
+			cf.registerWall(fs)
 			seqPath := fs.String("sequence", "", "sequence `file` (JSON)")
 			format := fs.String("format", "json", "output `format`: json, csv or table")
 			pathModel := fs.String("path-model", "", "file path `model`: centred (files follow the centerline) or elastic (files straighten as beams); overrides the sequence file")
@@ -39,7 +40,7 @@ func analyzeCommand() command {
 				if *pathModel != "" && *pathModel != models.PathCentred && *pathModel != models.PathElastic {
 					return usageError(stderr, "analyze", "--path-model must be %s or %s, not %q", models.PathCentred, models.PathElastic, *pathModel)
 				}
-				res, err := analyzeFiles(context.Background(), &cf, *seqPath, analysis.RunOptions{PathModel: *pathModel})
+				res, err := analyzeFiles(context.Background(), &cf, *seqPath, cf.runOptions(analysis.RunOptions{PathModel: *pathModel}))
 				if err != nil {
 					return inputError(stderr, "analyze", err)
 				}
@@ -92,6 +93,9 @@ var tableColumns = []string{"step", "label", "tip_depth_mm", "engaged_length_mm"
 	"diameter_at_max_curvature_mm", "strain_at_max_curvature_pct", "fatigue_damage", "torsion_margin",
 	"transportation_1_mm", "advice"}
 
+// wallTableColumns join the table (before the advice) when the root is known.
+var wallTableColumns = []string{"thinnest_wall_mm", "thinnest_wall_from_apex_mm", "thinnest_wall_toward_deg", "wall_under_limit_pct"}
+
 // writeTabbed prints rows of cells in right-aligned columns.
 func writeTabbed(w io.Writer, rows [][]string) {
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', tabwriter.AlignRight)
@@ -110,12 +114,24 @@ func writeStepsTable(w io.Writer, res *analysis.Result) {
 		fmt.Fprintf(w, ", tightest bend r %s at %s", sum.RadiusText(), sum.PlaceText())
 	}
 	fmt.Fprintf(w, ", Schneider angle %s\n\n", sum.SchneiderText())
-	head, rows := report.TextRows(analysis.PickColumns(tableColumns...), res)
+	keys := tableColumns
+	if res.Canal.Root != nil {
+		keys = append(append(append([]string{}, keys[:len(keys)-1]...), wallTableColumns...), keys[len(keys)-1])
+	}
+	head, rows := report.TextRows(analysis.PickColumns(keys...), res)
 	writeTabbed(w, append([][]string{head}, rows...))
 	mv := res.Moved
 	fmt.Fprintf(w, "\nEngaged figures count cuts deeper than the contact threshold, %g mm.", res.Options.ContactThreshold)
 	if res.Canal.BendUncertain() {
 		fmt.Fprintf(w, "\nThe scan does not pin the tightest bend down well: %s.", analysis.BendInheritNote(""))
+	}
+	if res.Canal.Root != nil {
+		fmt.Fprintf(w, "\nWall to the root's outer surface (%s): estimates from the two surfaces; the thin-wall warning keeps %g mm.",
+			models.Printable(res.Canal.Root.Source, models.MaxNameRunes), res.Options.MinWallMM)
+		if t := res.ScannedWall.ThinnestWallMM; t != nil {
+			fmt.Fprintf(w, " As scanned the thinnest wall is %.2f mm, %.1f mm from the apical end toward %.0f°.", *t,
+				*res.ScannedWall.ThinnestWallFromApexMM, *res.ScannedWall.ThinnestWallTowardDeg)
+		}
 	}
 	fmt.Fprintf(w, "\nFile path model: %s. The whole sequence moved the canal %.3f mm at 1 mm, %.3f mm at 3 mm and %.3f mm at 5 mm from the apical end; the foramen by %.3f mm.\n",
 		res.Options.PathModel, mv.TransportationMM["1"], mv.TransportationMM["3"], mv.TransportationMM["5"], mv.ForamenShiftMM)

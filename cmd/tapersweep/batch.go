@@ -40,6 +40,8 @@ func batchCommand() command {
 				"(columns file, orifice, apical_end, working_length_mm, scale; see the README); instead of --canals")
 			force := fs.Bool("force", false, "measure surfaces whose measures cannot be trusted (not closed, most triangles "+
 				"removed) instead of failing them")
+			minWall := fs.Float64("min-wall", analysis.DefaultMinWallMM, "the least wall to the root's outer surface, `mm`, under which a step is warned about "+
+				"(for canals whose root is known: a spec's root, or a surface of the canal's file that encloses it)")
 			return func(stdout, stderr io.Writer) int {
 				switch {
 				case *dir == "" && *manifest == "":
@@ -56,6 +58,8 @@ func batchCommand() command {
 					return usageError(stderr, "batch", "%s", scaleFlagError(*scale))
 				case workingLengthFlagError(*wl) != "":
 					return usageError(stderr, "batch", "%s", workingLengthFlagError(*wl))
+				case !(*minWall > 0) || *minWall > 10:
+					return usageError(stderr, "batch", "--min-wall must be a number of mm above 0 and at most 10, not %g", *minWall)
 				}
 				si, sn, err := parseShard(*shard)
 				if err != nil {
@@ -86,7 +90,7 @@ func batchCommand() command {
 					}
 				}
 				canals = shardFiles(canals, si, sn)
-				opt := batchOptions{Jobs: *jobs}
+				opt := batchOptions{Jobs: *jobs, Run: analysis.RunOptions{MinWallMM: *minWall}}
 				return writeBatch(context.Background(), stdout, stderr, *out, canals, seq, opt)
 			}
 		},
@@ -173,6 +177,8 @@ func batchColumns() []string {
 
 type batchOptions struct {
 	Jobs int
+	// Run is the model's settings for every canal (the thin-wall limit).
+	Run analysis.RunOptions
 	// Progress is told of each canal as it finishes, in the order they finish.
 	Progress func(done, total, failed int, file string, err error)
 }
@@ -236,7 +242,7 @@ func runBatch(ctx context.Context, w io.Writer, files []batchCanalFile, seq *mod
 			for k := range next {
 				load := files[k].load
 				load.Canal.Workers = workers
-				rows, err := batchCanal(ctx, files[k], seq, load)
+				rows, err := batchCanal(ctx, files[k], seq, load, opt.Run)
 				results <- done{k, rows, err}
 			}
 		}()
@@ -284,7 +290,7 @@ func runBatch(ctx context.Context, w io.Writer, files []batchCanalFile, seq *mod
 
 // batchCanal runs the sequence through one canal and returns its rows: one per step, or one
 // row carrying the error. A failure in one canal, even a crash in the analysis, stays in its row.
-func batchCanal(ctx context.Context, src batchCanalFile, seq *models.Sequence, opt analysis.LoadOptions) (rows [][]string, err error) {
+func batchCanal(ctx context.Context, src batchCanalFile, seq *models.Sequence, opt analysis.LoadOptions, run analysis.RunOptions) (rows [][]string, err error) {
 	path, file := src.path, src.file
 	width := len(batchColumns())
 	errorRow := func(e error) [][]string {
@@ -307,7 +313,7 @@ func batchCanal(ctx context.Context, src batchCanalFile, seq *models.Sequence, o
 	}
 	if err == nil {
 		var res *analysis.Result
-		if res, err = analysis.Run(ctx, c, seq, analysis.RunOptions{}); err == nil {
+		if res, err = analysis.Run(ctx, c, seq, run); err == nil {
 			return canalRows(file, res), nil
 		}
 	}

@@ -61,6 +61,8 @@ type canalFlags struct {
 	orifice, apex *string
 	force         *bool
 	scan          scanFlags
+	root          *string
+	minWall       *float64 // nil for commands that run no sequence
 }
 
 func (cf *canalFlags) register(fs *flag.FlagSet) {
@@ -71,7 +73,22 @@ func (cf *canalFlags) register(fs *flag.FlagSet) {
 	cf.orifice = fs.String("orifice", "", "a point `X,Y,Z` near the coronal end, in the file's coordinates (default: the wider end)")
 	cf.apex = fs.String("apical-end", "", "a point `X,Y,Z` near the apical end, in the file's coordinates (default: the narrower end)")
 	cf.force = fs.Bool("force", false, "measure a surface whose measures cannot be trusted (not closed, most triangles removed) instead of stopping")
+	cf.root = fs.String("root", "", "the root's outer surface around the canal: an STL `file` in the canal's coordinates (default: a surface of the canal's file that encloses it, the spec's root, the scan's)")
 	cf.scan.register(fs)
+}
+
+// registerWall adds --min-wall, for the commands that run a sequence.
+func (cf *canalFlags) registerWall(fs *flag.FlagSet) {
+	cf.minWall = fs.Float64("min-wall", analysis.DefaultMinWallMM, "the least wall to the root's outer surface, `mm`, under which a step is warned about "+
+		"(default after Lim and Stock 1987, from memory; used only when the root is known)")
+}
+
+// runOptions are opt with the wall limit given on the command line.
+func (cf *canalFlags) runOptions(opt analysis.RunOptions) analysis.RunOptions {
+	if cf.minWall != nil {
+		opt.MinWallMM = *cf.minWall
+	}
+	return opt
 }
 
 // point reads "x,y,z".
@@ -136,6 +153,9 @@ func (cf *canalFlags) check(stderr io.Writer, cmd string) int {
 	if *cf.shell < 0 {
 		return usageError(stderr, cmd, "--shell counts from 1")
 	}
+	if cf.minWall != nil && (!(*cf.minWall > 0) || *cf.minWall > 10) {
+		return usageError(stderr, cmd, "--min-wall must be a number of mm above 0 and at most 10, not %g", *cf.minWall)
+	}
 	if _, err := point(*cf.orifice); err != nil {
 		return usageError(stderr, cmd, "--orifice: %v", err)
 	}
@@ -148,15 +168,27 @@ func (cf *canalFlags) check(stderr io.Writer, cmd string) int {
 func (cf *canalFlags) load(ctx context.Context) (*analysis.Canal, error) {
 	orifice, _ := point(*cf.orifice)
 	apex, _ := point(*cf.apex)
-	if cf.scan.set() {
-		return loadScanCanal(ctx, &cf.scan, orifice, apex, analysis.CanalOptions{WorkingLength: *cf.workingLength})
+	opt := analysis.CanalOptions{WorkingLength: *cf.workingLength}
+	if *cf.root != "" {
+		scale := *cf.scale
+		if cf.scan.set() {
+			scale = 1
+		}
+		root, err := analysis.LoadRoot(ctx, *cf.root, scale, 0)
+		if err != nil {
+			return nil, err
+		}
+		opt.Root, opt.RootSource = root, *cf.root
 	}
+	if cf.scan.set() {
+		return loadScanCanal(ctx, &cf.scan, orifice, apex, opt)
+	}
+	opt.Extract = analysis.ExtractOptions{Orifice: orifice, Apex: apex}
 	return analysis.LoadCanal(ctx, *cf.path, analysis.LoadOptions{
 		Scale: *cf.scale,
 		Shell: *cf.shell,
 		Force: *cf.force,
-		Canal: analysis.CanalOptions{WorkingLength: *cf.workingLength,
-			Extract: analysis.ExtractOptions{Orifice: orifice, Apex: apex}},
+		Canal: opt,
 	})
 }
 

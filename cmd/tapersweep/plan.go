@@ -22,11 +22,13 @@ func planCommand() command {
 		name:    "plan",
 		summary: "propose a file sequence that reaches a target size and taper at working length with the least engagement, torque and fatigue use",
 		usage: "--canal PATH --target SIZE/TAPER [--instruments PATH] [--max-steps N] [--out FILE] [--compare PATH]\n" +
-			"       [--max-engaged MM] [--max-fatigue F] [--weights a,b,c] [--allow-same-taper] [--working-length MM] [--scale K]",
+			"       [--max-engaged MM] [--max-fatigue F] [--weights a,b,c] [--allow-same-taper] [--working-length MM] [--scale K]\n" +
+			"       [--root ROOT.stl] [--min-wall MM] [--keep-wall MM]",
 		example: "tapersweep plan --canal canal.stl --target 30/.04 --instruments shelf.json --max-engaged 6 --out plan.json --compare mine.json",
 		flags: func(fs *flag.FlagSet) func(stdout, stderr io.Writer) int {
 			var cf canalFlags
 			cf.register(fs)
+			cf.registerWall(fs)
 			target := fs.String("target", "", "the `SIZE/TAPER` of the last file, taken to working length (e.g. 30/.04)")
 			instruments := fs.String("instruments", "", "instruments `file` (JSON list of {\"size\": 25, \"taper\": 0.04, ...}); default: the generic catalogue from size 10 up to the target size, tapers .02-.08 (and .10 from size 20)")
 			maxSteps := fs.Int("max-steps", plan.DefaultMaxSteps, "at most `N` files, the target included")
@@ -36,6 +38,7 @@ func planCommand() command {
 			maxFatigue := fs.Float64("max-fatigue", 0, "no file using more than `F` of its fatigue life (0: what the target file alone uses at working length; -1: no cap below the model's fracture point, which no plan reaches)")
 			weights := fs.String("weights", "1,1,1", "weights `a,b,c` of largest engaged length, peak torque and fatigue use, each relative to the target file alone")
 			sameTaper := fs.Bool("allow-same-taper", false, "allow two consecutive files of the same taper")
+			keepWall := fs.Float64("keep-wall", 0, "every file leaves at least `MM` mm of wall to the root's outer surface (0: no such constraint; needs the root)")
 			return func(stdout, stderr io.Writer) int {
 				if code := cf.check(stderr, "plan"); code != exitOK {
 					return code
@@ -60,13 +63,17 @@ func planCommand() command {
 				if math.IsNaN(*maxFatigue) || *maxFatigue < 0 && *maxFatigue != -1 {
 					return usageError(stderr, "plan", "--max-fatigue must be above 0, 0 (the default cap) or -1 (no cap)")
 				}
+				if !(*keepWall >= 0) || *keepWall > 10 {
+					return usageError(stderr, "plan", "--keep-wall must be a number of mm from 0 to 10, not %g", *keepWall)
+				}
 				if *out != "" {
 					if err := checkOutput(*out, *cf.path, *instruments, *compare); err != nil {
 						return inputError(stderr, "plan", err)
 					}
 				}
 				opt := plan.Options{Target: tg, MaxSteps: *maxSteps, MaxEngagedMM: *maxEngaged,
-					MaxFatigue: *maxFatigue, AllowSameTaper: *sameTaper, Weights: w}
+					MaxFatigue: *maxFatigue, AllowSameTaper: *sameTaper, Weights: w, KeepWallMM: *keepWall,
+					Run: cf.runOptions(analysis.RunOptions{})}
 				if *instruments != "" {
 					if err := checkInput(*instruments); err != nil {
 						return inputError(stderr, "plan", err)
@@ -103,7 +110,7 @@ func planCommand() command {
 				}
 				other, otherName := pl.Baseline, tg.Label()+" alone to WL"
 				if cmp != nil {
-					if other, err = analysis.Run(ctx, c, cmp, analysis.RunOptions{}); err != nil {
+					if other, err = analysis.Run(ctx, c, cmp, cf.runOptions(analysis.RunOptions{})); err != nil {
 						return inputError(stderr, "plan", err)
 					}
 					otherName = *compare
@@ -155,9 +162,14 @@ func parseWeights(s string) (plan.Weights, error) {
 func writePlanTable(w io.Writer, c *analysis.Canal, pl *plan.Plan, other *analysis.Result, otherName string) {
 	fmt.Fprintf(w, "%s: working length %.2f mm\n", models.Printable(c.Name, models.MaxNameRunes), c.WorkingLength)
 	compared := plan.ComparedColumns()
+	cols := append(analysis.PickColumns("step", "label", "tip_depth_mm"), compared...)
+	if c.Root != nil {
+		// With a root, each step's thinnest wall and where: what a wall to keep is judged by.
+		cols = append(cols, analysis.PickColumns("thinnest_wall_mm", "thinnest_wall_from_apex_mm", "thinnest_wall_toward_deg")...)
+	}
 	steps := func(title string, res *analysis.Result) {
 		fmt.Fprintf(w, "\n%s\n", title)
-		head, rows := report.TextRows(append(analysis.PickColumns("step", "label", "tip_depth_mm"), compared...), res)
+		head, rows := report.TextRows(cols, res)
 		// The step's depth as the sequence states it, beside where its tip went.
 		head = slices.Insert(head, 2, "depth")
 		for i, s := range res.Steps {
@@ -181,6 +193,13 @@ func writePlanTable(w io.Writer, c *analysis.Canal, pl *plan.Plan, other *analys
 		}
 		overall = append(overall, row)
 	}
+	if c.Root != nil {
+		row := []string{"thinnest wall left to the root surface, mm (estimate)"}
+		for _, res := range []*analysis.Result{pl.Result, other} {
+			row = append(row, thinnestWallText(res))
+		}
+		overall = append(overall, row)
+	}
 	overall = append(overall, []string{"files", strconv.Itoa(len(pl.Result.Steps)), strconv.Itoa(len(other.Steps))})
 	writeTabbed(w, overall)
 	for _, d := range plan.Differences(pl.Result, other) {
@@ -191,4 +210,19 @@ func writePlanTable(w io.Writer, c *analysis.Canal, pl *plan.Plan, other *analys
 		fmt.Fprintf(w, "%s\n", line)
 	}
 	fmt.Fprintf(w, "\n%s\n", analysis.Caution)
+}
+
+// thinnestWallText is the least wall any step of a run leaves to the root's surface ("-": none
+// measured).
+func thinnestWallText(res *analysis.Result) string {
+	least := math.Inf(1)
+	for _, s := range res.Steps {
+		if w := s.Metrics.ThinnestWallMM; w != nil {
+			least = min(least, *w)
+		}
+	}
+	if math.IsInf(least, 1) {
+		return "-"
+	}
+	return strconv.FormatFloat(least, 'f', 3, 64)
 }

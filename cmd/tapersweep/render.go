@@ -24,6 +24,7 @@ func renderCommand() command {
 		flags: func(fs *flag.FlagSet) func(stdout, stderr io.Writer) int {
 			var cf canalFlags
 			cf.register(fs)
+			cf.registerWall(fs)
 			seqPath := fs.String("sequence", "", "sequence `file` (JSON); needed with --step")
 			step := fs.Int("step", 0, "step `N` to draw, numbered from 1 (default: the canal alone)")
 			out := fs.String("out", "", "PNG `file` to write")
@@ -64,7 +65,7 @@ func renderCommand() command {
 					if err != nil {
 						return inputError(stderr, "render", err)
 					}
-					if res, err = analysis.Run(ctx, c, seq, analysis.RunOptions{}); err != nil {
+					if res, err = analysis.Run(ctx, c, seq, cf.runOptions(analysis.RunOptions{})); err != nil {
 						return inputError(stderr, "render", err)
 					}
 				}

@@ -21,6 +21,7 @@ func reportCommand() command {
 		flags: func(fs *flag.FlagSet) func(stdout, stderr io.Writer) int {
 			var cf canalFlags
 			cf.register(fs)
+			cf.registerWall(fs)
 			seqPath := fs.String("sequence", "", "sequence `file` (JSON)")
 			out := fs.String("out", "", "PDF `file` to write")
 			view := fs.String("view", scene.DefaultView, "named `view` of the step pictures: "+strings.Join(scene.ViewNames(), ", "))
@@ -45,7 +46,7 @@ func reportCommand() command {
 				if err := checkOutput(*out, *cf.path, *seqPath); err != nil {
 					return inputError(stderr, "report", err)
 				}
-				res, err := analyzeFiles(context.Background(), &cf, *seqPath, analysis.RunOptions{PathModel: *pathModel})
+				res, err := analyzeFiles(context.Background(), &cf, *seqPath, cf.runOptions(analysis.RunOptions{PathModel: *pathModel}))
 				if err != nil {
 					return inputError(stderr, "report", err)
 				}

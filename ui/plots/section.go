@@ -66,9 +66,16 @@ func SectionsImage(secs []*analysis.Section, w, h int, opt SectionOptions) *imag
 	small := ink(0.9*opt.TextPt, scene.ScannedInk)
 	lineH := body.FontExtents().Height
 	W, H := dc.Max.X-dc.Min.X, dc.Max.Y-dc.Min.Y
+	items := keyItems
+	for _, sec := range secs {
+		if sec.Root != nil {
+			items = withRootKey
+			break
+		}
+	}
 	keyH := vg.Length(0)
 	if opt.Key {
-		keyH = keyHeight(W, lineH, small)
+		keyH = keyHeight(W, lineH, small, items)
 	}
 	extent := 0.0
 	for _, s := range secs {
@@ -87,7 +94,10 @@ func SectionsImage(secs []*analysis.Section, w, h int, opt SectionOptions) *imag
 	// a line each.
 	compactLines := func(s *analysis.Section, cellW vg.Length) []string {
 		lines := []string{trim(s.FromApexMM) + " mm from the apical end"}
-		fig := sectionFigures(s)
+		// The thinnest wall is labelled on its line; the narrow title leaves it out.
+		brief := *s
+		brief.Wall = nil
+		fig := sectionFigures(&brief)
 		if small.Width(fig) > cellW-pt {
 			return append(lines, strings.Split(fig, " · ")...)
 		}
@@ -137,7 +147,12 @@ func SectionsImage(secs []*analysis.Section, w, h int, opt SectionOptions) *imag
 			sx, sy := toScreen(x, y)
 			return vg.Point{X: cx + vg.Length(sx*scale), Y: cy + vg.Length(sy*scale)}
 		}
+		// The root and the wall's line are clipped a little inside the cell, so a line running
+		// out of one section never meets its neighbour's and reads as one.
+		gap := 0.06 * cellW
+		cell := draw.Canvas{Canvas: dc.Canvas, Rectangle: vg.Rectangle{Min: vg.Point{X: x0 + gap, Y: y0 + barH}, Max: vg.Point{X: x0 + cellW - gap, Y: y0 + barH + picH}}}
 		drawSection(dc, s, at, scale, opt)
+		drawRoot(dc, cell, s, at, small)
 		// Level and figures above.
 		top := y0 + cellH - 0.3*lineH
 		title := body
@@ -168,7 +183,7 @@ func SectionsImage(secs []*analysis.Section, w, h int, opt SectionOptions) *imag
 		dc.FillText(lab, vg.Point{X: bx + bw + 0.4*pt, Y: by}, trim(bar)+" mm")
 	}
 	if opt.Key {
-		drawKey(dc, opt, lineH, small)
+		drawKey(dc, opt, lineH, small, items)
 	}
 	return toRGBA(c)
 }
@@ -184,12 +199,65 @@ func sectionExtent(s *analysis.Section) float64 {
 	if f := s.File; f != nil {
 		e = math.Max(e, math.Hypot(f.X, f.Y)+f.RadiusMM)
 	}
+	// The root's outline is drawn as far as the picture reaches; the picture widens to show the
+	// thinnest wall whole where it is close (within the canal's own reach again), and otherwise
+	// keeps the canal large, the wall's line running out of the picture.
+	if w := s.Wall; w != nil {
+		if r := math.Hypot(w.ToX, w.ToY); r <= 2*e {
+			e = math.Max(e, r)
+		}
+	}
 	return e
+}
+
+// drawRoot draws the root's outer surface in this plane (clipped to the section's cell: a root
+// is many times wider than its canal) and the thinnest wall at this level, from the canal's
+// outline to the nearest point of the root, with its thickness.
+func drawRoot(dc, cell draw.Canvas, s *analysis.Section, at func(x, y float64) vg.Point, sty draw.TextStyle) {
+	if s.Root == nil {
+		return
+	}
+	pts := make([]vg.Point, 0, len(s.Root.R)+1)
+	for j := 0; j <= len(s.Root.R); j++ {
+		pts = append(pts, at(s.Root.Point(j)))
+	}
+	rootLine := draw.LineStyle{Color: scene.RootInk, Width: vg.Points(1.3)}
+	dc.StrokeLines(rootLine, cell.ClipLinesXY(pts)...)
+	if w := s.Wall; w != nil {
+		a, b := at(w.FromX, w.FromY), at(w.ToX, w.ToY)
+		seg := cell.ClipLinesXY([]vg.Point{a, b})
+		if len(seg) == 0 || len(seg[0]) < 2 {
+			return
+		}
+		dc.StrokeLines(draw.LineStyle{Color: scene.LimitInk, Width: vg.Points(1.2)}, seg...)
+		end := seg[0][len(seg[0])-1]
+		if end == b {
+			r := vg.Points(1.4)
+			dc.FillPolygon(scene.LimitInk, []vg.Point{{X: b.X - r, Y: b.Y}, {X: b.X, Y: b.Y - r}, {X: b.X + r, Y: b.Y}, {X: b.X, Y: b.Y + r}})
+		}
+		// The thickness above the line's middle, kept inside the cell.
+		mid := vg.Point{X: (a.X + end.X) / 2, Y: (a.Y+end.Y)/2 + vg.Points(2)}
+		lab := sty
+		lab.Color = scene.LimitInk
+		lab.XAlign, lab.YAlign = draw.XCenter, draw.YBottom
+		text := fmt.Sprintf("%.2f mm", w.MM)
+		half := lab.Width(text) / 2
+		mid.X = max(cell.Min.X+half, min(cell.Max.X-half, mid.X))
+		// On paper, so an outline under it does not hide it.
+		h := lab.FontExtents().Height
+		pad := vg.Points(1)
+		dc.FillPolygon(scene.Background, []vg.Point{{X: mid.X - half - pad, Y: mid.Y}, {X: mid.X + half + pad, Y: mid.Y},
+			{X: mid.X + half + pad, Y: mid.Y + h}, {X: mid.X - half - pad, Y: mid.Y + h}})
+		dc.FillText(lab, mid, text)
+	}
 }
 
 // sectionFigures states the level's figures in one line.
 func sectionFigures(s *analysis.Section) string {
 	if s.Step == 0 {
+		if s.Wall != nil {
+			return fmt.Sprintf("area %.3f mm² · wall %.2f mm", s.ScannedAreaMM2, s.Wall.MM)
+		}
 		return fmt.Sprintf("area %.3f mm²", s.ScannedAreaMM2)
 	}
 	t := fmt.Sprintf("removed %.3f mm²", s.RemovedMM2)
@@ -197,6 +265,9 @@ func sectionFigures(s *analysis.Section) string {
 		t += fmt.Sprintf(" · moved %.3f mm", s.TransportationMM)
 	} else {
 		t += " · not moved"
+	}
+	if s.Wall != nil {
+		t += fmt.Sprintf(" · wall %.2f mm", s.Wall.MM)
 	}
 	return t
 }
@@ -295,16 +366,20 @@ func arrow(dc draw.Canvas, a, b vg.Point, col color.Color) {
 var keyItems = []string{"as scanned", "after earlier steps", "after this step", "removed by this step (shade: depth of cut)",
 	"the file's section", "transportation (to scale)", "seen from the orifice, inner side of the main curve to the right"}
 
+// withRootKey is the key when the root is known: its outline and the thinnest wall join it.
+var withRootKey = append(append(append([]string{}, keyItems[:len(keyItems)-1]...),
+	"the root's outer surface", "thinnest wall at the level (estimate)"), keyItems[len(keyItems)-1])
+
 // keySwatch is the width of a key's sample line.
 var keySwatch = vg.Points(14)
 
 // keyLines lays the key's items out in lines no wider than w.
-func keyLines(w vg.Length, sty draw.TextStyle) [][]int {
+func keyLines(w vg.Length, sty draw.TextStyle, items []string) [][]int {
 	var lines [][]int
 	x := w // start a new line at once
-	for i, label := range keyItems {
+	for i, label := range items {
 		iw := keySwatch + vg.Points(11) + sty.Width(label)
-		if i == len(keyItems)-1 {
+		if i == len(items)-1 {
 			iw = sty.Width(label) + vg.Points(8) // the last is a note, without a swatch
 		}
 		if x+iw > w && (len(lines) == 0 || len(lines[len(lines)-1]) > 0) {
@@ -317,12 +392,12 @@ func keyLines(w vg.Length, sty draw.TextStyle) [][]int {
 	return lines
 }
 
-func keyHeight(w, lineH vg.Length, sty draw.TextStyle) vg.Length {
-	return vg.Length(len(keyLines(w, sty)))*1.2*lineH + 0.4*lineH
+func keyHeight(w, lineH vg.Length, sty draw.TextStyle, items []string) vg.Length {
+	return vg.Length(len(keyLines(w, sty, items)))*1.2*lineH + 0.4*lineH
 }
 
 // drawKey says what the lines mean, under the sections.
-func drawKey(dc draw.Canvas, opt SectionOptions, lineH vg.Length, sty draw.TextStyle) {
+func drawKey(dc draw.Canvas, opt SectionOptions, lineH vg.Length, sty draw.TextStyle, items []string) {
 	sty.XAlign, sty.YAlign = draw.XLeft, draw.YCenter
 	line := func(ls draw.LineStyle) func(x, y vg.Length) {
 		return func(x, y vg.Length) { dc.StrokeLine2(ls, x, y, x+keySwatch, y) }
@@ -342,19 +417,23 @@ func drawKey(dc draw.Canvas, opt SectionOptions, lineH vg.Length, sty draw.TextS
 		func(x, y vg.Length) {
 			arrow(dc, vg.Point{X: x, Y: y}, vg.Point{X: x + keySwatch, Y: y}, scene.TransportInk)
 		},
-		nil,
 	}
-	lines := keyLines(dc.Max.X-dc.Min.X, sty)
-	for k, items := range lines {
+	if len(items) > len(keyItems) {
+		swatches = append(swatches, line(draw.LineStyle{Color: scene.RootInk, Width: vg.Points(1.3)}),
+			line(draw.LineStyle{Color: scene.LimitInk, Width: vg.Points(1.2)}))
+	}
+	swatches = append(swatches, nil)
+	lines := keyLines(dc.Max.X-dc.Min.X, sty, items)
+	for k, line := range lines {
 		y := dc.Min.Y + 0.4*lineH + (vg.Length(len(lines)-1-k)+0.5)*1.2*lineH
 		x := dc.Min.X + vg.Points(4)
-		for _, i := range items {
+		for _, i := range line {
 			if swatches[i] != nil {
 				swatches[i](x, y)
 				x += keySwatch + vg.Points(3)
 			}
-			dc.FillText(sty, vg.Point{X: x, Y: y}, keyItems[i])
-			x += sty.Width(keyItems[i]) + vg.Points(8)
+			dc.FillText(sty, vg.Point{X: x, Y: y}, items[i])
+			x += sty.Width(items[i]) + vg.Points(8)
 		}
 	}
 }

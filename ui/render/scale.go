@@ -30,6 +30,21 @@ func DepthScale() *Scale {
 	)
 }
 
+// WallScale is a sequential scale for the wall left to the root's outer surface: a strong
+// red-orange where it is thinnest (t = 0) through ochre to a pale sand where it is thick, hues
+// (about 30 to 85 degrees in OKLCh) clear of the depth-of-cut scale's teal.
+func WallScale() *Scale {
+	return newSequential(
+		func(t float64) (l, c, h float64) {
+			l = 0.52 + 0.40*t
+			c = 0.17 - 0.13*t
+			h = 30 + 55*t
+			return
+		},
+		okLabToSRGB(0.87, 0.006, 0.014),
+	)
+}
+
 // DivergingScale runs from a blue (t = 0) through a light neutral (t = 0.5) to a red
 // (t = 1), lightness rising to the middle and falling after it; for signed values such
 // as curvature relative to a reference.

@@ -15,7 +15,7 @@ import (
 const TurningTriangles = 600_000
 
 // turningTarget is about how many triangles the simplified copy keeps.
-const turningTarget = 200_000
+const turningTarget = 120_000
 
 // simplified is a copy of a mesh with its vertices merged on a grid (vertex clustering): each
 // new vertex stands for the original vertices of one cell, at their mean, and carries the

@@ -233,6 +233,9 @@ func modelSection(pdf *fpdf.Fpdf, res *analysis.Result, sum analysis.ResultSumma
 		{"torsion", fmt.Sprintf("cutting torque from a cutting coefficient of %g N/mm² (illustrative) against the section's torsional capacity", m.CuttingCoefficientNPerMM2)},
 		{"note", m.Note},
 	}
+	if m.MinWallMM != nil {
+		pairs = append(pairs, [2]string{"wall to the root", fmt.Sprintf("to the root's surface (%s), estimated; advice < %g mm, Lim & Stock 1987 (from memory)", models.Printable(m.RootSource, models.MaxNameRunes), *m.MinWallMM)})
+	}
 	for _, a := range alloysUsed(res) {
 		src := "from the sequence file"
 		if a.Illustrative {

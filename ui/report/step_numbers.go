@@ -24,8 +24,8 @@ func numbersAndAdvice(pdf *fpdf.Fpdf, res *analysis.Result, st *analysis.StepRes
 		case "step", "label", "alloy", "advice", "tip_depth_mm", "tip_from_apex_mm":
 			continue
 		}
-		if statedApart(c) {
-			continue // stated below, under "How this step moved the canal", or in the model section
+		if statedApart(c) || isWallColumn(c) {
+			continue // stated below, under "How this step moved the canal", in the model section, or on one line (the wall)
 		}
 		// To the decimals the measurement supports (the column's Shown), as the summary's table.
 		v := c.Format(m)
@@ -52,6 +52,11 @@ func numbersAndAdvice(pdf *fpdf.Fpdf, res *analysis.Result, st *analysis.StepRes
 		[2]string{"capacity 3 mm from tip, N·cm", fixed(m.CapacityAt3mmNcm, 3)},
 		[2]string{"schedule, s (revolutions)", fixed(m.ScheduleTimeS, 1) + " (" + fixed(m.Revolutions, 0) + ")"},
 	)
+	if w := m.Wall; w.ThinnestWallMM != nil {
+		pairs = append(pairs, [2]string{"thinnest wall to root, mm (from apex, toward, under limit)",
+			fmt.Sprintf("%s (%s mm, %s°, %s %%)", fixed(*w.ThinnestWallMM, 2), fixed(*w.ThinnestWallFromApexMM, 1),
+				fixed(*w.ThinnestWallTowardDeg, 0), opt(w.WallUnderLimitPct, 1))})
+	}
 	if m.FractureTimeS != nil {
 		pairs = append(pairs, [2]string{"fracture after, s (tip depth, mm)",
 			opt(m.FractureTimeS, 1) + " (" + opt(m.FractureTipDepthMM, 2) + ")"})

@@ -25,8 +25,14 @@ func statedApart(c analysis.Column) bool {
 }
 
 // onStepPagesOnly tells the figures the summary's step table leaves to the step pages (page 1
-// has no room for them).
-func onStepPagesOnly(c analysis.Column) bool { return c.Key == "shank_contact_mm" }
+// has no room for them): the shank's contact and the wall to the root's surface.
+func onStepPagesOnly(c analysis.Column) bool { return c.Key == "shank_contact_mm" || isWallColumn(c) }
+
+// isWallColumn tells the figures of the wall to the root's surface (the step pages state them on
+// one line).
+func isWallColumn(c analysis.Column) bool {
+	return strings.Contains(c.Key, "wall_") && c.Key != "untouched_wall_pct"
+}
 
 // fixed writes v with d decimals, never "-0".
 func fixed(v float64, d int) string {

@@ -31,7 +31,16 @@ var (
 	LimitInk = color.RGBA{170, 30, 40, 255}
 	// CenterlineInk is the thin centerline beside a file on its own path.
 	CenterlineInk = color.RGBA{30, 60, 120, 255}
+	// RootInk is the root's outer surface (see-through in 3D, its outline in sections): a
+	// dentine-like warm grey.
+	RootInk = color.RGBA{150, 128, 96, 255}
 )
+
+// wallScale is the one scale of the wall left to the root's surface (render.WallScale).
+var wallScale = render.WallScale()
+
+// WallScale returns the wall-thickness scale: the 3D colour mode and its legend.
+func WallScale() *render.Scale { return wallScale }
 
 // depthScale is the one depth-of-cut scale (render.DepthScale) every picture uses.
 var depthScale = render.DepthScale()

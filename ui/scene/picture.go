@@ -55,12 +55,15 @@ func Frame(cam *render.Camera, b *Built, w, h int, k float64) {
 	if hasLegend(b) {
 		left = min(w/3, legendRect(w, h, math.Max(1, k)).Max.X)
 	}
+	if b.RootIndex >= 0 {
+		file = append(append([]mgl64.Vec3{}, file...), b.Scene.Objects[b.RootIndex].Mesh.Vertices...)
+	}
 	cam.FitPoints(float64(w-left)/float64(h), 0.06, b.Wall.Vertices, file)
 	cam.Pan(-float64(left)/2/float64(h), 0)
 }
 
 // hasLegend says whether the picture carries the depth-of-cut legend: when a step is shown.
-func hasLegend(b *Built) bool { return b.FileIndex >= 0 || b.Title != "canal" }
+func hasLegend(b *Built) bool { return b.WallMode || b.FileIndex >= 0 || b.Title != "canal" }
 
 // legendRect is where the legend goes in a w x h picture at text scale k.
 func legendRect(w, h int, k float64) image.Rectangle {
@@ -88,7 +91,11 @@ func DecorateScaled(img *image.RGBA, b *Built, c *analysis.Canal, view string, k
 	render.DrawText(img, px(10), px(8), b.Title, Ink, size*k)
 	if hasLegend(b) {
 		rect := legendRect(img.Bounds().Dx(), img.Bounds().Dy(), k)
-		render.DrawLegendScaled(img, rect, b.Scale, 0, b.LegendMax, "mm", "depth of cut", "no contact", k)
+		if b.WallMode {
+			render.DrawLegendScaled(img, rect, b.Scale, 0, b.LegendMax, "mm", "wall to root", "", k)
+		} else {
+			render.DrawLegendScaled(img, rect, b.Scale, 0, b.LegendMax, "mm", "depth of cut", "no contact", k)
+		}
 	}
 	if view == "" {
 		view = DefaultView

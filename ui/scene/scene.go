@@ -33,10 +33,20 @@ type Options struct {
 	// FixedScale tops the depth-of-cut legend at the run's deepest cut (rounded up), so colours
 	// compare across steps; otherwise at the shown step's own deepest cut.
 	FixedScale bool
+	// WallThickness colours the canal's wall by the wall left to the root's outer surface (the
+	// canal as the step leaves it, or as scanned without a step), drawn solid inside the root
+	// drawn see-through; without a known root it changes nothing.
+	WallThickness bool
 	// Others are the other canals of the same tooth (found in the same scan), drawn around
 	// the shown one (neighbours.go).
 	Others []*mesh.Mesh
 }
+
+// WallLegendTop is the wall thickness, mm, at the pale end of the wall scale.
+const WallLegendTop = 2.0
+
+// rootOpacity draws the root's outer surface see-through around the canal.
+const rootOpacity = 0.12
 
 // DefaultWallOpacity lets the file show through the wall.
 const DefaultWallOpacity = 0.35
@@ -75,6 +85,10 @@ type Built struct {
 	PatchMM float64
 	// CenterlineIndex is the centerline among Scene.Objects, -1 when not drawn.
 	CenterlineIndex int
+	// WallMode: the wall is coloured by the wall left to the root (Scale is the wall scale, from
+	// 0 to LegendMax mm) and RootIndex is the root among Scene.Objects (-1 when not drawn).
+	WallMode  bool
+	RootIndex int
 }
 
 // Build makes the scene for one step of a run (res may be nil for the canal alone).
@@ -86,7 +100,7 @@ func Build(c *analysis.Canal, res *analysis.Result, opt Options) (*Built, error)
 		}
 		return nil, fmt.Errorf("step %d does not exist (the sequence has %d steps, numbered from 1)", opt.Step, n)
 	}
-	b := &Built{Scale: DepthScale(), FileIndex: -1, FileInWallIndex: -1, CenterlineIndex: -1}
+	b := &Built{Scale: DepthScale(), FileIndex: -1, FileInWallIndex: -1, CenterlineIndex: -1, RootIndex: -1}
 	b.Lo, b.Hi = c.Mesh.Bounds()
 	b.LegendMax = LegendTop(res, opt.Step, opt.FixedScale)
 	var st *analysis.StepResult
@@ -109,6 +123,9 @@ func Build(c *analysis.Canal, res *analysis.Result, opt Options) (*Built, error)
 		opacity = DefaultWallOpacity
 	}
 	s := &render.Scene{Background: Background}
+	if opt.WallThickness && c.Root != nil {
+		return buildWallMode(b, c, res, st, opt, s)
+	}
 	// The wall is drawn in two parts: where the file cuts, solid patches in the colour of the
 	// depth of cut; elsewhere see-through, so the file shows inside. As the step meets the
 	// canal, the cut wall lies inside the file, so the part of the file in the wall is drawn
@@ -325,4 +342,39 @@ func cutDistances(c *analysis.Canal, wall *mesh.Mesh, offset float64) []float32 
 		d[v] = float32(offset - p.Sub(q).Dot(n2))
 	}
 	return d
+}
+
+// buildWallMode draws the canal (as the step leaves it) solid in the colour of the wall left
+// to the root at each vertex's own (s, theta), the root see-through around it, and the file as
+// usual inside (seen where the canal is cut open).
+func buildWallMode(b *Built, c *analysis.Canal, res *analysis.Result, st *analysis.StepResult, opt Options, s *render.Scene) (*Built, error) {
+	b.WallMode, b.Scale, b.LegendMax = true, WallScale(), WallLegendTop
+	th := c.Thickness
+	b.Title = "canal as scanned: wall to the root's surface"
+	if st != nil {
+		th = res.WallMap(st.Number)
+		b.Title = fmt.Sprintf("step %d, %s to %.2f mm: wall to the root's surface after the step", st.Number, st.Metrics.Label, st.TipDepth)
+		b.Wall = wallMesh(c, st, make([]float64, len(c.Mesh.Vertices)), true)
+	}
+	cols := make([]color.RGBA, len(c.Mesh.Vertices))
+	for v := range cols {
+		w := c.MapAt(th, float64(c.VertexS[v]), float64(c.VertexTheta[v]))
+		cols[v] = b.Scale.At(math.Max(0, math.Min(1, w/b.LegendMax)))
+	}
+	s.Objects = append(s.Objects, render.Object{Mesh: b.Wall, Colors: cols, Clip: true})
+	b.WallIndex = 0
+	if st != nil && !opt.HideFile {
+		in := st.Step.Instrument
+		b.File = fileTube(c, in, st.TipDepth, st.Offset1, st.Offset2, true)
+		s.Objects = append(s.Objects, render.Object{Mesh: b.File, Colors: FileColors(b.File, FileColor(in.Size), in, st.TipDepth), Outline: true})
+		b.FileIndex = len(s.Objects) - 1
+	}
+	s.Objects = append(s.Objects, render.Object{Mesh: c.Root.Mesh, Color: RootInk, Opacity: rootOpacity, Outline: true})
+	b.RootIndex = len(s.Objects) - 1
+	if opt.Clip {
+		d := cutDistances(c, b.Wall, opt.ClipOffset)
+		s.Objects[0].ClipDistance = d
+	}
+	b.Scene = s
+	return b, nil
 }
