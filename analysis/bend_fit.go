@@ -97,14 +97,28 @@ func (c *Centerline) bendStretch(star int) (lo, hi int) {
 	return lo, hi
 }
 
-// bendSpread is how far (as a share) the circle fitted to the bend may miss its curvature:
-// over the scan-like family the methods were developed on (models.ScanFamily, seeds 1 and 7,
-// 240 canals) nine fits in ten lay within it of the exact arc.
+// bendSpread is how far (as a share) the circle fitted to the bend may miss its curvature
+// when the bend is long against the scan's resolution: over the scan-like family the methods
+// were developed on (models.ScanFamily, seeds 1 and 7, 240 canals) nine fits in ten lay within
+// it of the exact arc.
 const bendSpread = 0.06
+
+// lineError is how far (as a share of the departure tolerance, half a voxel: see
+// schneiderTolerance) the centerline through a scan may stray from the canal's own line in a
+// way that a smooth line hides: the wander of the sections' centres, correlated over the whole
+// bend, so the circle fit's residual does not show it.
+const lineError = 0.15
 
 // bendBand is the band on the tightest bend's curvature once a circle has been fitted to the
 // bend (kFit, 1/mm): the fit's own spread, and every reading of the local fits' band
-// [lo, hi], so that the band says where either method could be wrong.
-func bendBand(kFit, lo, hi float64) (klo, khi float64) {
-	return math.Min(lo, kFit*(1-bendSpread)), math.Max(hi, kFit*(1+bendSpread))
+// [lo, hi], so that the band says where either method could be wrong. The fit's spread
+// grows on a bend short against the resolution (tol mm, see lineError): a circle through a
+// stretch of length L holds the bend by its sagitta L^2 k / 8, so a line error d moves the
+// curvature by 8 d / L^2 (analytic geometry); the two parts add in quadrature.
+func bendBand(kFit, length, tol, lo, hi float64) (klo, khi float64) {
+	spread := bendSpread
+	if length > 0 {
+		spread = math.Hypot(bendSpread, 8*lineError*tol/(length*length)/kFit)
+	}
+	return math.Min(lo, kFit*(1-spread)), math.Max(hi, kFit*(1+spread))
 }

@@ -100,3 +100,38 @@ func TestTightestBendShortArc(t *testing.T) {
 		})
 	}
 }
+
+// TestBendBandShortBend: the band's growth on a bend short against the resolution follows
+// its model (analytic geometry). An arc whose middle is pushed off by d = lineError * tol
+// (a smooth bump, as a wander of the sections' centres over the whole bend would) changes its
+// sagitta by d; the band around the circle fitted to the pushed points still holds the true
+// curvature, while the fixed 6 % alone would not; and a long bend keeps the 6 %.
+func TestBendBandShortBend(t *testing.T) {
+	const r, tol = 3.0, 0.05 // a 0.1 mm voxel
+	d := lineError * tol
+	for _, length := range []float64{1.0, 1.25} {
+		for _, sign := range []float64{-1, 1} {
+			pts := arcPoints(r, mgl64.RadToDeg(length/r), StationSpacing, 0, nil)
+			centre := pts[0].Add(pts[len(pts)-1]).Mul(0.5)
+			mid := pts[len(pts)/2]
+			out := mid.Sub(centre).Normalize() // toward the outside of the bend's chord
+			for i := range pts {
+				u := 2*float64(i)/float64(len(pts)-1) - 1
+				pts[i] = pts[i].Add(out.Mul(sign * d * (1 - u*u)))
+			}
+			k := 1 / fitCircle(pts).radius
+			lo, hi := bendBand(k, length, tol, k, k)
+			if 1/r < lo || 1/r > hi {
+				t.Errorf("L %g, bump %+.4f mm: band 1/k %.3f-%.3f misses r %g", length, sign*d, 1/hi, 1/lo, r)
+			}
+			if f := math.Abs(k*r - 1); f <= bendSpread {
+				t.Errorf("L %g, bump %+.4f mm: the bump moved the fit by only %.1f %%, the test shows nothing", length, sign*d, 100*f)
+			}
+		}
+	}
+	k := 1 / r
+	lo, hi := bendBand(k, 8, tol, k, k)
+	if hi/k-1 > bendSpread+0.005 || 1-lo/k > bendSpread+0.005 {
+		t.Errorf("an 8 mm bend: band %.3f-%.3f of k, want about +-%.0f %%", lo/k, hi/k, 100*bendSpread)
+	}
+}

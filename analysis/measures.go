@@ -53,7 +53,7 @@ func Measure(c *Centerline, tol float64) Measures {
 		if b, ok := c.tightestBend(star); ok {
 			bend, fitted = b, true
 			kStar = 1 / b.circle.radius
-			klo, khi = bendBand(kStar, klo, khi)
+			klo, khi = bendBand(kStar, c.S[b.hi]-c.S[b.lo], tol, klo, khi)
 		}
 	}
 	if kStar > straightCurvature {
