@@ -89,12 +89,6 @@ func measureFamilyCase(sc models.ScanCase) familyResult {
 	res.detail = fmt.Sprintf("path %.3f (voxel %.3f), length %.2f/%.2f, R %.2f/%.2f (%+.0f%%) in [%.2f, %.2f], s* %.2f in [%.2f, %.2f] band [%.2f, %.2f], Schneider %.1f/%.1f in [%.1f, %.1f]",
 		worst, sc.Scan.Voxel, line.Length(), L, meas.MaxCurvatureR, radius, 100*(meas.MaxCurvatureR-radius)/radius, rb[0], rb[1],
 		sStar, from, to, sLo, sHi, meas.SchneiderDeg, schneider, ab[0], ab[1])
-	if st := line.peakStation(); line.fits != nil {
-		if b, ok := line.tightestBend(st); ok {
-			klo, khi := line.curvatureBand()
-			res.detail += fmt.Sprintf(" DUMP %g %g %g %g %d %g %g %g %g %g %d DUMPEND", radius, b.circle.radius, b.circle.rms, sc.Scan.Voxel, b.hi-b.lo+1, line.S[b.hi]-line.S[b.lo], line.DS, line.fits[line.scale].window, klo, khi, line.window)
-		}
-	}
 	if len(c.Warnings) > 0 {
 		res.detail += fmt.Sprintf("; warnings %q", c.Warnings)
 	}
