@@ -178,6 +178,14 @@ func (b *bvhBounds) merge(o *bvhBounds) {
 	}
 }
 
+// mergeBox grows only the box (bestBin reads areas, not centres).
+func (b *bvhBounds) mergeBox(o *bvhBounds) {
+	for k := 0; k < 3; k++ {
+		b.lo[k] = min(b.lo[k], o.lo[k])
+		b.hi[k] = max(b.hi[k], o.hi[k])
+	}
+}
+
 func (b *bvhBounds) area() float64 {
 	dx, dy, dz := float64(b.hi[0]-b.lo[0]), float64(b.hi[1]-b.lo[1]), float64(b.hi[2]-b.lo[2])
 	if !(dx >= 0) {
@@ -479,7 +487,7 @@ func bestBin(cnt *[bvhBins]int, bins *[bvhBins]bvhBounds) int {
 	acc := emptyBounds()
 	rc := 0
 	for i := bvhBins - 1; i > 0; i-- {
-		acc.merge(&bins[i])
+		acc.mergeBox(&bins[i])
 		rc += cnt[i]
 		rightArea[i], rightCnt[i] = acc.area(), rc
 	}
@@ -487,7 +495,7 @@ func bestBin(cnt *[bvhBins]int, bins *[bvhBins]bvhBounds) int {
 	lc := 0
 	best, bestCost := -1, math.Inf(1)
 	for i := 1; i < bvhBins; i++ {
-		left.merge(&bins[i-1])
+		left.mergeBox(&bins[i-1])
 		lc += cnt[i-1]
 		if lc == 0 || rightCnt[i] == 0 {
 			continue
