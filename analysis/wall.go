@@ -268,7 +268,7 @@ func thinWallText(w Wall) string {
 	if *w.ThinnestWallMM <= 0 {
 		return fmt.Sprintf("the canal reaches the root's outer surface %s (a perforation in the model; an estimate: check the scan)", where)
 	}
-	return fmt.Sprintf("the wall left to the root's outer surface is %.3f mm %s, under the %.3g mm you asked to keep (%.1f %% of the wall): an estimate, not a measurement",
+	return fmt.Sprintf("the wall left to the root's outer surface is %.3f mm %s, under the %.3g mm limit it should keep (%.1f %% of the wall): an estimate, not a measurement",
 		*w.ThinnestWallMM, where, *w.WallLimitMM, *w.WallUnderLimitPct)
 }
 

@@ -520,22 +520,8 @@ func growBox(lo, hi *mgl64.Vec3, plo, phi mgl64.Vec3) {
 
 // rayBox returns whether the ray enters the box before tMax (and after 0).
 func rayBox(lo, hi, o, inv mgl64.Vec3, tMax float64) bool {
-	tn, tf := 0.0, tMax
-	for k := 0; k < 3; k++ {
-		t1 := (lo[k] - o[k]) * inv[k]
-		t2 := (hi[k] - o[k]) * inv[k]
-		if t1 > t2 {
-			t1, t2 = t2, t1
-		}
-		// NaN (origin on a slab plane of a flat direction) constrains nothing.
-		if t1 > tn {
-			tn = t1
-		}
-		if t2 < tf {
-			tf = t2
-		}
-	}
-	return tn <= tf
+	_, ok := rayBoxEnter(lo, hi, o, inv, tMax)
+	return ok
 }
 
 // rayTri is the Moller-Trumbore test; it returns t, the barycentric u, v and det.

@@ -175,6 +175,16 @@ func TestPlanLimitsAndCancel(t *testing.T) {
 		t.Error("the message is not shown")
 	}
 
+	// The demo canal has a root: a wall to keep thicker than the root leaves anywhere (0.33 mm
+	// at its thinnest as scanned) cannot be kept by any file, and the answer names the wall.
+	pr = openPlanForm(t, w)
+	pr.keepWall.SetText("0.5")
+	test.Tap(pr.proposeButton)
+	w.wait()
+	if pr.plan != nil || !strings.Contains(pr.answerText, "wall") {
+		t.Errorf("keeping 0.5 mm of wall gave plan %v, message %q", pr.plan != nil, pr.answerText)
+	}
+
 	pr = openPlanForm(t, w)
 	test.Tap(pr.proposeButton)
 	test.Tap(pr.cancelButton)

@@ -29,6 +29,7 @@ type planRun struct {
 	form                            dialog.Dialog
 	size, steps                     *selectList
 	taper, maxEngaged, maxFatigue   *widget.Entry
+	keepWall                        *widget.Entry    // shown only when the canal's root is known
 	weights                         [3]*widget.Entry // engaged length, torque, fatigue use
 	sameTaper                       *widget.Check
 	objective, formErr              *widget.Label
@@ -79,6 +80,8 @@ func (w *mainWindow) proposeDialog() {
 	pr.maxEngaged.SetPlaceHolder("no limit")
 	pr.maxFatigue = widget.NewEntry()
 	pr.maxFatigue.SetPlaceHolder("what the last file alone uses")
+	pr.keepWall = widget.NewEntry()
+	pr.keepWall.SetPlaceHolder("no limit")
 	pr.sameTaper = widget.NewCheck("Allow two files of the same taper in a row", nil)
 	for k, v := range []float64{plan.DefaultWeights.Engaged, plan.DefaultWeights.Torque, plan.DefaultWeights.Fatigue} {
 		e := widget.NewEntry()
@@ -101,6 +104,11 @@ func (w *mainWindow) proposeDialog() {
 	row := func(label string, o fyne.CanvasObject) fyne.CanvasObject {
 		return container.NewBorder(nil, nil, container.NewGridWrap(fyne.NewSize(320, o.MinSize().Height), widget.NewLabel(label)), nil, o)
 	}
+	// A wall to keep needs the root's outer surface; without one the row is not offered.
+	wallRow := fyne.CanvasObject(layout.NewSpacer())
+	if pr.canal.Root != nil {
+		wallRow = row("Least wall to the root's surface to keep (mm)", pr.keepWall)
+	}
 	pr.proposeButton = widget.NewButton("Propose", pr.start)
 	pr.proposeButton.Importance = widget.HighImportance
 	pr.formCancelButton = widget.NewButton("Cancel", func() { pr.form.Hide() })
@@ -111,6 +119,7 @@ func (w *mainWindow) proposeDialog() {
 		row("At most this many files", pr.steps),
 		row("Longest engaged length per file (mm)", pr.maxEngaged),
 		row("Highest fatigue use per file (1 = fracture)", pr.maxFatigue),
+		wallRow,
 		pr.sameTaper,
 		// The three weights under their own names, the question above them.
 		widget.NewLabel("How much each counts in the choice (0 = not at all):"),
@@ -208,6 +217,11 @@ func (pr *planRun) options() (plan.Options, error) {
 	}
 	if opt.MaxFatigue, err = limit(pr.maxFatigue, "fatigue use"); err != nil {
 		return opt, err
+	}
+	if pr.canal.Root != nil {
+		if opt.KeepWallMM, err = limit(pr.keepWall, "wall to keep"); err != nil {
+			return opt, err
+		}
 	}
 	if opt.Weights, err = pr.readWeights(); err != nil {
 		return opt, err

@@ -59,7 +59,9 @@ func coarse(c *analysis.Canal, ds float64, angles int) *analysis.Canal {
 		line.K[i], line.KN1[i], line.KN2[i] = mixF(src.K), mixF(src.KN1), mixF(src.KN2)
 	}
 	out := *c
-	out.Root, out.Thickness = nil, nil // the search does not see the root (its map is the full canal's)
+	// The root's map is the full canal's; the search sees the wall through newKeepWall, and runs
+	// on this copy (fatigue use) do not measure it.
+	out.Root, out.Thickness = nil, nil
 	out.Line = line
 	out.Angles = angles
 	out.Rho = make([]float32, n*angles)

@@ -20,8 +20,9 @@
 // MaxFatigue (by default the use of the target file taken to working length, which every plan
 // has to accept anyway); every file leaving at least KeepWallMM of wall to the root's outer
 // surface (if set; where the canal as scanned has less, not thinning it: the run's thin-wall
-// advice at that limit), checked on the plans re-checked at full resolution, since the coarse
-// search does not see the root; and no file engaged over a longer stretch or needing more torque than
+// advice at that limit), kept by the coarse search through a cautious bound (the wall as
+// scanned less each file's cut) and checked on the plans re-checked at full resolution, which
+// have the final word; and no file engaged over a longer stretch or needing more torque than
 // the target file taken straight to working length, so a plan never does worse than that single
 // file on any measure.
 //

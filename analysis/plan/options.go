@@ -133,8 +133,8 @@ func (o Options) withDefaults() (Options, error) {
 		o.Recheck = DefaultRecheck
 	}
 	if o.KeepWallMM > 0 {
-		// The run's thin-wall advice is the constraint's test; more plans are re-checked, since
-		// the coarse search does not see the wall.
+		// The run's thin-wall advice is the constraint's final test; more plans are re-checked,
+		// since the coarse search sees the wall only through a bound, sampled coarsely.
 		o.Run.MinWallMM = o.KeepWallMM
 		o.Recheck *= 3
 	}

@@ -81,6 +81,13 @@ type planner struct {
 	rechecked  int
 	// wallRuled counts the plans re-checked at full resolution that the wall to keep ruled out.
 	wallRuled int
+	// wall is the wall to keep on the coarse canal (nil: none); wallSetAside counts the partial
+	// plans the first search set aside for it, and wallFree is the best full plan among them.
+	wall         *keepWall
+	wallSetAside int
+	wallFree     *complete
+	// wallFreeChecked is wallFree re-checked at full resolution (nil: not needed).
+	wallFreeChecked *checked
 }
 
 // prepare builds the coarse canal, lays out every (file, depth) move on it, finds each move's
@@ -90,6 +97,7 @@ func (p *planner) prepare(ctx context.Context) error {
 	ds := math.Max(opt.CoarseDS, c.Line.DS)
 	cc := coarse(c, ds, opt.CoarseAngles)
 	p.g = newGrid(cc, opt.Run)
+	p.wall = newKeepWall(c, cc, opt.KeepWallMM, opt.Workers)
 	p.depths = depthChoices(c)
 	p.glide = analysis.GlidePathOf(c)
 	targetStep := models.NewStep(opt.Instruments[p.targetInst], models.DepthWL(0))
@@ -138,7 +146,7 @@ func (p *planner) prepare(ctx context.Context) error {
 	p.fullLim = limits{w: opt.Weights, maxEngaged: opt.MaxEngagedMM,
 		ref: measures{}.add(1, bm.EngagedLengthMM, bm.PeakTorqueIndex, bm.FatigueDamage)}
 	sm := p.g.sweep(cc.Rho, nil, p.target)
-	p.coarseLim = limits{w: opt.Weights, maxEngaged: opt.MaxEngagedMM,
+	p.coarseLim = limits{w: opt.Weights, maxEngaged: opt.MaxEngagedMM, keepWall: opt.KeepWallMM,
 		ref: measures{}.add(1, sm.engaged, sm.torque, p.target.fatigue)}
 	switch {
 	case opt.MaxFatigue > 0:
@@ -194,7 +202,7 @@ func fatigueOf(ctx context.Context, cc *analysis.Canal, mv *move, opt analysis.R
 
 func (p *planner) searcher(strict, taperRule bool) *searcher {
 	return &searcher{g: p.g, glide: p.glide, moves: p.moves, target: p.target, lim: p.coarseLim, beamWidth: p.opt.BeamWidth,
-		keep: p.opt.Recheck, maxSteps: p.opt.MaxSteps, sameTaper: taperRule, strict: strict, workers: p.opt.Workers}
+		keep: p.opt.Recheck, maxSteps: p.opt.MaxSteps, sameTaper: taperRule, strict: strict, workers: p.opt.Workers, wall: p.wall}
 }
 
 // checked is a plan found on the coarse canal and run at full resolution.
@@ -206,6 +214,8 @@ type checked struct {
 	cost   float64
 	// blocked is the advice at full resolution that rules the plan out, by step (from 1).
 	blocked []blockedStep
+	// found is the plan as the coarse search found and ranked it.
+	found *complete
 }
 
 type blockedStep struct {
@@ -234,7 +244,7 @@ func (p *planner) recheck(ctx context.Context, found []*complete) ([]*checked, e
 			}
 			m = add(k+1, s.Metrics.EngagedLengthMM, s.Metrics.PeakTorqueIndex, s.Metrics.FatigueDamage)
 		}
-		ck := &checked{seq: seq, res: res, m: m, excess: p.fullLim.excess(m), cost: p.fullLim.cost(m)}
+		ck := &checked{seq: seq, res: res, m: m, excess: p.fullLim.excess(m), cost: p.fullLim.cost(m), found: found[i]}
 		for k, s := range res.Steps {
 			for _, a := range analysis.Blocking(&s.Metrics) {
 				ck.blocked = append(ck.blocked, blockedStep{step: k + 1, advice: a})
@@ -297,6 +307,9 @@ func (p *planner) search(ctx context.Context, strict, taperRule bool) ([]*checke
 	found, err := s.run(ctx)
 	p.evaluated += s.evaluated
 	p.rechecked += len(found)
+	if p.evaluated == s.evaluated { // the first search: the one whose plan is proposed when any keeps the limits
+		p.wallSetAside, p.wallFree = s.wallSetAside, s.wallFree
+	}
 	if err != nil {
 		return nil, err
 	}
@@ -318,7 +331,16 @@ func (p *planner) propose(ctx context.Context) (*Plan, error) {
 		return nil, err
 	}
 	if len(plans) > 0 && plans[0].excess == 0 {
-		return p.explain(plans[0]), nil
+		best := plans[0]
+		wf, err := p.checkWallFree(ctx, best)
+		if err != nil {
+			return nil, err
+		}
+		p.wallFreeChecked = wf
+		if wf != nil && wf.excess == 0 && wf.cost < best.cost {
+			best = wf // the search's bound of the wall was too cautious for this one
+		}
+		return p.explain(best), nil
 	}
 	best, err := p.infeasible(ctx, rule)
 	if err != nil {
@@ -427,15 +449,8 @@ func (p *planner) explain(best *checked) *Plan {
 		add("%s", r)
 	}
 	if opt.KeepWallMM > 0 {
-		w := best.res.Steps[len(best.res.Steps)-1].Metrics.Wall
-		switch {
-		case p.wallRuled > 0:
-			add("The wall to keep (%s mm) binds: it ruled out %d of the %d plans re-checked at full resolution; this plan leaves "+
-				"%.2f mm at its thinnest, %.1f mm from the apical end toward %.0f°.", mmText(opt.KeepWallMM), p.wallRuled, p.rechecked,
-				*w.ThinnestWallMM, *w.ThinnestWallFromApexMM, *w.ThinnestWallTowardDeg)
-		case w.ThinnestWallMM != nil:
-			add("The wall to keep (%s mm) does not bind: the plan leaves %.2f mm at its thinnest, %.1f mm from the apical end toward %.0f°.",
-				mmText(opt.KeepWallMM), *w.ThinnestWallMM, *w.ThinnestWallFromApexMM, *w.ThinnestWallTowardDeg)
+		for _, line := range p.wallText(best) {
+			add("%s", line)
 		}
 	}
 	if p.opt.MaxFatigue < 0 {

@@ -17,6 +17,9 @@ type measures struct {
 	// The highest fatigue use among the files before the target, and where.
 	prepFatigue   float64
 	prepFatigueAt int
+	// wallShort is how far the files so far leave the wall under the wall to keep, at worst,
+	// by the coarse search's lower bound (mm; 0: kept, or no wall to keep).
+	wallShort float64
 }
 
 // addPrep adds a file that prepares for the target.
@@ -48,6 +51,8 @@ type limits struct {
 	maxFatigue float64  // 0: none
 	// maxPrepFatigue caps the files before the target (0: none).
 	maxPrepFatigue float64
+	// keepWall is the wall to keep, mm (0: none); measures.wallShort counts against it.
+	keepWall float64
 }
 
 func norm(v float64) float64 {
@@ -72,7 +77,15 @@ func (l *limits) excess(m measures) float64 {
 		return v/lim - 1
 	}
 	return over(m.engaged, l.maxEngaged) + over(m.fatigue, l.maxFatigue) + over(m.prepFatigue, l.maxPrepFatigue) +
-		over(m.engaged, l.ref.engaged) + over(m.torque, l.ref.torque)
+		over(m.engaged, l.ref.engaged) + over(m.torque, l.ref.torque) + l.wallExcess(m)
+}
+
+// wallExcess is how far the files leave the wall under the wall to keep, relative to it.
+func (l *limits) wallExcess(m measures) float64 {
+	if l.keepWall <= 0 || m.wallShort <= 0 {
+		return 0
+	}
+	return m.wallShort / l.keepWall
 }
 
 // state is a partial plan kept in the beam: the files so far and the canal they leave.
@@ -128,6 +141,8 @@ type candidate struct {
 	finExcess float64
 	finCost   float64
 	canFinish bool
+	// wallOnly: the strict search set the candidate aside for the wall to keep alone.
+	wallOnly bool
 }
 
 // complete is a full plan found by the search (its preparing files, then the target).
@@ -148,10 +163,16 @@ type searcher struct {
 	beamWidth int
 	keep      int
 	maxSteps  int
-	sameTaper bool // the rule: consecutive files differ in taper
-	strict    bool // drop plans that break a constraint; else rank them by how far they do
-	workers   int  // goroutines for expanding the beam (0: all cores)
+	sameTaper bool      // the rule: consecutive files differ in taper
+	strict    bool      // drop plans that break a constraint; else rank them by how far they do
+	workers   int       // goroutines for expanding the beam (0: all cores)
+	wall      *keepWall // the wall to keep on the coarse canal (nil: none)
 	evaluated int
+	// wallSetAside counts the partial plans the strict search set aside for the wall alone, and
+	// wallFree is the best full plan among them (nil: none): the plan the search would have
+	// preferred without the wall to keep, when it ranks above the one proposed.
+	wallSetAside int
+	wallFree     *complete
 }
 
 // overCap tells a figure above its cap; one equal to it, give or take the rounding of sums, keeps it.
@@ -230,6 +251,15 @@ func (s *searcher) run(ctx context.Context) ([]*complete, error) {
 		var live []*candidate
 		for i := range cands {
 			c := &cands[i]
+			if c.wallOnly {
+				s.wallSetAside++
+				if c.canFinish && c.finExcess == 0 {
+					fc := &complete{moves: append(c.parent.path(), c.mv), m: c.fin, cost: c.finCost}
+					if s.wallFree == nil || lessComplete(fc, s.wallFree) {
+						s.wallFree = fc
+					}
+				}
+			}
 			if !c.valid {
 				continue
 			}
@@ -325,9 +355,15 @@ func (s *searcher) evaluate(c *candidate, p *state, mv *move, order int, bound f
 	}
 	step := p.steps + 1
 	c.m = p.m.addPrep(step, sm.engaged, sm.torque, mv.fatigue)
+	// The wall to keep: the target file is not tested here (whether it keeps the wall alone is
+	// settled at full resolution before the search), and a cell of the finished canal is the
+	// wider of the target's radius and the files' before it, so a plan keeps the wall when each
+	// of its files does.
+	short := s.wall.short(p.prepared, &mv.file, g.canal.Angles)
+	c.m.wallShort = max(c.m.wallShort, short)
 	c.excess = s.lim.excess(c.m)
 	c.cost = s.lim.cost(c.m)
-	if s.strict && (c.excess > 0 || c.cost >= bound) {
+	if s.strict && (c.excess-s.lim.wallExcess(c.m) > 0 || c.cost >= bound) {
 		return
 	}
 	fs := g.sweep(p.prepared, mv, s.target)
@@ -336,6 +372,13 @@ func (s *searcher) evaluate(c *candidate, p *state, mv *move, order int, bound f
 	c.finCost = s.lim.cost(c.fin)
 	c.canFinish = !(s.sameTaper && sameTaper(mv, s.target)) && mv.size() <= s.target.size() &&
 		!s.glide.Missing(s.target.step.Instrument, p.after(s.glide, mv))
+	if s.strict && short > 0 {
+		// Kept only to say what the wall to keep costs; no plan grows from it (a file only
+		// widens the canal, so what follows cannot give the wall back).
+		c.wallOnly = true
+		c.finExcess -= s.lim.wallExcess(c.fin)
+		return
+	}
 	c.valid = true
 }
 

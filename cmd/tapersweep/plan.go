@@ -162,9 +162,14 @@ func parseWeights(s string) (plan.Weights, error) {
 func writePlanTable(w io.Writer, c *analysis.Canal, pl *plan.Plan, other *analysis.Result, otherName string) {
 	fmt.Fprintf(w, "%s: working length %.2f mm\n", models.Printable(c.Name, models.MaxNameRunes), c.WorkingLength)
 	compared := plan.ComparedColumns()
+	cols := append(analysis.PickColumns("step", "label", "tip_depth_mm"), compared...)
+	if c.Root != nil {
+		// With a root, each step's thinnest wall and where: what a wall to keep is judged by.
+		cols = append(cols, analysis.PickColumns("thinnest_wall_mm", "thinnest_wall_from_apex_mm", "thinnest_wall_toward_deg")...)
+	}
 	steps := func(title string, res *analysis.Result) {
 		fmt.Fprintf(w, "\n%s\n", title)
-		head, rows := report.TextRows(append(analysis.PickColumns("step", "label", "tip_depth_mm"), compared...), res)
+		head, rows := report.TextRows(cols, res)
 		// The step's depth as the sequence states it, beside where its tip went.
 		head = slices.Insert(head, 2, "depth")
 		for i, s := range res.Steps {
@@ -188,6 +193,13 @@ func writePlanTable(w io.Writer, c *analysis.Canal, pl *plan.Plan, other *analys
 		}
 		overall = append(overall, row)
 	}
+	if c.Root != nil {
+		row := []string{"thinnest wall left to the root surface, mm (estimate)"}
+		for _, res := range []*analysis.Result{pl.Result, other} {
+			row = append(row, thinnestWallText(res))
+		}
+		overall = append(overall, row)
+	}
 	overall = append(overall, []string{"files", strconv.Itoa(len(pl.Result.Steps)), strconv.Itoa(len(other.Steps))})
 	writeTabbed(w, overall)
 	for _, d := range plan.Differences(pl.Result, other) {
@@ -198,4 +210,19 @@ func writePlanTable(w io.Writer, c *analysis.Canal, pl *plan.Plan, other *analys
 		fmt.Fprintf(w, "%s\n", line)
 	}
 	fmt.Fprintf(w, "\n%s\n", analysis.Caution)
+}
+
+// thinnestWallText is the least wall any step of a run leaves to the root's surface ("-": none
+// measured).
+func thinnestWallText(res *analysis.Result) string {
+	least := math.Inf(1)
+	for _, s := range res.Steps {
+		if w := s.Metrics.ThinnestWallMM; w != nil {
+			least = min(least, *w)
+		}
+	}
+	if math.IsInf(least, 1) {
+		return "-"
+	}
+	return strconv.FormatFloat(least, 'f', 3, 64)
 }

@@ -158,3 +158,43 @@ func TestPlanCompareSaysWhatElseDiffers(t *testing.T) {
 		t.Errorf("exit %d, notes where only the files differ:\n%s%s", code, stdout, stderr)
 	}
 }
+
+// grooveCanalJSON is an invented canal in an oval root grooved 1 mm below the orifice on the
+// outer side of the curve (the planner's own test case, analysis/plan/wall_test.go, where the
+// analytic walls along the radius are worked out: about 0.46 mm for the 25/.04 taken to
+// working length, 0.30 mm for a 20/.10 opener taken to 9.5 mm).
+const grooveCanalJSON = `{"name": "coronal groove (invented)",
+	"segments": [{"kind": "straight", "length": 10}, {"kind": "arc", "radius": 5, "angle": 40},
+		{"kind": "arc", "radius": 8, "angle": 20, "plane_turn": 180}, {"kind": "straight", "length": 2}],
+	"orifice_d": 0.7, "apical_d": 0.15, "oval": 1.4, "working_length": 17.5,
+	"root": {"coronal_d": 4.2, "apical_d": 1.6, "oval": 1.7,
+		"concavity": {"depth": 0.73, "toward_deg": 180, "width_deg": 90, "from_apex": 17.28, "length": 4}}}`
+
+// TestPlanCommandKeepWall: with a root, the plan's tables state each step's thinnest wall and
+// the least overall; a wall to keep that wide openers would break binds and is said to; one more
+// than the target file alone leaves is infeasible (exit 1), naming the wall.
+func TestPlanCommandKeepWall(t *testing.T) {
+	canal := filepath.Join(t.TempDir(), "groove.json")
+	os.WriteFile(canal, []byte(grooveCanalJSON), 0o644)
+	code, stdout, stderr := runPlanCLI("plan", "--canal", canal, "--target", "25/.04", "--keep-wall", "0.33")
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	for _, want := range []string{"thinnest wall mm", "thinnest wall left to the root surface, mm (estimate)", "The wall to keep (0.33 mm) binds"} {
+		if !strings.Contains(stdout, want) {
+			t.Errorf("output lacks %q:\n%s", want, stdout)
+		}
+	}
+	// The least wall of the plan, from the overall table, keeps the 0.33 mm.
+	for _, line := range strings.Split(stdout, "\n") {
+		if f := strings.Fields(line); strings.Contains(line, "thinnest wall left") && len(f) >= 2 {
+			if v, err := strconv.ParseFloat(f[len(f)-2], 64); err != nil || v < 0.33 {
+				t.Errorf("the plan leaves %q mm of wall, want at least 0.33", f[len(f)-2])
+			}
+		}
+	}
+	code, _, stderr = runPlanCLI("plan", "--canal", canal, "--target", "25/.04", "--keep-wall", "0.47")
+	if code != exitBadInput || !strings.Contains(stderr, "infeasible") || !strings.Contains(stderr, "0.47 mm") || !strings.Contains(stderr, "wall") {
+		t.Errorf("--keep-wall 0.47: exit %d, %q; want infeasible naming the wall", code, stderr)
+	}
+}

@@ -147,7 +147,10 @@ func SectionsImage(secs []*analysis.Section, w, h int, opt SectionOptions) *imag
 			sx, sy := toScreen(x, y)
 			return vg.Point{X: cx + vg.Length(sx*scale), Y: cy + vg.Length(sy*scale)}
 		}
-		cell := draw.Canvas{Canvas: dc.Canvas, Rectangle: vg.Rectangle{Min: vg.Point{X: x0, Y: y0 + barH}, Max: vg.Point{X: x0 + cellW, Y: y0 + barH + picH}}}
+		// The root and the wall's line are clipped a little inside the cell, so a line running
+		// out of one section never meets its neighbour's and reads as one.
+		gap := 0.06 * cellW
+		cell := draw.Canvas{Canvas: dc.Canvas, Rectangle: vg.Rectangle{Min: vg.Point{X: x0 + gap, Y: y0 + barH}, Max: vg.Point{X: x0 + cellW - gap, Y: y0 + barH + picH}}}
 		drawSection(dc, s, at, scale, opt)
 		drawRoot(dc, cell, s, at, small)
 		// Level and figures above.
