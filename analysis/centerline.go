@@ -30,6 +30,10 @@ type Centerline struct {
 	// zone holds the first and last station of the stretch the measures use: about one and a
 	// half end radii at each end take no part (an end cap bends the sections there).
 	zone [2]int
+	// measured is the stretch (mm of arc length) the extraction found in the image; beyond it
+	// each end was carried straight along its tangent to the wall, so there the line says
+	// nothing about which way the canal runs.
+	measured [2]float64
 }
 
 // Length is the arc length from the orifice to the apical end.
@@ -107,7 +111,7 @@ type scaleFit struct {
 // the trusted stretch. The end zones (zoneStart mm from the orifice, zoneEnd mm from the
 // apical end) are trusted no more and take no part in the measures.
 func NewCenterline(pts []mgl64.Vec3, ds, window, trustFrom, trustTo, zoneStart, zoneEnd float64) *Centerline {
-	c := &Centerline{Points: pts, S: arcLengths(pts), DS: ds}
+	c := &Centerline{Points: pts, S: arcLengths(pts), DS: ds, measured: [2]float64{trustFrom, trustTo}}
 	c.setZone(zoneStart, zoneEnd)
 	c.fits = c.scaleFits(window)
 	c.scale = steadiestScale(c.fits)

@@ -163,7 +163,9 @@ func (c *Centerline) placeBand(star int, klo float64) [2]float64 {
 // schneiderBand is how well the construction pins the angle down: the construction again
 // with half and twice the tolerance, widened by the angles the tolerance subtends seen from
 // the departure point to the apical end (where the apical end lies) and over the length of
-// the coronal axis (which way the axis runs).
+// the coronal axis (which way the axis runs). Where the apical end was carried straight to
+// the wall beyond the stretch the image measured, the canal may instead keep the curvature
+// it had at that stretch's edge: the band also holds the angle to the end so reached.
 func schneiderBand(c *Centerline, tol, deg float64) [2]float64 {
 	lo, hi := deg, deg
 	for _, f := range []float64{0.5, 2} {
@@ -171,21 +173,63 @@ func schneiderBand(c *Centerline, tol, deg float64) [2]float64 {
 		lo, hi = math.Min(lo, d), math.Max(hi, d)
 	}
 	dep, _, left := schneider(c, tol)
+	start, _, axis, end := coronalLine(c, tol)
 	slack := 0.0
 	// Where the line leaves its axis, the apical end is known to within tol as seen from the
 	// departure point; a line that never leaves it is straight to within tol over its length.
 	from := c.Points[c.Station(dep)]
 	if !left {
-		from = c.Points[c.zone[0]]
+		from = c.Points[start]
 	}
 	if reach := c.Points[len(c.Points)-1].Sub(from).Len(); reach > 0 {
 		slack += mgl64.RadToDeg(math.Atan(tol / reach))
 	}
-	z := c.zone[0]
-	if _, _, end := coronalAxis(c.Points[z:c.zone[1]+1], tol/2); end > 0 {
-		slack += mgl64.RadToDeg(math.Atan(tol / (c.S[z+end] - c.S[z])))
+	if end > start {
+		slack += mgl64.RadToDeg(math.Atan(tol / (c.S[end] - c.S[start])))
+	}
+	if left {
+		straight, bent := c.apicalEnds()
+		for _, e := range []mgl64.Vec3{straight, bent} {
+			if d := angleBetween(axis, e.Sub(from)); d >= 0 {
+				lo, hi = math.Min(lo, d), math.Max(hi, d)
+			}
+		}
 	}
 	return [2]float64{math.Max(0, lo-slack), math.Min(180, hi+slack)}
+}
+
+// apicalEnds are the two places the apical end may lie: straight is the line's end, carried
+// straight along its tangent to the wall beyond the stretch the image measured; bent is where
+// the end would lie had the canal kept, over that carried stretch, the curvature the line has
+// at the measured stretch's edge (a circle continued from there over the same arc length). A
+// bend may end anywhere in the carried stretch; the two are the same where nothing was
+// carried or the edge is straight.
+func (c *Centerline) apicalEnds() (straight, bent mgl64.Vec3) {
+	n := len(c.Points)
+	straight = c.Points[n-1]
+	carried := c.S[n-1] - c.measured[1]
+	if carried <= c.DS || c.measured[1] <= 0 {
+		return straight, straight
+	}
+	edge := c.Station(c.measured[1])
+	carried = c.S[n-1] - c.S[edge]
+	t := c.T[edge]
+	kv := c.N1[edge].Mul(c.KN1[edge]).Add(c.N2[edge].Mul(c.KN2[edge]))
+	k := kv.Len()
+	if phi := k * carried; phi > 1e-6 {
+		return straight, c.Points[edge].Add(t.Mul(math.Sin(phi) / k)).Add(kv.Mul((1 - math.Cos(phi)) / (k * k)))
+	}
+	return straight, c.Points[edge].Add(t.Mul(carried))
+}
+
+// angleBetween is the angle in degrees between the directions a and b, or -1 when either is
+// too short to have one.
+func angleBetween(a, b mgl64.Vec3) float64 {
+	if a.Len() < 1e-12 || b.Len() < 1e-12 {
+		return -1
+	}
+	cos := a.Normalize().Dot(b.Normalize())
+	return mgl64.RadToDeg(math.Acos(math.Max(-1, math.Min(1, cos))))
 }
 
 // schneiderTolerance is how far (mm) a scanned canal must stray from its coronal axis to count
@@ -211,12 +255,13 @@ func schneiderTolerance(voxel, surfaceDetail float64) float64 {
 func schneider(c *Centerline, tol float64) (departure, deg float64, left bool) {
 	lo, hi := c.zone[0], c.zone[1]
 	n := len(c.Points)
-	apex := c.Points[n-1]
+	// The apical end is taken midway between the two places the line allows (apicalEnds).
+	straight, bent := c.apicalEnds()
+	apex := straight.Add(bent).Mul(0.5)
 	if hi-lo < 4 {
 		return c.S[lo], 0, false
 	}
-	origin, axis, end := coronalAxis(c.Points[lo:hi+1], tol/2)
-	end += lo
+	lo, origin, axis, end := coronalLine(c, tol)
 	dep, left := departureOf(c, origin, axis, lo, end, hi, tol)
 	if !left {
 		return c.S[hi], 0, false
@@ -226,12 +271,34 @@ func schneider(c *Centerline, tol float64) (departure, deg float64, left bool) {
 	f := dep - float64(i)
 	p := c.Points[i].Mul(1 - f).Add(c.Points[i+1].Mul(f))
 	departure = c.S[i] + f*(c.S[i+1]-c.S[i])
-	toApex := apex.Sub(p)
-	if toApex.Len() < 1e-9 {
-		return departure, 0, true
+	return departure, math.Max(0, angleBetween(axis, apex.Sub(p))), true
+}
+
+// coronalSlide is how far (mm) past the orifice zone, and past the piece the extraction
+// carried straight from the orifice to the wall, the coronal axis may start. The carried piece
+// follows a guessed tangent: square to the orifice it continues the axis, but an oblique access
+// cut tilts it by degrees, and fitted into the axis it tilts the axis so that the canal seems
+// to leave it at once. The first stations re-centred next to a dropped end may also hook by a
+// fraction of a voxel.
+const coronalSlide = 1.0
+
+// coronalLine is the coronal axis of Schneider's construction for tolerance tol: of the
+// stretches that start in the orifice zone's edge up to coronalSlide past the carried piece
+// and stay within tol/2 of their fitted line (coronalAxis), the longest (the earliest start
+// among equals; a later start reaches a little further into a gentle coronal curve, so the
+// reach alone would favour it). It returns the stretch's first and last stations and the line.
+func coronalLine(c *Centerline, tol float64) (from int, origin, axis mgl64.Vec3, end int) {
+	start, hi := c.zone[0], c.zone[1]
+	last := math.Max(c.S[start], c.measured[0]) + coronalSlide
+	from, end = start, -1
+	best := -1.0
+	for a := start; a == start || (a+4 < hi && c.S[a] <= last); a += 2 {
+		o, d, e := coronalAxis(c.Points[a:hi+1], tol/2)
+		if l := c.S[a+e] - c.S[a]; l > best {
+			best, from, origin, axis, end = l, a, o, d, a+e
+		}
 	}
-	cos := axis.Dot(toApex.Normalize())
-	return departure, mgl64.RadToDeg(math.Acos(math.Max(-1, math.Min(1, cos)))), true
+	return from, origin, axis, end
 }
 
 // coronalAxis fits a line to the longest first stretch of pts (at least 1 mm or a quarter of

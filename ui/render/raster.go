@@ -11,7 +11,7 @@ func (r *Renderer) opaquePhase(int) {
 			return
 		}
 		y0, y1 := r.bandRows(band)
-		r.clearRows(y0, y1)
+		r.clearRows(y0, y1, band)
 		lo, hi := int32(r.w), int32(-1)
 		for c := 0; c < r.nChunks; c++ {
 			list := r.chunks[c].opaque
@@ -64,15 +64,30 @@ func (r *Renderer) bandRows(band int) (int, int) {
 	return y0, min(y0+r.bandH, r.h)
 }
 
-func (r *Renderer) clearRows(y0, y1 int) {
+// clearRows paints rows y0..y1-1 of band with the background and empties their depth and
+// object buffers. Depth and objects are written only where the last frame drew, so only the
+// columns its spans cover need clearing (whole rows after a resize): most frames leave the
+// see-through layer empty and the sides of the view untouched, and clearing 12 bytes a pixel
+// over the whole frame was a tenth of an opaque frame's time.
+func (r *Renderer) clearRows(y0, y1, band int) {
+	full := [2]int32{0, int32(r.w - 1)}
+	os, cs := full, full
+	if r.spansValid {
+		os, cs = r.opaqueSpan[band], r.clearSpan[band]
+	}
 	for y := y0; y < y1; y++ {
 		o := r.base + y*r.stride
 		copy(r.pix[o:o+r.w*4], r.bgRow)
-		row := r.z[y*r.w : (y+1)*r.w]
-		clear(row)
-		clear(r.tz[y*r.w : (y+1)*r.w])
-		clear(r.oObj[y*r.w : (y+1)*r.w])
-		clear(r.tObj[y*r.w : (y+1)*r.w])
+		if os[0] <= os[1] {
+			a, b := y*r.w+int(os[0]), y*r.w+int(os[1])+1
+			clear(r.z[a:b])
+			clear(r.oObj[a:b])
+		}
+		if cs[0] <= cs[1] {
+			a, b := y*r.w+int(cs[0]), y*r.w+int(cs[1])+1
+			clear(r.tz[a:b])
+			clear(r.tObj[a:b])
+		}
 	}
 }
 

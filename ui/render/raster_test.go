@@ -349,3 +349,48 @@ func TestSharedEdgeDrawnOnce(t *testing.T) {
 		}
 	}
 }
+
+// A renderer reused across frames that differ (camera, see-through or not, size,
+// supersampling) clears only where its last frame drew; every frame and every pick must be
+// what a fresh renderer gives (the fresh one clears everything).
+func TestReusedRendererMatchesFresh(t *testing.T) {
+	s, cam := canalScene(60, 24)
+	type frame struct {
+		w, h, ss int
+		opacity  float64
+		orbit    float64
+		dolly    float64
+	}
+	frames := []frame{
+		{160, 100, 1, 0.35, 0, 0}, {160, 100, 1, 1, 0.5, 0}, {160, 100, 1, 1, 0.3, 0.5},
+		{160, 100, 1, 0.35, 1.2, -0.6}, {160, 100, 2, 1, 0.2, 0}, {120, 90, 1, 1, 0.7, 0.4},
+		{120, 90, 1, 0.35, 0.1, -0.2}, {160, 100, 1, 1, 2.5, 0},
+	}
+	reused := NewRenderer()
+	defer reused.Close()
+	for k, f := range frames {
+		s.Objects[1].Opacity = f.opacity
+		cam.Orbit(f.orbit, 0.1)
+		cam.Dolly(f.dolly)
+		a := image.NewRGBA(image.Rect(0, 0, f.w, f.h))
+		reused.Render(a, s, cam, Options{Supersample: f.ss})
+		fresh := NewRenderer()
+		b := image.NewRGBA(image.Rect(0, 0, f.w, f.h))
+		fresh.Render(b, s, cam, Options{Supersample: f.ss})
+		for i := range a.Pix {
+			if a.Pix[i] != b.Pix[i] {
+				t.Fatalf("frame %d: byte %d differs from a fresh renderer's", k, i)
+			}
+		}
+		for y := 0; y < f.h; y += 3 {
+			for x := 0; x < f.w; x += 3 {
+				o1, t1, _, ok1 := reused.Pick(x, y)
+				o2, t2, _, ok2 := fresh.Pick(x, y)
+				if o1 != o2 || t1 != t2 || ok1 != ok2 {
+					t.Fatalf("frame %d: pick at (%d, %d) gives %d %d %v, a fresh renderer %d %d %v", k, x, y, o1, t1, ok1, o2, t2, ok2)
+				}
+			}
+		}
+		fresh.Close()
+	}
+}

@@ -56,6 +56,9 @@ type Renderer struct {
 	// opaqueSpan and clearSpan are the columns each band's opaque and see-through triangles
 	// reach, so the outline passes skip the empty rest of the row.
 	opaqueSpan, clearSpan [][2]int32
+	// spansValid: the spans above are the last frame's at this size, and the depth and object
+	// buffers are empty outside them, so clearRows clears only there.
+	spansValid bool
 
 	// Colour target: dst.Pix directly, or own when supersampling.
 	pix    []byte
@@ -177,6 +180,7 @@ func (r *Renderer) Render(dst *image.RGBA, s *Scene, cam *Camera, opt Options) {
 	r.runPhase(r.nBands, r.fnOpaque)
 	r.runPhase(r.nBands, r.fnSeeThrough)
 	r.runPhase(r.nBands, r.fnFinish)
+	r.spansValid = true
 	r.savePick(dst)
 	r.evictMeshes()
 	r.evictSimpler(s)
@@ -200,6 +204,9 @@ func (r *Renderer) nextItem(n int) (int, bool) {
 
 // resize sizes the internal buffers for dst at supersampling ss; they only grow.
 func (r *Renderer) resize(dst *image.RGBA, ss int) {
+	if w, h := dst.Rect.Dx()*ss, dst.Rect.Dy()*ss; w != r.w || h != r.h || ss != r.ss {
+		r.spansValid = false
+	}
 	r.ss = ss
 	r.w, r.h = dst.Rect.Dx()*ss, dst.Rect.Dy()*ss
 	r.bandH = ss * max(1, bandRows/ss)

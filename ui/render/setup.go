@@ -16,6 +16,7 @@ type triSetup struct {
 	r, rdx, rdy            float32 // colour/w
 	g, gdx, gdy            float32
 	b, bdx, bdy            float32
+	id                     float32 // 1 / twice the signed area in pixels, shared by the planes
 	tri                    int32
 	obj                    uint16 // object+1
 	// v holds the corners' indices into the frame's vertices in the order above, for the
@@ -57,8 +58,11 @@ func (r *Renderer) cullChunk(c int) {
 			atomic.StoreUint32(&marks[i], stamp)
 		}
 	}
+	// Locals, not fields: the appends below write memory, which would make the compiler reload
+	// fields through the pointers on every triangle.
+	cull, t1 := o.cull, ch.t1
 	var ts triSetup
-	for t := ch.t0; t < ch.t1; t++ {
+	for t := ch.t0; t < t1; t++ {
 		tri := tris[t]
 		if uint32(tri[0]) >= nv || uint32(tri[1]) >= nv || uint32(tri[2]) >= nv {
 			continue // a bad index draws nothing rather than panicking
@@ -75,10 +79,11 @@ func (r *Renderer) cullChunk(c int) {
 			continue
 		}
 		// Facing away or edge-on: no need to set it up (setupGeometry decides the rest).
-		if area := int64(b.s.x-a.s.x)*int64(cc.s.y-a.s.y) - int64(b.s.y-a.s.y)*int64(cc.s.x-a.s.x); area == 0 || o.cull && area > 0 {
+		area := int64(b.s.x-a.s.x)*int64(cc.s.y-a.s.y) - int64(b.s.y-a.s.y)*int64(cc.s.x-a.s.x)
+		if area == 0 || cull && area > 0 {
 			continue
 		}
-		swapped, ok := r.setupGeometry(&a.s, &b.s, &cc.s, o.cull, &ts)
+		swapped, ok := r.setupGeometryArea(&a.s, &b.s, &cc.s, area, cull, &ts)
 		if !ok {
 			continue
 		}
@@ -147,7 +152,7 @@ func colourPlanes(ts *triSetup, a, b, c *screenVert) {
 	const inv = 1.0 / subOne
 	dx1, dy1 := float32(ts.x1-ts.x0)*inv, float32(ts.y1-ts.y0)*inv
 	dx2, dy2 := float32(ts.x2-ts.x0)*inv, float32(ts.y2-ts.y0)*inv
-	id := 1 / (dx1*dy2 - dy1*dx2)
+	id := ts.id // the same 1/area setupGeometry found, without a second division
 	ox := float32(ts.minX) + 0.5 - float32(ts.x0)*inv
 	oy := float32(ts.minY) + 0.5 - float32(ts.y0)*inv
 	plane := func(va, vb, vc float32) (base, gx, gy float32) {
@@ -182,6 +187,12 @@ func (r *Renderer) setup(a, b, c *screenVert, cull bool, ts *triSetup) bool {
 // the edge functions positive inside.
 func (r *Renderer) setupGeometry(a, b, c *screenVert, cull bool, ts *triSetup) (swapped, ok bool) {
 	area := int64(b.x-a.x)*int64(c.y-a.y) - int64(b.y-a.y)*int64(c.x-a.x)
+	return r.setupGeometryArea(a, b, c, area, cull, ts)
+}
+
+// setupGeometryArea is setupGeometry given the triangle's doubled signed area in fixed point
+// (the culling loop has it already).
+func (r *Renderer) setupGeometryArea(a, b, c *screenVert, area int64, cull bool, ts *triSetup) (swapped, ok bool) {
 	if area == 0 {
 		return false, false
 	}
@@ -211,6 +222,7 @@ func (r *Renderer) setupGeometry(a, b, c *screenVert, cull bool, ts *triSetup) (
 	dx1, dy1 := float32(b.x-a.x)*inv, float32(b.y-a.y)*inv
 	dx2, dy2 := float32(c.x-a.x)*inv, float32(c.y-a.y)*inv
 	id := 1 / (dx1*dy2 - dy1*dx2)
+	ts.id = id
 	// Offset from corner a to the centre of the box's first pixel.
 	ox := float32(x0) + 0.5 - float32(a.x)*inv
 	oy := float32(y0) + 0.5 - float32(a.y)*inv

@@ -121,7 +121,7 @@ func (r *Renderer) transformVertices(o *frameObject, v0, v1 int) {
 		if cy < -cw {
 			code |= outBottom
 		}
-		if math.IsNaN(cx+cy+cw) || math.IsInf(cx+cy+cw, 0) {
+		if sum := cx + cy + cw; sum-sum != 0 { // NaN or Inf
 			code = outBad
 		}
 		pv.code = code
