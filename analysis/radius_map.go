@@ -82,15 +82,20 @@ func (c *Canal) placeVertices(workers int) {
 	nv := len(c.Mesh.Vertices)
 	c.VertexS = make([]float32, nv)
 	c.VertexTheta = make([]float32, nv)
-	maxR := 0.0
-	for _, r := range c.Rho {
-		maxR = math.Max(maxR, float64(r))
+	stations := newStationFinder(line.Points)
+	// Each worker takes runs of neighbouring vertices: the last one's station is a good start.
+	// (Padded to a cache line each, so the workers do not fight over one.)
+	last := make([]struct {
+		i int
+		_ [56]byte
+	}, parallel.Workers(workers, nv))
+	for w := range last {
+		last[w].i = -1
 	}
-	cell := math.Max(maxR, 4*line.DS)
-	grid := newPointGrid(line.Points, cell)
-	parallel.For(workers, nv, func(_, v int) {
+	parallel.For(workers, nv, func(w, v int) {
 		p := c.Mesh.Vertices[v]
-		i := grid.nearest(p)
+		i := stations.nearest(p, last[w].i)
+		last[w].i = i
 		s := line.S[i]
 		// Refine onto the segment on either side.
 		best := math.Inf(1)
@@ -117,98 +122,72 @@ func (c *Canal) placeVertices(workers int) {
 	})
 }
 
-// pointGrid finds the nearest of a set of points by looking in nearby cells first. The cells
-// cover the points' box in one flat array (a station list is small: a few thousand cells).
-type pointGrid struct {
-	cell  float64
-	lo    mgl64.Vec3
-	n     [3]int
-	start []int32 // cell c holds order[start[c]:start[c+1]]
-	order []int32
-	pts   []mgl64.Vec3
+// stationFinder finds the station nearest a point by walking the line: no station can be
+// nearer than a station's distance minus its step count times the longest segment, so from a
+// station far from the point whole stretches of the line are skipped at once, and only the
+// stations near the point are looked at one by one (a few dozen per query, where cells of
+// space held a hundred).
+type stationFinder struct {
+	pts []mgl64.Vec3
+	// perStep is one over a bound from above of every segment's length (rounding included):
+	// a station k steps from another is at most k/perStep from it.
+	perStep float64
 }
 
-func newPointGrid(pts []mgl64.Vec3, cell float64) *pointGrid {
-	g := &pointGrid{cell: cell, lo: pts[0], pts: pts}
-	hi := pts[0]
-	for _, p := range pts {
-		for a := range 3 {
-			g.lo[a] = math.Min(g.lo[a], p[a])
-			hi[a] = math.Max(hi[a], p[a])
-		}
+func newStationFinder(pts []mgl64.Vec3) *stationFinder {
+	step := 0.0
+	for i := 1; i < len(pts); i++ {
+		step = max(step, pts[i].Sub(pts[i-1]).Len())
 	}
-	for a := range 3 {
-		g.n[a] = int(math.Floor((hi[a]-g.lo[a])/cell)) + 1
+	f := &stationFinder{pts: pts}
+	if step > 0 {
+		f.perStep = 1 / (step * (1 + 1e-9))
 	}
-	cells := g.n[0] * g.n[1] * g.n[2]
-	g.start = make([]int32, cells+1)
-	at := make([]int, len(pts))
-	for i, p := range pts {
-		k := g.key(p)
-		at[i] = k[0] + g.n[0]*(k[1]+g.n[1]*k[2])
-		g.start[at[i]+1]++
-	}
-	for c := 1; c <= cells; c++ {
-		g.start[c] += g.start[c-1]
-	}
-	g.order = make([]int32, len(pts))
-	fill := append([]int32(nil), g.start[:cells]...)
-	for i := range pts {
-		g.order[fill[at[i]]] = int32(i)
-		fill[at[i]]++
-	}
-	return g
+	return f
 }
 
-func (g *pointGrid) key(p mgl64.Vec3) [3]int {
-	d := p.Sub(g.lo).Mul(1 / g.cell)
-	return [3]int{int(math.Floor(d[0])), int(math.Floor(d[1])), int(math.Floor(d[2]))}
-}
-
-// at lists the points of cell k (none outside the grid).
-func (g *pointGrid) at(k [3]int) []int32 {
-	for a := range 3 {
-		if k[a] < 0 || k[a] >= g.n[a] {
-			return nil
-		}
-	}
-	c := k[0] + g.n[0]*(k[1]+g.n[1]*k[2])
-	return g.order[g.start[c]:g.start[c+1]]
-}
-
-// nearest searches rings of cells outward until a ring cannot hold anything closer. A ring
-// costs its (2r+1)^3 cells, so once that is more than the points themselves a full scan is
-// cheaper and exact: a point far from every station (a centerline that covers only part of the
-// canal) then costs one scan, not millions of cells.
-func (g *pointGrid) nearest(p mgl64.Vec3) int {
-	k := g.key(p)
+// nearest is the station nearest p, the lowest index among equally near ones (distances as
+// Vec3.Len gives them). hint (or -1) is a station likely to be near (the answer for a
+// neighbouring point): it only makes the search quicker, never changes the answer.
+func (f *stationFinder) nearest(p mgl64.Vec3, hint int) int {
+	pts := f.pts
+	n := len(pts)
+	dist := func(i int) float64 { return pts[i].Sub(p).Len() }
 	best, bd := 0, math.Inf(1)
-	for r := 0; r < 1<<20; r++ {
-		if float64(r-1)*g.cell > bd {
-			break
+	consider := func(i int, d float64) {
+		if d < bd || (d == bd && i < best) {
+			best, bd = i, d
 		}
-		if side := 2*r + 1; side*side*side > len(g.pts) {
-			for i, q := range g.pts {
-				if d := q.Sub(p).Len(); d < bd || (d == bd && i < best) {
-					best, bd = i, d
-				}
-			}
-			break
+	}
+	// The stations around the hint one by one (independent, so the processor overlaps them),
+	// then the rest of the line from both ends toward them, skipping stations surely farther
+	// than the best so far (the margin covers rounding: a skipped station is farther, never
+	// as near).
+	lo, hi := 0, 0
+	if hint >= 0 {
+		lo, hi = max(hint-stationWindow, 0), min(hint+stationWindow+1, n)
+		for i := lo; i < hi; i++ {
+			consider(i, dist(i))
 		}
-		for dx := -r; dx <= r; dx++ {
-			for dy := -r; dy <= r; dy++ {
-				for dz := -r; dz <= r; dz++ {
-					if max(abs(dx), abs(dy), abs(dz)) != r {
-						continue
-					}
-					for _, i := range g.at([3]int{k[0] + dx, k[1] + dy, k[2] + dz}) {
-						if d := g.pts[i].Sub(p).Len(); d < bd || (d == bd && int(i) < best) {
-							best, bd = int(i), d
-						}
-					}
-				}
-			}
+	}
+	skip := func(d float64) int {
+		if gap := d - bd - 1e-9*(d+bd) - 1e-12; gap > 0 && f.perStep > 0 {
+			return int(min(gap*f.perStep, float64(n)))
 		}
+		return 0
+	}
+	for i := 0; i < lo; {
+		d := dist(i)
+		consider(i, d)
+		i += 1 + skip(d)
+	}
+	for i := n - 1; i >= hi; {
+		d := dist(i)
+		consider(i, d)
+		i -= 1 + skip(d)
 	}
 	return best
 }
+
+// stationWindow is how many stations on either side of the hint are looked at one by one.
+const stationWindow = 8

@@ -159,12 +159,30 @@ func (b *bvhBounds) add(it *bvhItem) {
 	}
 }
 
+// addCentre grows only the box of centres: a child's own box is never read while building
+// (splits look at centres, bins at boxes, and finish refits every box), so partitions skip it.
+func (b *bvhBounds) addCentre(it *bvhItem) {
+	for k := 0; k < 3; k++ {
+		c := it.centre(k)
+		b.clo[k] = min(b.clo[k], c)
+		b.chi[k] = max(b.chi[k], c)
+	}
+}
+
 func (b *bvhBounds) merge(o *bvhBounds) {
 	for k := 0; k < 3; k++ {
 		b.lo[k] = min(b.lo[k], o.lo[k])
 		b.hi[k] = max(b.hi[k], o.hi[k])
 		b.clo[k] = min(b.clo[k], o.clo[k])
 		b.chi[k] = max(b.chi[k], o.chi[k])
+	}
+}
+
+// mergeBox grows only the box (bestBin reads areas, not centres).
+func (b *bvhBounds) mergeBox(o *bvhBounds) {
+	for k := 0; k < 3; k++ {
+		b.lo[k] = min(b.lo[k], o.lo[k])
+		b.hi[k] = max(b.hi[k], o.hi[k])
 	}
 }
 
@@ -217,24 +235,31 @@ func NewBVH(m *Mesh) *BVH {
 	return out
 }
 
-// finish fills tris[begin:end] in leaf order and refits the builder's boxes exactly in
-// float64, bottom-up: children always come after their parent.
-func (b *bvhBuilder) finish(m *Mesh, tris []bvhTri, begin, end int) {
-	for i := begin; i < end; i++ {
-		t := b.items[i].id
-		p, q, r := m.Corners(int(t))
-		tris[i] = bvhTri{a: p, e1: q.Sub(p), e2: r.Sub(p), id: t}
-	}
+// finish fills the triangles of the builder's leaves (its share of tris, in leaf order) and
+// refits its boxes exactly in float64, bottom-up: children always come after their parent.
+func (b *bvhBuilder) finish(m *Mesh, tris []bvhTri) {
+	// Each item is in one leaf: fill a leaf's triangles and its box together, while in cache.
 	nodes := b.nodes
+	for i := range nodes {
+		nd := &nodes[i]
+		if nd.count == 0 {
+			continue
+		}
+		for j := nd.first; j < nd.first+nd.count; j++ {
+			t := b.items[j].id
+			p, q, r := m.Corners(int(t))
+			tris[j] = bvhTri{a: p, e1: q.Sub(p), e2: r.Sub(p), id: t}
+		}
+		lo, hi := triBox(&tris[nd.first])
+		for j := nd.first + 1; j < nd.first+nd.count; j++ {
+			l, h := triBox(&tris[j])
+			growBox(&lo, &hi, l, h)
+		}
+		nd.lo, nd.hi = lo, hi
+	}
 	for i := len(nodes) - 1; i >= 0; i-- {
 		nd := &nodes[i]
 		if nd.count > 0 {
-			lo, hi := triBox(&tris[nd.first])
-			for j := nd.first + 1; j < nd.first+nd.count; j++ {
-				l, h := triBox(&tris[j])
-				growBox(&lo, &hi, l, h)
-			}
-			nd.lo, nd.hi = lo, hi
 			continue
 		}
 		lo, hi := nodes[nd.first].lo, nodes[nd.first].hi
@@ -261,12 +286,12 @@ func (b *bvhBuilder) buildRoot(root bvhBounds, m *Mesh, tris []bvhTri) {
 	b.nodes = make([]bvhNode, 1, 2*n/bvhLeafSize+2)
 	if n < bvhParallelMin {
 		b.build(0, 0, n, 0, root)
-		b.finish(m, tris, 0, n)
+		b.finish(m, tris)
 		return
 	}
 	mid, lb, rb := b.split(0, 0, n, 0, root)
 	if mid < 0 {
-		b.finish(m, tris, 0, n)
+		b.finish(m, tris)
 		return
 	}
 	l := &bvhBuilder{items: b.items, bin: b.bin, nodes: make([]bvhNode, 1, 2*mid/bvhLeafSize+2)}
@@ -274,11 +299,11 @@ func (b *bvhBuilder) buildRoot(root bvhBounds, m *Mesh, tris []bvhTri) {
 	done := make(chan struct{})
 	go func() {
 		r.build(0, mid, n, 1, rb)
-		r.finish(m, tris, mid, n)
+		r.finish(m, tris)
 		close(done)
 	}()
 	l.build(0, 0, mid, 1, lb)
-	l.finish(m, tris, 0, mid)
+	l.finish(m, tris)
 	<-done
 	// Root at 0, the halves' roots at 1 and 2, then the rest of the left half, then the right.
 	b.nodes = b.nodes[:1]
@@ -352,10 +377,10 @@ func (b *bvhBuilder) split(node int, begin, end, depth int, bd bvhBounds) (int, 
 		})
 		lb, rb = emptyBounds(), emptyBounds()
 		for i := begin; i < mid; i++ {
-			lb.add(&b.items[i])
+			lb.addCentre(&b.items[i])
 		}
 		for i := mid; i < end; i++ {
-			rb.add(&b.items[i])
+			rb.addCentre(&b.items[i])
 		}
 	}
 	return mid, lb, rb
@@ -389,10 +414,10 @@ func (b *bvhBuilder) sahSplit(begin, end, axis int, c0, ext float32) (int, bvhBo
 			i, j := 0, len(items)-1
 			for i <= j {
 				if binIndex(&items[i]) < best {
-					lb.add(&items[i])
+					lb.addCentre(&items[i])
 					i++
 				} else {
-					rb.add(&items[i])
+					rb.addCentre(&items[i])
 					items[i], items[j] = items[j], items[i]
 					j--
 				}
@@ -444,10 +469,10 @@ func (b *bvhBuilder) midpointSplit(begin, end, axis int, at float32) (int, bvhBo
 	i, j := 0, len(items)-1
 	for i <= j {
 		if items[i].centre(axis) < at {
-			lb.add(&items[i])
+			lb.addCentre(&items[i])
 			i++
 		} else {
-			rb.add(&items[i])
+			rb.addCentre(&items[i])
 			items[i], items[j] = items[j], items[i]
 			j--
 		}
@@ -462,7 +487,7 @@ func bestBin(cnt *[bvhBins]int, bins *[bvhBins]bvhBounds) int {
 	acc := emptyBounds()
 	rc := 0
 	for i := bvhBins - 1; i > 0; i-- {
-		acc.merge(&bins[i])
+		acc.mergeBox(&bins[i])
 		rc += cnt[i]
 		rightArea[i], rightCnt[i] = acc.area(), rc
 	}
@@ -470,7 +495,7 @@ func bestBin(cnt *[bvhBins]int, bins *[bvhBins]bvhBounds) int {
 	lc := 0
 	best, bestCost := -1, math.Inf(1)
 	for i := 1; i < bvhBins; i++ {
-		left.merge(&bins[i-1])
+		left.mergeBox(&bins[i-1])
 		lc += cnt[i-1]
 		if lc == 0 || rightCnt[i] == 0 {
 			continue
