@@ -32,9 +32,15 @@ func (s CanalSummary) PlaceText() string {
 	return fmt.Sprintf("%.2f mm from the apical end (%s)", p.FromApexMM, band(p.FromApexRangeMM[0], p.FromApexRangeMM[1], 1))
 }
 
-// SchneiderText is the Schneider angle with its band.
+// SchneiderText is the Schneider angle with its band and the construction's tolerance: how far
+// the canal must leave its coronal axis to count as departing (Schneider 1971 draws it by eye;
+// here it follows the scan's resolution, so the reader is told).
 func (s CanalSummary) SchneiderText() string {
-	return fmt.Sprintf("%.1f° (%s)", s.SchneiderDeg, band(s.SchneiderRangeDeg[0], s.SchneiderRangeDeg[1], 1))
+	t := fmt.Sprintf("%.1f° (%s", s.SchneiderDeg, band(s.SchneiderRangeDeg[0], s.SchneiderRangeDeg[1], 1))
+	if s.SchneiderToleranceMM > 0 {
+		t += fmt.Sprintf("; departs %.2f mm off the coronal axis", s.SchneiderToleranceMM)
+	}
+	return t + ")"
 }
 
 func band(lo, hi float64, digits int) string {
