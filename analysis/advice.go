@@ -89,7 +89,7 @@ func addAdvice(res *Result) {
 		if u := c.Unresolved; !apexNoted && len(u) > 0 && sr.TipDepth >= u[0].From {
 			// Evidence from the scan itself: the stretch where it does not show the lumen.
 			L := c.Line.Length()
-			add(AdviceApexUnresolved, "The scan does not resolve the canal from %.1f to %.1f mm from the apical end (narrower than about two voxels): its course there is the darkest path through the scan and its width is unknown.", L-u[0].From, L-u[0].To)
+			add(AdviceApexUnresolved, "The scan does not resolve the canal from %.1f to %.1f mm from the apical end (narrower than about two voxels): its path there is the darkest line through the scan and its width is unknown.", L-u[0].From, L-u[0].To)
 			apexNoted = true
 		}
 		if !apexNoted && sr.TipDepth >= c.WorkingLength-1 {

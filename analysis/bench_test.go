@@ -10,7 +10,7 @@ import (
 	"tapersweep/models"
 )
 
-// benchDemo is the demo canal's course at the widths the speed targets were set on (1.0 to
+// benchDemo is the demo canal's shape at the widths the speed targets were set on (1.0 to
 // 0.25 mm, the demo before issue 17 narrowed it), without a root.
 func benchDemo() *models.CanalSpec {
 	c := models.DemoCanal()

@@ -204,7 +204,7 @@ func extractCenterline(ctx context.Context, m *mesh.Mesh, wall func() *mesh.BVH,
 	}
 	info.endRadius = [2]float64{endReach(sec, ds, false), endReach(sec, ds, true)}
 	// The sections of the last stations may still meet an end cap (an oblique cut, the rim of
-	// a wide end): their centroids pull the line off its course, so they go too.
+	// a wide end): their centroids pull the line off its path, so they go too.
 	pts = trimBent(pts, sec, math.Max(0.02, 0.3*info.noise), info.endRadius)
 	pts = resample(smoothGaussian(pts, math.Max(1, 2*info.noise/ds)), ds)
 	measured := arcLengths(pts)
@@ -263,7 +263,7 @@ func (cg *coarseGraph) branchWarnings(path []int32, sec []section) []string {
 	return nil
 }
 
-// Stations of the line are checked against its course further in: a quadratic fitted to
+// Stations of the line are checked against the path it holds further in: a quadratic fitted to
 // bentFit stations that lie bentGap stations further in predicts each one.
 const (
 	bentFit = 20 // 1 mm
@@ -281,7 +281,7 @@ const bentNarrowing = 0.02
 
 // trimBent drops the stations at either end of a line spaced StationSpacing apart whose
 // section is cut by an end cap: narrower than the trend of the sections further in by
-// bentNarrowing, and straying more than tol mm from the course the line holds further in.
+// bentNarrowing, and straying more than tol mm from the path the line holds further in.
 // Every station beyond the first such one goes too. Only stations within bentReach end radii
 // (endRadius: at the start, at the end) of an end are checked, and a real curve, whose
 // sections keep their width, is never taken for a cut section.

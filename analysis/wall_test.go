@@ -267,7 +267,7 @@ func containsAll(s string, parts ...string) bool {
 // vtkImplicitPolyDataDistance of Debian's python3-vtk9 (its distance from a point to the nearest
 // cell of a surface), on a scan-like pair: the demo canal surfaced from a 0.06 mm voxel image
 // with 0.01 mm of noise, inside an oval root with a groove whose vertices carry 0.01 mm of
-// noise (the demo canal's course, 1.0 to 0.25 mm wide). Every sampled cell agrees within
+// noise (the demo canal's shape, 1.0 to 0.25 mm wide). Every sampled cell agrees within
 // 0.01 mm (issue 17).
 func TestWallAgainstVTK(t *testing.T) {
 	out, err := exec.Command(debianPython, "-c", "import vtk; print('ok')").CombinedOutput()

@@ -15,7 +15,7 @@ import (
 var wallFamily = flag.Bool("wall-family", false, "TestKeepWallFamily over every groove (depth, place, side); false = the subset of normal tests")
 
 // TestKeepWallFamily: grooved roots of several depths, places along the canal and sides (the
-// demo canal's course, narrowed). For each, the plan without a wall to keep leaves least wall
+// demo canal's shape, narrowed). For each, the plan without a wall to keep leaves least wall
 // W (analysis.Run at full resolution). Keeping W - 0.02 mm the constraint is not active at that
 // plan, so the planner proposes the same plan and says the wall does not bind (an optimum that
 // meets a constraint stays the optimum when the constraint is added). Keeping W + 0.02 mm that

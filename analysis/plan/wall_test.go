@@ -74,7 +74,7 @@ func TestPlanKeepsTheWall(t *testing.T) {
 	}
 }
 
-// coronalGrooveJSON is an invented canal (the demo's course, narrowed) in an oval root with a
+// coronalGrooveJSON is an invented canal (the demo's shape, narrowed) in an oval root with a
 // groove on the outer side of the main curve (180°) whose bottom lies 1 mm below the orifice:
 // 17.28 mm from the apical end of a canal 10 + 5*40π/180 + 8*20π/180 + 2 = 18.28 mm long.
 const coronalGrooveJSON = `{"name": "coronal groove (invented)",

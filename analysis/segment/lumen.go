@@ -180,7 +180,7 @@ func upsample(f []float32, nx, ny, nz, up int) ([]float32, int, int, int) {
 }
 
 // addUnresolvedTube raises the field to a thin tube along the path where the lumen is not
-// resolved, so the canal stays one piece and its course is kept.
+// resolved, so the canal stays one piece and its path is kept.
 func (res *Result) addUnresolvedTube(v *volume.Volume, b *box, fine []float32, fx, fy, fz, up int) {
 	r := math.Max(unresolvedRadius, 1/float64(up)) * res.Voxel // at least one sample of the grid
 	o := b.volIndex(0, 0, 0)

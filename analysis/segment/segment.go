@@ -117,7 +117,7 @@ func Find(ctx context.Context, v *volume.Volume, pts Points, opt Options) (*Resu
 	}
 	res.classify(prof, dark, bright, opt.TubeRadius)
 	if len(res.Unresolved) == 1 && res.Unresolved[0].From == 0 && res.Unresolved[0].To >= s[len(s)-1] {
-		res.Warnings = append(res.Warnings, "the scan shows this canal's lumen nowhere between the two points: its course is the darkest path only; check that both points lie in the canal")
+		res.Warnings = append(res.Warnings, "the scan shows this canal's lumen nowhere between the two points: it follows the darkest path only; check that both points lie in the canal")
 	}
 	progress("surface", 0.6)
 	res.Lumen, err = surfaceLumen(ctx, v, res, opt.TubeRadius)
