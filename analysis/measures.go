@@ -313,7 +313,7 @@ func coronalAxis(pts []mgl64.Vec3, tol float64) (origin, axis mgl64.Vec3, end in
 	fit := func(k int) (mgl64.Vec3, mgl64.Vec3) {
 		o := sum.Mul(1 / float64(k))
 		cov := sxx.Sub(outer(o, o).Mul(float64(k)))
-		d, _ := planeAxes(cov)
+		d := principalAxis(cov)
 		if d.Dot(pts[k-1].Sub(pts[0])) < 0 {
 			d = d.Mul(-1)
 		}
@@ -391,23 +391,36 @@ func departureOf(c *Centerline, origin, axis mgl64.Vec3, lo, from, hi int, tol f
 // planeAxes returns two orthonormal axes spanning the plane of the two largest principal
 // directions of a symmetric 3x3 covariance, by power iteration with deflation.
 func planeAxes(cov mgl64.Mat3) (e1, e2 mgl64.Vec3) {
-	power := func(m mgl64.Mat3, start mgl64.Vec3) mgl64.Vec3 {
-		v := start
-		for it := 0; it < 100; it++ {
-			w := m.Mul3x1(v)
-			if w.Len() < 1e-30 {
-				return start
-			}
-			v = w.Normalize()
-		}
-		return v
-	}
-	e1 = power(cov, mgl64.Vec3{0.577, 0.577, 0.577})
+	e1 = principalAxis(cov)
 	l1 := e1.Dot(cov.Mul3x1(e1))
 	defl := cov.Sub(outer(e1, e1).Mul(l1))
-	e2 = power(defl, anyPerpendicular(e1))
+	e2 = powerIterate(defl, anyPerpendicular(e1))
 	e2 = e2.Sub(e1.Mul(e2.Dot(e1))).Normalize()
 	return e1, e2
+}
+
+// principalAxis is the largest principal direction of a symmetric 3x3 covariance (planeAxes'
+// first axis, for a line fit that needs no second).
+func principalAxis(cov mgl64.Mat3) mgl64.Vec3 {
+	return powerIterate(cov, mgl64.Vec3{0.577, 0.577, 0.577})
+}
+
+// powerIterate runs at most 100 steps of power iteration from start. A step that returns its
+// own input exactly would return it for ever, so the loop stops there with the same answer.
+func powerIterate(m mgl64.Mat3, start mgl64.Vec3) mgl64.Vec3 {
+	v := start
+	for it := 0; it < 100; it++ {
+		w := m.Mul3x1(v)
+		if w.Len() < 1e-30 {
+			return start
+		}
+		next := w.Normalize()
+		if next == v {
+			break
+		}
+		v = next
+	}
+	return v
 }
 
 func outer(a, b mgl64.Vec3) mgl64.Mat3 {
