@@ -71,8 +71,9 @@ func Measure(c *Centerline, tol float64) Measures {
 		mid, half := (c.S[bend.lo]+c.S[bend.hi])/2, 0.1*(c.S[bend.hi]-c.S[bend.lo])
 		m.SRange = [2]float64{math.Min(m.SRange[0], mid-half), math.Max(m.SRange[1], mid+half)}
 	}
-	m.DepartureS, m.SchneiderDeg, _ = schneider(c, tol)
-	m.SchneiderRange = schneiderBand(c, tol, m.SchneiderDeg)
+	sc := schneiderConstruct(c, tol)
+	m.DepartureS, m.SchneiderDeg = sc.departure, sc.deg
+	m.SchneiderRange = schneiderBand(c, tol, sc)
 	if kmax > straightCurvature {
 		lo, hi := c.peakStretch(0.5)
 		if fitted {
@@ -166,14 +167,17 @@ func (c *Centerline) placeBand(star int, klo float64) [2]float64 {
 // the coronal axis (which way the axis runs). Where the apical end was carried straight to
 // the wall beyond the stretch the image measured, the canal may instead keep the curvature
 // it had at that stretch's edge: the band also holds the angle to the end so reached.
-func schneiderBand(c *Centerline, tol, deg float64) [2]float64 {
-	lo, hi := deg, deg
+func schneiderBand(c *Centerline, tol float64, sc construction) [2]float64 {
+	lo, hi := sc.deg, sc.deg
 	for _, f := range []float64{0.5, 2} {
 		_, d, _ := schneider(c, f*tol)
 		lo, hi = math.Min(lo, d), math.Max(hi, d)
 	}
-	dep, _, left := schneider(c, tol)
-	start, _, axis, end := coronalLine(c, tol)
+	dep, left := sc.departure, sc.left
+	start, axis, end := sc.start, sc.axis, sc.end
+	if !sc.axisFound { // the zone is too short for an axis: coronalLine as it then answers
+		start, _, axis, end = coronalLine(c, tol)
+	}
 	slack := 0.0
 	// Where the line leaves its axis, the apical end is known to within tol as seen from the
 	// departure point; a line that never leaves it is straight to within tol over its length.
@@ -253,25 +257,43 @@ func schneiderTolerance(voxel, surfaceDetail float64) float64 {
 // axis at all: one that never does is straight to within tol (Schneider: 0 degrees), and the
 // departure is then the end of the measured line.
 func schneider(c *Centerline, tol float64) (departure, deg float64, left bool) {
+	sc := schneiderConstruct(c, tol)
+	return sc.departure, sc.deg, sc.left
+}
+
+// construction is one run of Schneider's construction with the coronal axis it used
+// (start and end stations, direction; axisFound false when the zone is too short for one).
+type construction struct {
+	departure, deg float64
+	left           bool
+	start, end     int
+	axis           mgl64.Vec3
+	axisFound      bool
+}
+
+func schneiderConstruct(c *Centerline, tol float64) construction {
 	lo, hi := c.zone[0], c.zone[1]
 	n := len(c.Points)
 	// The apical end is taken midway between the two places the line allows (apicalEnds).
 	straight, bent := c.apicalEnds()
 	apex := straight.Add(bent).Mul(0.5)
 	if hi-lo < 4 {
-		return c.S[lo], 0, false
+		return construction{departure: c.S[lo]}
 	}
 	lo, origin, axis, end := coronalLine(c, tol)
+	sc := construction{start: lo, end: end, axis: axis, axisFound: true}
 	dep, left := departureOf(c, origin, axis, lo, end, hi, tol)
 	if !left {
-		return c.S[hi], 0, false
+		sc.departure = c.S[hi]
+		return sc
 	}
 	// The departure point on the line, between stations.
 	i := min(int(dep), n-2)
 	f := dep - float64(i)
 	p := c.Points[i].Mul(1 - f).Add(c.Points[i+1].Mul(f))
-	departure = c.S[i] + f*(c.S[i+1]-c.S[i])
-	return departure, math.Max(0, angleBetween(axis, apex.Sub(p))), true
+	sc.departure = c.S[i] + f*(c.S[i+1]-c.S[i])
+	sc.deg, sc.left = math.Max(0, angleBetween(axis, apex.Sub(p))), true
+	return sc
 }
 
 // coronalSlide is how far (mm) past the orifice zone, and past the piece the extraction
