@@ -24,7 +24,7 @@ func batchCommand() command {
 	return command{
 		name: "batch",
 		summary: "run one sequence through every canal file (*.stl, *.json) in a folder, not its subfolders, or every canal a " +
-			"manifest lists, into one CSV row per canal and step; a canal that fails gets a row with its error, the run goes " +
+			"manifest lists (canal files, or canals found in scans), into one CSV row per canal and step; a canal that fails gets a row with its error, the run goes " +
 			"on and the command exits 1",
 		usage:   "--canals DIR|--manifest FILE.csv --sequence PATH --out FILE.csv [--jobs N] [--shard I/N] [--working-length MM] [--scale K] [--force]",
 		example: "tapersweep batch --canals scans/ --sequence plan.json --out results.csv --jobs 4 --shard 2/10",
@@ -37,7 +37,7 @@ func batchCommand() command {
 			wl := fs.Float64("working-length", 0, "working length in `mm` for every canal (default: each spec's, else its centerline's length)")
 			scale := fs.Float64("scale", 1, "multiply STL coordinates by `K` (0.001 turns micrometres into mm)")
 			manifest := fs.String("manifest", "", "CSV `file` naming the canals, one per row, each with its own settings "+
-				"(columns file, orifice, apical_end, working_length_mm, scale; see the README); instead of --canals")
+				"(columns file or scan, orifice, apical_end, working_length_mm, scale, voxel_mm, label; see the README); instead of --canals")
 			force := fs.Bool("force", false, "measure surfaces whose measures cannot be trusted (not closed, most triangles "+
 				"removed) instead of failing them")
 			minWall := fs.Float64("min-wall", analysis.DefaultMinWallMM, "the least wall to the root's outer surface, `mm`, under which a step is warned about "+
