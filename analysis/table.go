@@ -26,6 +26,9 @@ type Column struct {
 	Digits int
 	// Shown is the number of decimals shown to a person in tables.
 	Shown int
+	// ShownUpTo, when above 0, is the largest value a person is shown as a number; above it
+	// tables say "over ShownUpTo" (a ratio over a load near zero only says "far from it").
+	ShownUpTo float64
 
 	get  func(m *StepMetrics) (float64, bool) // numbers: the value and whether it exists
 	set  func(m *StepMetrics, v float64)      // numbers: store the rounded value
@@ -67,11 +70,26 @@ func (c Column) Format(m StepMetrics) string {
 	if !ok {
 		return ""
 	}
+	if c.ShownUpTo > 0 && v > c.ShownUpTo {
+		return "over " + strconv.FormatFloat(c.ShownUpTo, 'f', -1, 64)
+	}
 	return strconv.FormatFloat(v, 'f', c.Shown, 64)
 }
 
 // HeadingLine is the heading on one line, for the terminal.
 func (c Column) HeadingLine() string { return strings.ReplaceAll(c.Heading, "\n", " ") }
+
+// maxShownMargin is the largest torsional margin tables state as a number: a margin is
+// capacity over the cutting torque, and over a wall barely touched the load is near zero, so
+// the ratio runs into the thousands (18033 for a 0.01 mm² contact) and says only "far from
+// torsional failure". The JSON and the CSV keep the value.
+const maxShownMargin = 100
+
+// withShownUpTo caps the value a person is shown (Column.ShownUpTo).
+func withShownUpTo(c Column, upTo float64) Column {
+	c.ShownUpTo = upTo
+	return c
+}
 
 // scalar is a number that always exists.
 func scalar(key, label, heading, unit string, digits, shown int, ref func(m *StepMetrics) *float64) Column {
@@ -222,8 +240,8 @@ var stepColumns = func() []Column {
 			func(m *StepMetrics) *float64 { return &m.FatigueDamage }),
 		optional("fracture_from_tip_mm", "fracture point from tip, mm", "fracture\nfrom tip mm", "mm", 3, 2,
 			func(m *StepMetrics) **float64 { return &m.FractureFromTipMM }),
-		optional("torsion_margin", "torsional margin (capacity / load)", "torsion\nmargin", "", 3, 1,
-			func(m *StepMetrics) **float64 { return &m.TorsionMargin }),
+		withShownUpTo(optional("torsion_margin", "torsional margin (capacity / load)", "torsion\nmargin", "", 3, 1,
+			func(m *StepMetrics) **float64 { return &m.TorsionMargin }), maxShownMargin),
 		scalar("peak_torque_index", "peak torque, N·cm (illustrative)", "peak torque\nN·cm", "N·cm", 4, 3,
 			func(m *StepMetrics) *float64 { return &m.PeakTorqueIndex }),
 	}

@@ -178,3 +178,30 @@ func TestRoundingDoesNotChangeASharedValue(t *testing.T) {
 		t.Errorf("shared %v, rounded %v", shared, *a.TorsionMargin)
 	}
 }
+
+// A torsional margin over a load near zero is shown as "over 100" to a person, while the CSV
+// (and the JSON) keep the ratio; ordinary margins are shown with their decimal.
+func TestTorsionMarginShownUpTo(t *testing.T) {
+	var col Column
+	for _, c := range StepColumns() {
+		if c.Key == "torsion_margin" {
+			col = c
+		}
+	}
+	if col.Key == "" {
+		t.Fatal("no torsion_margin column")
+	}
+	for _, c := range []struct {
+		v          float64
+		shown, csv string
+	}{{18033.3, "over 100", "18033.3"}, {10.6, "10.6", "10.6"}, {100, "100.0", "100"}} {
+		v := c.v
+		m := StepMetrics{TorsionMargin: &v}
+		if got := col.Format(m); got != c.shown {
+			t.Errorf("margin %v shown as %q, want %q", v, got, c.shown)
+		}
+		if got := col.Cell(m); got != c.csv {
+			t.Errorf("margin %v in the CSV as %q, want %q", v, got, c.csv)
+		}
+	}
+}
