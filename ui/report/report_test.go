@@ -130,6 +130,21 @@ func TestDemoReportHasSummaryAndOnePagePerStep(t *testing.T) {
 // squash folds whitespace so wrapped lines compare with the text they came from.
 func squash(s string) string { return strings.Join(strings.Fields(s), " ") }
 
+// reportPages writes res's report at the tests' picture size and returns each page's text;
+// nil when pdftotext is not installed (the text checks are then skipped).
+func reportPages(t *testing.T, res *analysis.Result) []string {
+	t.Helper()
+	var buf bytes.Buffer
+	if err := WritePDF(&buf, res, Options{ImageWidth: 260, ImageHeight: 390}); err != nil {
+		t.Fatal(err)
+	}
+	text := pdfText(t, buf.Bytes())
+	if text == "" {
+		return nil
+	}
+	return strings.Split(text, "\f")
+}
+
 // pdfText extracts the text of a PDF with pdftotext, page breaks as form feeds; it skips the
 // text checks when the tool is not installed (.ci/setup.sh installs poppler-utils).
 func pdfText(t *testing.T, pdf []byte) string {
@@ -293,15 +308,10 @@ func elasticRun(t testing.TB) *analysis.Result {
 // transportation; each step's page carries its own Gambill measures, place and direction.
 func TestElasticReportStatesPathAndTransportation(t *testing.T) {
 	res := elasticRun(t)
-	var buf bytes.Buffer
-	if err := WritePDF(&buf, res, Options{ImageWidth: 260, ImageHeight: 390}); err != nil {
-		t.Fatal(err)
-	}
-	text := pdfText(t, buf.Bytes())
-	if text == "" {
+	pages := reportPages(t, res)
+	if pages == nil {
 		return
 	}
-	pages := strings.Split(text, "\f")
 	sum := res.Summary()
 	first := squash(pages[0])
 	for _, want := range []string{"elastic: the file's axis bends as a beam",
