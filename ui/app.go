@@ -147,14 +147,21 @@ func newMainWindow(a fyne.App, ui *handOver) *mainWindow {
 	return w
 }
 
-// atLeast lays its one object over its whole area and asks for at least height() of it.
-type atLeast struct{ height func() float32 }
+// fillArea lays each object over the whole area (as fyne's stack layout does); the layouts below
+// embed it and differ only in the size they ask for.
+type fillArea struct{}
 
-func (l *atLeast) Layout(objs []fyne.CanvasObject, size fyne.Size) {
+func (fillArea) Layout(objs []fyne.CanvasObject, size fyne.Size) {
 	for _, o := range objs {
 		o.Move(fyne.NewPos(0, 0))
 		o.Resize(size)
 	}
+}
+
+// atLeast lays its one object over its whole area and asks for at least height() of it.
+type atLeast struct {
+	fillArea
+	height func() float32
 }
 
 func (l *atLeast) MinSize(objs []fyne.CanvasObject) fyne.Size {
@@ -168,13 +175,9 @@ func (l *atLeast) MinSize(objs []fyne.CanvasObject) fyne.Size {
 
 // atMost lays its one object (a scroll) over its whole area and asks for the height of the
 // scroll's content, up to height.
-type atMost struct{ height float32 }
-
-func (l *atMost) Layout(objs []fyne.CanvasObject, size fyne.Size) {
-	for _, o := range objs {
-		o.Move(fyne.NewPos(0, 0))
-		o.Resize(size)
-	}
+type atMost struct {
+	fillArea
+	height float32
 }
 
 func (l *atMost) MinSize(objs []fyne.CanvasObject) fyne.Size {
