@@ -403,10 +403,10 @@ func recentre(pts []mgl64.Vec3, bvh *mesh.BVH, ds float64, workers int) ([]mgl64
 	out := append([]mgl64.Vec3(nil), pts...)
 	sec := make([]section, len(pts))
 	d1, _ := derivatives(pts, ds, max(2, int(0.2/ds)))
-	var dirs [recentreRays][2]float64
-	for j := range dirs {
+	var cs, sn [recentreRays]float64
+	for j := range cs {
 		a := 2 * math.Pi * float64(j) / recentreRays
-		dirs[j] = [2]float64{math.Cos(a), math.Sin(a)}
+		cs[j], sn[j] = math.Cos(a), math.Sin(a)
 	}
 	parallel.For(workers, len(pts), func(_, i int) {
 		t := d1[i].Normalize()
@@ -416,13 +416,11 @@ func recentre(pts []mgl64.Vec3, bvh *mesh.BVH, ds float64, workers int) ([]mgl64
 		u := anyPerpendicular(t)
 		v := t.Cross(u)
 		var xs, ys, ts, sorted [recentreRays]float64
-		for j, dv := range dirs {
-			dir := u.Mul(dv[0]).Add(v.Mul(dv[1]))
-			hit, ok := bvh.Ray(pts[i], dir, 50)
-			if !ok {
+		bvh.RayFan(pts[i], u, v, cs[:], sn[:], 50, ts[:])
+		for _, d := range ts {
+			if d < 0 {
 				return
 			}
-			ts[j] = hit.T
 		}
 		// A ray that runs off into a branch or a side canal would drag the centroid after
 		// it: no ray counts longer than recentreReach times the median.
@@ -430,9 +428,9 @@ func recentre(pts []mgl64.Vec3, bvh *mesh.BVH, ds float64, workers int) ([]mgl64
 		slices.Sort(sorted[:])
 		limit := recentreReach * sorted[recentreRays/2]
 		far := 0.0
-		for j, dv := range dirs {
+		for j := range ts {
 			t := math.Min(ts[j], limit)
-			xs[j], ys[j] = t*dv[0], t*dv[1]
+			xs[j], ys[j] = t*cs[j], t*sn[j]
 			far = math.Max(far, t)
 		}
 		cx, cy, ok := polygonCentroid(xs[:], ys[:])

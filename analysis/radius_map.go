@@ -20,15 +20,14 @@ func (c *Canal) buildRadiusMap(workers int) {
 		cs[j], sn[j] = math.Cos(th), math.Sin(th)
 	}
 	reach := 4 * c.Measures.Length
-	parallel.For(workers, n, func(_, i int) {
-		p, n1, n2 := c.Line.Points[i], c.Line.N1[i], c.Line.N2[i]
-		for j := 0; j < na; j++ {
-			dir := n1.Mul(cs[j]).Add(n2.Mul(sn[j]))
-			if hit, ok := c.Wall.Ray(p, dir, reach); ok {
-				c.Rho[i*na+j] = float32(hit.T)
-			} else {
-				c.Rho[i*na+j] = -1
-			}
+	ts := make([][]float64, parallel.Workers(workers, n))
+	parallel.For(workers, n, func(w, i int) {
+		if ts[w] == nil {
+			ts[w] = make([]float64, na)
+		}
+		c.Wall.RayFan(c.Line.Points[i], c.Line.N1[i], c.Line.N2[i], cs, sn, reach, ts[w])
+		for j, t := range ts[w] {
+			c.Rho[i*na+j] = float32(t) // -1 where no wall was found
 		}
 	})
 	// The end stations lie on the end caps, where rays graze the cap itself: they take the
