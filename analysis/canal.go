@@ -7,6 +7,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"sync"
 
 	"github.com/go-gl/mathgl/mgl64"
 
@@ -92,23 +93,36 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	if c.Angles <= 0 {
 		c.Angles = DefaultAngles
 	}
-	// The surface's check and its BVH are not needed until the centerline's sections are
-	// outlined: with a core to spare they are made while the voxel searches run.
+	// The BVH is not needed until the centerline's sections are outlined, nor the surface's
+	// check until the end: with a core to spare the BVH is built while the voxel searches
+	// run, then the check is made. On a huge mesh the searches are done first, and the
+	// check is made on their goroutine while the BVH is still building.
 	var check mesh.Report
+	var checkOnce sync.Once
+	validate := func() { checkOnce.Do(func() { check = mesh.Validate(m) }) }
 	ready := make(chan struct{})
 	prepare := func() {
-		check = mesh.Validate(m)
 		c.Wall = mesh.NewBVH(m)
 		close(ready)
+		validate()
 	}
 	if parallel.Workers(opt.Workers, 2) > 1 {
 		go prepare()
 	} else {
 		prepare()
 	}
-	wall := func() *mesh.BVH { <-ready; return c.Wall }
+	wall := func() *mesh.BVH {
+		select {
+		case <-ready:
+		default:
+			validate()
+			<-ready
+		}
+		return c.Wall
+	}
 	pts, info, err := extractCenterline(ctx, m, wall, opt.Extract, opt.Workers)
 	<-ready
+	validate()
 	c.Warnings = append(c.Warnings, check.Warnings()...)
 	if err != nil {
 		return nil, fmt.Errorf("centerline: %w", err)
@@ -121,7 +135,28 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	}
 	c.Line = NewCenterline(pts, StationSpacing, curvatureWindow(info.noise), info.measuredFrom, info.measuredTo,
 		endZone*info.endRadius[0], endZone*info.endRadius[1])
-	c.Measures = Measure(c.Line, schneiderTolerance(c.Voxel, c.SurfaceDetail))
+	// The measures read only the line, as the radius map and the vertices' places do: with a
+	// core to spare they are taken while those are made (most of the measures' work is one
+	// search at a time).
+	measured := make(chan struct{})
+	measure := func() {
+		c.Measures = Measure(c.Line, schneiderTolerance(c.Voxel, c.SurfaceDetail))
+		close(measured)
+	}
+	if parallel.Workers(opt.Workers, 2) > 1 {
+		go measure()
+	} else {
+		measure()
+	}
+	var holes bool
+	if err := ctx.Err(); err == nil {
+		holes = c.buildRadiusMap(opt.Workers)
+		c.placeVertices(opt.Workers)
+	}
+	<-measured
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 	c.Warnings = append(c.Warnings, c.Measures.Warnings()...)
 	c.WorkingLength = c.Line.Length()
 	if opt.WorkingLength > 0 {
@@ -136,11 +171,9 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 		c.Warnings = append(c.Warnings, fmt.Sprintf(
 			"working length %.2f mm is longer than the canal's centerline (%.2f mm)", c.WorkingLength, c.Line.Length()))
 	}
-	if err := ctx.Err(); err != nil {
-		return nil, err
+	if holes {
+		c.Warnings = append(c.Warnings, "some rays from the centerline found no wall: the surface may have holes")
 	}
-	c.buildRadiusMap(opt.Workers)
-	c.placeVertices(opt.Workers)
 	if opt.Root != nil {
 		if err := c.attachRoot(opt.Root, opt.RootSource, opt.Workers); err != nil {
 			return nil, err

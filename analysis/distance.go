@@ -84,22 +84,56 @@ func nearestZero1D(line []float32) {
 }
 
 // edt1D is the lower envelope of parabolas along one line of d (start, stride, n).
+//
+// Values are exact integers (squared distances in voxels), so the envelope gives the exact
+// least of (q - p)^2 + f[p] over p, whatever set of parabolas yields it. Only a run of
+// non-zero values between two zeros needs working out, and within it only its own
+// parabolas and the two zeros that bound it: any parabola beyond a zero lies above that
+// zero's everywhere in the run. So each run is done on its own, and the zeros between runs
+// (most of a line that grazes the canal) cost nothing.
 func edt1D(d []float32, start, stride, n int, f, out []float64, v []int, z []float64) {
-	any := false
+	any, far := false, false
 	for q := 0; q < n; q++ {
 		f[q] = float64(d[start+q*stride])
 		if f[q] != 0 {
 			any = true
+			far = far || f[q] >= 1e19
 		}
 	}
 	if !any {
 		return
 	}
+	if far { // a line never reached by the passes before: the whole line at once
+		envelope(f, out, v, z, 0, n, 0, n)
+		for q := 0; q < n; q++ {
+			d[start+q*stride] = float32(math.Min(out[q], 1e20))
+		}
+		return
+	}
+	for q := 0; q < n; {
+		if f[q] == 0 {
+			q++
+			continue
+		}
+		a := q
+		for q < n && f[q] != 0 {
+			q++
+		}
+		envelope(f, out, v, z, max(a-1, 0), min(q+1, n), a, q)
+		for r := a; r < q; r++ {
+			d[start+r*stride] = float32(math.Min(out[r], 1e20))
+		}
+	}
+}
+
+// envelope is Felzenszwalb and Huttenlocher's lower envelope of the parabolas of f[lo:hi]
+// (coordinates are the indices themselves), written into out[from:to].
+func envelope(f, out []float64, v []int, z []float64, lo, hi, from, to int) {
 	k := 0
-	v[0] = 0
+	v[0] = lo
 	z[0] = math.Inf(-1)
 	z[1] = math.Inf(1)
-	for q := 1; q < n; q++ {
+	for q := lo + 1; q < hi; q++ {
 		var s float64
 		for {
 			p := v[k]
@@ -122,14 +156,11 @@ func edt1D(d []float32, start, stride, n int, f, out []float64, v []int, z []flo
 		z[k+1] = math.Inf(1)
 	}
 	k = 0
-	for q := 0; q < n; q++ {
+	for q := from; q < to; q++ {
 		for z[k+1] < float64(q) {
 			k++
 		}
 		dq := float64(q - v[k])
 		out[q] = dq*dq + f[v[k]]
-	}
-	for q := 0; q < n; q++ {
-		d[start+q*stride] = float32(math.Min(out[q], 1e20))
 	}
 }

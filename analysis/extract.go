@@ -121,7 +121,7 @@ func extractCenterline(ctx context.Context, m *mesh.Mesh, wall func() *mesh.BVH,
 	// re-made later, and the searches over the whole canal cost an eighth.
 	cg := vg.coarsen(canal)
 	farFrom := func(n int32) int32 {
-		d, _ := cg.dijkstra([]int32{n})
+		d := cg.dijkstra([]int32{n})
 		far, _ := farthest(d)
 		return far
 	}
@@ -240,7 +240,7 @@ func (cg *coarseGraph) branchWarnings(path []int32, sec []section) []string {
 			from = append(from, m)
 		}
 	}
-	fromPath, _ := cg.dijkstra(from)
+	fromPath := cg.dijkstra(from)
 	maxR := 0.0
 	for _, n := range from {
 		maxR = math.Max(maxR, cg.dist[n])

@@ -10,8 +10,9 @@ import (
 
 // buildRadiusMap casts, from every station, one ray per angle in the normal plane and keeps the
 // distance to the first wall hit. A ray that finds no wall (a hole, or the very end of the
-// canal) takes the value of the nearest station that found one.
-func (c *Canal) buildRadiusMap(workers int) {
+// canal) takes the value of the nearest station that found one. It returns whether rays
+// from inside the canal missed the wall (the surface has holes).
+func (c *Canal) buildRadiusMap(workers int) (holes bool) {
 	n, na := c.Line.Len(), c.Angles
 	c.Rho = make([]float32, n*na)
 	cs, sn := make([]float64, na), make([]float64, na)
@@ -19,7 +20,7 @@ func (c *Canal) buildRadiusMap(workers int) {
 		th := 2 * math.Pi * float64(j) / float64(na)
 		cs[j], sn[j] = math.Cos(th), math.Sin(th)
 	}
-	reach := 4 * c.Measures.Length
+	reach := 4 * c.Line.Length() // the measures' length, which may not be ready
 	ts := make([][]float64, parallel.Workers(workers, n))
 	parallel.For(workers, n, func(w, i int) {
 		if ts[w] == nil {
@@ -69,9 +70,7 @@ func (c *Canal) buildRadiusMap(workers int) {
 		}
 	}
 	// Misses inside the canal mean the wall has a hole.
-	if missing > na/4 {
-		c.Warnings = append(c.Warnings, "some rays from the centerline found no wall: the surface may have holes")
-	}
+	return missing > na/4
 }
 
 // placeVertices gives every wall vertex its own (s, theta): the nearest point of the

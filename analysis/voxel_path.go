@@ -2,6 +2,7 @@ package analysis
 
 import (
 	"math"
+	"slices"
 
 	"github.com/go-gl/mathgl/mgl64"
 
@@ -174,27 +175,26 @@ func (vg *voxelGraph) neighbours(n int32, fn func(m int32, step float64)) {
 	}
 }
 
+// searchNode is what a search keeps per node, together so that a relaxation touches one
+// place in memory: the distance so far, the predecessor (-1 for sources and unreached
+// nodes) and the node's place in the heap (-1 when not in it).
+type searchNode struct {
+	dist      float64
+	prev, pos int32
+}
+
 // nodeHeap is an indexed 4-ary heap of nodes keyed by their distance (smallest first, ties by
 // node so every search is deterministic). A node sits in it at most once: lowering its
 // distance moves it up in place, so the heap never holds stale entries. Each entry carries
 // its key, so sifting compares within the heap's own array instead of looking keys up.
 type nodeHeap struct {
 	items []heapItem
-	pos   []int32   // node -> place in items, -1 when not in the heap
-	key   []float64 // the search's distances
+	state []searchNode // the search's nodes: keys and places
 }
 
 type heapItem struct {
 	key float64
 	n   int32
-}
-
-func newNodeHeap(key []float64) *nodeHeap {
-	h := &nodeHeap{items: make([]heapItem, 0, 1024), pos: make([]int32, len(key)), key: key}
-	for i := range h.pos {
-		h.pos[i] = -1
-	}
-	return h
 }
 
 // before orders entries by key, then by node.
@@ -204,36 +204,38 @@ func before(a, b heapItem) bool {
 
 // update puts node n in the heap or moves it up after its key was lowered.
 func (h *nodeHeap) update(n int32) {
-	it := heapItem{h.key[n], n}
-	i := h.pos[n]
+	st := h.state
+	it := heapItem{st[n].dist, n}
+	i := st[n].pos
 	if i < 0 {
 		i = int32(len(h.items))
 		h.items = append(h.items, it)
 	}
-	items, pos := h.items, h.pos
+	items := h.items
 	for i > 0 {
 		p := (i - 1) / 4
 		if !before(it, items[p]) {
 			break
 		}
 		items[i] = items[p]
-		pos[items[i].n] = i
+		st[items[i].n].pos = i
 		i = p
 	}
 	items[i] = it
-	pos[n] = i
+	st[n].pos = i
 }
 
 // pop removes and returns the node of smallest key.
 func (h *nodeHeap) pop() int32 {
+	st := h.state
 	top := h.items[0].n
-	h.pos[top] = -1
+	st[top].pos = -1
 	last := h.items[len(h.items)-1]
 	h.items = h.items[:len(h.items)-1]
 	if len(h.items) == 0 {
 		return top
 	}
-	items, pos := h.items, h.pos
+	items := h.items
 	i, n := int32(0), int32(len(items))
 	for {
 		c := 4*i + 1
@@ -241,63 +243,93 @@ func (h *nodeHeap) pop() int32 {
 			break
 		}
 		best := c
-		for k := c + 1; k < min(c+4, n); k++ {
-			if before(items[k], items[best]) {
-				best = k
+		if c+3 < n {
+			// A full set of four children (most levels): the least of two pairs, unrolled.
+			g := items[c : c+4 : c+4]
+			a, b := int32(0), int32(2)
+			if before(g[1], g[0]) {
+				a = 1
+			}
+			if before(g[3], g[2]) {
+				b = 3
+			}
+			if before(g[b], g[a]) {
+				a = b
+			}
+			best = c + a
+		} else {
+			for k := c + 1; k < n; k++ {
+				if before(items[k], items[best]) {
+					best = k
+				}
 			}
 		}
 		if !before(items[best], last) {
 			break
 		}
 		items[i] = items[best]
-		pos[items[i].n] = i
+		st[items[i].n].pos = i
 		i = best
 	}
 	items[i] = last
-	pos[last.n] = i
+	st[last.n].pos = i
 	return top
 }
 
 // dijkstra returns distances from the sources over the graph, where crossing an edge costs
-// its length in mm, and the predecessor of every node (-1 for sources and unreached nodes).
-// Nodes farther than limit stay unreached (+Inf).
-func (vg *voxelGraph) dijkstra(sources []int32, limit ...float64) ([]float64, []int32) {
+// its length in mm. Nodes farther than limit stay unreached (+Inf).
+func (vg *voxelGraph) dijkstra(sources []int32, limit ...float64) []float64 {
 	bound := math.Inf(1)
 	if len(limit) > 0 {
 		bound = limit[0]
 	}
-	return vg.search(sources, nil, bound, -1)
+	st := vg.search(sources, nil, bound, -1)
+	dist := make([]float64, len(st))
+	for i := range st {
+		dist[i] = st[i].dist
+	}
+	return dist
 }
 
 // minimalPath is the path of least cost from source to target, where crossing an edge
 // between nodes p and q costs its length times (cost[p] + cost[q])/2; the search stops once
 // the target is settled.
 func (vg *voxelGraph) minimalPath(source, target int32, cost []float64) []int32 {
-	_, prev := vg.search([]int32{source}, cost, math.Inf(1), target)
-	return tracePath(prev, target)
+	// Halved once here, not per edge: (a + b)/2 and a/2 + b/2 are the same number in binary
+	// floating point (halving is exact), so the path is the same.
+	half := make([]float64, len(cost))
+	for i, c := range cost {
+		half[i] = 0.5 * c
+	}
+	st := vg.search([]int32{source}, half, math.Inf(1), target)
+	var path []int32
+	for n := target; n >= 0; n = st[n].prev {
+		path = append(path, n)
+	}
+	slices.Reverse(path)
+	return path
 }
 
-// search is Dijkstra's algorithm over the inside voxels. With cost nil an edge costs its
-// length; otherwise its length times the mean cost of its ends. It stops when target (>= 0)
-// is settled; nodes beyond bound stay unreached.
-func (vg *voxelGraph) search(sources []int32, cost []float64, bound float64, target int32) ([]float64, []int32) {
+// search is Dijkstra's algorithm over the inside voxels. With halfCost nil an edge costs its
+// length; otherwise its length times the sum of its ends' half costs. It stops when target
+// (>= 0) is settled; nodes beyond bound stay unreached. Each node's distance (+Inf when
+// unreached) and predecessor are in the result.
+func (vg *voxelGraph) search(sources []int32, halfCost []float64, bound float64, target int32) []searchNode {
 	n := len(vg.cells)
-	dist := make([]float64, n)
-	prev := make([]int32, n)
-	for i := range dist {
-		dist[i] = math.Inf(1)
-		prev[i] = -1
+	st := make([]searchNode, n)
+	for i := range st {
+		st[i] = searchNode{dist: math.Inf(1), prev: -1, pos: -1}
 	}
-	h := newNodeHeap(dist)
+	h := &nodeHeap{items: make([]heapItem, 0, 1024), state: st}
 	for _, s := range sources {
-		dist[s] = 0
+		st[s].dist = 0
 		h.update(s)
 	}
 	g := vg.g
 	node, cells, nbr := vg.node, vg.cells, &vg.nbr
 	for len(h.items) > 0 {
 		p := h.pop()
-		d := dist[p]
+		d := st[p].dist
 		if p == target {
 			break
 		}
@@ -307,6 +339,10 @@ func (vg *voxelGraph) search(sources []int32, cost []float64, bound float64, tar
 		var i, j, k int
 		if !vg.interior {
 			i, j, k = vg.ijk(p)
+		}
+		hp := 0.0
+		if halfCost != nil {
+			hp = halfCost[p]
 		}
 		for q := range nbr {
 			if !vg.interior {
@@ -320,17 +356,17 @@ func (vg *voxelGraph) search(sources []int32, cost []float64, bound float64, tar
 				continue
 			}
 			w := nbr[q].step
-			if cost != nil {
-				w *= 0.5 * (cost[p] + cost[m])
+			if halfCost != nil {
+				w *= hp + halfCost[m]
 			}
-			if nd := d + w; nd < dist[m] && nd <= bound {
-				dist[m] = nd
-				prev[m] = p
+			if nd := d + w; nd < st[m].dist && nd <= bound {
+				st[m].dist = nd
+				st[m].prev = p
 				h.update(m)
 			}
 		}
 	}
-	return dist, prev
+	return st
 }
 
 // farthest returns the reached node with the largest finite distance (lowest index on ties).
@@ -342,16 +378,4 @@ func farthest(dist []float64) (int32, float64) {
 		}
 	}
 	return best, bd
-}
-
-// tracePath follows predecessors from n back to a source and returns the nodes source-first.
-func tracePath(prev []int32, n int32) []int32 {
-	var path []int32
-	for ; n >= 0; n = prev[n] {
-		path = append(path, n)
-	}
-	for i, j := 0, len(path)-1; i < j; i, j = i+1, j-1 {
-		path[i], path[j] = path[j], path[i]
-	}
-	return path
 }
