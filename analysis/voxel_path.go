@@ -74,35 +74,103 @@ func graphOf(g *mesh.Grid) *voxelGraph {
 	return vg
 }
 
-// component marks the nodes joined to seed (a flood fill: no distances, so much cheaper
-// than a search) and counts them.
+// component marks the nodes joined to seed and counts them. Nodes are numbered in grid order,
+// so each run of inside voxels along x is a range of node numbers; two runs in neighbouring
+// x lines (one step in y, z or both) touch, 26-connected, when their x ranges come within one
+// voxel, and runs in one line never do. Joining the runs that touch (union-find, each pair
+// of neighbouring lines swept once) gives the same set as a flood fill over the voxels, for
+// a fraction of the work: a canal's run holds a dozen voxels or more.
 func (vg *voxelGraph) component(seed int32) ([]bool, int) {
-	in := make([]bool, len(vg.cells))
-	queue := make([]int32, 1, len(vg.cells))
-	queue[0] = seed
-	in[seed] = true
-	node, cells, nbr := vg.node, vg.cells, &vg.nbr
-	for q := 0; q < len(queue); q++ {
-		p := queue[q]
-		if !vg.interior {
-			vg.neighbours(p, func(m int32, _ float64) {
-				if !in[m] {
-					in[m] = true
-					queue = append(queue, m)
-				}
-			})
+	g, cells := vg.g, vg.cells
+	// Runs: first node, x range, line; lineRuns[l] is the first run of line l (y + NY z).
+	type run struct {
+		first  int32
+		i0, i1 int32
+	}
+	runs := make([]run, 0, len(cells)/8+1)
+	lines := g.NY * g.NZ
+	lineRuns := make([]int32, lines+1)
+	for n := 0; n < len(cells); n++ {
+		c := int(cells[n])
+		l, i := c/g.NX, int32(c%g.NX)
+		if n > 0 && int(cells[n-1]) == c-1 && c%g.NX != 0 {
+			runs[len(runs)-1].i1 = i
 			continue
 		}
-		// Inlined as in search: no voxel inside touches the border, so no bounds to check.
-		c := cells[p]
-		for k := range nbr {
-			if m := node[c+nbr[k].off]; m >= 0 && !in[m] {
-				in[m] = true
-				queue = append(queue, m)
+		runs = append(runs, run{first: int32(n), i0: i, i1: i})
+		lineRuns[l+1]++
+	}
+	for l := 0; l < lines; l++ {
+		lineRuns[l+1] += lineRuns[l]
+	}
+	parent := make([]int32, len(runs))
+	for r := range parent {
+		parent[r] = int32(r)
+	}
+	find := func(r int32) int32 {
+		for parent[r] != r {
+			parent[r] = parent[parent[r]]
+			r = parent[r]
+		}
+		return r
+	}
+	// Each line with the four neighbouring lines before it (half of its eight), so every
+	// pair of neighbouring lines is swept once, both in order of x.
+	for l := 0; l < lines; l++ {
+		a0, a1 := lineRuns[l], lineRuns[l+1]
+		if a0 == a1 {
+			continue
+		}
+		j, k := l%g.NY, l/g.NY
+		for _, d := range [4][2]int{{-1, 0}, {-1, -1}, {0, -1}, {1, -1}} {
+			jj, kk := j+d[0], k+d[1]
+			if jj < 0 || jj >= g.NY || kk < 0 {
+				continue
+			}
+			o := jj + g.NY*kk
+			b, b1 := lineRuns[o], lineRuns[o+1]
+			for a := a0; a < a1 && b < b1; {
+				ra, rb := runs[a], runs[b]
+				if ra.i0 <= rb.i1+1 && rb.i0 <= ra.i1+1 {
+					if x, y := find(a), find(b); x != y {
+						parent[max(x, y)] = min(x, y)
+					}
+				}
+				// The run that ends first can touch nothing further along the other line.
+				if ra.i1 < rb.i1 {
+					a++
+				} else {
+					b++
+				}
 			}
 		}
 	}
-	return in, len(queue)
+	// The seed's run, then every run with the same root.
+	sr := int32(0)
+	for r := range runs {
+		if runs[r].first <= seed {
+			sr = int32(r)
+		} else {
+			break
+		}
+	}
+	root := find(sr)
+	in := make([]bool, len(cells))
+	count := 0
+	for r := range runs {
+		if find(int32(r)) != root {
+			continue
+		}
+		last := int32(len(cells))
+		if r+1 < len(runs) {
+			last = runs[r+1].first
+		}
+		for n := runs[r].first; n < last; n++ {
+			in[n] = true
+		}
+		count += int(last - runs[r].first)
+	}
+	return in, count
 }
 
 // coarseGraph is the graph of a grid coarsened two times on each axis, for the searches that
