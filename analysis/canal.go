@@ -133,8 +133,8 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	if len(pts) < 4 {
 		return nil, fmt.Errorf("the canal is shorter than %.2f mm", 3*StationSpacing)
 	}
-	c.Line = NewCenterline(pts, StationSpacing, curvatureWindow(info.noise), info.measuredFrom, info.measuredTo,
-		endZone*info.endRadius[0], endZone*info.endRadius[1])
+	c.Line = newCenterline(pts, StationSpacing, curvatureWindow(info.noise), info.measuredFrom, info.measuredTo,
+		endZone*info.endRadius[0], endZone*info.endRadius[1], opt.Workers)
 	// The measures read only the line, as the radius map and the vertices' places do: with a
 	// core to spare they are taken while those are made (most of the measures' work is one
 	// search at a time).

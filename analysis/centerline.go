@@ -5,6 +5,8 @@ import (
 	"slices"
 
 	"github.com/go-gl/mathgl/mgl64"
+
+	"tapersweep/mesh/parallel"
 )
 
 // Station spacing along every centerline, mm.
@@ -111,9 +113,14 @@ type scaleFit struct {
 // the trusted stretch. The end zones (zoneStart mm from the orifice, zoneEnd mm from the
 // apical end) are trusted no more and take no part in the measures.
 func NewCenterline(pts []mgl64.Vec3, ds, window, trustFrom, trustTo, zoneStart, zoneEnd float64) *Centerline {
+	return newCenterline(pts, ds, window, trustFrom, trustTo, zoneStart, zoneEnd, 0)
+}
+
+// newCenterline is NewCenterline fitting its half-widths on workers goroutines (0: all cores).
+func newCenterline(pts []mgl64.Vec3, ds, window, trustFrom, trustTo, zoneStart, zoneEnd float64, workers int) *Centerline {
 	c := &Centerline{Points: pts, S: arcLengths(pts), DS: ds, measured: [2]float64{trustFrom, trustTo}}
 	c.setZone(zoneStart, zoneEnd)
-	c.fits = c.scaleFits(window)
+	c.fits = c.scaleFits(window, workers)
 	c.scale = steadiestScale(c.fits)
 	w := c.fits[c.scale].window
 	c.zone[0], c.zone[1] = whole(c.zone[0], c.zone[1], max(1, int(math.Round(w/ds))), len(pts))
@@ -180,8 +187,9 @@ func (c *Centerline) curvatureBand() (lo, hi float64) {
 	return math.Max(lo, 0), hi
 }
 
-// scaleFits fits the line at every admissible half-width.
-func (c *Centerline) scaleFits(window float64) []scaleFit {
+// scaleFits fits the line at every admissible half-width, each on its own (workers
+// goroutines, 0: all cores).
+func (c *Centerline) scaleFits(window float64, workers int) []scaleFit {
 	n := len(c.Points)
 	// The wander: the line less its wide quadratic fit.
 	ref := smoothQuadratic(c.Points, max(1, int(math.Round(noiseReference/c.DS))))
@@ -190,12 +198,16 @@ func (c *Centerline) scaleFits(window float64) []scaleFit {
 		wander[i] = c.Points[i].Sub(ref[i])
 	}
 	lo, hi := c.zone[0], c.zone[1]
-	var out []scaleFit
-	sq := make([]float64, 0, hi-lo+1)
+	var widths []float64
 	for _, w := range curvatureScales {
-		if w < window && w != curvatureScales[len(curvatureScales)-1] {
-			continue
+		if w >= window || w == curvatureScales[len(curvatureScales)-1] {
+			widths = append(widths, w)
 		}
+	}
+	out := make([]scaleFit, len(widths))
+	parallel.For(workers, len(widths), func(_, f int) {
+		w := widths[f]
+		sq := make([]float64, 0, hi-lo+1)
 		m := max(1, int(math.Round(w/c.DS)))
 		d1, d2 := derivatives(c.Points, c.DS, m)
 		t, k := curvatureOf(d1, d2)
@@ -235,8 +247,8 @@ func (c *Centerline) scaleFits(window float64) []scaleFit {
 			sum += k[i]
 		}
 		a8, b8 := stretch(0.8)
-		out = append(out, scaleFit{window: w, noise: noise, peak: sum / float64(b-a+1), width: c.S[b8] - c.S[a8]})
-	}
+		out[f] = scaleFit{window: w, noise: noise, peak: sum / float64(b-a+1), width: c.S[b8] - c.S[a8]}
+	})
 	return out
 }
 

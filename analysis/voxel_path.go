@@ -402,8 +402,24 @@ func (vg *voxelGraph) search(sources []int32, halfCost []float64, bound float64,
 			break
 		}
 		// The 26 neighbours, inlined: this loop is most of the time a canal takes. Off the
-		// grid's border (the usual case: grids are padded) no bounds are checked.
+		// grid's border (the usual case: grids are padded) no bounds are checked, and the
+		// weighted search of that case has a loop of its own with nothing else to decide.
 		c := cells[p]
+		if vg.interior && halfCost != nil {
+			hp := halfCost[p]
+			for q := range nbr {
+				m := node[c+nbr[q].off]
+				if m < 0 {
+					continue
+				}
+				if nd := d + nbr[q].step*(hp+halfCost[m]); nd < st[m].dist && nd <= bound {
+					st[m].dist = nd
+					st[m].prev = p
+					h.update(m)
+				}
+			}
+			continue
+		}
 		var i, j, k int
 		if !vg.interior {
 			i, j, k = vg.ijk(p)
