@@ -408,7 +408,11 @@ func recentre(pts []mgl64.Vec3, bvh *mesh.BVH, ds float64, workers int) ([]mgl64
 		a := 2 * math.Pi * float64(j) / recentreRays
 		cs[j], sn[j] = math.Cos(a), math.Sin(a)
 	}
-	parallel.For(workers, len(pts), func(_, i int) {
+	casters := make([]mesh.FanCaster, parallel.Workers(workers, len(pts)))
+	for w := range casters {
+		casters[w].BVH = bvh
+	}
+	parallel.For(workers, len(pts), func(w, i int) {
 		t := d1[i].Normalize()
 		if t.Len() == 0 {
 			return
@@ -416,7 +420,7 @@ func recentre(pts []mgl64.Vec3, bvh *mesh.BVH, ds float64, workers int) ([]mgl64
 		u := anyPerpendicular(t)
 		v := t.Cross(u)
 		var xs, ys, ts, sorted [recentreRays]float64
-		bvh.RayFan(pts[i], u, v, cs[:], sn[:], 50, ts[:])
+		casters[w].Cast(pts[i], u, v, cs[:], sn[:], 50, ts[:])
 		for _, d := range ts {
 			if d < 0 {
 				return

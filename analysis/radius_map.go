@@ -5,6 +5,7 @@ import (
 
 	"github.com/go-gl/mathgl/mgl64"
 
+	"tapersweep/mesh"
 	"tapersweep/mesh/parallel"
 )
 
@@ -22,11 +23,13 @@ func (c *Canal) buildRadiusMap(workers int) (holes bool) {
 	}
 	reach := 4 * c.Line.Length() // the measures' length, which may not be ready
 	ts := make([][]float64, parallel.Workers(workers, n))
+	casters := make([]mesh.FanCaster, len(ts))
 	parallel.For(workers, n, func(w, i int) {
 		if ts[w] == nil {
 			ts[w] = make([]float64, na)
+			casters[w].BVH = c.Wall
 		}
-		c.Wall.RayFan(c.Line.Points[i], c.Line.N1[i], c.Line.N2[i], cs, sn, reach, ts[w])
+		casters[w].Cast(c.Line.Points[i], c.Line.N1[i], c.Line.N2[i], cs, sn, reach, ts[w])
 		for j, t := range ts[w] {
 			c.Rho[i*na+j] = float32(t) // -1 where no wall was found
 		}

@@ -43,6 +43,7 @@ func TestRayFanMatchesRay(t *testing.T) {
 		"canal-like":     func() ([]station, *Mesh) { return arc(arcFrame(12, 1.4), shapeCanalLike(24, 60)) },
 		"canal-like big": func() ([]station, *Mesh) { return arc(arcFrame(12, 1.4), shapeCanalLike(64, 160)) },
 		"sphere":         func() ([]station, *Mesh) { return nil, shapeUVSphere(2, 48, 24) },
+		"cylinder 700":   func() ([]station, *Mesh) { return cylinder(0.5, 4, 700) },
 		"soup":           func() ([]station, *Mesh) { return nil, soup },
 	}
 	for name, build := range cases {
@@ -63,6 +64,8 @@ func TestRayFanMatchesRay(t *testing.T) {
 			stations = append(stations, station{o, u, v})
 		}
 		hits, rays := 0, 0
+		fc := &FanCaster{BVH: b}
+		rayByRay := 0
 		for i, st := range stations {
 			for _, n := range []int{128, 96, 7} {
 				cs, sn := make([]float64, n), make([]float64, n)
@@ -76,6 +79,17 @@ func TestRayFanMatchesRay(t *testing.T) {
 				}
 				got := make([]float64, n)
 				b.RayFan(st.o, st.u, st.v, cs, sn, tMax, got)
+				// The caster, fan or ray by ray as it judges, gives the same.
+				if fc.skip > 0 {
+					rayByRay++
+				}
+				cast := make([]float64, n)
+				fc.Cast(st.o, st.u, st.v, cs, sn, tMax, cast)
+				for j := range n {
+					if math.Float64bits(cast[j]) != math.Float64bits(got[j]) {
+						t.Fatalf("%s station %d, %d rays, ray %d: caster %v, fan %v", name, i, n, j, cast[j], got[j])
+					}
+				}
 				for j := range n {
 					want := -1.0
 					if h, ok := b.Ray(st.o, st.u.Mul(cs[j]).Add(st.v.Mul(sn[j])), tMax); ok {
@@ -88,6 +102,9 @@ func TestRayFanMatchesRay(t *testing.T) {
 					}
 				}
 			}
+		}
+		if name == "cylinder 700" && rayByRay == 0 {
+			t.Errorf("%s: the caster never went ray by ray on a surface of 1400 facets around", name)
 		}
 		if hits < rays/5 {
 			t.Errorf("%s: only %d of %d rays hit, the check is too weak", name, hits, rays)
