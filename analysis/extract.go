@@ -57,15 +57,7 @@ func (e extension) add(pts []mgl64.Vec3, tail extension) []mgl64.Vec3 {
 // wall gives the mesh's BVH, waiting until it is built (it is made meanwhile).
 func extractCenterline(ctx context.Context, m *mesh.Mesh, wall func() *mesh.BVH, opt ExtractOptions, workers int) ([]mgl64.Vec3, extraction, error) {
 	var info extraction
-	// Two sums over every triangle, each in its own order, side by side when a core is spare.
-	var area, vol float64
-	parallel.For(workers, 2, func(_, i int) {
-		if i == 0 {
-			area = mesh.Area(m)
-		} else {
-			vol = mesh.Volume(m)
-		}
-	})
+	area, vol := mesh.AreaVolume(m)
 	if area <= 0 || vol <= 0 {
 		return nil, info, errors.New("the surface encloses no volume (is it closed, with normals facing out?)")
 	}

@@ -40,6 +40,14 @@ func TestAreaVolumeAnalytic(t *testing.T) {
 	within(t, "torus section volume", Volume(tor), math.Pi*rt*rt*big*alpha, 0.005)
 	within(t, "torus section area", Area(tor), 2*math.Pi*rt*big*alpha+2*math.Pi*rt*rt, 0.005)
 
+	// The one-pass pair is the two sums, to the last bit (on a mesh far from the origin too).
+	for name, m := range map[string]*Mesh{"cylinder": cyl, "frustum": fr, "torus section": tor,
+		"moved torus section": shapeMove(tor, mgl64.Vec3{40, -25, 13})} {
+		if a, v := AreaVolume(m); a != Area(m) || v != Volume(m) {
+			t.Errorf("%s: AreaVolume gives %v, %v; Area and Volume %v, %v", name, a, v, Area(m), Volume(m))
+		}
+	}
+
 	// Coarse tessellation must fall short: the check is not blind.
 	coarse := shapeCylinder(r, h, 8, 2)
 	if v := Volume(coarse); v > 0.95*math.Pi*r*r*h {
