@@ -79,7 +79,7 @@ func (b *BVH) rayFan(orig, u, v mgl64.Vec3, cos, sin []float64, tMax float64, t 
 			t[j] = -1
 			continue
 		}
-		sec := f.sector(math.Atan2(sin[j], cos[j]))
+		sec := f.sector(pseudoAngle(cos[j], sin[j]))
 		best, leaf := tMax, int32(-1)
 		for _, c := range f.bins[f.start[sec]:f.start[sec+1]] {
 			if hit, _, _, _, ok := rayTri(&b.tris[c.tri], orig, dir); ok && hit > 0 && hit < best {
@@ -118,16 +118,34 @@ type fanScratch struct {
 
 var fanPool = sync.Pool{New: func() any { return &fanScratch{} }}
 
-// fanAngleMargin widens each triangle's angles (radians): rounding moves them by far less.
+// Angles are pseudo-angles (pseudoAngle): a quarter turn is 1, half a turn 2.
+
+// fanAngleMargin widens each triangle's angles: rounding moves them by far less.
 const fanAngleMargin = 1e-7
 
 // fanWholeSpan: a triangle whose projection comes this close to covering half the turn around
 // orig (orig lies on or next to it, seen along the normal) goes into every sector.
-const fanWholeSpan = math.Pi - 1e-3
+const fanWholeSpan = 2 - 1e-3
 
-// sector is the sector of an angle in [-pi, pi].
+// pseudoAngle is a cheap stand-in for the angle of (x, y), in [0, 4): it grows with the angle
+// (by 1/2 to 1 per radian, so margins stay margins), is 1 at each quarter turn, and adds 2 for
+// half a turn (at (-x, -y)), so spans of less than half a turn stay under 2. Not (0, 0).
+func pseudoAngle(x, y float64) float64 {
+	switch {
+	case y >= 0 && x >= 0:
+		return y / (x + y)
+	case y >= 0:
+		return 1 - x/(y-x)
+	case x < 0:
+		return 2 - y/(-x-y)
+	default:
+		return 3 + x/(x-y)
+	}
+}
+
+// sector is the sector of a pseudo-angle in [0, 4).
 func (f *fanScratch) sector(a float64) int {
-	k := int(math.Floor((a + math.Pi) * (float64(f.nSec) / (2 * math.Pi))))
+	k := int(math.Floor(a * (float64(f.nSec) / 4)))
 	return min(max(k, 0), f.nSec-1)
 }
 
@@ -224,14 +242,14 @@ func (f *fanScratch) file(tr *bvhTri, k, leaf int32, orig, u, v, w mgl64.Vec3, p
 	}
 	// Outside: the triangle covers less than half a turn; its angles relative to the first
 	// corner's give the span.
-	a0 := math.Atan2(y[0], x[0])
+	a0 := pseudoAngle(x[0], y[0])
 	lo, hi := 0.0, 0.0
 	for c := 1; c < 3; c++ {
-		d := math.Atan2(y[c], x[c]) - a0
-		if d > math.Pi {
-			d -= 2 * math.Pi
-		} else if d < -math.Pi {
-			d += 2 * math.Pi
+		d := pseudoAngle(x[c], y[c]) - a0
+		if d > 2 {
+			d -= 4
+		} else if d < -2 {
+			d += 4
 		}
 		lo, hi = min(lo, d), max(hi, d)
 	}
@@ -239,8 +257,8 @@ func (f *fanScratch) file(tr *bvhTri, k, leaf int32, orig, u, v, w mgl64.Vec3, p
 		whole()
 		return
 	}
-	// Sectors as sector counts them, without the clamp: the span may run past -pi or pi.
-	at := func(a float64) int { return int(math.Floor((a + math.Pi) * (float64(f.nSec) / (2 * math.Pi)))) }
+	// Sectors as sector counts them, without the clamp: the span may run past 0 or 4.
+	at := func(a float64) int { return int(math.Floor(a * (float64(f.nSec) / 4))) }
 	from, to := at(a0+lo-fanAngleMargin), at(a0+hi+fanAngleMargin)
 	if to-from+1 >= f.nSec {
 		whole()
