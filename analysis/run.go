@@ -151,7 +151,7 @@ func (res *Result) measureWall() {
 		res.Warnings = append(res.Warnings, "as scanned: "+thinWallText(res.ScannedWall))
 	}
 	for _, sr := range res.Steps {
-		w := c.wallThickness(sr.Prepared, from, limit, math.Inf(1), res.Options.Workers)
+		w := c.wallThickness(sr.Prepared, from, limit, wallFigures, res.Options.Workers)
 		sr.Metrics.Wall = c.wallOf(w, from, limit)
 		from = w
 	}
@@ -173,7 +173,7 @@ func (res *Result) WallMap(k int) []float32 {
 	res.wallMapsOnce.Do(func() {
 		from := scanned
 		for _, sr := range res.Steps {
-			w := c.wallThickness(sr.Prepared, from, res.Options.MinWallMM, wallMapTolerance, res.Options.Workers)
+			w := c.wallThickness(sr.Prepared, from, res.Options.MinWallMM, wallPictures, res.Options.Workers)
 			res.wallMaps = append(res.wallMaps, w.th)
 			from = w
 		}

@@ -23,6 +23,8 @@ type Root struct {
 	Source string
 	// normals are the triangles' outward unit normals (the sign of a distance: inside or out).
 	normals []mgl64.Vec3
+	// near is Surface laid out for the closest-point queries of the wall.
+	near *mesh.NearTree
 }
 
 // newRoot prepares a root surface for distance queries; it is turned to face outward.
@@ -30,6 +32,7 @@ func newRoot(m *mesh.Mesh, source string) *Root {
 	mesh.OrientConsistently(m)
 	r := &Root{Mesh: m, Surface: mesh.NewBVH(m), Source: source, normals: make([]mgl64.Vec3, len(m.Triangles))}
 	r.Surface.AddSlabs()
+	r.near = r.Surface.NewNearTree()
 	for t := range m.Triangles {
 		r.normals[t] = mesh.FaceNormal(m, t)
 	}
@@ -61,7 +64,7 @@ func (r *Root) signedDistance(p mgl64.Vec3, seed nearPoint) (float64, nearPoint)
 	if seed.tri >= 0 {
 		limit = p.Sub(seed.q).Len()*(1+1e-9) + 1e-12
 	}
-	q, tri, d, ok := r.Surface.ClosestWithin(p, limit)
+	q, tri, d, ok := r.near.ClosestWithin(p, limit)
 	if !ok {
 		if seed.tri < 0 {
 			return math.Inf(1), seed
@@ -195,7 +198,7 @@ func (c *Canal) attachRoot(m *mesh.Mesh, source string, workers int) error {
 		return &RootError{Source: source, Msg: fmt.Sprintf("the surface is not closed (%d edges border holes), so its inside is not known", rep.BoundaryEdges)}
 	}
 	c.Root = newRoot(m, source)
-	c.scannedWall = c.wallThickness(c.Rho, nil, math.NaN(), wallMapTolerance, workers)
+	c.scannedWall = c.wallThickness(c.Rho, nil, math.NaN(), wallScanned, workers)
 	c.wallAtLimit = &wallAtLimit{}
 	c.Thickness = c.scannedWall.th
 	outside := 0

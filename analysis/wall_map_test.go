@@ -61,8 +61,8 @@ func TestOutsideTwoBalls(t *testing.T) {
 	}
 }
 
-// wallFigures is the wall of every step of a run as the outputs state it, as JSON lines.
-func wallFigures(res *Result) []string {
+// runWallFigures is the wall of every step of a run as the outputs state it, as JSON lines.
+func runWallFigures(res *Result) []string {
 	js, _ := json.Marshal(res.ScannedWall)
 	out := []string{"as scanned " + string(js)}
 	for _, sr := range res.Steps {
@@ -116,7 +116,7 @@ func checkWallMaps(t *testing.T, name string, c *Canal, seq *models.Sequence, li
 			cmp(fmt.Sprintf("step %d", sr.Number), res.WallMap(sr.Number), exact[sr.Number], true)
 			want.Steps = append(want.Steps, &StepResult{Number: sr.Number, Metrics: StepMetrics{Wall: c.wallOf(exact[sr.Number], exact[sr.Number-1], limit)}})
 		}
-		got, exp := wallFigures(res), wallFigures(want)
+		got, exp := runWallFigures(res), runWallFigures(want)
 		for i := range exp {
 			if got[i] != exp[i] {
 				t.Errorf("%s, limit %g: %s; measured exactly: %s", name, limit, got[i], exp[i])
