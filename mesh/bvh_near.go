@@ -46,42 +46,23 @@ func (b *BVH) NewNearTree() *NearTree {
 		if b.slabs == nil || b.slabs[i].n == (mgl64.Vec3{}) {
 			continue
 		}
-		// The planes again along the rounded normal, over the node's own triangles.
-		n := b.slabs[i].n
-		n32 := [3]float32{float32(n[0]), float32(n[1]), float32(n[2])}
+		// The planes along the rounded normal: n32.v differs from n.v by at most
+		// sum |n32_k - n_k| max |v_k| over the node's box.
+		sl := &b.slabs[i]
+		n32 := [3]float32{float32(sl.n[0]), float32(sl.n[1]), float32(sl.n[2])}
 		nr := mgl64.Vec3{float64(n32[0]), float64(n32[1]), float64(n32[2])}
 		if math.Abs(nr.Len()-1) > 1e-6 {
 			continue
 		}
-		lo, hi := math.Inf(1), math.Inf(-1)
-		b.eachTriangle(int32(i), func(tr *bvhTri) {
-			a := nr.Dot(tr.a)
-			for _, d := range [3]float64{a, nr.Dot(tr.a.Add(tr.e1)), nr.Dot(tr.a.Add(tr.e2))} {
-				lo, hi = min(lo, d), max(hi, d)
-			}
-		})
+		e := 0.0
+		for k := 0; k < 3; k++ {
+			e += math.Abs(nr[k]-sl.n[k]) * max(math.Abs(nd.lo[k]), math.Abs(nd.hi[k]))
+		}
+		lo, hi := sl.lo-e, sl.hi+e
 		pad := 1e-12*(math.Abs(lo)+math.Abs(hi)) + 1e-12
 		out.n, out.slo, out.shi = n32, down32(lo-pad), up32(hi+pad)
 	}
 	return t
-}
-
-// eachTriangle calls fn for every triangle under node i.
-func (b *BVH) eachTriangle(i int32, fn func(*bvhTri)) {
-	var stack [bvhStackDepth]int32
-	stack[0] = i
-	for sp := 1; sp > 0; {
-		sp--
-		nd := &b.nodes[stack[sp]]
-		if nd.count > 0 {
-			for j := nd.first; j < nd.first+nd.count; j++ {
-				fn(&b.tris[j])
-			}
-			continue
-		}
-		stack[sp], stack[sp+1] = nd.first, nd.first+1
-		sp += 2
-	}
 }
 
 func down32(x float64) float32 {
