@@ -354,7 +354,8 @@ func (c *Canal) scannedWallAt(limit float64, workers int) *wallMap {
 	}
 	cache.mu.Lock()
 	defer cache.mu.Unlock()
-	if cache.w == nil || cache.limit != limit {
+	// (a copy of the canal shares the cache: the map must be of this radius map)
+	if cache.w == nil || cache.limit != limit || len(cache.w.rho) != len(c.Rho) || len(c.Rho) > 0 && &cache.w.rho[0] != &c.Rho[0] {
 		cache.w, cache.limit = c.wallThickness(c.Rho, c.scannedWall, limit, wallScanned, workers), limit
 	}
 	return cache.w
