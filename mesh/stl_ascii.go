@@ -291,7 +291,7 @@ func (rd *stlReader) notes() []string {
 // the extent of the central 99 % of the corners beyond it, per axis, estimated from an even
 // sample so it costs one pass.
 func (rd *stlReader) checkOutliers() error {
-	n := len(rd.corners)
+	n := rd.cornerCount()
 	if n < 64 {
 		return nil
 	}
@@ -301,7 +301,7 @@ func (rd *stlReader) checkOutliers() error {
 	for a := range 3 {
 		sample = sample[:0]
 		for i := 0; i < n; i += step {
-			sample = append(sample, rd.corners[i][a])
+			sample = append(sample, rd.corner(i)[a])
 		}
 		slices.Sort(sample)
 		k := len(sample) / 200
@@ -317,7 +317,8 @@ func (rd *stlReader) checkOutliers() error {
 		return nil // every corner is inside: no need to look at each
 	}
 	first, count := -1, 0
-	for i, c := range rd.corners {
+	for i := range n {
+		c := rd.corner(i)
 		if c[0] < minV[0] || c[0] > maxV[0] || c[1] < minV[1] || c[1] > maxV[1] || c[2] < minV[2] || c[2] > maxV[2] {
 			if first < 0 {
 				first = i
@@ -328,7 +329,7 @@ func (rd *stlReader) checkOutliers() error {
 	if first < 0 {
 		return nil
 	}
-	c := rd.corners[first]
+	c := rd.corner(first)
 	place := rd.where(first / 3)
 	if rd.binary {
 		place = fmt.Sprintf("triangle %d, corner %d (byte %d)", first/3+1, first%3+1,

@@ -39,29 +39,39 @@ func weld(corners []mgl64.Vec3, tol, relTol float64, workers int) *Mesh {
 
 // weldFirst is weld once first (see firstOccurrences) is known.
 func weldFirst(corners []mgl64.Vec3, first []int32, tol, relTol float64, workers int) *Mesh {
-	m := &Mesh{Triangles: make([][3]int32, len(corners)/3)}
-	distinct := make([]int32, 0, len(corners)/5)
+	pos := make([]mgl64.Vec3, 0, len(corners)/5)
 	for i, f := range first {
 		if int(f) == i {
-			distinct = append(distinct, int32(i))
+			pos = append(pos, corners[i])
 		}
 	}
-	w := newWelder(corners, distinct, tol, relTol)
-	alone := w.alone(corners, distinct, workers)
-	w.reserve(len(distinct), len(distinct)-countTrue(alone))
+	return weldPositions(first, pos, tol, relTol, workers)
+}
+
+// weldPositions is the tolerance weld once the identical corners are known: first as
+// firstOccurrences gives it, pos the positions of the corners that are their own first, in
+// corner order (only these are read, about a sixth of the corners).
+func weldPositions(first []int32, pos []mgl64.Vec3, tol, relTol float64, workers int) *Mesh {
+	m := &Mesh{Triangles: make([][3]int32, len(first)/3)}
+	if len(m.Triangles) == 0 {
+		return m
+	}
+	w := newWelder(pos, tol, relTol)
+	alone := w.alone(pos, workers)
+	w.reserve(len(pos), len(pos)-countTrue(alone))
 	// out[i] is corner i's vertex; first[i] <= i, so a repeat finds its vertex already set
 	// (through its stand-in, whose own vertex was set from its first corner).
 	out := unsafeFlatten(m.Triangles)
 	d := 0
-	for i, f := range first {
+	for i, f := range first[:len(out)] {
 		if int(f) != i {
 			out[i] = out[f]
 			continue
 		}
 		if alone[d] {
-			out[i] = w.add(corners[i])
+			out[i] = w.add(pos[d])
 		} else {
-			out[i] = w.lookup(corners[i])
+			out[i] = w.lookup(pos[d])
 		}
 		d++
 	}
@@ -87,8 +97,8 @@ func countTrue(b []bool) int {
 // the positions left (about a tenth) go through the hash in the same order as before, so
 // the mesh is the same. Cells are compared through their 64-bit hash: two cells that share
 // one only send their positions through the hash.
-func (w *welder) alone(corners []mgl64.Vec3, distinct []int32, workers int) []bool {
-	n := len(distinct)
+func (w *welder) alone(pos []mgl64.Vec3, workers int) []bool {
+	n := len(pos)
 	alone := make([]bool, n)
 	if w.exact {
 		// Distinct positions are never identical, and only identical ones merge.
@@ -102,7 +112,7 @@ func (w *welder) alone(corners []mgl64.Vec3, distinct []int32, workers int) []bo
 	const stretch = 1 << 14
 	parallel.For(workers, (n+stretch-1)/stretch, func(_, sj int) {
 		for j := sj * stretch; j < min(n, (sj+1)*stretch); j++ {
-			p := corners[distinct[j]]
+			p := pos[j]
 			if !finiteVec(p) {
 				hs[j] = 0 // never merged: alone whatever its hash meets
 				alone[j] = true
@@ -164,7 +174,7 @@ func (w *welder) alone(corners []mgl64.Vec3, distinct []int32, workers int) []bo
 		}
 		mask := uint64(size - 1)
 		for _, j := range blk {
-			if !finiteVec(corners[distinct[j]]) {
+			if !finiteVec(pos[j]) {
 				continue
 			}
 			h := hs[j]
@@ -509,14 +519,14 @@ const weldCellTols = 64
 // weldMaxCell keeps cell indices far inside int64 whatever the coordinates.
 const weldMaxCell = 1 << 40
 
-// newWelder sets the tolerance and grid; distinct are the corners that stand for every
-// position (the largest coordinate is theirs). Call reserve before adding vertices.
-func newWelder(corners []mgl64.Vec3, distinct []int32, tol, relTol float64) *welder {
+// newWelder sets the tolerance and grid; pos holds every distinct position (the largest
+// coordinate is theirs). Call reserve before adding vertices.
+func newWelder(pos []mgl64.Vec3, tol, relTol float64) *welder {
 	w := &welder{}
 	maxAbs := 0.0
 	if tol > 0 || relTol > 0 {
-		for _, ci := range distinct {
-			c := &corners[ci]
+		for ci := range pos {
+			c := &pos[ci]
 			for k := 0; k < 3; k++ {
 				if a := math.Abs(c[k]); a > maxAbs && a <= math.MaxFloat64 {
 					maxAbs = a
