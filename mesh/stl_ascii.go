@@ -296,13 +296,18 @@ func (rd *stlReader) checkOutliers() error {
 		return nil
 	}
 	step := max(1, n/30000)
-	sample := make([]float64, 0, n/step+1)
-	var lo, hi mgl64.Vec3
-	for a := range 3 {
-		sample = sample[:0]
-		for i := 0; i < n; i += step {
-			sample = append(sample, rd.corner(i)[a])
+	var samples [3][]float64
+	for a := range samples {
+		samples[a] = make([]float64, 0, n/step+1)
+	}
+	for i := 0; i < n; i += step {
+		c := rd.corner(i)
+		for a := range 3 {
+			samples[a] = append(samples[a], c[a])
 		}
+	}
+	var lo, hi mgl64.Vec3
+	for a, sample := range samples {
 		slices.Sort(sample)
 		k := len(sample) / 200
 		lo[a], hi[a] = sample[k], sample[len(sample)-1-k]

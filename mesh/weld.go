@@ -89,104 +89,109 @@ func countTrue(b []bool) int {
 	return n
 }
 
-// alone tells, for each distinct position (ascending corner indices), whether no other
-// distinct position can lie within the tolerance of it: it is the only one in its grid cell
-// and twice its tolerance box stays inside that cell (the margin covers rounding). Such a
-// position can neither find nor be found by another, so it becomes a vertex without the grid
-// hash, whose random probes into a table far larger than the cache are most of a weld;
-// the positions left (about a tenth) go through the hash in the same order as before, so
-// the mesh is the same. Cells are compared through their 64-bit hash: two cells that share
-// one only send their positions through the hash.
+// alone tells, for each distinct position (in corner order), whether no other distinct
+// position can lie within the tolerance of it: no other position's grid cell is one of the
+// cells its box of twice the tolerance (the margin covers rounding) touches, nor touched by
+// another's box. A position within the tolerance of p lies in p's box, so its own cell is one
+// of p's. Such a position can neither find nor be found by another, so it becomes a vertex
+// without the grid hash, whose random probes into a table far larger than the cache are most
+// of a weld; the few positions left go through the hash in the same order as before and find
+// the same vertices among themselves, so the mesh is the same. Cells are compared through
+// their 64-bit hash: two cells that share one only send their positions through the hash.
 func (w *welder) alone(pos []mgl64.Vec3, workers int) []bool {
 	n := len(pos)
 	alone := make([]bool, n)
+	for j := range alone {
+		alone[j] = true
+	}
 	if w.exact {
 		// Distinct positions are never identical, and only identical ones merge.
-		for j := range alone {
-			alone[j] = true
-		}
 		return alone
 	}
-	hs := make([]uint64, n)
-	// Each position on its own: stretches of them on every core.
+	// Each position on its own: stretches of them on every core. A cell is 64 tolerances
+	// wide, so a box touches at most two per axis, and one in most cases.
 	const stretch = 1 << 14
-	parallel.For(workers, (n+stretch-1)/stretch, func(_, sj int) {
+	parts := make([][]cellRec, (n+stretch-1)/stretch)
+	parallel.For(workers, len(parts), func(_, sj int) {
+		recs := make([]cellRec, 0, stretch+stretch/2)
 		for j := sj * stretch; j < min(n, (sj+1)*stretch); j++ {
 			p := pos[j]
 			if !finiteVec(p) {
-				hs[j] = 0 // never merged: alone whatever its hash meets
-				alone[j] = true
-				continue
+				continue // never merged, never in the table
 			}
-			k := w.cellOf(p)
-			alone[j] = true
+			var lo, hi [3]int64
 			for a := range 3 {
-				if weldCellIndex((p[a]-2*w.tol)*w.inv) != k[a] || weldCellIndex((p[a]+2*w.tol)*w.inv) != k[a] {
-					alone[j] = false
+				lo[a] = weldCellIndex((p[a] - 2*w.tol) * w.inv)
+				hi[a] = weldCellIndex((p[a] + 2*w.tol) * w.inv)
+			}
+			for x := lo[0]; x <= hi[0]; x++ {
+				for y := lo[1]; y <= hi[1]; y++ {
+					for z := lo[2]; z <= hi[2]; z++ {
+						recs = append(recs, cellRec{weldHash([3]int64{x, y, z}), int32(j)})
+					}
 				}
 			}
-			hs[j] = weldHash(k)
 		}
+		parts[sj] = recs
 	})
 	// Group by the top bits of the hash into cache-sized blocks, then find shared cells in
 	// each block through a small open-addressing table.
+	total := 0
+	for _, r := range parts {
+		total += len(r)
+	}
 	bits := 0
-	for n>>bits > dedupBlock {
+	for total>>bits > dedupBlock {
 		bits++
 	}
 	shift := 64 - bits
-	count := make([]int32, 1<<bits+1)
-	recs := make([]int32, n)
-	if bits > 0 {
-		for _, h := range hs {
-			count[h>>shift+1]++
+	start := make([]int32, 1<<bits+1)
+	for _, part := range parts {
+		for _, r := range part {
+			start[r.h>>shift+1]++
 		}
-		for b := 1; b <= 1<<bits; b++ {
-			count[b] += count[b-1]
-		}
-		fill := append([]int32(nil), count[:1<<bits]...)
-		for j, h := range hs {
-			b := h >> shift
-			recs[fill[b]] = int32(j)
+	}
+	for b := 1; b <= 1<<bits; b++ {
+		start[b] += start[b-1]
+	}
+	recs := make([]cellRec, total)
+	fill := append([]int32(nil), start[:1<<bits]...)
+	for _, part := range parts {
+		for _, r := range part {
+			b := r.h >> shift
+			recs[fill[b]] = r
 			fill[b]++
 		}
-	} else {
-		for j := range recs {
-			recs[j] = int32(j)
-		}
-		count[1] = int32(n)
 	}
 	blocks := 1 << bits
 	k := min(parallel.Workers(workers, blocks), maxDedupWorkers)
-	tables := make([][]int32, k)
+	tables := make([][]cellRec, k)
 	parallel.For(k, blocks, func(wk, b int) {
-		blk := recs[count[b]:count[b+1]]
+		blk := recs[start[b]:start[b+1]]
 		size := 16
 		for size < 2*len(blk) {
 			size <<= 1
 		}
 		if cap(tables[wk]) < size {
-			tables[wk] = make([]int32, size)
+			tables[wk] = make([]cellRec, size)
 		}
 		table := tables[wk][:size]
 		for i := range table {
-			table[i] = -1
+			table[i].j = -1
 		}
 		mask := uint64(size - 1)
-		for _, j := range blk {
-			if !finiteVec(pos[j]) {
-				continue
-			}
-			h := hs[j]
-			s := h & mask
+		for _, r := range blk {
+			s := r.h & mask
 			for {
-				e := table[s]
-				if e < 0 {
-					table[s] = j
+				e := &table[s]
+				if e.j < 0 {
+					*e = r
 					break
 				}
-				if hs[e] == h {
-					alone[e], alone[j] = false, false
+				if e.h == r.h {
+					if e.j != r.j {
+						alone[e.j], alone[r.j] = false, false
+					}
 					break
 				}
 				s = (s + 1) & mask
@@ -194,6 +199,12 @@ func (w *welder) alone(pos []mgl64.Vec3, workers int) []bool {
 		}
 	})
 	return alone
+}
+
+// cellRec is a grid cell (its hash) that position j's box touches.
+type cellRec struct {
+	h uint64
+	j int32
 }
 
 // unsafeFlatten views the triangles as one list of corner indices.
