@@ -143,8 +143,22 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	if err := ctx.Err(); err != nil {
 		return nil, rep, fmt.Errorf("%s: loading stopped: %w", name, err)
 	}
-	m, removed := dropDegenerate(rd.weld(opt.Workers), opt.Workers)
+	m := rd.weld(opt.Workers)
+	// When the weld merged only identical corners, the corners in file order hold each
+	// triangle's vertices: reading them there beats gathering vertices at random, as a file
+	// whose triangles are scattered makes every per-triangle pass do.
+	var degenerate []bool
+	var terms []float64
+	if rd.keys != nil && rd.distinct == len(m.Vertices) {
+		degenerate, terms = cornerChecks(rd.keys, rd.scale, opt.Workers)
+	}
+	rd.keys = nil
+	m, removed := dropDegenerate(m, degenerate, opt.Workers)
 	rep.DegenerateRemoved = removed
+	var volume func() float64
+	if terms != nil && removed == 0 {
+		volume = func() float64 { return sumVolume(terms) }
+	}
 	if len(m.Triangles) == 0 {
 		return nil, rep, fmt.Errorf("%s: all %d triangles have zero area or a repeated corner", name, rep.TrianglesRead)
 	}
@@ -152,25 +166,28 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	if err := ctx.Err(); err != nil {
 		return nil, rep, fmt.Errorf("%s: loading stopped: %w", name, err)
 	}
-	rep.Surface = validate(m, false) // degenerate triangles are gone already
+	rep.Surface = validate(m, false, volume) // degenerate triangles are gone already
 	if rep.Surface.InconsistentOrientation > 0 || rep.Surface.Closed && rep.Surface.SignedVolume < 0 {
 		rep.Turned = OrientConsistently(m)
-		rep.Surface = validate(m, false)
+		rep.Surface = validate(m, false, nil)
 	}
 	rep.Notes = append(rd.notes(), loadNotes(m, rep)...)
 	rep.Warnings = append(rep.Surface.Warnings(), rep.Notes...)
 	return m, rep, nil
 }
 
-// weld welds the corners read (within weldRelTol) and lets go of them.
+// weld welds the corners read (within weldRelTol) and lets go of them, except a binary
+// file's keys; distinct is then the number of distinct positions.
 func (rd *stlReader) weld(workers int) *Mesh {
 	var m *Mesh
 	if rd.keys != nil {
-		m = weldPositions(rd.first, distinctPositions(rd.keys, rd.first, rd.scale), 0, weldRelTol, workers)
+		pos := distinctPositions(rd.keys, rd.first, rd.scale)
+		rd.distinct = len(pos)
+		m = weldPositions(rd.first, pos, 0, weldRelTol, workers)
 	} else {
 		m = weld(rd.corners, 0, weldRelTol, workers)
 	}
-	rd.corners, rd.keys, rd.first = nil, nil, nil
+	rd.corners, rd.first = nil, nil
 	return m
 }
 
@@ -191,16 +208,18 @@ func (rd *stlReader) corner(i int) mgl64.Vec3 {
 }
 
 // dropDegenerate drops the degenerate triangles of a welded mesh and the vertices only they
-// used, and says how many triangles went.
-func dropDegenerate(m *Mesh, workers int) (*Mesh, int) {
+// used, and says how many triangles went. degenerate, when not nil, already says which
+// triangles isDegenerate finds degenerate.
+func dropDegenerate(m *Mesh, degenerate []bool, workers int) (*Mesh, int) {
 	nt := len(m.Triangles)
-	degenerate := make([]bool, nt)
-	const stretch = 1 << 15
-	parallel.For(workers, (nt+stretch-1)/stretch, func(_, st int) {
-		for t := st * stretch; t < min(nt, (st+1)*stretch); t++ {
-			degenerate[t] = isDegenerate(m, t)
-		}
-	})
+	if degenerate == nil {
+		degenerate = make([]bool, nt)
+		parallel.For(workers, (nt+triangleStretch-1)/triangleStretch, func(_, st int) {
+			for t := st * triangleStretch; t < min(nt, (st+1)*triangleStretch); t++ {
+				degenerate[t] = isDegenerate(m, t)
+			}
+		})
+	}
 	removed := countTrue(degenerate)
 	if removed > 0 {
 		keep := make([]int32, 0, nt-removed)
@@ -213,6 +232,9 @@ func dropDegenerate(m *Mesh, workers int) (*Mesh, int) {
 	}
 	return m, removed
 }
+
+// triangleStretch is how many triangles one goroutine takes at a time in a per-triangle pass.
+const triangleStretch = 1 << 15
 
 // loadNotes states what reading found beyond the surface's shape, each with a way to fix it.
 func loadNotes(m *Mesh, rep LoadReport) []string {
@@ -283,6 +305,8 @@ type stlReader struct {
 	corners []mgl64.Vec3
 	keys    []corner32
 	first   []int32
+	// distinct is the number of distinct positions among keys, once welded.
+	distinct int
 	// boxed says lo and hi bound every corner (the binary reader finds them as it decodes).
 	boxed  bool
 	lo, hi mgl64.Vec3

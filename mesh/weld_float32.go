@@ -159,3 +159,48 @@ func distinctPositions(keys []corner32, first []int32, s float64) []mgl64.Vec3 {
 // carries all 24 bits of any float32. Below it (never a real unit) the corners are welded
 // as float64.
 var minInjectiveScale = math.Ldexp(1, -873)
+
+// The two passes below read a binary file's corners in file order where the welded mesh
+// would be read through its vertex indices, at random in a file whose triangles are
+// scattered. They hold only while the weld merged identical corners alone: then triangle t's
+// vertices are its corners, whose coordinates equal the vertices' (the sign of a zero aside,
+// which changes no comparison with zero and no non-zero result: a sum of zeros from +0 stays
+// +0), and two of its vertices are the same exactly when two corners are equal.
+
+// cornerChecks tells which triangles isDegenerate would find degenerate in the welded mesh,
+// and each triangle's term of signedVolume were none dropped (vertex 0 is corner 0), on up
+// to workers cores.
+func cornerChecks(keys []corner32, s float64, workers int) (degenerate []bool, terms []float64) {
+	nt := len(keys) / 3
+	degenerate = make([]bool, nt)
+	terms = make([]float64, nt)
+	if nt == 0 {
+		return
+	}
+	ref := keys[0].position(s)
+	parallel.For(workers, (nt+triangleStretch-1)/triangleStretch, func(_, st int) {
+		for t := st * triangleStretch; t < min(nt, (st+1)*triangleStretch); t++ {
+			c := keys[3*t : 3*t+3]
+			a, b, d := c[0].position(s), c[1].position(s), c[2].position(s)
+			ux, uy, uz := b[0]-a[0], b[1]-a[1], b[2]-a[2]
+			vx, vy, vz := d[0]-a[0], d[1]-a[1], d[2]-a[2]
+			degenerate[t] = sameCorner(&c[0], &c[1]) || sameCorner(&c[1], &c[2]) || sameCorner(&c[0], &c[2]) ||
+				uy*vz-uz*vy == 0 && uz*vx-ux*vz == 0 && ux*vy-uy*vx == 0
+			terms[t] = a.Sub(ref).Dot(b.Sub(ref).Cross(d.Sub(ref)))
+		}
+	})
+	return degenerate, terms
+}
+
+func sameCorner(a, b *corner32) bool {
+	return fold32(a[0]) == fold32(b[0]) && fold32(a[1]) == fold32(b[1]) && fold32(a[2]) == fold32(b[2])
+}
+
+// sumVolume is signedVolume from its terms: the same sum in the same order.
+func sumVolume(terms []float64) float64 {
+	vol := 0.0
+	for _, v := range terms {
+		vol += v
+	}
+	return vol / 6
+}
