@@ -137,13 +137,17 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 		}
 		return nil, rep, fmt.Errorf("%s: the file holds no triangles", name)
 	}
-	if err := rd.checkOutliers(); err != nil {
-		return nil, rep, err
-	}
 	if err := ctx.Err(); err != nil {
 		return nil, rep, fmt.Errorf("%s: loading stopped: %w", name, err)
 	}
+	// The outlier check (a sample sorted on one core) runs beside the weld, whose mesh is
+	// dropped if it fails.
+	outliers := make(chan error, 1)
+	go func() { outliers <- rd.checkOutliers() }()
 	m := rd.weld(opt.Workers)
+	if err := <-outliers; err != nil {
+		return nil, rep, err
+	}
 	// When the weld merged only identical corners, the corners in file order hold each
 	// triangle's vertices: reading them there beats gathering vertices at random, as a file
 	// whose triangles are scattered makes every per-triangle pass do.
@@ -152,7 +156,7 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	if rd.keys != nil && rd.distinct == len(m.Vertices) {
 		degenerate, terms = cornerChecks(rd.keys, rd.scale, opt.Workers)
 	}
-	rd.keys = nil
+	rd.corners, rd.keys, rd.first = nil, nil, nil
 	m, removed := dropDegenerate(m, degenerate, opt.Workers)
 	rep.DegenerateRemoved = removed
 	var volume func() float64
@@ -176,18 +180,17 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	return m, rep, nil
 }
 
-// weld welds the corners read (within weldRelTol) and lets go of them, except a binary
-// file's keys; distinct is then the number of distinct positions.
+// weld welds the corners read (within weldRelTol); for a binary file, distinct is then the
+// number of distinct positions.
 func (rd *stlReader) weld(workers int) *Mesh {
 	var m *Mesh
 	if rd.keys != nil {
-		pos := distinctPositions(rd.keys, rd.first, rd.scale)
+		pos, starts := distinctPositions(rd.keys, rd.first, rd.scale, workers)
 		rd.distinct = len(pos)
-		m = weldPositions(rd.first, pos, 0, weldRelTol, workers)
+		m = weldPositions(rd.first, pos, starts, 0, weldRelTol, workers)
 	} else {
 		m = weld(rd.corners, 0, weldRelTol, workers)
 	}
-	rd.corners, rd.first = nil, nil
 	return m
 }
 

@@ -44,39 +44,100 @@ func weldFirst(corners []mgl64.Vec3, first []int32, tol, relTol float64, workers
 		if int(f) == i {
 			pos = append(pos, corners[i])
 		}
+		first[i] = first[f] // the first corner itself (first[f] is final: f <= i)
 	}
-	return weldPositions(first, pos, tol, relTol, workers)
+	return weldPositions(first, pos, nil, tol, relTol, workers)
 }
 
-// weldPositions is the tolerance weld once the identical corners are known: first as
-// firstOccurrences gives it, pos the positions of the corners that are their own first, in
-// corner order (only these are read, about a sixth of the corners).
-func weldPositions(first []int32, pos []mgl64.Vec3, tol, relTol float64, workers int) *Mesh {
+// weldPositions is the tolerance weld once the identical corners are known: first[i] the
+// first corner with corner i's position, pos the positions of the corners that are their own first, in
+// corner order (only these are read, about a sixth of the corners); starts, when not nil,
+// is distinctStarts(first).
+func weldPositions(first []int32, pos []mgl64.Vec3, starts []int32, tol, relTol float64, workers int) *Mesh {
 	m := &Mesh{Triangles: make([][3]int32, len(first)/3)}
 	if len(m.Triangles) == 0 {
 		return m
 	}
 	w := newWelder(pos, tol, relTol)
 	alone := w.alone(pos, workers)
-	w.reserve(len(pos), len(pos)-countTrue(alone))
-	// out[i] is corner i's vertex; first[i] <= i, so a repeat finds its vertex already set
-	// (through its stand-in, whose own vertex was set from its first corner).
-	out := unsafeFlatten(m.Triangles)
-	d := 0
-	for i, f := range first[:len(out)] {
-		if int(f) != i {
-			out[i] = out[f]
-			continue
+	hashed := len(pos) - countTrue(alone)
+	// vertex[d] is position d's vertex: the one part that must go in order, and only over
+	// the positions; nil when every position is a vertex of its own.
+	var vertex []int32
+	if hashed == 0 {
+		m.Vertices = pos
+	} else {
+		w.reserve(len(pos), hashed)
+		vertex = make([]int32, len(pos))
+		for d, p := range pos {
+			if alone[d] {
+				vertex[d] = w.add(p)
+			} else {
+				vertex[d] = w.lookup(p)
+			}
 		}
-		if alone[d] {
-			out[i] = w.add(pos[d])
-		} else {
-			out[i] = w.lookup(pos[d])
-		}
-		d++
+		m.Vertices = w.verts
 	}
-	m.Vertices = w.verts
+	// Then every corner's vertex, stretches on every core: the first corner of a position
+	// takes the position's vertex, and a repeat its first corner's, at once when that lies
+	// in the same stretch (as it mostly does in an ordered file), after every stretch is done
+	// otherwise.
+	out := unsafeFlatten(m.Triangles)
+	if starts == nil {
+		starts = distinctStarts(first[:len(out)], workers)
+	}
+	later := make([][]int32, len(starts))
+	parallel.For(workers, len(starts), func(_, st int) {
+		d := starts[st]
+		lo, hi := st*cornerStretch, min(len(out), (st+1)*cornerStretch)
+		var wait []int32
+		for i := lo; i < hi; i++ {
+			switch f := int(first[i]); {
+			case f == i:
+				if vertex == nil {
+					out[i] = d
+				} else {
+					out[i] = vertex[d]
+				}
+				d++
+			case f >= lo:
+				out[i] = out[f]
+			default:
+				wait = append(wait, int32(i))
+			}
+		}
+		later[st] = wait
+	})
+	parallel.For(workers, len(later), func(_, st int) {
+		for _, i := range later[st] {
+			out[i] = out[first[i]]
+		}
+	})
 	return m
+}
+
+// cornerStretch is how many corners one goroutine takes at a time in a per-corner pass.
+const cornerStretch = 1 << 16
+
+// distinctStarts returns, for each stretch of cornerStretch corners, how many corners
+// before it are their own first (first[i] == i): where its distinct positions start.
+func distinctStarts(first []int32, workers int) []int32 {
+	starts := make([]int32, (len(first)+cornerStretch-1)/cornerStretch)
+	parallel.For(workers, len(starts), func(_, st int) {
+		n := int32(0)
+		for i := st * cornerStretch; i < min(len(first), (st+1)*cornerStretch); i++ {
+			if int(first[i]) == i {
+				n++
+			}
+		}
+		starts[st] = n
+	})
+	at := int32(0)
+	for st, n := range starts {
+		starts[st] = at
+		at += n
+	}
+	return starts
 }
 
 func countTrue(b []bool) int {

@@ -143,15 +143,31 @@ func (g *cornerGroups) first(workers int) []int32 {
 }
 
 // distinctPositions lists, in corner order, the position (times s) of every corner that is
-// the first of its position.
-func distinctPositions(keys []corner32, first []int32, s float64) []mgl64.Vec3 {
-	pos := make([]mgl64.Vec3, 0, len(keys)/5)
-	for i, f := range first {
-		if int(f) == i {
-			pos = append(pos, keys[i].position(s))
+// the first of its position, stretches of corners on every core, and returns
+// distinctStarts(first) as well.
+func distinctPositions(keys []corner32, first []int32, s float64, workers int) ([]mgl64.Vec3, []int32) {
+	starts := distinctStarts(first, workers)
+	n := 0
+	if len(starts) > 0 {
+		last := len(starts) - 1
+		n = int(starts[last])
+		for i := last * cornerStretch; i < len(first); i++ {
+			if int(first[i]) == i {
+				n++
+			}
 		}
 	}
-	return pos
+	pos := make([]mgl64.Vec3, n)
+	parallel.For(workers, len(starts), func(_, st int) {
+		d := starts[st]
+		for i := st * cornerStretch; i < min(len(first), (st+1)*cornerStretch); i++ {
+			if int(first[i]) == i {
+				pos[d] = keys[i].position(s)
+				d++
+			}
+		}
+	})
+	return pos, starts
 }
 
 // minInjectiveScale is the smallest scale that keeps distinct float32 values distinct: the
@@ -165,7 +181,7 @@ var minInjectiveScale = math.Ldexp(1, -873)
 // scattered. They hold only while the weld merged identical corners alone: then triangle t's
 // vertices are its corners, whose coordinates equal the vertices' (the sign of a zero aside,
 // which changes no comparison with zero and no non-zero result: a sum of zeros from +0 stays
-// +0), and two of its vertices are the same exactly when two corners are equal.
+// +0).
 
 // cornerChecks tells which triangles isDegenerate would find degenerate in the welded mesh,
 // and each triangle's term of signedVolume were none dropped (vertex 0 is corner 0), on up
@@ -177,24 +193,31 @@ func cornerChecks(keys []corner32, s float64, workers int) (degenerate []bool, t
 	if nt == 0 {
 		return
 	}
+	// Scalars rather than mgl64.Vec3 (arrays the compiler keeps in memory), with the very
+	// operations of isDegenerate and of Sub, Cross and Dot in signedVolume, in their order.
 	ref := keys[0].position(s)
+	rx, ry, rz := ref[0], ref[1], ref[2]
+	coord := func(bits uint32) float64 { return float64(math.Float32frombits(bits)) * s }
 	parallel.For(workers, (nt+triangleStretch-1)/triangleStretch, func(_, st int) {
 		for t := st * triangleStretch; t < min(nt, (st+1)*triangleStretch); t++ {
-			c := keys[3*t : 3*t+3]
-			a, b, d := c[0].position(s), c[1].position(s), c[2].position(s)
-			ux, uy, uz := b[0]-a[0], b[1]-a[1], b[2]-a[2]
-			vx, vy, vz := d[0]-a[0], d[1]-a[1], d[2]-a[2]
-			degenerate[t] = sameCorner(&c[0], &c[1]) || sameCorner(&c[1], &c[2]) || sameCorner(&c[0], &c[2]) ||
-				uy*vz-uz*vy == 0 && uz*vx-ux*vz == 0 && ux*vy-uy*vx == 0
-			terms[t] = a.Sub(ref).Dot(b.Sub(ref).Cross(d.Sub(ref)))
+			c := (*[3]corner32)(keys[3*t : 3*t+3])
+			ax, ay, az := coord(c[0][0]), coord(c[0][1]), coord(c[0][2])
+			bx, by, bz := coord(c[1][0]), coord(c[1][1]), coord(c[1][2])
+			dx, dy, dz := coord(c[2][0]), coord(c[2][1]), coord(c[2][2])
+			ux, uy, uz := bx-ax, by-ay, bz-az
+			vx, vy, vz := dx-ax, dy-ay, dz-az
+			// Two equal corners (isDegenerate's repeated vertex) give a zero cross product
+			// too: u or v is zero, or u equals v.
+			degenerate[t] = uy*vz-uz*vy == 0 && uz*vx-ux*vz == 0 && ux*vy-uy*vx == 0
+			ax, ay, az = ax-rx, ay-ry, az-rz
+			bx, by, bz = bx-rx, by-ry, bz-rz
+			dx, dy, dz = dx-rx, dy-ry, dz-rz
+			terms[t] = ax*(by*dz-bz*dy) + ay*(bz*dx-bx*dz) + az*(bx*dy-by*dx)
 		}
 	})
 	return degenerate, terms
 }
 
-func sameCorner(a, b *corner32) bool {
-	return fold32(a[0]) == fold32(b[0]) && fold32(a[1]) == fold32(b[1]) && fold32(a[2]) == fold32(b[2])
-}
 
 // sumVolume is signedVolume from its terms: the same sum in the same order.
 func sumVolume(terms []float64) float64 {
