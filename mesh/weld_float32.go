@@ -218,7 +218,6 @@ func cornerChecks(keys []corner32, s float64, workers int) (degenerate []bool, t
 	return degenerate, terms
 }
 
-
 // sumVolume is signedVolume from its terms: the same sum in the same order.
 func sumVolume(terms []float64) float64 {
 	vol := 0.0
