@@ -49,10 +49,10 @@ func weldFirst(corners []mgl64.Vec3, first []int32, tol, relTol float64, workers
 	return weldPositions(first, pos, nil, tol, relTol, workers)
 }
 
-// weldPositions is the tolerance weld once the identical corners are known: first[i] the
-// first corner with corner i's position, pos the positions of the corners that are their own first, in
-// corner order (only these are read, about a sixth of the corners); starts, when not nil,
-// is distinctStarts(first).
+// weldPositions is the tolerance weld once the identical corners are known: first[i] is
+// the first corner with corner i's position, pos the positions of the corners that are their
+// own first, in corner order (only these are read, about a sixth of the corners); starts,
+// when not nil, is distinctStarts(first).
 func weldPositions(first []int32, pos []mgl64.Vec3, starts []int32, tol, relTol float64, workers int) *Mesh {
 	m := &Mesh{Triangles: make([][3]int32, len(first)/3)}
 	if len(m.Triangles) == 0 {
@@ -86,11 +86,9 @@ func weldPositions(first []int32, pos []mgl64.Vec3, starts []int32, tol, relTol 
 	if starts == nil {
 		starts = distinctStarts(first[:len(out)], workers)
 	}
-	later := make([][]int32, len(starts))
 	parallel.For(workers, len(starts), func(_, st int) {
 		d := starts[st]
 		lo, hi := st*cornerStretch, min(len(out), (st+1)*cornerStretch)
-		var wait []int32
 		for i := lo; i < hi; i++ {
 			switch f := int(first[i]); {
 			case f == i:
@@ -102,15 +100,15 @@ func weldPositions(first []int32, pos []mgl64.Vec3, starts []int32, tol, relTol 
 				d++
 			case f >= lo:
 				out[i] = out[f]
-			default:
-				wait = append(wait, int32(i))
 			}
 		}
-		later[st] = wait
 	})
-	parallel.For(workers, len(later), func(_, st int) {
-		for _, i := range later[st] {
-			out[i] = out[first[i]]
+	parallel.For(workers, len(starts), func(_, st int) {
+		lo, hi := st*cornerStretch, min(len(out), (st+1)*cornerStretch)
+		for i := lo; i < hi; i++ {
+			if f := first[i]; int(f) < lo {
+				out[i] = out[f]
+			}
 		}
 	})
 	return m
