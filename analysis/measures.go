@@ -67,7 +67,11 @@ func Measure(c *Centerline, tol float64) Measures {
 	if klo > straightCurvature {
 		m.RadiusRange[1] = 1 / klo
 	}
-	m.SRange, m.AsTight = c.placeBand(star, klo)
+	var own *bendFit
+	if fitted {
+		own = &bend
+	}
+	m.SRange, m.AsTight = c.placeBand(star, klo, own)
 	if fitted {
 		// The middle of the bend the circle was fitted to is the other reading of its place:
 		// on a long arc of one radius the curvature's wander may put s* far from it. Each end
@@ -157,9 +161,10 @@ func (m Measures) WideBands() (radius, place, schneider bool) {
 // placeBand is the stretch of the measured zone that holds station star and every station
 // where the curvature reaches klo, the low end of the tightest bend's band: the line cannot
 // say the tightest bend lies anywhere else. Its ends are given in mm from the orifice. asTight
-// is the strongest stretch apart from star's where the curvature reaches klo over at least
-// minAsTight stations (a second bend that may be the tightest), zero when there is none.
-func (c *Centerline) placeBand(star int, klo float64) (band, asTight [2]float64) {
+// is the strongest stretch outside the tightest bend's own stations (bend: those of the
+// fitted circle, or nil) where the curvature reaches klo over at least minAsTight stations (a
+// second bend that may be the tightest), zero when there is none.
+func (c *Centerline) placeBand(star int, klo float64, bend *bendFit) (band, asTight [2]float64) {
 	lo, hi := star, star
 	for lo > c.zone[0] && c.K[lo-1] >= klo {
 		lo--
@@ -168,6 +173,9 @@ func (c *Centerline) placeBand(star int, klo float64) (band, asTight [2]float64)
 		hi++
 	}
 	band = [2]float64{c.S[lo], c.S[hi]}
+	if bend != nil {
+		lo, hi = min(lo, bend.lo), max(hi, bend.hi)
+	}
 	best := 0.0
 	for i := c.zone[0]; i <= c.zone[1]; {
 		if c.K[i] < klo || (i >= lo && i <= hi) {
