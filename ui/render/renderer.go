@@ -42,6 +42,8 @@ type Renderer struct {
 	simpler map[*mesh.Mesh]*simplified
 	turning bool
 	verts   []packedVert
+	pos     []screenPos
+	wcol    [][3]float32 // lit colour times 1/w
 	vjobs   []vertexJob
 	// marks[v] == stamp: vertex v belongs to a triangle that survived culling this frame.
 	marks []uint32
@@ -328,6 +330,8 @@ func (r *Renderer) prepareObjects(s *Scene) {
 		nv += n
 	}
 	r.verts = grow(r.verts, nv)
+	r.pos = grow(r.pos, nv)
+	r.wcol = grow(r.wcol, nv)
 	r.marks = grow(r.marks, nv)
 	if r.stamp++; r.stamp == 0 { // wrapped: old marks could match
 		clear(r.marks)

@@ -45,45 +45,47 @@ func (r *Renderer) cullPhase(int) {
 func (r *Renderer) cullChunk(c int) {
 	ch := &r.chunks[c]
 	o := &r.objs[ch.obj]
-	tris := o.mesh.Triangles
-	nv := uint32(len(o.mesh.Vertices))
+	tris := o.mesh.Triangles[ch.t0:ch.t1]
+	nv := len(o.mesh.Vertices)
 	base := int32(o.vertBase)
-	verts := r.verts[o.vertBase : o.vertBase+int(nv)]
-	marks := r.marks[o.vertBase : o.vertBase+int(nv)]
+	pos := r.pos[o.vertBase : o.vertBase+nv]
+	marks := r.marks[o.vertBase : o.vertBase+nv]
 	bins := r.opaqueBins[c*r.nBands : (c+1)*r.nBands]
 	objID := uint16(ch.obj + 1)
 	stamp := r.stamp
-	mark := func(i int32) {
+	mark := func(i int) {
 		if atomic.LoadUint32(&marks[i]) != stamp {
 			atomic.StoreUint32(&marks[i], stamp)
 		}
 	}
 	// Locals, not fields: the appends below write memory, which would make the compiler reload
 	// fields through the pointers on every triangle.
-	cull, t1 := o.cull, ch.t1
+	cull, t0 := o.cull, int32(ch.t0)
 	var ts triSetup
-	for t := ch.t0; t < t1; t++ {
-		tri := tris[t]
-		if uint32(tri[0]) >= nv || uint32(tri[1]) >= nv || uint32(tri[2]) >= nv {
+	for k, tri := range tris {
+		i0, i1, i2 := int(tri[0]), int(tri[1]), int(tri[2])
+		if uint(i0) >= uint(len(pos)) || uint(i1) >= uint(len(pos)) || uint(i2) >= uint(len(pos)) {
 			continue // a bad index draws nothing rather than panicking
 		}
-		a, b, cc := &verts[tri[0]], &verts[tri[1]], &verts[tri[2]]
-		if (a.code|b.code|cc.code)&outBad != 0 || (a.code&b.code&cc.code)&outReject != 0 {
-			continue
-		}
-		if (a.code|b.code|cc.code)&outClip != 0 {
-			ch.clipped = append(ch.clipped, int32(t))
-			mark(tri[0])
-			mark(tri[1])
-			mark(tri[2])
-			continue
+		a, b, cc := &pos[i0], &pos[i1], &pos[i2]
+		if codes := a.code | b.code | cc.code; codes != 0 {
+			if codes&outBad != 0 || (a.code&b.code&cc.code)&outReject != 0 {
+				continue
+			}
+			if codes&outClip != 0 {
+				ch.clipped = append(ch.clipped, t0+int32(k))
+				mark(i0)
+				mark(i1)
+				mark(i2)
+				continue
+			}
 		}
 		// Facing away or edge-on: no need to set it up (setupGeometry decides the rest).
-		area := int64(b.s.x-a.s.x)*int64(cc.s.y-a.s.y) - int64(b.s.y-a.s.y)*int64(cc.s.x-a.s.x)
+		area := int64(b.x-a.x)*int64(cc.y-a.y) - int64(b.y-a.y)*int64(cc.x-a.x)
 		if area == 0 || cull && area > 0 {
 			continue
 		}
-		swapped, ok := r.setupGeometryArea(&a.s, &b.s, &cc.s, area, cull, &ts)
+		swapped, ok := r.setupGeometryArea(a, b, cc, area, cull, &ts)
 		if !ok {
 			continue
 		}
@@ -91,11 +93,11 @@ func (r *Renderer) cullChunk(c int) {
 		if swapped {
 			ts.v[1], ts.v[2] = ts.v[2], ts.v[1]
 		}
-		ts.tri, ts.obj = int32(t), objID
+		ts.tri, ts.obj = t0+int32(k), objID
 		r.emit(ch, bins, o, &ts)
-		mark(tri[0])
-		mark(tri[1])
-		mark(tri[2])
+		mark(i0)
+		mark(i1)
+		mark(i2)
 	}
 }
 
@@ -115,11 +117,13 @@ func (r *Renderer) colourPhase(int) {
 		}
 		o := &r.objs[ch.obj]
 		verts := r.verts[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
+		pos := r.pos[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
 		bins := r.opaqueBins[c*r.nBands : (c+1)*r.nBands]
 		objID := uint16(ch.obj + 1)
 		for _, t := range ch.clipped {
 			tri := o.mesh.Triangles[t]
-			r.clipTriangle(ch, bins, o, &verts[tri[0]], &verts[tri[1]], &verts[tri[2]], t, objID)
+			codes := pos[tri[0]].code | pos[tri[1]].code | pos[tri[2]].code
+			r.clipTriangle(ch, bins, o, &verts[tri[0]], &verts[tri[1]], &verts[tri[2]], codes, t, objID)
 		}
 	}
 }
@@ -143,12 +147,12 @@ func (r *Renderer) setupColour(ts *triSetup) {
 	if ts.v[0] < 0 {
 		return
 	}
-	colourPlanes(ts, &r.verts[ts.v[0]].s, &r.verts[ts.v[1]].s, &r.verts[ts.v[2]].s)
+	colourPlanes(ts, &r.wcol[ts.v[0]], &r.wcol[ts.v[1]], &r.wcol[ts.v[2]])
 }
 
-// colourPlanes fills the colour planes of ts from its corners' colours, a, b and c in the
-// order of ts's corners.
-func colourPlanes(ts *triSetup, a, b, c *screenVert) {
+// colourPlanes fills the colour planes of ts from its corners' colours divided by w, a, b and c
+// in the order of ts's corners.
+func colourPlanes(ts *triSetup, a, b, c *[3]float32) {
 	const inv = 1.0 / subOne
 	dx1, dy1 := float32(ts.x1-ts.x0)*inv, float32(ts.y1-ts.y0)*inv
 	dx2, dy2 := float32(ts.x2-ts.x0)*inv, float32(ts.y2-ts.y0)*inv
@@ -161,22 +165,22 @@ func colourPlanes(ts *triSetup, a, b, c *screenVert) {
 		gy = (d2*dx1 - d1*dx2) * id
 		return va + gx*ox + gy*oy, gx, gy
 	}
-	ts.r, ts.rdx, ts.rdy = plane(a.r, b.r, c.r)
-	ts.g, ts.gdx, ts.gdy = plane(a.g, b.g, c.g)
-	ts.b, ts.bdx, ts.bdy = plane(a.b, b.b, c.b)
+	ts.r, ts.rdx, ts.rdy = plane(a[0], b[0], c[0])
+	ts.g, ts.gdx, ts.gdy = plane(a[1], b[1], c[1])
+	ts.b, ts.bdx, ts.bdy = plane(a[2], b[2], c[2])
 }
 
 // setup prepares triangle (a, b, c) whose corners carry their colours; false when it covers no
 // pixel centre or faces away and cull is set.
 func (r *Renderer) setup(a, b, c *screenVert, cull bool, ts *triSetup) bool {
-	swapped, ok := r.setupGeometry(a, b, c, cull, ts)
+	swapped, ok := r.setupGeometry(&a.screenPos, &b.screenPos, &c.screenPos, cull, ts)
 	if !ok {
 		return false
 	}
 	if swapped {
 		b, c = c, b
 	}
-	colourPlanes(ts, a, b, c)
+	colourPlanes(ts, &a.c, &b.c, &c.c)
 	ts.v = [3]int32{-1, -1, -1}
 	return true
 }
@@ -185,14 +189,14 @@ func (r *Renderer) setup(a, b, c *screenVert, cull bool, ts *triSetup) bool {
 // false when it covers no pixel centre or faces away and cull is set. Counter-clockwise
 // triangles (seen from outside) face the viewer; swapped says b and c were exchanged to make
 // the edge functions positive inside.
-func (r *Renderer) setupGeometry(a, b, c *screenVert, cull bool, ts *triSetup) (swapped, ok bool) {
+func (r *Renderer) setupGeometry(a, b, c *screenPos, cull bool, ts *triSetup) (swapped, ok bool) {
 	area := int64(b.x-a.x)*int64(c.y-a.y) - int64(b.y-a.y)*int64(c.x-a.x)
 	return r.setupGeometryArea(a, b, c, area, cull, ts)
 }
 
 // setupGeometryArea is setupGeometry given the triangle's doubled signed area in fixed point
 // (the culling loop has it already).
-func (r *Renderer) setupGeometryArea(a, b, c *screenVert, area int64, cull bool, ts *triSetup) (swapped, ok bool) {
+func (r *Renderer) setupGeometryArea(a, b, c *screenPos, area int64, cull bool, ts *triSetup) (swapped, ok bool) {
 	if area == 0 {
 		return false, false
 	}
@@ -263,13 +267,12 @@ func (r *Renderer) distance(v *clipVert, bit uint32) float32 {
 
 // clipTriangle clips against the near plane, the clipping plane and the guard band
 // (Sutherland-Hodgman), then sets up the resulting fan.
-func (r *Renderer) clipTriangle(ch *triChunk, bins [][]int32, o *frameObject, a, b, c *packedVert, tri int32, objID uint16) {
+func (r *Renderer) clipTriangle(ch *triChunk, bins [][]int32, o *frameObject, a, b, c *packedVert, codes uint32, tri int32, objID uint16) {
 	var bufA, bufB [12]clipVert
 	in, out := bufA[:0], bufB[:0]
 	for _, p := range [3]*packedVert{a, b, c} {
 		in = append(in, clipVert{x: p.cx, y: p.cy, w: p.cw, d: p.d, col: p.col})
 	}
-	codes := a.code | b.code | c.code
 	for bit := uint32(outNear); bit <= outGuardB; bit <<= 1 {
 		if codes&bit == 0 {
 			continue

@@ -6,21 +6,26 @@ import (
 	"github.com/go-gl/mathgl/mgl32"
 )
 
-// screenVert is a projected vertex: fixed-point pixel position and attributes divided
-// by w, so they interpolate linearly across the screen (perspective-correct).
-type screenVert struct {
-	x, y    int32   // pixels with subBits fraction bits
-	iw      float32 // 1/w
-	r, g, b float32 // shaded colour (0..255) times 1/w
+// screenPos is where a vertex lands: fixed-point pixel position, 1/w and outcode, the 16 bytes
+// per corner the culling loop reads (kept apart from the rest, so that loop touches less memory).
+type screenPos struct {
+	x, y int32   // pixels with subBits fraction bits
+	iw   float32 // 1/w
+	code uint32  // outcode; 0 on the corners of a piece of a clipped triangle
 }
 
-// packedVert is a vertex transformed for this frame.
+// screenVert is a projected vertex with its colour divided by w, so position, depth and colour
+// interpolate linearly across the screen (perspective-correct).
+type screenVert struct {
+	screenPos
+	c [3]float32 // shaded colour (0..255) times 1/w
+}
+
+// packedVert is what clipping and lighting need of a vertex transformed for this frame.
 type packedVert struct {
-	s          screenVert
 	cx, cy, cw float32 // clip-space x, y and w (w = distance in front of the eye)
 	d          float32 // signed distance to the clipping plane
 	col        mgl32.Vec3
-	code       uint32
 }
 
 // Outcode bits: which clip planes a vertex is outside of.
@@ -69,67 +74,79 @@ func (r *Renderer) vertexPhase(int) {
 func (r *Renderer) transformVertices(o *frameObject, v0, v1 int) {
 	m := r.view
 	verts := o.mesh.Vertices
-	out := r.verts[o.vertBase : o.vertBase+len(verts)]
+	out := r.verts[o.vertBase : o.vertBase+len(verts)][v0:v1]
+	pos := r.pos[o.vertBase : o.vertBase+len(verts)][v0:v1]
 	near := float64(r.near)
-	for i := v0; i < v1; i++ {
-		p := verts[i]
+	clip, clipDist := o.clip, o.clipDist
+	for k, p := range verts[v0:v1] {
 		vx := m[0]*p[0] + m[4]*p[1] + m[8]*p[2] + m[12]
 		vy := m[1]*p[0] + m[5]*p[1] + m[9]*p[2] + m[13]
 		vz := m[2]*p[0] + m[6]*p[1] + m[10]*p[2] + m[14]
 		cx, cy, cw := vx*r.p00, vy*r.p11, -vz
-		pv := &out[i]
+		pv := &out[k]
 		pv.cx, pv.cy, pv.cw = float32(cx), float32(cy), float32(cw)
 
+		// Most vertices lie in the view: one test for all the outcode's bits.
 		var code uint32
-		if cw < near {
-			code |= outNear
+		if sum := cx + cy + cw; !(cw >= near && cx <= cw && -cw <= cx && cy <= cw && -cw <= cy && sum-sum == 0) {
+			code = outcode(cx, cy, cw, near)
 		}
-		if o.clip {
+		if clip {
 			var d float64
-			if o.clipDist != nil {
-				d = float64(o.clipDist[i])
+			if clipDist != nil {
+				d = float64(clipDist[v0+k])
 			} else {
 				d = r.plane[0]*p[0] + r.plane[1]*p[1] + r.plane[2]*p[2] + r.plane[3]
 			}
 			pv.d = float32(d)
-			if d < 0 {
+			if d < 0 && code != outBad {
 				code |= outPlane
 			}
 		}
-		g := guard * cw
-		if cx > g {
-			code |= outGuardR
-		}
-		if cx < -g {
-			code |= outGuardL
-		}
-		if cy > g {
-			code |= outGuardT
-		}
-		if cy < -g {
-			code |= outGuardB
-		}
-		if cx > cw {
-			code |= outRight
-		}
-		if cx < -cw {
-			code |= outLeft
-		}
-		if cy > cw {
-			code |= outTop
-		}
-		if cy < -cw {
-			code |= outBottom
-		}
-		if sum := cx + cy + cw; sum-sum != 0 { // NaN or Inf
-			code = outBad
-		}
-		pv.code = code
-
+		sp := &pos[k]
 		if code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
-			pv.s = r.projectPosition(pv.cx, pv.cy, pv.cw)
+			*sp = r.projectPosition(pv.cx, pv.cy, pv.cw)
 		}
+		sp.code = code
 	}
+}
+
+// outcode classifies a vertex in clip space against the near plane, the guard band and the
+// viewport (not the clipping plane); outBad alone when a coordinate is NaN or infinite.
+func outcode(cx, cy, cw, near float64) uint32 {
+	if sum := cx + cy + cw; sum-sum != 0 { // NaN or Inf
+		return outBad
+	}
+	var code uint32
+	if cw < near {
+		code |= outNear
+	}
+	g := guard * cw
+	if cx > g {
+		code |= outGuardR
+	}
+	if cx < -g {
+		code |= outGuardL
+	}
+	if cy > g {
+		code |= outGuardT
+	}
+	if cy < -g {
+		code |= outGuardB
+	}
+	if cx > cw {
+		code |= outRight
+	}
+	if cx < -cw {
+		code |= outLeft
+	}
+	if cy > cw {
+		code |= outTop
+	}
+	if cy < -cw {
+		code |= outBottom
+	}
+	return code
 }
 
 // shadePhase lights the vertices marked by cullPhase, one job of 8192 at a time.
@@ -148,6 +165,8 @@ func (r *Renderer) shadeVertices(o *frameObject, v0, v1 int) {
 	rot := r.rot
 	src := o.src
 	out := r.verts[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
+	pos := r.pos[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
+	wcol := r.wcol[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
 	marks := r.marks[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
 	ownNormals := len(src.Normals) == len(out)
 	base := mgl32.Vec3{float32(src.Color.R), float32(src.Color.G), float32(src.Color.B)}
@@ -175,9 +194,9 @@ func (r *Renderer) shadeVertices(o *frameObject, v0, v1 int) {
 			c = mgl32.Vec3{float32(k.R), float32(k.G), float32(k.B)}
 		}
 		pv.col = shade(c, n)
-		if pv.code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
-			iw := pv.s.iw
-			pv.s.r, pv.s.g, pv.s.b = pv.col[0]*iw, pv.col[1]*iw, pv.col[2]*iw
+		if sp := &pos[i]; sp.code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
+			iw := sp.iw
+			wcol[i] = [3]float32{pv.col[0] * iw, pv.col[1] * iw, pv.col[2] * iw}
 		}
 	}
 }
@@ -212,17 +231,16 @@ func abs32(x float32) float32 {
 // The same float64 arithmetic serves all callers, so a vertex shared by a clipped
 // and an unclipped triangle lands on the same fixed-point position.
 func (r *Renderer) project(cx, cy, cw float32, col mgl32.Vec3) screenVert {
-	s := r.projectPosition(cx, cy, cw)
-	s.r, s.g, s.b = col[0]*s.iw, col[1]*s.iw, col[2]*s.iw
-	return s
+	p := r.projectPosition(cx, cy, cw)
+	return screenVert{screenPos: p, c: [3]float32{col[0] * p.iw, col[1] * p.iw, col[2] * p.iw}}
 }
 
 // projectPosition is project without the colour (filled in when the vertex is lit).
-func (r *Renderer) projectPosition(cx, cy, cw float32) screenVert {
+func (r *Renderer) projectPosition(cx, cy, cw float32) screenPos {
 	iw := 1 / float64(cw)
 	sx := (float64(cx)*iw*0.5 + 0.5) * float64(r.w)
 	sy := (0.5 - float64(cy)*iw*0.5) * float64(r.h)
-	return screenVert{
+	return screenPos{
 		x:  int32(math.Floor(sx*subOne + 0.5)),
 		y:  int32(math.Floor(sy*subOne + 0.5)),
 		iw: float32(iw),
