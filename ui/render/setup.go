@@ -221,6 +221,11 @@ func (r *Renderer) setupGeometryArea(a, b, c *screenPos, area int64, cull bool, 
 	}
 	ts.x0, ts.y0, ts.x1, ts.y1, ts.x2, ts.y2 = a.x, a.y, b.x, b.y, c.x, c.y
 	ts.minX, ts.minY, ts.maxX, ts.maxY = x0, y0, x1, y1
+	// Most triangles of a fine mesh are about a pixel; many cover no pixel centre and would
+	// draw nothing: drop them before the rest of the setup, the colours and the binning.
+	if (x1-x0+1)*(y1-y0+1) <= smallBox && !coversCentre(ts) {
+		return false, false
+	}
 
 	const inv = 1.0 / subOne
 	dx1, dy1 := float32(b.x-a.x)*inv, float32(b.y-a.y)*inv
@@ -235,6 +240,26 @@ func (r *Renderer) setupGeometryArea(a, b, c *screenPos, area int64, cull bool, 
 	ts.zdy = (d2*dx1 - d1*dx2) * id
 	ts.z = a.iw + ts.zdx*ox + ts.zdy*oy
 	return swapped, true
+}
+
+// smallBox is the largest pixel box (in pixels) whose centres setupGeometry tests one by one.
+const smallBox = 4
+
+// coversCentre reports whether t, its corners and box set, covers the centre of a pixel of its
+// box, by the same edge functions and fill rule that draw it.
+func coversCentre(t *triSetup) bool {
+	for y := t.minY; y <= t.maxY; y++ {
+		e0, e1, e2, s0, s1, s2 := edges(t, t.minX, y)
+		for x := t.minX; x <= t.maxX; x++ {
+			if e0|e1|e2 >= 0 {
+				return true
+			}
+			e0 += s0
+			e1 += s1
+			e2 += s2
+		}
+	}
+	return false
 }
 
 func min3(a, b, c int32) int32 { return min(a, min(b, c)) }
