@@ -45,7 +45,6 @@ func (r *Renderer) cullPhase(int) {
 func (r *Renderer) cullChunk(c int) {
 	ch := &r.chunks[c]
 	o := &r.objs[ch.obj]
-	tris := o.mesh.Triangles[ch.t0:ch.t1]
 	nv := len(o.mesh.Vertices)
 	base := int32(o.vertBase)
 	pos := r.pos[o.vertBase : o.vertBase+nv]
@@ -53,52 +52,92 @@ func (r *Renderer) cullChunk(c int) {
 	bins := r.opaqueBins[c*r.nBands : (c+1)*r.nBands]
 	objID := uint16(ch.obj + 1)
 	stamp := r.stamp
-	mark := func(i int) {
+	mark := func(i int32) {
 		if atomic.LoadUint32(&marks[i]) != stamp {
 			atomic.StoreUint32(&marks[i], stamp)
 		}
 	}
-	// Locals, not fields: the appends below write memory, which would make the compiler reload
-	// fields through the pointers on every triangle.
-	cull, t0 := o.cull, int32(ch.t0)
+	cull, w, h := o.cull, int32(r.w), int32(r.h)
 	var ts triSetup
-	for k, tri := range tris {
+	var kept [cullBlock]int32
+	for t0 := ch.t0; t0 < ch.t1; t0 += cullBlock {
+		tris := o.mesh.Triangles[t0:min(ch.t1, t0+cullBlock)]
+		n := keptTriangles(tris, pos, cull, w, h, &kept)
+		for _, k := range kept[:n] {
+			if k < 0 { // crosses a clip plane or the guard band: clipped once its corners are lit
+				k = ^k
+				ch.clipped = append(ch.clipped, int32(t0)+k)
+				tri := tris[k]
+				mark(tri[0])
+				mark(tri[1])
+				mark(tri[2])
+				continue
+			}
+			tri := tris[k]
+			a, b, cc := &pos[tri[0]], &pos[tri[1]], &pos[tri[2]]
+			area := int64(b.x-a.x)*int64(cc.y-a.y) - int64(b.y-a.y)*int64(cc.x-a.x)
+			swapped, ok := r.setupGeometryArea(a, b, cc, area, cull, &ts)
+			if !ok {
+				continue
+			}
+			ts.v = [3]int32{base + tri[0], base + tri[1], base + tri[2]}
+			if swapped {
+				ts.v[1], ts.v[2] = ts.v[2], ts.v[1]
+			}
+			ts.tri, ts.obj = int32(t0)+k, objID
+			r.emit(ch, bins, o, &ts)
+			mark(tri[0])
+			mark(tri[1])
+			mark(tri[2])
+		}
+	}
+}
+
+// cullBlock is how many triangles keptTriangles looks at in one call.
+const cullBlock = 1024
+
+// keptTriangles writes to kept the indices in tris (at most cullBlock) of the triangles that
+// may draw and returns how many: corners valid, not wholly outside the view or cut away, not
+// edge-on, facing the eye when cull is set, a pixel centre of the w x h viewport within their
+// box. A triangle that crosses a clip plane or the guard band is written as ^index. It is most
+// of a frame's triangles and the cheap tests reject most of them, so this loop is kept free of
+// calls and stores, where the compiler keeps its values in registers.
+func keptTriangles(tris [][3]int32, pos []screenPos, cull bool, w, h int32, kept *[cullBlock]int32) int {
+	n := 0
+	for k := range tris {
+		tri := &tris[k]
 		i0, i1, i2 := int(tri[0]), int(tri[1]), int(tri[2])
 		if uint(i0) >= uint(len(pos)) || uint(i1) >= uint(len(pos)) || uint(i2) >= uint(len(pos)) {
 			continue // a bad index draws nothing rather than panicking
 		}
-		a, b, cc := &pos[i0], &pos[i1], &pos[i2]
-		if codes := a.code | b.code | cc.code; codes != 0 {
-			if codes&outBad != 0 || (a.code&b.code&cc.code)&outReject != 0 {
+		a, b, c := &pos[i0], &pos[i1], &pos[i2]
+		if codes := a.code | b.code | c.code; codes != 0 {
+			if codes&outBad != 0 || (a.code&b.code&c.code)&outReject != 0 {
 				continue
 			}
 			if codes&outClip != 0 {
-				ch.clipped = append(ch.clipped, t0+int32(k))
-				mark(i0)
-				mark(i1)
-				mark(i2)
+				kept[n&(cullBlock-1)] = int32(^k)
+				n++
 				continue
 			}
 		}
-		// Facing away or edge-on: no need to set it up (setupGeometry decides the rest).
-		area := int64(b.x-a.x)*int64(cc.y-a.y) - int64(b.y-a.y)*int64(cc.x-a.x)
+		// Facing away or edge-on (y points down on screen, so a front face has negative area).
+		area := int64(b.x-a.x)*int64(c.y-a.y) - int64(b.y-a.y)*int64(c.x-a.x)
 		if area == 0 || cull && area > 0 {
 			continue
 		}
-		swapped, ok := r.setupGeometryArea(a, b, cc, area, cull, &ts)
-		if !ok {
+		// No pixel centre in the box (as setupGeometry finds it).
+		x0 := max((min3(a.x, b.x, c.x)-subHalf+subOne-1)>>subBits, 0)
+		x1 := min((max3(a.x, b.x, c.x)-subHalf)>>subBits, w-1)
+		y0 := max((min3(a.y, b.y, c.y)-subHalf+subOne-1)>>subBits, 0)
+		y1 := min((max3(a.y, b.y, c.y)-subHalf)>>subBits, h-1)
+		if x0 > x1 || y0 > y1 {
 			continue
 		}
-		ts.v = [3]int32{base + tri[0], base + tri[1], base + tri[2]}
-		if swapped {
-			ts.v[1], ts.v[2] = ts.v[2], ts.v[1]
-		}
-		ts.tri, ts.obj = t0+int32(k), objID
-		r.emit(ch, bins, o, &ts)
-		mark(i0)
-		mark(i1)
-		mark(i2)
+		kept[n&(cullBlock-1)] = int32(k)
+		n++
 	}
+	return n
 }
 
 // colourPhase fills the colour planes of the chunks' triangles and clips the crossing ones.
