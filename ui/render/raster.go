@@ -1,5 +1,7 @@
 package render
 
+import "math/bits"
+
 // Rows are split into bands of bandH rows; one worker owns a band at a time, so no
 // two goroutines write the same pixel and the result does not depend on scheduling.
 
@@ -161,6 +163,10 @@ func (r *Renderer) rasterOpaque(t *triSetup, y0, y1 int) {
 	if ys > ye {
 		return
 	}
+	if t.cover != 0 {
+		r.rasterOpaqueSmall(t, ys, ye)
+		return
+	}
 	e0, e1, e2, s0, s1, s2 := edges(t, t.minX, ys)
 	r0, r1, r2 := rowStep(t)
 	wide := t.maxX-t.minX >= wideBox
@@ -212,10 +218,43 @@ func (r *Renderer) rasterOpaque(t *triSetup, y0, y1 int) {
 	}
 }
 
+// rasterOpaqueSmall is rasterOpaque for a triangle whose covered pixels are known
+// (triSetup.cover), in rows ys..ye; the same arithmetic gives the same depths and colours.
+func (r *Renderer) rasterOpaqueSmall(t *triSetup, ys, ye int32) {
+	bw := t.maxX - t.minX + 1
+	for m := uint(t.cover); m != 0; m &= m - 1 {
+		j := int32(bits.TrailingZeros(m))
+		dy := j / bw
+		y := t.minY + dy
+		if y < ys || y > ye {
+			continue
+		}
+		dx := j - dy*bw
+		fy, fx := float32(dy), float32(dx)
+		i := int(y*int32(r.w) + t.minX + dx)
+		if iw := t.z + t.zdy*fy + t.zdx*fx; iw > r.z[i] {
+			r.z[i] = iw
+			k := 1 / iw
+			o := r.base + int(y)*r.stride + int(t.minX+dx)*4
+			p := r.pix[o : o+4 : o+4]
+			p[0] = clampByte((t.r + t.rdy*fy + t.rdx*fx) * k)
+			p[1] = clampByte((t.g + t.gdy*fy + t.gdx*fx) * k)
+			p[2] = clampByte((t.b + t.bdy*fy + t.bdx*fx) * k)
+			p[3] = 255
+			r.oObj[i] = t.obj
+			r.triID[i] = t.tri
+		}
+	}
+}
+
 // rasterSeeThrough blends t (opacity alpha/256) over what is drawn, behind no opaque surface.
 func (r *Renderer) rasterSeeThrough(t *triSetup, y0, y1 int, alpha int32) {
 	ys, ye := max(t.minY, int32(y0)), min(t.maxY, int32(y1-1))
 	if ys > ye {
+		return
+	}
+	if t.cover != 0 {
+		r.rasterSeeThroughSmall(t, ys, ye, alpha)
 		return
 	}
 	e0, e1, e2, s0, s1, s2 := edges(t, t.minX, ys)
@@ -267,6 +306,36 @@ func (r *Renderer) rasterSeeThrough(t *triSetup, y0, y1 int, alpha int32) {
 		e0 += r0
 		e1 += r1
 		e2 += r2
+	}
+}
+
+// rasterSeeThroughSmall is rasterSeeThrough for a triangle whose covered pixels are known
+// (triSetup.cover), in rows ys..ye.
+func (r *Renderer) rasterSeeThroughSmall(t *triSetup, ys, ye int32, alpha int32) {
+	bw := t.maxX - t.minX + 1
+	for m := uint(t.cover); m != 0; m &= m - 1 {
+		j := int32(bits.TrailingZeros(m))
+		dy := j / bw
+		y := t.minY + dy
+		if y < ys || y > ye {
+			continue
+		}
+		dx := j - dy*bw
+		fy, fx := float32(dy), float32(dx)
+		i := int(y*int32(r.w) + t.minX + dx)
+		if iw := t.z + t.zdy*fy + t.zdx*fx; iw > r.z[i] {
+			k := 1 / iw
+			o := r.base + int(y)*r.stride + int(t.minX+dx)*4
+			p := r.pix[o : o+4 : o+4]
+			p[0] = blend(p[0], clampByte((t.r+t.rdy*fy+t.rdx*fx)*k), alpha)
+			p[1] = blend(p[1], clampByte((t.g+t.gdy*fy+t.gdx*fx)*k), alpha)
+			p[2] = blend(p[2], clampByte((t.b+t.bdy*fy+t.bdx*fx)*k), alpha)
+			if iw > r.tz[i] {
+				r.tz[i] = iw
+				r.tObj[i] = t.obj
+				r.triID[i] = t.tri
+			}
+		}
 	}
 }
 

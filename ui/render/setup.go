@@ -19,6 +19,9 @@ type triSetup struct {
 	id                     float32 // 1 / twice the signed area in pixels, shared by the planes
 	tri                    int32
 	obj                    uint16 // object+1
+	// cover, for a box of at most smallBox pixels, has a bit for each pixel centre the
+	// triangle covers, bit (y-minY)*(maxX-minX+1) + (x-minX); 0 for a bigger box.
+	cover uint8
 	// v holds the corners' indices into the frame's vertices in the order above, for the
 	// colour planes filled once the vertices are shaded; -1 for a piece of a clipped triangle
 	// (its colours are set with its geometry).
@@ -262,8 +265,11 @@ func (r *Renderer) setupGeometryArea(a, b, c *screenPos, area int64, cull bool, 
 	ts.minX, ts.minY, ts.maxX, ts.maxY = x0, y0, x1, y1
 	// Most triangles of a fine mesh are about a pixel; many cover no pixel centre and would
 	// draw nothing: drop them before the rest of the setup, the colours and the binning.
-	if (x1-x0+1)*(y1-y0+1) <= smallBox && !coversCentre(ts) {
-		return false, false
+	ts.cover = 0
+	if (x1-x0+1)*(y1-y0+1) <= smallBox {
+		if ts.cover = coverMask(ts); ts.cover == 0 {
+			return false, false
+		}
 	}
 
 	const inv = 1.0 / subOne
@@ -281,24 +287,27 @@ func (r *Renderer) setupGeometryArea(a, b, c *screenPos, area int64, cull bool, 
 	return swapped, true
 }
 
-// smallBox is the largest pixel box (in pixels) whose centres setupGeometry tests one by one.
+// smallBox is the largest pixel box (in pixels) whose centres setupGeometry tests one by one
+// (at most 8, the bits of triSetup.cover).
 const smallBox = 4
 
-// coversCentre reports whether t, its corners and box set, covers the centre of a pixel of its
-// box, by the same edge functions and fill rule that draw it.
-func coversCentre(t *triSetup) bool {
+// coverMask returns the pixel centres of its box that t, its corners and box set, covers
+// (triSetup.cover), by the same edge functions and fill rule that draw a bigger triangle.
+func coverMask(t *triSetup) uint8 {
+	var m, bit uint8 = 0, 1
 	for y := t.minY; y <= t.maxY; y++ {
 		e0, e1, e2, s0, s1, s2 := edges(t, t.minX, y)
 		for x := t.minX; x <= t.maxX; x++ {
 			if e0|e1|e2 >= 0 {
-				return true
+				m |= bit
 			}
+			bit <<= 1
 			e0 += s0
 			e1 += s1
 			e2 += s2
 		}
 	}
-	return false
+	return m
 }
 
 func min3(a, b, c int32) int32 { return min(a, min(b, c)) }
