@@ -41,9 +41,9 @@ type Renderer struct {
 	// simpler holds the simplified copies of huge meshes drawn while turning.
 	simpler map[*mesh.Mesh]*simplified
 	turning bool
-	verts   []packedVert
 	pos     []screenPos
-	wcol    [][3]float32 // lit colour times 1/w
+	col     []mgl32.Vec3 // lit colour of the vertices shadePhase lit
+	wcol    [][3]float32 // the same times 1/w
 	vjobs   []vertexJob
 	// marks[v] == stamp: vertex v belongs to a triangle that survived culling this frame.
 	marks []uint32
@@ -329,7 +329,7 @@ func (r *Renderer) prepareObjects(s *Scene) {
 		}
 		nv += n
 	}
-	r.verts = grow(r.verts, nv)
+	r.col = grow(r.col, nv)
 	r.pos = grow(r.pos, nv)
 	r.wcol = grow(r.wcol, nv)
 	r.marks = grow(r.marks, nv)

@@ -158,14 +158,10 @@ func (r *Renderer) colourPhase(int) {
 			r.setupColour(&ch.clear[i])
 		}
 		o := &r.objs[ch.obj]
-		verts := r.verts[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
-		pos := r.pos[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
 		bins := r.opaqueBins[c*r.nBands : (c+1)*r.nBands]
 		objID := uint16(ch.obj + 1)
 		for _, t := range ch.clipped {
-			tri := o.mesh.Triangles[t]
-			codes := pos[tri[0]].code | pos[tri[1]].code | pos[tri[2]].code
-			r.clipTriangle(ch, bins, o, &verts[tri[0]], &verts[tri[1]], &verts[tri[2]], codes, t, objID)
+			r.clipTriangle(ch, bins, o, t, objID)
 		}
 	}
 }
@@ -340,11 +336,21 @@ func (r *Renderer) distance(v *clipVert, bit uint32) float32 {
 
 // clipTriangle clips against the near plane, the clipping plane and the guard band
 // (Sutherland-Hodgman), then sets up the resulting fan.
-func (r *Renderer) clipTriangle(ch *triChunk, bins [][]int32, o *frameObject, a, b, c *packedVert, codes uint32, tri int32, objID uint16) {
+func (r *Renderer) clipTriangle(ch *triChunk, bins [][]int32, o *frameObject, tri int32, objID uint16) {
 	var bufA, bufB [12]clipVert
 	in, out := bufA[:0], bufB[:0]
-	for _, p := range [3]*packedVert{a, b, c} {
-		in = append(in, clipVert{x: p.cx, y: p.cy, w: p.cw, d: p.d, col: p.col})
+	var codes uint32
+	var cc [clipBlock][3]float64
+	for _, v := range o.mesh.Triangles[tri] {
+		i := o.vertBase + int(v)
+		codes |= r.pos[i].code
+		p := o.mesh.Vertices[v]
+		r.clipCoords(o.mesh.Vertices[v:v+1], &cc)
+		cv := clipVert{x: float32(cc[0][0]), y: float32(cc[0][1]), w: float32(cc[0][2]), col: r.col[i]}
+		if o.clip {
+			cv.d = float32(r.clipDistance(o, int(v), p))
+		}
+		in = append(in, cv)
 	}
 	for bit := uint32(outNear); bit <= outGuardB; bit <<= 1 {
 		if codes&bit == 0 {

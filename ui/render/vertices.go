@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"github.com/go-gl/mathgl/mgl32"
+	"github.com/go-gl/mathgl/mgl64"
 )
 
 // screenPos is where a vertex lands: fixed-point pixel position, 1/w and outcode, the 16 bytes
@@ -19,13 +20,6 @@ type screenPos struct {
 type screenVert struct {
 	screenPos
 	c [3]float32 // shaded colour (0..255) times 1/w
-}
-
-// packedVert is what clipping and lighting need of a vertex transformed for this frame.
-type packedVert struct {
-	cx, cy, cw float32 // clip-space x, y and w (w = distance in front of the eye)
-	d          float32 // signed distance to the clipping plane
-	col        mgl32.Vec3
 }
 
 // Outcode bits: which clip planes a vertex is outside of.
@@ -72,43 +66,54 @@ func (r *Renderer) vertexPhase(int) {
 }
 
 func (r *Renderer) transformVertices(o *frameObject, v0, v1 int) {
-	m := r.view
 	verts := o.mesh.Vertices
-	out := r.verts[o.vertBase : o.vertBase+len(verts)][v0:v1]
-	pos := r.pos[o.vertBase : o.vertBase+len(verts)][v0:v1]
+	pos := r.pos[o.vertBase : o.vertBase+len(verts)]
 	near := float64(r.near)
-	clip, clipDist := o.clip, o.clipDist
-	for k, p := range verts[v0:v1] {
+	var cc [clipBlock][3]float64
+	for b0 := v0; b0 < v1; b0 += clipBlock {
+		b1 := min(v1, b0+clipBlock)
+		r.clipCoords(verts[b0:b1], &cc)
+		for k, c := range cc[:b1-b0] {
+			cx, cy, cw := c[0], c[1], c[2]
+			// Most vertices lie in the view: one test for all the outcode's bits.
+			var code uint32
+			if sum := cx + cy + cw; !(cw >= near && cx <= cw && -cw <= cx && cy <= cw && -cw <= cy && sum-sum == 0) {
+				code = outcode(cx, cy, cw, near)
+			}
+			if o.clip && code != outBad && r.clipDistance(o, b0+k, verts[b0+k]) < 0 {
+				code |= outPlane
+			}
+			sp := &pos[b0+k]
+			if code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
+				*sp = r.projectPosition(float32(cx), float32(cy), float32(cw))
+			}
+			sp.code = code
+		}
+	}
+}
+
+// clipBlock is how many vertices clipCoords takes at a time.
+const clipBlock = 256
+
+// clipCoords writes world points ps (at most clipBlock) in clip space to out: x and y scaled
+// by the projection, w the distance in front of the eye. Clipping finds a vertex's coordinates
+// again here, so they are the ones its outcode came from.
+func (r *Renderer) clipCoords(ps []mgl64.Vec3, out *[clipBlock][3]float64) {
+	m, p00, p11 := r.view, r.p00, r.p11
+	for k, p := range ps[:min(len(ps), clipBlock)] {
 		vx := m[0]*p[0] + m[4]*p[1] + m[8]*p[2] + m[12]
 		vy := m[1]*p[0] + m[5]*p[1] + m[9]*p[2] + m[13]
 		vz := m[2]*p[0] + m[6]*p[1] + m[10]*p[2] + m[14]
-		cx, cy, cw := vx*r.p00, vy*r.p11, -vz
-		pv := &out[k]
-		pv.cx, pv.cy, pv.cw = float32(cx), float32(cy), float32(cw)
-
-		// Most vertices lie in the view: one test for all the outcode's bits.
-		var code uint32
-		if sum := cx + cy + cw; !(cw >= near && cx <= cw && -cw <= cx && cy <= cw && -cw <= cy && sum-sum == 0) {
-			code = outcode(cx, cy, cw, near)
-		}
-		if clip {
-			var d float64
-			if clipDist != nil {
-				d = float64(clipDist[v0+k])
-			} else {
-				d = r.plane[0]*p[0] + r.plane[1]*p[1] + r.plane[2]*p[2] + r.plane[3]
-			}
-			pv.d = float32(d)
-			if d < 0 && code != outBad {
-				code |= outPlane
-			}
-		}
-		sp := &pos[k]
-		if code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
-			*sp = r.projectPosition(pv.cx, pv.cy, pv.cw)
-		}
-		sp.code = code
+		out[k] = [3]float64{vx * p00, vy * p11, -vz}
 	}
+}
+
+// clipDistance is the signed distance of o's vertex i (at p) to its cut (>= 0 is kept).
+func (r *Renderer) clipDistance(o *frameObject, i int, p mgl64.Vec3) float64 {
+	if o.clipDist != nil {
+		return float64(o.clipDist[i])
+	}
+	return r.plane[0]*p[0] + r.plane[1]*p[1] + r.plane[2]*p[2] + r.plane[3]
 }
 
 // outcode classifies a vertex in clip space against the near plane, the guard band and the
@@ -164,7 +169,7 @@ func (r *Renderer) shadePhase(int) {
 func (r *Renderer) shadeVertices(o *frameObject, v0, v1 int) {
 	rot := r.rot
 	src := o.src
-	out := r.verts[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
+	out := r.col[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
 	pos := r.pos[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
 	wcol := r.wcol[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
 	marks := r.marks[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
@@ -178,7 +183,6 @@ func (r *Renderer) shadeVertices(o *frameObject, v0, v1 int) {
 		if marks[i] != stamp {
 			continue
 		}
-		pv := &out[i]
 		// Two-sided shading: |n.l| lights the inside of a tube as well as the outside.
 		var n mgl32.Vec3
 		if ownNormals {
@@ -193,10 +197,11 @@ func (r *Renderer) shadeVertices(o *frameObject, v0, v1 int) {
 			k := src.Colors[i]
 			c = mgl32.Vec3{float32(k.R), float32(k.G), float32(k.B)}
 		}
-		pv.col = shade(c, n)
+		col := shade(c, n)
+		out[i] = col
 		if sp := &pos[i]; sp.code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
 			iw := sp.iw
-			wcol[i] = [3]float32{pv.col[0] * iw, pv.col[1] * iw, pv.col[2] * iw}
+			wcol[i] = [3]float32{col[0] * iw, col[1] * iw, col[2] * iw}
 		}
 	}
 }
