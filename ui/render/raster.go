@@ -99,18 +99,21 @@ func (r *Renderer) clearRows(y0, y1, band int) {
 func edges(t *triSetup, x, y int32) (e0, e1, e2, s0, s1, s2 int64) {
 	px := int64(x)<<subBits + subHalf
 	py := int64(y)<<subBits + subHalf
-	edge := func(ax, ay, bx, by int32) (e, step int64) {
-		dx, dy := int64(bx-ax), int64(by-ay)
-		e = dx*(py-int64(ay)) - dy*(px-int64(ax))
-		if !(dy < 0 || (dy == 0 && dx > 0)) {
-			e--
-		}
-		return e, -dy << subBits
-	}
-	e0, s0 = edge(t.x1, t.y1, t.x2, t.y2)
-	e1, s1 = edge(t.x2, t.y2, t.x0, t.y0)
-	e2, s2 = edge(t.x0, t.y0, t.x1, t.y1)
+	e0, s0 = edgeFunction(t.x1, t.y1, t.x2, t.y2, px, py)
+	e1, s1 = edgeFunction(t.x2, t.y2, t.x0, t.y0, px, py)
+	e2, s2 = edgeFunction(t.x0, t.y0, t.x1, t.y1, px, py)
 	return
+}
+
+// edgeFunction returns the edge function of edge a->b at point (px, py) (fixed point), biased
+// for the top-left rule, and its step per pixel in x.
+func edgeFunction(ax, ay, bx, by int32, px, py int64) (e, step int64) {
+	dx, dy := int64(bx-ax), int64(by-ay)
+	e = dx*(py-int64(ay)) - dy*(px-int64(ax))
+	if !(dy < 0 || (dy == 0 && dx > 0)) {
+		e--
+	}
+	return e, -dy << subBits
 }
 
 // rowStep is how much the edge functions grow from one pixel row to the next.
@@ -221,15 +224,14 @@ func (r *Renderer) rasterOpaque(t *triSetup, y0, y1 int) {
 // rasterOpaqueSmall is rasterOpaque for a triangle whose covered pixels are known
 // (triSetup.cover), in rows ys..ye; the same arithmetic gives the same depths and colours.
 func (r *Renderer) rasterOpaqueSmall(t *triSetup, ys, ye int32) {
-	bw := t.maxX - t.minX + 1
 	for m := uint(t.cover); m != 0; m &= m - 1 {
 		j := int32(bits.TrailingZeros(m))
-		dy := j / bw
+		dy := j >> 2
 		y := t.minY + dy
 		if y < ys || y > ye {
 			continue
 		}
-		dx := j - dy*bw
+		dx := j & 3
 		fy, fx := float32(dy), float32(dx)
 		i := int(y*int32(r.w) + t.minX + dx)
 		if iw := t.z + t.zdy*fy + t.zdx*fx; iw > r.z[i] {
@@ -312,15 +314,14 @@ func (r *Renderer) rasterSeeThrough(t *triSetup, y0, y1 int, alpha int32) {
 // rasterSeeThroughSmall is rasterSeeThrough for a triangle whose covered pixels are known
 // (triSetup.cover), in rows ys..ye.
 func (r *Renderer) rasterSeeThroughSmall(t *triSetup, ys, ye int32, alpha int32) {
-	bw := t.maxX - t.minX + 1
 	for m := uint(t.cover); m != 0; m &= m - 1 {
 		j := int32(bits.TrailingZeros(m))
-		dy := j / bw
+		dy := j >> 2
 		y := t.minY + dy
 		if y < ys || y > ye {
 			continue
 		}
-		dx := j - dy*bw
+		dx := j & 3
 		fy, fx := float32(dy), float32(dx)
 		i := int(y*int32(r.w) + t.minX + dx)
 		if iw := t.z + t.zdy*fy + t.zdx*fx; iw > r.z[i] {

@@ -24,6 +24,7 @@ type Renderer struct {
 	// Internal frame size (output size times the supersampling factor).
 	w, h, ss      int
 	bandH, nBands int
+	rowBand       []int32 // [y] the band of row y
 	workers       int
 
 	// Camera for this frame.
@@ -213,6 +214,12 @@ func (r *Renderer) resize(dst *image.RGBA, ss int) {
 	r.w, r.h = dst.Rect.Dx()*ss, dst.Rect.Dy()*ss
 	r.bandH = ss * max(1, bandRows/ss)
 	r.nBands = (r.h + r.bandH - 1) / r.bandH
+	// Binning asks every triangle for the bands of its top and bottom rows: a table, not
+	// two integer divisions (slow on x86) per triangle.
+	r.rowBand = grow(r.rowBand, r.h)
+	for y := range r.rowBand {
+		r.rowBand[y] = int32(y / r.bandH)
+	}
 	n := r.w * r.h
 	r.z = grow(r.z, n)
 	r.tz = grow(r.tz, n)

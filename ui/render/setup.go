@@ -20,8 +20,8 @@ type triSetup struct {
 	tri                    int32
 	obj                    uint16 // object+1
 	// cover, for a box of at most smallBox pixels, has a bit for each pixel centre the
-	// triangle covers, bit (y-minY)*(maxX-minX+1) + (x-minX); 0 for a bigger box.
-	cover uint8
+	// triangle covers, bit 4*(y-minY) + (x-minX); 0 for a bigger box.
+	cover uint16
 	// v holds the corners' indices into the frame's vertices in the order above, for the
 	// colour planes filled once the vertices are shaded; -1 for a piece of a clipped triangle
 	// (its colours are set with its geometry).
@@ -76,17 +76,17 @@ func (r *Renderer) cullChunk(c int) {
 				mark(tri[2])
 				continue
 			}
+			cover := uint16(k >> keptShift)
+			k &= cullBlock - 1
 			tri := tris[k]
 			a, b, cc := &pos[tri[0]], &pos[tri[1]], &pos[tri[2]]
-			area := int64(b.x-a.x)*int64(cc.y-a.y) - int64(b.y-a.y)*int64(cc.x-a.x)
-			swapped, ok := r.setupGeometryArea(a, b, cc, area, cull, &ts)
-			if !ok {
-				continue
-			}
 			ts.v = [3]int32{base + tri[0], base + tri[1], base + tri[2]}
-			if swapped {
+			if int64(b.x-a.x)*int64(cc.y-a.y) < int64(b.y-a.y)*int64(cc.x-a.x) { // front face: reorder
+				b, cc = cc, b
 				ts.v[1], ts.v[2] = ts.v[2], ts.v[1]
 			}
+			x0, y0, x1, y1 := pixelBox(a, b, cc, w, h)
+			setupPlanes(&ts, a, b, cc, x0, y0, x1, y1, cover)
 			ts.tri, ts.obj = int32(t0)+k, objID
 			r.emit(ch, bins, o, &ts)
 			mark(tri[0])
@@ -99,12 +99,16 @@ func (r *Renderer) cullChunk(c int) {
 // cullBlock is how many triangles keptTriangles looks at in one call.
 const cullBlock = 1024
 
-// keptTriangles writes to kept the indices in tris (at most cullBlock) of the triangles that
-// may draw and returns how many: corners valid, not wholly outside the view or cut away, not
-// edge-on, facing the eye when cull is set, a pixel centre of the w x h viewport within their
-// box. A triangle that crosses a clip plane or the guard band is written as ^index. It is most
-// of a frame's triangles and the cheap tests reject most of them, so this loop is kept free of
-// calls and stores, where the compiler keeps its values in registers.
+// keptShift places a kept triangle's cover mask above its index in keptTriangles' output.
+const keptShift = 10 // log2(cullBlock)
+
+// keptTriangles writes to kept the triangles of tris (at most cullBlock) that draw and returns
+// how many: corners valid, not wholly outside the view or cut away, facing the eye when cull
+// is set, and covering a pixel centre of the w x h viewport (tested one by one in a box of at
+// most smallBox pixels, else only the box), each as its index plus its cover mask
+// (triSetup.cover) << keptShift. A triangle that crosses a clip plane or the guard band is
+// written as ^index. This loop sees every triangle of a frame and rejects most, so it does the
+// cheap tests alone, where the compiler keeps its values in registers.
 func keptTriangles(tris [][3]int32, pos []screenPos, cull bool, w, h int32, kept *[cullBlock]int32) int {
 	n := 0
 	for k := range tris {
@@ -129,15 +133,20 @@ func keptTriangles(tris [][3]int32, pos []screenPos, cull bool, w, h int32, kept
 		if area == 0 || cull && area > 0 {
 			continue
 		}
-		// No pixel centre in the box (as setupGeometry finds it).
-		x0 := max((min3(a.x, b.x, c.x)-subHalf+subOne-1)>>subBits, 0)
-		x1 := min((max3(a.x, b.x, c.x)-subHalf)>>subBits, w-1)
-		y0 := max((min3(a.y, b.y, c.y)-subHalf+subOne-1)>>subBits, 0)
-		y1 := min((max3(a.y, b.y, c.y)-subHalf)>>subBits, h-1)
+		x0, y0, x1, y1 := pixelBox(a, b, c, w, h)
 		if x0 > x1 || y0 > y1 {
 			continue
 		}
-		kept[n&(cullBlock-1)] = int32(k)
+		var cover uint16
+		if (x1-x0+1)*(y1-y0+1) <= smallBox {
+			if area < 0 {
+				b, c = c, b
+			}
+			if cover = coverMask(a, b, c, x0, y0, x1, y1); cover == 0 {
+				continue
+			}
+		}
+		kept[n&(cullBlock-1)] = int32(k) | int32(cover)<<keptShift
 		n++
 	}
 	return n
@@ -174,7 +183,7 @@ func (r *Renderer) emit(ch *triChunk, bins [][]int32, o *frameObject, ts *triSet
 	}
 	idx := int32(len(ch.opaque))
 	ch.opaque = append(ch.opaque, *ts)
-	for band := int(ts.minY) / r.bandH; band <= int(ts.maxY)/r.bandH; band++ {
+	for band := r.rowBand[ts.minY]; band <= r.rowBand[ts.maxY]; band++ {
 		bins[band] = append(bins[band], idx)
 	}
 }
@@ -232,41 +241,46 @@ func (r *Renderer) setupGeometry(a, b, c *screenPos, cull bool, ts *triSetup) (s
 	return r.setupGeometryArea(a, b, c, area, cull, ts)
 }
 
-// setupGeometryArea is setupGeometry given the triangle's doubled signed area in fixed point
-// (the culling loop has it already).
+// setupGeometryArea is setupGeometry given the triangle's doubled signed area in fixed point.
 func (r *Renderer) setupGeometryArea(a, b, c *screenPos, area int64, cull bool, ts *triSetup) (swapped, ok bool) {
-	if area == 0 {
+	if area == 0 || cull && area > 0 {
 		return false, false
 	}
 	// On screen y points down, so a front face has negative area; reorder to positive.
-	if area > 0 {
-		if cull {
-			return false, false
-		}
-	} else {
+	if area < 0 {
 		b, c = c, b
 		swapped = true
 	}
-	minx, maxx := min3(a.x, b.x, c.x), max3(a.x, b.x, c.x)
-	miny, maxy := min3(a.y, b.y, c.y), max3(a.y, b.y, c.y)
-	// Pixels whose centres (k + 1/2) lie within the box.
-	x0 := max((minx-subHalf+subOne-1)>>subBits, 0)
-	x1 := min((maxx-subHalf)>>subBits, int32(r.w-1))
-	y0 := max((miny-subHalf+subOne-1)>>subBits, 0)
-	y1 := min((maxy-subHalf)>>subBits, int32(r.h-1))
+	x0, y0, x1, y1 := pixelBox(a, b, c, int32(r.w), int32(r.h))
 	if x0 > x1 || y0 > y1 {
 		return false, false
 	}
-	ts.x0, ts.y0, ts.x1, ts.y1, ts.x2, ts.y2 = a.x, a.y, b.x, b.y, c.x, c.y
-	ts.minX, ts.minY, ts.maxX, ts.maxY = x0, y0, x1, y1
-	// Most triangles of a fine mesh are about a pixel; many cover no pixel centre and would
-	// draw nothing: drop them before the rest of the setup, the colours and the binning.
-	ts.cover = 0
+	var cover uint16
 	if (x1-x0+1)*(y1-y0+1) <= smallBox {
-		if ts.cover = coverMask(ts); ts.cover == 0 {
+		if cover = coverMask(a, b, c, x0, y0, x1, y1); cover == 0 {
 			return false, false
 		}
 	}
+	setupPlanes(ts, a, b, c, x0, y0, x1, y1, cover)
+	return swapped, true
+}
+
+// pixelBox returns the pixels whose centres (k + 1/2) lie within the bounding box of a, b and
+// c, clamped to a w x h viewport; empty when x0 > x1 or y0 > y1.
+func pixelBox(a, b, c *screenPos, w, h int32) (x0, y0, x1, y1 int32) {
+	x0 = max((min3(a.x, b.x, c.x)-subHalf+subOne-1)>>subBits, 0)
+	x1 = min((max3(a.x, b.x, c.x)-subHalf)>>subBits, w-1)
+	y0 = max((min3(a.y, b.y, c.y)-subHalf+subOne-1)>>subBits, 0)
+	y1 = min((max3(a.y, b.y, c.y)-subHalf)>>subBits, h-1)
+	return
+}
+
+// setupPlanes fills ts for triangle (a, b, c), ordered so its edge functions are positive
+// inside, with pixel box x0..x1, y0..y1: corners, box, cover and the depth plane.
+func setupPlanes(ts *triSetup, a, b, c *screenPos, x0, y0, x1, y1 int32, cover uint16) {
+	ts.x0, ts.y0, ts.x1, ts.y1, ts.x2, ts.y2 = a.x, a.y, b.x, b.y, c.x, c.y
+	ts.minX, ts.minY, ts.maxX, ts.maxY = x0, y0, x1, y1
+	ts.cover = cover
 
 	const inv = 1.0 / subOne
 	dx1, dy1 := float32(b.x-a.x)*inv, float32(b.y-a.y)*inv
@@ -280,20 +294,27 @@ func (r *Renderer) setupGeometryArea(a, b, c *screenPos, area int64, cull bool, 
 	ts.zdx = (d1*dy2 - d2*dy1) * id
 	ts.zdy = (d2*dx1 - d1*dx2) * id
 	ts.z = a.iw + ts.zdx*ox + ts.zdy*oy
-	return swapped, true
 }
 
-// smallBox is the largest pixel box (in pixels) whose centres setupGeometry tests one by one
-// (at most 8, the bits of triSetup.cover).
+// smallBox is the largest pixel box (in pixels) whose centres culling tests one by one: most
+// triangles of a fine mesh are about a pixel, many cover no pixel centre and would draw
+// nothing, and those are dropped before the rest of the setup, the colours and the binning.
+// At most 4, so a box is at most 4 pixels wide or high (triSetup.cover).
 const smallBox = 4
 
-// coverMask returns the pixel centres of its box that t, its corners and box set, covers
-// (triSetup.cover), by the same edge functions and fill rule that draw a bigger triangle.
-func coverMask(t *triSetup) uint8 {
-	var m, bit uint8 = 0, 1
-	for y := t.minY; y <= t.maxY; y++ {
-		e0, e1, e2, s0, s1, s2 := edges(t, t.minX, y)
-		for x := t.minX; x <= t.maxX; x++ {
+// coverMask returns which pixel centres of the box x0..x1, y0..y1 (at most smallBox pixels)
+// triangle (a, b, c) covers, ordered so its edge functions are positive inside: bit
+// 4*(y-y0) + (x-x0), by the same edge functions and fill rule that draw a bigger triangle.
+func coverMask(a, b, c *screenPos, x0, y0, x1, y1 int32) uint16 {
+	var m uint16
+	px := int64(x0)<<subBits + subHalf
+	for y := y0; y <= y1; y++ {
+		py := int64(y)<<subBits + subHalf
+		e0, s0 := edgeFunction(b.x, b.y, c.x, c.y, px, py)
+		e1, s1 := edgeFunction(c.x, c.y, a.x, a.y, px, py)
+		e2, s2 := edgeFunction(a.x, a.y, b.x, b.y, px, py)
+		bit := uint16(1) << (4 * (y - y0))
+		for x := x0; x <= x1; x++ {
 			if e0|e1|e2 >= 0 {
 				m |= bit
 			}
