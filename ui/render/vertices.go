@@ -184,20 +184,21 @@ func (r *Renderer) shadeVertices(o *frameObject, v0, v1 int) {
 			continue
 		}
 		// Two-sided shading: |n.l| lights the inside of a tube as well as the outside.
-		var n mgl32.Vec3
+		var nx, ny, nz float32
 		if ownNormals {
 			q := rot.Mul3x1(src.Normals[i])
-			n = mgl32.Vec3{float32(q[0]), float32(q[1]), float32(q[2])}
+			nx, ny, nz = float32(q[0]), float32(q[1]), float32(q[2])
 		} else {
-			q := o.normals[i]
-			n = mgl32.Vec3{r00*q[0] + r01*q[1] + r02*q[2], r10*q[0] + r11*q[1] + r12*q[2], r20*q[0] + r21*q[1] + r22*q[2]}
+			q := &o.normals[i]
+			nx, ny, nz = r00*q[0]+r01*q[1]+r02*q[2], r10*q[0]+r11*q[1]+r12*q[2], r20*q[0]+r21*q[1]+r22*q[2]
 		}
-		c := base
+		cr, cg, cb := base[0], base[1], base[2]
 		if o.colors {
 			k := src.Colors[i]
-			c = mgl32.Vec3{float32(k.R), float32(k.G), float32(k.B)}
+			cr, cg, cb = float32(k.R), float32(k.G), float32(k.B)
 		}
-		col := shade(c, n)
+		k, h := light(nx, ny, nz)
+		col := mgl32.Vec3{cr*k + h, cg*k + h, cb*k + h}
 		out[i] = col
 		if sp := &pos[i]; sp.code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
 			iw := sp.iw
@@ -206,23 +207,23 @@ func (r *Renderer) shadeVertices(o *frameObject, v0, v1 int) {
 	}
 }
 
-// shade lights colour c (0..255) on a surface with view-space normal n.
-func shade(c, n mgl32.Vec3) mgl32.Vec3 {
-	l := n.Len()
+// light returns how a surface with view-space normal (nx, ny, nz) lights a colour c (0..255):
+// c*k + h.
+func light(nx, ny, nz float32) (k, h float32) {
+	l := float32(math.Sqrt(float64(nx*nx + ny*ny + nz*nz)))
 	if !(l > 1e-12) {
-		return c.Mul(ambient + 0.5*(diffuse+fill))
+		return ambient + 0.5*(diffuse+fill), 0
 	}
-	n = n.Mul(1 / l)
-	d := abs32(n.Dot(keyLight))
-	s := abs32(n.Dot(halfway))
+	inv := 1 / l
+	nx, ny, nz = nx*inv, ny*inv, nz*inv
+	d := abs32(nx*keyLight[0] + ny*keyLight[1] + nz*keyLight[2])
+	s := abs32(nx*halfway[0] + ny*halfway[1] + nz*halfway[2])
 	s *= s // s^32 by squaring
 	s *= s
 	s *= s
 	s *= s
 	s *= s
-	k := ambient + diffuse*d + fill*abs32(n[2])
-	h := highlight * s
-	return mgl32.Vec3{c[0]*k + h, c[1]*k + h, c[2]*k + h}
+	return ambient + diffuse*d + fill*abs32(nz), highlight * s
 }
 
 func abs32(x float32) float32 {
