@@ -46,9 +46,9 @@ type Renderer struct {
 	col     []mgl32.Vec3 // lit colour of the vertices shadePhase lit
 	wcol    [][3]float32 // the same times 1/w
 	vjobs   []vertexJob
-	// marks[v] == stamp: vertex v belongs to a triangle that survived culling this frame.
-	marks []uint32
-	stamp uint32
+	// marks[w] has bit v set when worker w kept a triangle with corner v this frame (one bit
+	// set per worker, so marking takes no atomic operation and no lock).
+	marks [][]uint64
 
 	chunks     []triChunk
 	nChunks    int
@@ -339,10 +339,10 @@ func (r *Renderer) prepareObjects(s *Scene) {
 	r.col = grow(r.col, nv)
 	r.pos = grow(r.pos, nv)
 	r.wcol = grow(r.wcol, nv)
-	r.marks = grow(r.marks, nv)
-	if r.stamp++; r.stamp == 0 { // wrapped: old marks could match
-		clear(r.marks)
-		r.stamp = 1
+	r.marks = grow(r.marks, r.workers)
+	for w := range r.marks {
+		r.marks[w] = grow(r.marks[w], (nv+63)/64)
+		clear(r.marks[w])
 	}
 }
 

@@ -1,8 +1,6 @@
 package render
 
 import (
-	"sync/atomic"
-
 	"github.com/go-gl/mathgl/mgl32"
 )
 
@@ -35,30 +33,27 @@ type triSetup struct {
 // clipping plane or the guard band.
 
 // cullPhase culls and sets up the geometry of triangles chunk by chunk.
-func (r *Renderer) cullPhase(int) {
+func (r *Renderer) cullPhase(worker int) {
 	for {
 		c, ok := r.nextItem(r.nChunks)
 		if !ok {
 			return
 		}
-		r.cullChunk(c)
+		r.cullChunk(c, r.marks[worker])
 	}
 }
 
-func (r *Renderer) cullChunk(c int) {
+func (r *Renderer) cullChunk(c int, marks []uint64) {
 	ch := &r.chunks[c]
 	o := &r.objs[ch.obj]
 	nv := len(o.mesh.Vertices)
 	base := int32(o.vertBase)
 	pos := r.pos[o.vertBase : o.vertBase+nv]
-	marks := r.marks[o.vertBase : o.vertBase+nv]
 	bins := r.opaqueBins[c*r.nBands : (c+1)*r.nBands]
 	objID := uint16(ch.obj + 1)
-	stamp := r.stamp
 	mark := func(i int32) {
-		if atomic.LoadUint32(&marks[i]) != stamp {
-			atomic.StoreUint32(&marks[i], stamp)
-		}
+		v := base + i
+		marks[v>>6] |= 1 << (v & 63)
 	}
 	cull, w, h := o.cull, int32(r.w), int32(r.h)
 	var ts triSetup

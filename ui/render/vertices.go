@@ -2,6 +2,7 @@ package render
 
 import (
 	"math"
+	"math/bits"
 
 	"github.com/go-gl/mathgl/mgl32"
 	"github.com/go-gl/mathgl/mgl64"
@@ -172,37 +173,45 @@ func (r *Renderer) shadeVertices(o *frameObject, v0, v1 int) {
 	out := r.col[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
 	pos := r.pos[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
 	wcol := r.wcol[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
-	marks := r.marks[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
 	ownNormals := len(src.Normals) == len(out)
 	base := mgl32.Vec3{float32(src.Color.R), float32(src.Color.G), float32(src.Color.B)}
 	r00, r01, r02 := float32(rot[0]), float32(rot[3]), float32(rot[6])
 	r10, r11, r12 := float32(rot[1]), float32(rot[4]), float32(rot[7])
 	r20, r21, r22 := float32(rot[2]), float32(rot[5]), float32(rot[8])
-	stamp := r.stamp
-	for i := v0; i < v1; i++ {
-		if marks[i] != stamp {
-			continue
+	// The marked vertices of v0..v1, 64 at a time, by their numbers in the frame (g).
+	g0, g1 := o.vertBase+v0, o.vertBase+v1
+	for word := g0 >> 6; word <= (g1-1)>>6; word++ {
+		var m uint64
+		for _, mk := range r.marks {
+			m |= mk[word]
 		}
-		// Two-sided shading: |n.l| lights the inside of a tube as well as the outside.
-		var nx, ny, nz float32
-		if ownNormals {
-			q := rot.Mul3x1(src.Normals[i])
-			nx, ny, nz = float32(q[0]), float32(q[1]), float32(q[2])
-		} else {
-			q := &o.normals[i]
-			nx, ny, nz = r00*q[0]+r01*q[1]+r02*q[2], r10*q[0]+r11*q[1]+r12*q[2], r20*q[0]+r21*q[1]+r22*q[2]
-		}
-		cr, cg, cb := base[0], base[1], base[2]
-		if o.colors {
-			k := src.Colors[i]
-			cr, cg, cb = float32(k.R), float32(k.G), float32(k.B)
-		}
-		k, h := light(nx, ny, nz)
-		col := mgl32.Vec3{cr*k + h, cg*k + h, cb*k + h}
-		out[i] = col
-		if sp := &pos[i]; sp.code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
-			iw := sp.iw
-			wcol[i] = [3]float32{col[0] * iw, col[1] * iw, col[2] * iw}
+		for ; m != 0; m &= m - 1 {
+			g := word<<6 + bits.TrailingZeros64(m)
+			if g < g0 || g >= g1 {
+				continue
+			}
+			i := g - o.vertBase
+			// Two-sided shading: |n.l| lights the inside of a tube as well as the outside.
+			var nx, ny, nz float32
+			if ownNormals {
+				q := rot.Mul3x1(src.Normals[i])
+				nx, ny, nz = float32(q[0]), float32(q[1]), float32(q[2])
+			} else {
+				q := &o.normals[i]
+				nx, ny, nz = r00*q[0]+r01*q[1]+r02*q[2], r10*q[0]+r11*q[1]+r12*q[2], r20*q[0]+r21*q[1]+r22*q[2]
+			}
+			cr, cg, cb := base[0], base[1], base[2]
+			if o.colors {
+				k := src.Colors[i]
+				cr, cg, cb = float32(k.R), float32(k.G), float32(k.B)
+			}
+			k, h := light(nx, ny, nz)
+			col := mgl32.Vec3{cr*k + h, cg*k + h, cb*k + h}
+			out[i] = col
+			if sp := &pos[i]; sp.code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
+				iw := sp.iw
+				wcol[i] = [3]float32{col[0] * iw, col[1] * iw, col[2] * iw}
+			}
 		}
 	}
 }
