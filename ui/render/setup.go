@@ -128,7 +128,8 @@ func keptTriangles(tris [][3]int32, pos []screenPos, cull bool, w, h int32, kept
 		if area == 0 || cull && area > 0 {
 			continue
 		}
-		x0, y0, x1, y1 := pixelBox(a, b, c, w, h)
+		x0, x1 := pixelRange(min3(a.x, b.x, c.x), max3(a.x, b.x, c.x), w) // pixelBox, inlined
+		y0, y1 := pixelRange(min3(a.y, b.y, c.y), max3(a.y, b.y, c.y), h)
 		if x0 > x1 || y0 > y1 {
 			continue
 		}
@@ -263,11 +264,14 @@ func (r *Renderer) setupGeometryArea(a, b, c *screenPos, area int64, cull bool, 
 // pixelBox returns the pixels whose centres (k + 1/2) lie within the bounding box of a, b and
 // c, clamped to a w x h viewport; empty when x0 > x1 or y0 > y1.
 func pixelBox(a, b, c *screenPos, w, h int32) (x0, y0, x1, y1 int32) {
-	x0 = max((min3(a.x, b.x, c.x)-subHalf+subOne-1)>>subBits, 0)
-	x1 = min((max3(a.x, b.x, c.x)-subHalf)>>subBits, w-1)
-	y0 = max((min3(a.y, b.y, c.y)-subHalf+subOne-1)>>subBits, 0)
-	y1 = min((max3(a.y, b.y, c.y)-subHalf)>>subBits, h-1)
+	x0, x1 = pixelRange(min3(a.x, b.x, c.x), max3(a.x, b.x, c.x), w)
+	y0, y1 = pixelRange(min3(a.y, b.y, c.y), max3(a.y, b.y, c.y), h)
 	return
+}
+
+// pixelRange returns the pixels k0..k1 of 0..n-1 whose centres lie in lo..hi (fixed point).
+func pixelRange(lo, hi, n int32) (k0, k1 int32) {
+	return max((lo-subHalf+subOne-1)>>subBits, 0), min((hi-subHalf)>>subBits, n-1)
 }
 
 // setupPlanes fills ts for triangle (a, b, c), ordered so its edge functions are positive
