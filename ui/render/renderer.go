@@ -98,15 +98,17 @@ type frameObject struct {
 	outline    bool
 	normals    []mgl32.Vec3
 	colors     bool
+	clusters   []coneCluster // when cull is set
 }
 
 type meshCache struct {
-	nv, nt  int
-	v0      *mgl64.Vec3
-	t0      *[3]int32
-	normals []mgl32.Vec3
-	lo, hi  mgl64.Vec3
-	used    bool
+	nv, nt   int
+	clusters []coneCluster // built the first time the mesh is drawn with back faces culled
+	v0       *mgl64.Vec3
+	t0       *[3]int32
+	normals  []mgl32.Vec3
+	lo, hi   mgl64.Vec3
+	used     bool
 }
 
 type vertexJob struct{ obj, v0, v1 int }
@@ -328,6 +330,12 @@ func (r *Renderer) prepareObjects(s *Scene) {
 			}
 		}
 		fo.cull = !fo.seeThrough && !fo.clip && !inside
+		if fo.cull {
+			if mc.clusters == nil {
+				mc.clusters = buildClusters(o.Mesh)
+			}
+			fo.clusters = mc.clusters
+		}
 		r.objs = append(r.objs, fo)
 		n := len(o.Mesh.Vertices)
 		const step = 8192
@@ -403,7 +411,8 @@ func (r *Renderer) prepareChunks() {
 			total += len(o.mesh.Triangles)
 		}
 	}
-	size := max(4096, (total+255)/256)
+	// Whole blocks of culling (so its clusters of triangles line up with the chunks).
+	size := max(4096, (total+255)/256+cullBlock-1) &^ (cullBlock - 1)
 	n := 0
 	for oi, o := range r.objs {
 		if o.mesh == nil {

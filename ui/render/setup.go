@@ -60,7 +60,16 @@ func (r *Renderer) cullChunk(c int, marks []uint64) {
 	var kept [cullBlock]int32
 	for t0 := ch.t0; t0 < ch.t1; t0 += cullBlock {
 		tris := o.mesh.Triangles[t0:min(ch.t1, t0+cullBlock)]
-		n := keptTriangles(tris, pos, cull, w, h, &kept)
+		// Clusters whose triangles all face away (one bit each; chunks start on a block).
+		var away uint64
+		if cull {
+			for j := range (len(tris) + clusterSize - 1) / clusterSize {
+				if o.clusters[t0/clusterSize+j].facesAway(r.eye) {
+					away |= 1 << j
+				}
+			}
+		}
+		n := keptTriangles(tris, pos, cull, away, w, h, &kept)
 		for _, k := range kept[:n] {
 			if k < 0 { // crosses a clip plane or the guard band: clipped once its corners are lit
 				k = ^k
@@ -104,46 +113,51 @@ const keptShift = 10 // log2(cullBlock)
 // (triSetup.cover) << keptShift. A triangle that crosses a clip plane or the guard band is
 // written as ^index. This loop sees every triangle of a frame and rejects most, so it does the
 // cheap tests alone, where the compiler keeps its values in registers.
-func keptTriangles(tris [][3]int32, pos []screenPos, cull bool, w, h int32, kept *[cullBlock]int32) int {
+func keptTriangles(tris [][3]int32, pos []screenPos, cull bool, away uint64, w, h int32, kept *[cullBlock]int32) int {
 	n := 0
-	for k := range tris {
-		tri := &tris[k]
-		i0, i1, i2 := int(tri[0]), int(tri[1]), int(tri[2])
-		if uint(i0) >= uint(len(pos)) || uint(i1) >= uint(len(pos)) || uint(i2) >= uint(len(pos)) {
-			continue // a bad index draws nothing rather than panicking
-		}
-		a, b, c := &pos[i0], &pos[i1], &pos[i2]
-		if codes := a.code | b.code | c.code; codes != 0 {
-			if codes&outBad != 0 || (a.code&b.code&c.code)&outReject != 0 {
-				continue
-			}
-			if codes&outClip != 0 {
-				kept[n&(cullBlock-1)] = int32(^k)
-				n++
-				continue
-			}
-		}
-		// Facing away or edge-on (y points down on screen, so a front face has negative area).
-		area := int64(b.x-a.x)*int64(c.y-a.y) - int64(b.y-a.y)*int64(c.x-a.x)
-		if area == 0 || cull && area > 0 {
+	for j := 0; j < len(tris); j += clusterSize {
+		if away>>(j/clusterSize)&1 != 0 {
 			continue
 		}
-		x0, x1 := pixelRange(min3(a.x, b.x, c.x), max3(a.x, b.x, c.x), w) // pixelBox, inlined
-		y0, y1 := pixelRange(min3(a.y, b.y, c.y), max3(a.y, b.y, c.y), h)
-		if x0 > x1 || y0 > y1 {
-			continue
-		}
-		var cover uint16
-		if (x1-x0+1)*(y1-y0+1) <= smallBox {
-			if area < 0 {
-				b, c = c, b
+		for k := j; k < min(j+clusterSize, len(tris)); k++ {
+			tri := &tris[k]
+			i0, i1, i2 := int(tri[0]), int(tri[1]), int(tri[2])
+			if uint(i0) >= uint(len(pos)) || uint(i1) >= uint(len(pos)) || uint(i2) >= uint(len(pos)) {
+				continue // a bad index draws nothing rather than panicking
 			}
-			if cover = coverMask(a, b, c, x0, y0, x1, y1); cover == 0 {
+			a, b, c := &pos[i0], &pos[i1], &pos[i2]
+			if codes := a.code | b.code | c.code; codes != 0 {
+				if codes&outBad != 0 || (a.code&b.code&c.code)&outReject != 0 {
+					continue
+				}
+				if codes&outClip != 0 {
+					kept[n&(cullBlock-1)] = int32(^k)
+					n++
+					continue
+				}
+			}
+			// Facing away or edge-on (y points down on screen, so a front face has negative area).
+			area := int64(b.x-a.x)*int64(c.y-a.y) - int64(b.y-a.y)*int64(c.x-a.x)
+			if area == 0 || cull && area > 0 {
 				continue
 			}
+			x0, x1 := pixelRange(min3(a.x, b.x, c.x), max3(a.x, b.x, c.x), w) // pixelBox, inlined
+			y0, y1 := pixelRange(min3(a.y, b.y, c.y), max3(a.y, b.y, c.y), h)
+			if x0 > x1 || y0 > y1 {
+				continue
+			}
+			var cover uint16
+			if (x1-x0+1)*(y1-y0+1) <= smallBox {
+				if area < 0 {
+					b, c = c, b
+				}
+				if cover = coverMask(a, b, c, x0, y0, x1, y1); cover == 0 {
+					continue
+				}
+			}
+			kept[n&(cullBlock-1)] = int32(k) | int32(cover)<<keptShift
+			n++
 		}
-		kept[n&(cullBlock-1)] = int32(k) | int32(cover)<<keptShift
-		n++
 	}
 	return n
 }
