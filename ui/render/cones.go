@@ -40,29 +40,26 @@ func buildClusters(m *mesh.Mesh) []coneCluster {
 		var sum mgl64.Vec3
 		ok := true
 		for t := t0; t < t1; t++ {
-			tri := m.Triangles[t]
+			tri := &m.Triangles[t]
 			if uint32(tri[0]) >= nv || uint32(tri[1]) >= nv || uint32(tri[2]) >= nv {
 				ok = false
 				break
 			}
-			a, b, c := m.Vertices[tri[0]], m.Vertices[tri[1]], m.Vertices[tri[2]]
-			n := b.Sub(a).Cross(c.Sub(a))
-			l := n.Len()
+			a, b, c := &m.Vertices[tri[0]], &m.Vertices[tri[1]], &m.Vertices[tri[2]]
+			ux, uy, uz := b[0]-a[0], b[1]-a[1], b[2]-a[2]
+			vx, vy, vz := c[0]-a[0], c[1]-a[1], c[2]-a[2]
+			nx, ny, nz := uy*vz-uz*vy, uz*vx-ux*vz, ux*vy-uy*vx
+			l := math.Sqrt(nx*nx + ny*ny + nz*nz)
 			if !(l > 0) || math.IsInf(l, 0) {
 				ok = false // degenerate: its facing is decided by rounding alone
 				break
 			}
-			normals[t-t0] = n.Mul(1 / l)
-			sum = sum.Add(normals[t-t0])
-			for _, p := range [3]*mgl64.Vec3{&a, &b, &c} {
-				for k, v := range p { // the coordinates are finite (n is): plain comparisons
-					if v < lo[k] {
-						lo[k] = v
-					}
-					if v > hi[k] {
-						hi[k] = v
-					}
-				}
+			n := mgl64.Vec3{nx / l, ny / l, nz / l}
+			normals[t-t0] = n
+			sum[0], sum[1], sum[2] = sum[0]+n[0], sum[1]+n[1], sum[2]+n[2]
+			for k := 0; k < 3; k++ { // the coordinates are finite (n is): plain comparisons
+				lo[k] = min4(lo[k], a[k], b[k], c[k])
+				hi[k] = max4(hi[k], a[k], b[k], c[k])
 			}
 		}
 		if l := sum.Len(); !ok || !(l > 1e-9) {
@@ -98,4 +95,31 @@ func (cl *coneCluster) facesAway(eye mgl64.Vec3) bool {
 	}
 	across := math.Sqrt(math.Max(0, d.Dot(d)-along*along))
 	return along*cl.cosB-across*cl.sinB > cl.radius
+}
+
+// min4 and max4 are min and max of finite numbers, without the builtins' care for NaN.
+func min4(a, b, c, d float64) float64 {
+	if b < a {
+		a = b
+	}
+	if c < a {
+		a = c
+	}
+	if d < a {
+		a = d
+	}
+	return a
+}
+
+func max4(a, b, c, d float64) float64 {
+	if b > a {
+		a = b
+	}
+	if c > a {
+		a = c
+	}
+	if d > a {
+		a = d
+	}
+	return a
 }
