@@ -374,12 +374,12 @@ func (r *Renderer) clipTriangle(ch *triChunk, bins [][]int32, o *frameObject, tr
 	var bufA, bufB [12]clipVert
 	in, out := bufA[:0], bufB[:0]
 	var codes uint32
-	var cc [clipBlock][3]float64
+	var cc [1][3]float64
 	for _, v := range o.mesh.Triangles[tri] {
 		i := o.vertBase + int(v)
 		codes |= r.pos[i].code
 		p := o.mesh.Vertices[v]
-		r.clipCoords(o.mesh.Vertices[v:v+1], &cc)
+		r.clipCoords(o.mesh.Vertices[v:v+1], cc[:])
 		cv := clipVert{x: float32(cc[0][0]), y: float32(cc[0][1]), w: float32(cc[0][2]), col: r.col[i]}
 		if o.clip {
 			cv.d = float32(r.clipDistance(o, int(v), p))

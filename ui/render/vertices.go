@@ -73,7 +73,7 @@ func (r *Renderer) transformVertices(o *frameObject, v0, v1 int) {
 	var cc [clipBlock][3]float64
 	for b0 := v0; b0 < v1; b0 += clipBlock {
 		b1 := min(v1, b0+clipBlock)
-		r.clipCoords(verts[b0:b1], &cc)
+		r.clipCoords(verts[b0:b1], cc[:b1-b0])
 		for k, c := range cc[:b1-b0] {
 			cx, cy, cw := c[0], c[1], c[2]
 			// Most vertices lie in the view: one test for all the outcode's bits.
@@ -93,15 +93,16 @@ func (r *Renderer) transformVertices(o *frameObject, v0, v1 int) {
 	}
 }
 
-// clipBlock is how many vertices clipCoords takes at a time.
+// clipBlock is how many vertices transformVertices hands clipCoords at a time.
 const clipBlock = 256
 
-// clipCoords writes world points ps (at most clipBlock) in clip space to out: x and y scaled
-// by the projection, w the distance in front of the eye. Clipping finds a vertex's coordinates
-// again here, so they are the ones its outcode came from.
-func (r *Renderer) clipCoords(ps []mgl64.Vec3, out *[clipBlock][3]float64) {
+// clipCoords writes world points ps in clip space to out (as long): x and y scaled by the
+// projection, w the distance in front of the eye. Clipping finds a vertex's coordinates again
+// here, so they are the ones its outcode came from.
+func (r *Renderer) clipCoords(ps []mgl64.Vec3, out [][3]float64) {
 	m, p00, p11 := r.view, r.p00, r.p11
-	for k, p := range ps[:min(len(ps), clipBlock)] {
+	out = out[:len(ps)]
+	for k, p := range ps {
 		vx := m[0]*p[0] + m[4]*p[1] + m[8]*p[2] + m[12]
 		vy := m[1]*p[0] + m[5]*p[1] + m[9]*p[2] + m[13]
 		vz := m[2]*p[0] + m[6]*p[1] + m[10]*p[2] + m[14]
