@@ -319,8 +319,21 @@ const smallBox = 4
 // triangle (a, b, c) covers, ordered so its edge functions are positive inside: bit
 // 4*(y-y0) + (x-x0), by the same edge functions and fill rule that draw a bigger triangle.
 func coverMask(a, b, c *screenPos, x0, y0, x1, y1 int32) uint16 {
-	var m uint16
 	px := int64(x0)<<subBits + subHalf
+	if x0 == x1 && y0 == y1 { // one centre, the most common box: stop at the first edge it is outside
+		py := int64(y0)<<subBits + subHalf
+		if e, _ := edgeFunction(b.x, b.y, c.x, c.y, px, py); e < 0 {
+			return 0
+		}
+		if e, _ := edgeFunction(c.x, c.y, a.x, a.y, px, py); e < 0 {
+			return 0
+		}
+		if e, _ := edgeFunction(a.x, a.y, b.x, b.y, px, py); e < 0 {
+			return 0
+		}
+		return 1
+	}
+	var m uint16
 	for y := y0; y <= y1; y++ {
 		py := int64(y)<<subBits + subHalf
 		e0, s0 := edgeFunction(b.x, b.y, c.x, c.y, px, py)
