@@ -223,3 +223,33 @@ func TestSchneiderGentleThenSharp(t *testing.T) {
 	}
 	t.Logf("Schneider %.2f (exact %.2f) in %v, departure %.2f", m.SchneiderDeg, want, m.SchneiderRange, m.DepartureS)
 }
+
+// TestSecondBendAsTight: an S-curve of two arcs of the same radius (analytic geometry: both
+// are the tightest bend) is read with a second bend named, in the JSON summary and a warning;
+// with the second arc twice as wide, nothing is named.
+func TestSecondBendAsTight(t *testing.T) {
+	for _, tc := range []struct {
+		r2   float64
+		want bool
+	}{{4, true}, {8, false}} {
+		segs := fmt.Sprintf(`{"kind":"straight","length":5},{"kind":"arc","radius":4,"angle":30},{"kind":"straight","length":3},{"kind":"arc","radius":%g,"angle":30,"plane_turn":180},{"kind":"straight","length":3}`, tc.r2)
+		spec := specJSON(t, segs, 1.2, 0.4, 0)
+		c, err := CanalFromSpec(context.Background(), "two bends", spec, CanalOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		m := c.Measures
+		named := c.Summary(false).MaxCurvature.SecondBendSRangeMM
+		warned := strings.Contains(strings.Join(c.Warnings, " | "), "a second bend")
+		// The arcs run 5-7.09 and 10.09-12.18 mm from the orifice (30 degrees of r 4 mm).
+		first, second := [2]float64{5, 7.09}, [2]float64{10.09, 12.18}
+		holds := func(band [2]float64, arc [2]float64) bool { return band[0] <= arc[1] && band[1] >= arc[0] }
+		switch {
+		case tc.want && (named == nil || !warned || !holds(m.SRange, first) || !holds(m.SRange, second)):
+			t.Errorf("equal arcs: second bend %v, warned %v, place band %v, warnings %q", named, warned, m.SRange, c.Warnings)
+		case !tc.want && (named != nil || warned):
+			t.Errorf("second arc r %g mm: second bend %v named, warnings %q", tc.r2, named, c.Warnings)
+		}
+		t.Logf("r2 %g: s* %.2f, place band %v, second bend %v", tc.r2, m.MaxCurvatureS, m.SRange, m.AsTight)
+	}
+}

@@ -205,7 +205,12 @@ func extractCenterline(ctx context.Context, m *mesh.Mesh, wall func() *mesh.BVH,
 	info.endRadius = [2]float64{endReach(sec, ds, false), endReach(sec, ds, true)}
 	// The sections of the last stations may still meet an end cap (an oblique cut, the rim of
 	// a wide end): their centroids pull the line off its path, so they go too.
-	pts = trimBent(pts, sec, math.Max(0.02, 0.3*info.noise), info.endRadius)
+	// They go before the ends are grown (a cut station would steer the growth) and again
+	// after (the growth stops only once a cut is plain).
+	tol := math.Max(0.02, 0.3*info.noise)
+	pts, sec = trimBent(pts, sec, tol, info.endRadius, true)
+	pts, sec = growEnds(pts, sec, bvh, ds, info.endRadius)
+	pts, _ = trimBent(pts, sec, tol, info.endRadius, false)
 	pts = resample(smoothGaussian(pts, math.Max(1, 2*info.noise/ds)), ds)
 	measured := arcLengths(pts)
 	info.head, info.tail = extendToWall(pts, bvh, rStart, rEnd)
@@ -280,12 +285,14 @@ const bentReach = 2.5
 const bentNarrowing = 0.02
 
 // trimBent drops the stations at either end of a line spaced StationSpacing apart whose
-// section is cut by an end cap: narrower than the trend of the sections further in by
+// section is cut by an end cap: off the trend of the sections further in by
 // bentNarrowing, and straying more than tol mm from the path the line holds further in.
 // Every station beyond the first such one goes too. Only stations within bentReach end radii
 // (endRadius: at the start, at the end) of an end are checked, and a real curve, whose
-// sections keep their width, is never taken for a cut section.
-func trimBent(pts []mgl64.Vec3, sec []section, tol float64, endRadius [2]float64) []mgl64.Vec3 {
+// sections keep their width, is never taken for a cut section. A section wider than the
+// trend counts only when the line may lean (leaning: a medial path's ends); a line grown
+// section by section does not lean, and an oval canal's sections widen in a sharp bend.
+func trimBent(pts []mgl64.Vec3, sec []section, tol float64, endRadius [2]float64, leaning bool) ([]mgl64.Vec3, []section) {
 	n := len(pts)
 	reach := func(r float64) int {
 		return min(int(math.Ceil(bentReach*r/StationSpacing)), n/3-bentGap-bentFit)
@@ -337,7 +344,11 @@ func trimBent(pts []mgl64.Vec3, sec []section, tol float64, endRadius [2]float64
 	strays := func(k int, at func(int) int) (bool, bool) {
 		pred, ps, wPred, ws := fitAt(k, at)
 		i := at(k)
-		return pts[i].Sub(pred).Len() > math.Max(tol, 4*ps), math.Abs(width(i)-wPred) > math.Max(bentNarrowing*wPred, 4*ws)
+		off := wPred - width(i)
+		if leaning {
+			off = math.Abs(off)
+		}
+		return pts[i].Sub(pred).Len() > math.Max(tol, 4*ps), off > math.Max(bentNarrowing*wPred, 4*ws)
 	}
 	// cut walks outward to the first station that strays and whose width is off its trend;
 	// the straying stations just inside it belong to the same bend and go too.
@@ -357,7 +368,55 @@ func trimBent(pts []mgl64.Vec3, sec []section, tol float64, endRadius [2]float64
 	}
 	first := cut(reach(endRadius[0]), func(i int) int { return i })
 	last := n - 1 - cut(reach(endRadius[1]), func(i int) int { return n - 1 - i })
-	return pts[first : last+1]
+	return pts[first : last+1], sec[first : last+1]
+}
+
+// growChord is the chord, in stations, whose direction carries a growing end on: 0.3 mm,
+// steady against the wiggle of single sections, and on a bend of radius 3 mm off the tangent
+// by under 3 degrees.
+const growChord = 6
+
+// growNarrowing is the least share of the last station's area a grown station's section
+// keeps: a canal tapering 0.1 mm per mm and 0.3 mm wide loses 3 % over a station, a section
+// that meets an end cap more.
+const growNarrowing = 0.9
+
+// growEnds carries each end of a re-centred line on along the canal, one station at a time:
+// the next station is the last one moved on by ds along the end's direction and re-centred on
+// its cross-section, until the station leaves the canal (it is past the end), its section meets the end cap (its centre moves sideways by more than half a station, or its area drops by a tenth), or the growth passes reach end radii (at the start, at the end) plus 1 mm. The medial
+// path's ends were cut back by about one and a half end radii, since a path through the middle
+// cannot reach an end; a bend within that stretch is followed here, where a straight carry
+// along the end tangent would cut across it. Stations whose sections meet an end cap are
+// left for trimBent.
+func growEnds(pts []mgl64.Vec3, sec []section, bvh *mesh.BVH, ds float64, reach [2]float64) ([]mgl64.Vec3, []section) {
+	grow := func(pts []mgl64.Vec3, sec []section, reach float64) ([]mgl64.Vec3, []section) {
+		back := min(len(pts)-1, growChord)
+		for step := 0; float64(step)*ds < 4*reach+1; step++ {
+			last := pts[len(pts)-1]
+			dir := last.Sub(pts[len(pts)-1-back]).Normalize()
+			next := last.Add(dir.Mul(ds))
+			if !bvh.Inside(next) {
+				break
+			}
+			c, s := centreOfSection(next, dir, bvh)
+			if !s.ok || !bvh.Inside(c) {
+				break
+			}
+			if c.Sub(next).Len() > ds/2 || s.area < growNarrowing*sec[len(sec)-1].area {
+				break // the section meets the end cap
+			}
+			pts = append(pts, last.Add(c.Sub(last).Normalize().Mul(ds)))
+			sec = append(sec, s)
+		}
+		return pts, sec
+	}
+	pts, sec = grow(pts, sec, reach[1])
+	slices.Reverse(pts)
+	slices.Reverse(sec)
+	pts, sec = grow(pts, sec, reach[0])
+	slices.Reverse(pts)
+	slices.Reverse(sec)
+	return pts, sec
 }
 
 // extendToWall finds where each end of a medial line, carried along its end tangent, meets
@@ -403,45 +462,57 @@ func recentre(pts []mgl64.Vec3, bvh *mesh.BVH, ds float64, workers int) ([]mgl64
 	out := append([]mgl64.Vec3(nil), pts...)
 	sec := make([]section, len(pts))
 	d1, _ := derivatives(pts, ds, max(2, int(0.2/ds)))
-	var dirs [recentreRays][2]float64
+	parallel.For(workers, len(pts), func(_, i int) {
+		if c, s := centreOfSection(pts[i], d1[i], bvh); s.ok {
+			out[i], sec[i] = c, s
+		}
+	})
+	return out, sec
+}
+
+// sectionRays are the directions, in a section's own plane, of the rays that outline it.
+var sectionRays = func() (dirs [recentreRays][2]float64) {
 	for j := range dirs {
 		a := 2 * math.Pi * float64(j) / recentreRays
 		dirs[j] = [2]float64{math.Cos(a), math.Sin(a)}
 	}
-	parallel.For(workers, len(pts), func(_, i int) {
-		t := d1[i].Normalize()
-		if t.Len() == 0 {
-			return
+	return dirs
+}()
+
+// centreOfSection outlines the canal's cross-section through p normal to tangent with rays
+// from p and returns its centroid. The section is not ok when a ray finds no wall.
+func centreOfSection(p, tangent mgl64.Vec3, bvh *mesh.BVH) (mgl64.Vec3, section) {
+	t := tangent.Normalize()
+	if t.Len() == 0 {
+		return p, section{}
+	}
+	u := anyPerpendicular(t)
+	v := t.Cross(u)
+	var xs, ys, ts, sorted [recentreRays]float64
+	for j, dv := range sectionRays {
+		dir := u.Mul(dv[0]).Add(v.Mul(dv[1]))
+		hit, ok := bvh.Ray(p, dir, 50)
+		if !ok {
+			return p, section{}
 		}
-		u := anyPerpendicular(t)
-		v := t.Cross(u)
-		var xs, ys, ts, sorted [recentreRays]float64
-		for j, dv := range dirs {
-			dir := u.Mul(dv[0]).Add(v.Mul(dv[1]))
-			hit, ok := bvh.Ray(pts[i], dir, 50)
-			if !ok {
-				return
-			}
-			ts[j] = hit.T
-		}
-		// A ray that runs off into a branch or a side canal would drag the centroid after
-		// it: no ray counts longer than recentreReach times the median.
-		sorted = ts
-		slices.Sort(sorted[:])
-		limit := recentreReach * sorted[recentreRays/2]
-		far := 0.0
-		for j, dv := range dirs {
-			t := math.Min(ts[j], limit)
-			xs[j], ys[j] = t*dv[0], t*dv[1]
-			far = math.Max(far, t)
-		}
-		cx, cy, ok := polygonCentroid(xs[:], ys[:])
-		if ok {
-			out[i] = pts[i].Add(u.Mul(cx)).Add(v.Mul(cy))
-			sec[i] = section{ok: true, area: polygonArea(xs[:], ys[:]), far: far}
-		}
-	})
-	return out, sec
+		ts[j] = hit.T
+	}
+	// A ray that runs off into a branch or a side canal would drag the centroid after
+	// it: no ray counts longer than recentreReach times the median.
+	sorted = ts
+	slices.Sort(sorted[:])
+	limit := recentreReach * sorted[recentreRays/2]
+	far := 0.0
+	for j, dv := range sectionRays {
+		t := math.Min(ts[j], limit)
+		xs[j], ys[j] = t*dv[0], t*dv[1]
+		far = math.Max(far, t)
+	}
+	cx, cy, ok := polygonCentroid(xs[:], ys[:])
+	if !ok {
+		return p, section{}
+	}
+	return p.Add(u.Mul(cx)).Add(v.Mul(cy)), section{ok: true, area: polygonArea(xs[:], ys[:]), far: far}
 }
 
 // endWidths is the mean width (diameter of the circle of the same area) of the sections

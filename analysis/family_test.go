@@ -5,6 +5,7 @@ import (
 	"flag"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strings"
 	"testing"
@@ -17,6 +18,7 @@ import (
 var (
 	familySize = flag.Int("family", 0, "canals of the scan-like family to measure (TestScanFamily); 0 = the subset of normal tests")
 	familySeed = flag.Uint64("family-seed", 1, "seed of the scan-like family")
+	familyOnly = flag.String("family-only", "", "measure only these canals of the family, by number, comma-separated (\"101-103,101-007\")")
 )
 
 // familyCriteria name the checks made on every canal of the family, in table order.
@@ -240,6 +242,13 @@ func TestScanFamily(t *testing.T) {
 		n = 6
 	}
 	cases := models.ScanFamily(*familySeed, n)
+	if *familyOnly != "" {
+		names := strings.Split(*familyOnly, ",")
+		cases = slices.DeleteFunc(cases, func(sc models.ScanCase) bool {
+			return !slices.ContainsFunc(names, func(n string) bool { return strings.Contains(sc.Name, " "+n+" ") })
+		})
+		subset = true
+	}
 	results := make([]familyResult, len(cases))
 	for i, sc := range cases {
 		results[i] = measureFamilyCase(sc)

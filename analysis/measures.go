@@ -23,6 +23,10 @@ type Measures struct {
 	// +Inf when the line cannot tell the bend from straight), its place (mm from the
 	// orifice), and the Schneider angle.
 	RadiusRange, SRange, SchneiderRange [2]float64
+	// AsTight is a second bend, apart from the tightest, whose curvature reaches the low end
+	// of the tightest bend's band (mm from the orifice, [from, to]; zero when there is none):
+	// the scan cannot tell which of the two is the tighter.
+	AsTight [2]float64
 }
 
 // straightCurvature is the curvature below which a canal counts as straight (radius over 1 m).
@@ -63,7 +67,11 @@ func Measure(c *Centerline, tol float64) Measures {
 	if klo > straightCurvature {
 		m.RadiusRange[1] = 1 / klo
 	}
-	m.SRange = c.placeBand(star, klo)
+	var own *bendFit
+	if fitted {
+		own = &bend
+	}
+	m.SRange, m.AsTight = c.placeBand(star, klo, own)
 	if fitted {
 		// The middle of the bend the circle was fitted to is the other reading of its place:
 		// on a long arc of one radius the curvature's wander may put s* far from it. Each end
@@ -117,7 +125,10 @@ func (m Measures) Warnings() []string {
 	default:
 		out = append(out, fmt.Sprintf("the scan does not pin the tightest bend down better than r %.1f-%.1f mm", r[0], r[1]))
 	}
-	if wideS {
+	if t := m.AsTight; t[1] > 0 {
+		out = append(out, fmt.Sprintf("a second bend, %.1f-%.1f mm from the apical end, is as tight as the tightest (%.1f mm from the apical end) within what the scan can tell: either may be the tightest",
+			m.Length-t[1], m.Length-t[0], m.Length-m.MaxCurvatureS))
+	} else if wideS {
 		out = append(out, fmt.Sprintf("the scan does not pin the place of the tightest bend down better than %.1f-%.1f mm from the apical end",
 			m.Length-m.SRange[1], m.Length-m.SRange[0]))
 	}
@@ -141,16 +152,19 @@ func (m Measures) WideBands() (radius, place, schneider bool) {
 	if !math.IsInf(m.MaxCurvatureR, 1) {
 		r := m.RadiusRange
 		radius = math.IsInf(r[1], 1) || r[1] > wideRadius*r[0]
-		place = m.SRange[1]-m.SRange[0] > widePlaceMM
+		place = m.SRange[1]-m.SRange[0] > widePlaceMM || m.AsTight[1] > 0
 	}
 	schneider = m.SchneiderRange[1]-m.SchneiderRange[0] > wideSchneider
 	return radius, place, schneider
 }
 
-// placeBand is the stretch around station star (within the measured zone) where the
-// curvature reaches klo, the low end of the tightest bend's band: the line cannot say the
-// tightest bend lies anywhere else. Its ends are given in mm from the orifice.
-func (c *Centerline) placeBand(star int, klo float64) [2]float64 {
+// placeBand is the stretch of the measured zone that holds station star and every station
+// where the curvature reaches klo, the low end of the tightest bend's band: the line cannot
+// say the tightest bend lies anywhere else. Its ends are given in mm from the orifice. asTight
+// is the strongest stretch outside the tightest bend's own stations (bend: those of the
+// fitted circle, or nil) where the curvature reaches klo over at least minAsTight stations (a
+// second bend that may be the tightest), zero when there is none.
+func (c *Centerline) placeBand(star int, klo float64, bend *bendFit) (band, asTight [2]float64) {
 	lo, hi := star, star
 	for lo > c.zone[0] && c.K[lo-1] >= klo {
 		lo--
@@ -158,8 +172,35 @@ func (c *Centerline) placeBand(star int, klo float64) [2]float64 {
 	for hi < c.zone[1] && c.K[hi+1] >= klo {
 		hi++
 	}
-	return [2]float64{c.S[lo], c.S[hi]}
+	band = [2]float64{c.S[lo], c.S[hi]}
+	if bend != nil {
+		lo, hi = min(lo, bend.lo), max(hi, bend.hi)
+	}
+	best := 0.0
+	for i := c.zone[0]; i <= c.zone[1]; {
+		if c.K[i] < klo || (i >= lo && i <= hi) {
+			i++
+			continue
+		}
+		j, peak := i, 0.0
+		for j <= c.zone[1] && c.K[j] >= klo && (j < lo || j > hi) {
+			peak = math.Max(peak, c.K[j])
+			j++
+		}
+		if j-i >= minAsTight && peak > best {
+			best, asTight = peak, [2]float64{c.S[i], c.S[j-1]}
+		}
+		i = j
+	}
+	if best > 0 {
+		band = [2]float64{math.Min(band[0], asTight[0]), math.Max(band[1], asTight[1])}
+	}
+	return band, asTight
 }
+
+// minAsTight is the fewest stations (0.2 mm) over which a second bend must reach the band to
+// count: a wiggle of a station or two is the scan's, not a bend.
+const minAsTight = 4
 
 // schneiderBand is how well the construction pins the angle down: the construction again
 // with half and twice the tolerance, widened by the angles the tolerance subtends seen from

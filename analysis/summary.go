@@ -37,6 +37,9 @@ type PlaceRadius struct {
 	RadiusRangeMM   [2]*float64 `json:"radius_range_mm"`
 	SRangeMM        [2]float64  `json:"s_range_mm"`
 	FromApexRangeMM [2]float64  `json:"from_apex_range_mm"`
+	// SecondBendSRangeMM is a second bend as tight as this one within what the scan can tell
+	// (mm from the orifice), null when there is none.
+	SecondBendSRangeMM *[2]float64 `json:"second_bend_s_range_mm"`
 }
 
 // Arc is the circle fitted to the curved part.
@@ -76,6 +79,9 @@ func (c *Canal) Summary(withPoints bool) CanalSummary {
 		ApicalEnd:            [3]float64(c.Line.Points[n-1]),
 		Warnings:             append([]string{}, c.Warnings...),
 		Unresolved:           []UnresolvedSummary{},
+	}
+	if t := m.AsTight; t[1] > 0 {
+		s.MaxCurvature.SecondBendSRangeMM = &[2]float64{round(t[0], 3), round(t[1], 3)}
 	}
 	for _, u := range c.Unresolved {
 		s.Unresolved = append(s.Unresolved, UnresolvedSummary{FromApexMM: round(m.Length-u.From, 3), ToApexMM: round(m.Length-u.To, 3)})

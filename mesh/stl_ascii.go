@@ -291,18 +291,23 @@ func (rd *stlReader) notes() []string {
 // the extent of the central 99 % of the corners beyond it, per axis, estimated from an even
 // sample so it costs one pass.
 func (rd *stlReader) checkOutliers() error {
-	n := len(rd.corners)
+	n := rd.cornerCount()
 	if n < 64 {
 		return nil
 	}
 	step := max(1, n/30000)
-	sample := make([]float64, 0, n/step+1)
-	var lo, hi mgl64.Vec3
-	for a := range 3 {
-		sample = sample[:0]
-		for i := 0; i < n; i += step {
-			sample = append(sample, rd.corners[i][a])
+	var samples [3][]float64
+	for a := range samples {
+		samples[a] = make([]float64, 0, n/step+1)
+	}
+	for i := 0; i < n; i += step {
+		c := rd.corner(i)
+		for a := range 3 {
+			samples[a] = append(samples[a], c[a])
 		}
+	}
+	var lo, hi mgl64.Vec3
+	for a, sample := range samples {
 		slices.Sort(sample)
 		k := len(sample) / 200
 		lo[a], hi[a] = sample[k], sample[len(sample)-1-k]
@@ -317,7 +322,8 @@ func (rd *stlReader) checkOutliers() error {
 		return nil // every corner is inside: no need to look at each
 	}
 	first, count := -1, 0
-	for i, c := range rd.corners {
+	for i := range n {
+		c := rd.corner(i)
 		if c[0] < minV[0] || c[0] > maxV[0] || c[1] < minV[1] || c[1] > maxV[1] || c[2] < minV[2] || c[2] > maxV[2] {
 			if first < 0 {
 				first = i
@@ -328,7 +334,7 @@ func (rd *stlReader) checkOutliers() error {
 	if first < 0 {
 		return nil
 	}
-	c := rd.corners[first]
+	c := rd.corner(first)
 	place := rd.where(first / 3)
 	if rd.binary {
 		place = fmt.Sprintf("triangle %d, corner %d (byte %d)", first/3+1, first%3+1,

@@ -21,9 +21,10 @@ func fuzzTetra() *Mesh {
 }
 
 // fuzzAllocBound is what one load may allocate in total: the binary path keeps about
-// 72 bytes of corners per 50-byte record plus the weld table, the ASCII parser of the stl
-// package allocates a 4 KiB word buffer per line (garbage at once), and a fixed allowance
-// covers small files. A hostile count must never show up here.
+// 170 bytes per 50-byte record over the whole load (corner bits and their copy grouped for
+// the weld, first corners, triangles, positions, per-triangle checks, half-edges), the ASCII
+// parser of the stl package allocates a 4 KiB word buffer per line (garbage at once), and a
+// fixed allowance covers small files. A hostile count must never show up here.
 func fuzzAllocBound(data []byte) uint64 {
 	lines := uint64(bytes.Count(data, []byte("\n")) + bytes.Count(data, []byte("\r")) + 1)
 	return 2<<20 + 64*uint64(len(data)) + 16<<10*lines

@@ -130,22 +130,39 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	if err != nil {
 		return nil, rep, err
 	}
-	rep.TrianglesRead = len(rd.corners) / 3
+	rep.TrianglesRead = rd.cornerCount() / 3
 	if rep.TrianglesRead == 0 {
 		if len(rd.problems) > 0 {
 			return nil, rep, fmt.Errorf("%s: no triangle could be read: %s", name, rd.problems[0])
 		}
 		return nil, rep, fmt.Errorf("%s: the file holds no triangles", name)
 	}
-	if err := rd.checkOutliers(); err != nil {
-		return nil, rep, err
-	}
 	if err := ctx.Err(); err != nil {
 		return nil, rep, fmt.Errorf("%s: loading stopped: %w", name, err)
 	}
-	m, removed := weldAndClean(rd.corners, rd.first, rd.missed, opt.Workers)
-	rd.corners, rd.first, rd.missed = nil, nil, nil
+	// The outlier check (a sample sorted on one core) runs beside the weld, whose mesh is
+	// dropped if it fails.
+	outliers := make(chan error, 1)
+	go func() { outliers <- rd.checkOutliers() }()
+	m := rd.weld(opt.Workers)
+	if err := <-outliers; err != nil {
+		return nil, rep, err
+	}
+	// When the weld merged only identical corners, the corners in file order hold each
+	// triangle's vertices: reading them there beats gathering vertices at random, as a file
+	// whose triangles are scattered makes every per-triangle pass do.
+	var degenerate []bool
+	var terms []float64
+	if rd.keys != nil && rd.distinct == len(m.Vertices) {
+		degenerate, terms = cornerChecks(rd.keys, rd.scale, opt.Workers)
+	}
+	rd.corners, rd.keys, rd.first = nil, nil, nil
+	m, removed := dropDegenerate(m, degenerate, opt.Workers)
 	rep.DegenerateRemoved = removed
+	var volume func() float64
+	if terms != nil && removed == 0 {
+		volume = func() float64 { return sumVolume(terms) }
+	}
 	if len(m.Triangles) == 0 {
 		return nil, rep, fmt.Errorf("%s: all %d triangles have zero area or a repeated corner", name, rep.TrianglesRead)
 	}
@@ -153,34 +170,59 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	if err := ctx.Err(); err != nil {
 		return nil, rep, fmt.Errorf("%s: loading stopped: %w", name, err)
 	}
-	rep.Surface = validate(m, false) // degenerate triangles are gone already
+	rep.Surface = validate(m, false, volume) // degenerate triangles are gone already
 	if rep.Surface.InconsistentOrientation > 0 || rep.Surface.Closed && rep.Surface.SignedVolume < 0 {
 		rep.Turned = OrientConsistently(m)
-		rep.Surface = validate(m, false)
+		rep.Surface = validate(m, false, nil)
 	}
 	rep.Notes = append(rd.notes(), loadNotes(m, rep)...)
 	rep.Warnings = append(rep.Surface.Warnings(), rep.Notes...)
 	return m, rep, nil
 }
 
-// weldAndClean welds the soup, drops degenerate triangles and the vertices only they used.
-// first and missed, when not nil, are the result of the weld's first pass (recentPass).
-func weldAndClean(corners []mgl64.Vec3, first, missed []int32, workers int) (*Mesh, int) {
+// weld welds the corners read (within weldRelTol); for a binary file, distinct is then the
+// number of distinct positions.
+func (rd *stlReader) weld(workers int) *Mesh {
 	var m *Mesh
-	if first != nil {
-		exactPass(corners, first, missed, workers)
-		m = weldFirst(corners, first, 0, weldRelTol, workers)
+	if rd.keys != nil {
+		pos, starts := distinctPositions(rd.keys, rd.first, rd.scale, workers)
+		rd.distinct = len(pos)
+		m = weldPositions(rd.first, pos, starts, 0, weldRelTol, workers)
 	} else {
-		m = weld(corners, 0, weldRelTol, workers)
+		m = weld(rd.corners, 0, weldRelTol, workers)
 	}
+	return m
+}
+
+// cornerCount is the number of corners read.
+func (rd *stlReader) cornerCount() int {
+	if rd.keys != nil {
+		return len(rd.keys)
+	}
+	return len(rd.corners)
+}
+
+// corner is corner i in mm.
+func (rd *stlReader) corner(i int) mgl64.Vec3 {
+	if rd.keys != nil {
+		return rd.keys[i].position(rd.scale)
+	}
+	return rd.corners[i]
+}
+
+// dropDegenerate drops the degenerate triangles of a welded mesh and the vertices only they
+// used, and says how many triangles went. degenerate, when not nil, already says which
+// triangles isDegenerate finds degenerate.
+func dropDegenerate(m *Mesh, degenerate []bool, workers int) (*Mesh, int) {
 	nt := len(m.Triangles)
-	degenerate := make([]bool, nt)
-	const stretch = 1 << 15
-	parallel.For(workers, (nt+stretch-1)/stretch, func(_, st int) {
-		for t := st * stretch; t < min(nt, (st+1)*stretch); t++ {
-			degenerate[t] = isDegenerate(m, t)
-		}
-	})
+	if degenerate == nil {
+		degenerate = make([]bool, nt)
+		parallel.For(workers, (nt+triangleStretch-1)/triangleStretch, func(_, st int) {
+			for t := st * triangleStretch; t < min(nt, (st+1)*triangleStretch); t++ {
+				degenerate[t] = isDegenerate(m, t)
+			}
+		})
+	}
 	removed := countTrue(degenerate)
 	if removed > 0 {
 		keep := make([]int32, 0, nt-removed)
@@ -193,6 +235,9 @@ func weldAndClean(corners []mgl64.Vec3, first, missed []int32, workers int) (*Me
 	}
 	return m, removed
 }
+
+// triangleStretch is how many triangles one goroutine takes at a time in a per-triangle pass.
+const triangleStretch = 1 << 15
 
 // loadNotes states what reading found beyond the surface's shape, each with a way to fix it.
 func loadNotes(m *Mesh, rep LoadReport) []string {
@@ -258,10 +303,13 @@ type stlReader struct {
 	progress func(int64, int64)
 	workers  int
 	binary   bool
-	corners  []mgl64.Vec3
-	// first and missed are the weld's first pass over the corners (recentPass), when the
-	// reader ran it.
-	first, missed []int32
+	// corners are an ASCII file's corners; a binary file's are keys (and first, the first
+	// corner of each one's position), unless its scale was too small for them.
+	corners []mgl64.Vec3
+	keys    []corner32
+	first   []int32
+	// distinct is the number of distinct positions among keys, once welded.
+	distinct int
 	// boxed says lo and hi bound every corner (the binary reader finds them as it decodes).
 	boxed  bool
 	lo, hi mgl64.Vec3
@@ -329,8 +377,15 @@ func (rd *stlReader) readBinary(head []byte) error {
 			"export the surface at a coarser resolution", name, n, MaxTriangles)
 	}
 	rd.binary = true
-	rd.corners = make([]mgl64.Vec3, 3*n)
+	rd.keys = make([]corner32, 3*n)
 	chunks := int((n + stlBinaryChunk - 1) / stlBinaryChunk)
+	// The identical corners are grouped by hash as each chunk is decoded (see cornerGroups),
+	// unless a tiny scale could make distinct float32 values equal (then they are welded as
+	// float64, the ASCII reader's way).
+	var groups *cornerGroups
+	if rd.scale >= minInjectiveScale {
+		groups = newCornerGroups(rd.keys, 3*stlBinaryChunk)
+	}
 	// Only the plain readers are read at offsets: a wrapper's Read may do more than read.
 	var ra io.ReaderAt
 	switch r := rd.r.(type) {
@@ -346,12 +401,7 @@ func (rd *stlReader) readBinary(head []byte) error {
 		return fmt.Errorf("%s: %w", name, err)
 	}
 	bufs := make([][]byte, k)
-	// The weld's first pass (identical corners close together in the file) runs on each
-	// chunk as it is decoded, while its corners are still in the cache.
-	rd.first = make([]int32, 3*n)
-	recent := make([]*recentCache, k)
-	missedIn := make([][]int32, chunks)
-	boxes := make([][2]mgl64.Vec3, chunks)
+	boxes := make([][2][3]float32, chunks)
 	// The first problem by place in the file wins, whatever the order chunks finish in.
 	var mu sync.Mutex
 	firstBad, firstErr := int64(-1), error(nil)
@@ -399,15 +449,13 @@ func (rd *stlReader) readBinary(head []byte) error {
 			fail(t0, err)
 			return
 		}
-		if bad, ok := decodeBinaryChunk(chunk, rd.corners[3*t0:3*(t0+m)], rd.scale, &boxes[c]); !ok {
+		if bad, ok := decodeBinaryChunk(chunk, rd.keys[3*t0:3*(t0+m)], &boxes[c]); !ok {
 			fail(t0+bad, rd.notFinite(int(t0+bad)))
 			return
 		}
-		if recent[w] == nil {
-			recent[w] = newRecentCache()
+		if groups != nil {
+			groups.count(c)
 		}
-		// A goroutine's chunks come in ascending order, as recentPass needs.
-		missedIn[c] = recentPass(rd.corners, rd.first, int(3*t0), int(3*(t0+m)), recent[w])
 		if rd.progress != nil {
 			pos := stlHeaderSize + done.Add(m*stlRecordSize)
 			mu.Lock()
@@ -421,24 +469,38 @@ func (rd *stlReader) readBinary(head []byte) error {
 	if firstErr != nil {
 		return firstErr
 	}
-	if rd.scale != 1 && !allFinite(rd.corners) {
-		// Finite float32 times a large scale can overflow.
-		for i, c := range rd.corners {
-			if !finiteVec(c) {
-				return fmt.Errorf("%s: %s: a coordinate times the scale %g is too large to hold", name, rd.where(i/3), rd.scale)
+	if chunks > 0 {
+		lo, hi := boxes[0][0], boxes[0][1]
+		for _, b := range boxes[1:] {
+			for a := range 3 {
+				lo[a] = min(lo[a], b[0][a])
+				hi[a] = max(hi[a], b[1][a])
+			}
+		}
+		// Scaling by a positive number keeps the order, so the scaled bounds bound the
+		// scaled corners.
+		for a := range 3 {
+			rd.lo[a] = float64(lo[a]) * rd.scale
+			rd.hi[a] = float64(hi[a]) * rd.scale
+		}
+		rd.boxed = true
+		if !finiteVec(rd.lo) || !finiteVec(rd.hi) {
+			// Finite float32 times a large scale can overflow.
+			for i := range rd.keys {
+				if !finiteVec(rd.keys[i].position(rd.scale)) {
+					return fmt.Errorf("%s: %s: a coordinate times the scale %g is too large to hold", name, rd.where(i/3), rd.scale)
+				}
 			}
 		}
 	}
-	rd.missed = joinMissed(missedIn)
-	if chunks > 0 {
-		rd.boxed = true
-		rd.lo, rd.hi = boxes[0][0], boxes[0][1]
-		for _, b := range boxes[1:] {
-			for a := range 3 {
-				rd.lo[a] = min(rd.lo[a], b[0][a])
-				rd.hi[a] = max(rd.hi[a], b[1][a])
-			}
+	if groups != nil {
+		rd.first = groups.first(rd.workers)
+	} else {
+		rd.corners = make([]mgl64.Vec3, len(rd.keys))
+		for i := range rd.keys {
+			rd.corners[i] = rd.keys[i].position(rd.scale)
 		}
+		rd.keys = nil
 	}
 	if rd.progress != nil {
 		rd.progress(size, size)
@@ -446,39 +508,33 @@ func (rd *stlReader) readBinary(head []byte) error {
 	return nil
 }
 
-// decodeBinaryChunk turns records into corners times s and their bounds into box. It stops at
-// the first record with a coordinate that is not finite and returns its place in the chunk.
-func decodeBinaryChunk(chunk []byte, out []mgl64.Vec3, s float64, box *[2]mgl64.Vec3) (int64, bool) {
-	lo := mgl64.Vec3{math.Inf(1), math.Inf(1), math.Inf(1)}
-	hi := lo.Mul(-1)
+// decodeBinaryChunk copies the corners' coordinate bits out of the records and their bounds
+// into box. It stops at the first record with a coordinate that is not finite and returns
+// its place in the chunk.
+func decodeBinaryChunk(chunk []byte, out []corner32, box *[2][3]float32) (int64, bool) {
+	inf := float32(math.Inf(1))
+	lo := [3]float32{inf, inf, inf}
+	hi := [3]float32{-inf, -inf, -inf}
 	for i := range int64(len(out) / 3) {
 		rec := chunk[i*stlRecordSize+12 : i*stlRecordSize+48]
 		bad := uint32(0)
 		for c := range 3 {
-			var v mgl64.Vec3
+			var k corner32
 			for a := range 3 {
 				bits := binary.LittleEndian.Uint32(rec[12*c+4*a:])
 				// An exponent of all ones (an infinity or a NaN) carries into the top bit.
 				bad |= (bits&0x7F800000 + 0x00800000) & 0x80000000
-				v[a] = float64(math.Float32frombits(bits)) * s
-				lo[a] = min(lo[a], v[a])
-				hi[a] = max(hi[a], v[a])
+				k[a] = bits
+				v := math.Float32frombits(bits)
+				lo[a] = min(lo[a], v)
+				hi[a] = max(hi[a], v)
 			}
-			out[3*i+int64(c)] = v
+			out[3*i+int64(c)] = k
 		}
 		if bad != 0 {
 			return i, false
 		}
 	}
-	*box = [2]mgl64.Vec3{lo, hi}
+	*box = [2][3]float32{lo, hi}
 	return 0, true
-}
-
-// allFinite: one pass, no branches per coordinate.
-func allFinite(cs []mgl64.Vec3) bool {
-	acc := 0.0
-	for _, c := range cs {
-		acc += (c[0] - c[0]) + (c[1] - c[1]) + (c[2] - c[2])
-	}
-	return acc == 0
 }

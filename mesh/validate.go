@@ -30,16 +30,20 @@ type Report struct {
 // Validate checks edges, orientation, degenerate triangles and connectivity.
 // Triangles whose indices are out of range count as degenerate and are otherwise ignored.
 func Validate(m *Mesh) Report {
-	return validate(m, true)
+	return validate(m, true, nil)
 }
 
 // validate counts edges and shells on two cores; degenerate triangles only when asked.
-func validate(m *Mesh, degenerate bool) Report {
+// volume, when not nil, gives what signedVolume(m) would.
+func validate(m *Mesh, degenerate bool, volume func() float64) Report {
+	if volume == nil {
+		volume = func() float64 { return signedVolume(m) }
+	}
 	r := Report{Triangles: len(m.Triangles), Vertices: len(m.Vertices)}
 	done := make(chan struct{})
 	go func() {
 		r.Shells = countShells(m)
-		r.SignedVolume = signedVolume(m)
+		r.SignedVolume = volume()
 		close(done)
 	}()
 	if degenerate {
@@ -109,9 +113,11 @@ func triInRange(tri [3]int32, n int32) bool {
 
 // halfEdges buckets every half-edge under its smaller vertex (a counting sort, no hash map):
 // entries[start[v]:start[v+1]] hold, for the edges whose smaller vertex is v, the other vertex
-// << 1 | a direction bit (1 when the half-edge runs high to low). With withTris, tris holds
+// << 1 | a direction bit (1 when the half-edge runs high to low): 32 bits hold any int32
+// vertex that way, and half the bytes of 64 make the random writes of a mesh whose vertices
+// are numbered out of triangle order cheaper. With withTris, tris holds
 // each entry's triangle << 2 | its edge number (0..2).
-func halfEdges(m *Mesh, withTris bool) (start []int32, entries []int64, tris []int32) {
+func halfEdges(m *Mesh, withTris bool) (start []int32, entries []uint32, tris []int32) {
 	nv := int32(len(m.Vertices))
 	start = make([]int32, nv+1)
 	for _, tri := range m.Triangles {
@@ -129,7 +135,7 @@ func halfEdges(m *Mesh, withTris bool) (start []int32, entries []int64, tris []i
 	for i := int32(0); i < nv; i++ {
 		start[i+1] += start[i]
 	}
-	entries = make([]int64, start[nv])
+	entries = make([]uint32, start[nv])
 	if withTris {
 		tris = make([]int32, start[nv])
 	}
@@ -143,11 +149,11 @@ func halfEdges(m *Mesh, withTris bool) (start []int32, entries []int64, tris []i
 			if a == b {
 				continue
 			}
-			lo, hi, dir := a, b, int64(0)
+			lo, hi, dir := a, b, uint32(0)
 			if b < a {
 				lo, hi, dir = b, a, 1
 			}
-			entries[fill[lo]] = int64(hi)<<1 | dir
+			entries[fill[lo]] = uint32(hi)<<1 | dir
 			if withTris {
 				tris[fill[lo]] = int32(t)<<2 | int32(k)
 			}
@@ -187,7 +193,7 @@ func edgeCounts(m *Mesh) (boundary, nonManifold, inconsistent int) {
 }
 
 // sortEdgeBucket is an insertion sort: buckets hold a vertex's few edges.
-func sortEdgeBucket(a []int64) {
+func sortEdgeBucket(a []uint32) {
 	if len(a) > 32 {
 		slices.Sort(a)
 		return

@@ -39,34 +39,103 @@ func weld(corners []mgl64.Vec3, tol, relTol float64, workers int) *Mesh {
 
 // weldFirst is weld once first (see firstOccurrences) is known.
 func weldFirst(corners []mgl64.Vec3, first []int32, tol, relTol float64, workers int) *Mesh {
-	m := &Mesh{Triangles: make([][3]int32, len(corners)/3)}
-	distinct := make([]int32, 0, len(corners)/5)
+	pos := make([]mgl64.Vec3, 0, len(corners)/5)
 	for i, f := range first {
 		if int(f) == i {
-			distinct = append(distinct, int32(i))
+			pos = append(pos, corners[i])
 		}
+		first[i] = first[f] // the first corner itself (first[f] is final: f <= i)
 	}
-	w := newWelder(corners, distinct, tol, relTol)
-	alone := w.alone(corners, distinct, workers)
-	w.reserve(len(distinct), len(distinct)-countTrue(alone))
-	// out[i] is corner i's vertex; first[i] <= i, so a repeat finds its vertex already set
-	// (through its stand-in, whose own vertex was set from its first corner).
+	return weldPositions(first, pos, nil, tol, relTol, workers)
+}
+
+// weldPositions is the tolerance weld once the identical corners are known: first[i] is
+// the first corner with corner i's position, pos the positions of the corners that are their
+// own first, in corner order (only these are read, about a sixth of the corners); starts,
+// when not nil, is distinctStarts(first).
+func weldPositions(first []int32, pos []mgl64.Vec3, starts []int32, tol, relTol float64, workers int) *Mesh {
+	m := &Mesh{Triangles: make([][3]int32, len(first)/3)}
+	if len(m.Triangles) == 0 {
+		return m
+	}
+	w := newWelder(pos, tol, relTol)
+	alone := w.alone(pos, workers)
+	hashed := len(pos) - countTrue(alone)
+	// vertex[d] is position d's vertex: the one part that must go in order, and only over
+	// the positions; nil when every position is a vertex of its own.
+	var vertex []int32
+	if hashed == 0 {
+		m.Vertices = pos
+	} else {
+		w.reserve(len(pos), hashed)
+		vertex = make([]int32, len(pos))
+		for d, p := range pos {
+			if alone[d] {
+				vertex[d] = w.add(p)
+			} else {
+				vertex[d] = w.lookup(p)
+			}
+		}
+		m.Vertices = w.verts
+	}
+	// Then every corner's vertex, stretches on every core: the first corner of a position
+	// takes the position's vertex, and a repeat its first corner's, at once when that lies
+	// in the same stretch (as it mostly does in an ordered file), after every stretch is done
+	// otherwise.
 	out := unsafeFlatten(m.Triangles)
-	d := 0
-	for i, f := range first {
-		if int(f) != i {
-			out[i] = out[f]
-			continue
-		}
-		if alone[d] {
-			out[i] = w.add(corners[i])
-		} else {
-			out[i] = w.lookup(corners[i])
-		}
-		d++
+	if starts == nil {
+		starts = distinctStarts(first[:len(out)], workers)
 	}
-	m.Vertices = w.verts
+	parallel.For(workers, len(starts), func(_, st int) {
+		d := starts[st]
+		lo, hi := st*cornerStretch, min(len(out), (st+1)*cornerStretch)
+		for i := lo; i < hi; i++ {
+			switch f := int(first[i]); {
+			case f == i:
+				if vertex == nil {
+					out[i] = d
+				} else {
+					out[i] = vertex[d]
+				}
+				d++
+			case f >= lo:
+				out[i] = out[f]
+			}
+		}
+	})
+	parallel.For(workers, len(starts), func(_, st int) {
+		lo, hi := st*cornerStretch, min(len(out), (st+1)*cornerStretch)
+		for i := lo; i < hi; i++ {
+			if f := first[i]; int(f) < lo {
+				out[i] = out[f]
+			}
+		}
+	})
 	return m
+}
+
+// cornerStretch is how many corners one goroutine takes at a time in a per-corner pass.
+const cornerStretch = 1 << 16
+
+// distinctStarts returns, for each stretch of cornerStretch corners, how many corners
+// before it are their own first (first[i] == i): where its distinct positions start.
+func distinctStarts(first []int32, workers int) []int32 {
+	starts := make([]int32, (len(first)+cornerStretch-1)/cornerStretch)
+	parallel.For(workers, len(starts), func(_, st int) {
+		n := int32(0)
+		for i := st * cornerStretch; i < min(len(first), (st+1)*cornerStretch); i++ {
+			if int(first[i]) == i {
+				n++
+			}
+		}
+		starts[st] = n
+	})
+	at := int32(0)
+	for st, n := range starts {
+		starts[st] = at
+		at += n
+	}
+	return starts
 }
 
 func countTrue(b []bool) int {
@@ -79,104 +148,109 @@ func countTrue(b []bool) int {
 	return n
 }
 
-// alone tells, for each distinct position (ascending corner indices), whether no other
-// distinct position can lie within the tolerance of it: it is the only one in its grid cell
-// and twice its tolerance box stays inside that cell (the margin covers rounding). Such a
-// position can neither find nor be found by another, so it becomes a vertex without the grid
-// hash, whose random probes into a table far larger than the cache are most of a weld;
-// the positions left (about a tenth) go through the hash in the same order as before, so
-// the mesh is the same. Cells are compared through their 64-bit hash: two cells that share
-// one only send their positions through the hash.
-func (w *welder) alone(corners []mgl64.Vec3, distinct []int32, workers int) []bool {
-	n := len(distinct)
+// alone tells, for each distinct position (in corner order), whether no other distinct
+// position can lie within the tolerance of it: no other position's grid cell is one of the
+// cells its box of twice the tolerance (the margin covers rounding) touches, nor touched by
+// another's box. A position within the tolerance of p lies in p's box, so its own cell is one
+// of p's. Such a position can neither find nor be found by another, so it becomes a vertex
+// without the grid hash, whose random probes into a table far larger than the cache are most
+// of a weld; the few positions left go through the hash in the same order as before and find
+// the same vertices among themselves, so the mesh is the same. Cells are compared through
+// their 64-bit hash: two cells that share one only send their positions through the hash.
+func (w *welder) alone(pos []mgl64.Vec3, workers int) []bool {
+	n := len(pos)
 	alone := make([]bool, n)
+	for j := range alone {
+		alone[j] = true
+	}
 	if w.exact {
 		// Distinct positions are never identical, and only identical ones merge.
-		for j := range alone {
-			alone[j] = true
-		}
 		return alone
 	}
-	hs := make([]uint64, n)
-	// Each position on its own: stretches of them on every core.
+	// Each position on its own: stretches of them on every core. A cell is 64 tolerances
+	// wide, so a box touches at most two per axis, and one in most cases.
 	const stretch = 1 << 14
-	parallel.For(workers, (n+stretch-1)/stretch, func(_, sj int) {
+	parts := make([][]cellRec, (n+stretch-1)/stretch)
+	parallel.For(workers, len(parts), func(_, sj int) {
+		recs := make([]cellRec, 0, stretch+stretch/2)
 		for j := sj * stretch; j < min(n, (sj+1)*stretch); j++ {
-			p := corners[distinct[j]]
+			p := pos[j]
 			if !finiteVec(p) {
-				hs[j] = 0 // never merged: alone whatever its hash meets
-				alone[j] = true
-				continue
+				continue // never merged, never in the table
 			}
-			k := w.cellOf(p)
-			alone[j] = true
+			var lo, hi [3]int64
 			for a := range 3 {
-				if weldCellIndex((p[a]-2*w.tol)*w.inv) != k[a] || weldCellIndex((p[a]+2*w.tol)*w.inv) != k[a] {
-					alone[j] = false
+				lo[a] = weldCellIndex((p[a] - 2*w.tol) * w.inv)
+				hi[a] = weldCellIndex((p[a] + 2*w.tol) * w.inv)
+			}
+			for x := lo[0]; x <= hi[0]; x++ {
+				for y := lo[1]; y <= hi[1]; y++ {
+					for z := lo[2]; z <= hi[2]; z++ {
+						recs = append(recs, cellRec{weldHash([3]int64{x, y, z}), int32(j)})
+					}
 				}
 			}
-			hs[j] = weldHash(k)
 		}
+		parts[sj] = recs
 	})
 	// Group by the top bits of the hash into cache-sized blocks, then find shared cells in
 	// each block through a small open-addressing table.
+	total := 0
+	for _, r := range parts {
+		total += len(r)
+	}
 	bits := 0
-	for n>>bits > dedupBlock {
+	for total>>bits > dedupBlock {
 		bits++
 	}
 	shift := 64 - bits
-	count := make([]int32, 1<<bits+1)
-	recs := make([]int32, n)
-	if bits > 0 {
-		for _, h := range hs {
-			count[h>>shift+1]++
+	start := make([]int32, 1<<bits+1)
+	for _, part := range parts {
+		for _, r := range part {
+			start[r.h>>shift+1]++
 		}
-		for b := 1; b <= 1<<bits; b++ {
-			count[b] += count[b-1]
-		}
-		fill := append([]int32(nil), count[:1<<bits]...)
-		for j, h := range hs {
-			b := h >> shift
-			recs[fill[b]] = int32(j)
+	}
+	for b := 1; b <= 1<<bits; b++ {
+		start[b] += start[b-1]
+	}
+	recs := make([]cellRec, total)
+	fill := append([]int32(nil), start[:1<<bits]...)
+	for _, part := range parts {
+		for _, r := range part {
+			b := r.h >> shift
+			recs[fill[b]] = r
 			fill[b]++
 		}
-	} else {
-		for j := range recs {
-			recs[j] = int32(j)
-		}
-		count[1] = int32(n)
 	}
 	blocks := 1 << bits
 	k := min(parallel.Workers(workers, blocks), maxDedupWorkers)
-	tables := make([][]int32, k)
+	tables := make([][]cellRec, k)
 	parallel.For(k, blocks, func(wk, b int) {
-		blk := recs[count[b]:count[b+1]]
+		blk := recs[start[b]:start[b+1]]
 		size := 16
 		for size < 2*len(blk) {
 			size <<= 1
 		}
 		if cap(tables[wk]) < size {
-			tables[wk] = make([]int32, size)
+			tables[wk] = make([]cellRec, size)
 		}
 		table := tables[wk][:size]
 		for i := range table {
-			table[i] = -1
+			table[i].j = -1
 		}
 		mask := uint64(size - 1)
-		for _, j := range blk {
-			if !finiteVec(corners[distinct[j]]) {
-				continue
-			}
-			h := hs[j]
-			s := h & mask
+		for _, r := range blk {
+			s := r.h & mask
 			for {
-				e := table[s]
-				if e < 0 {
-					table[s] = j
+				e := &table[s]
+				if e.j < 0 {
+					*e = r
 					break
 				}
-				if hs[e] == h {
-					alone[e], alone[j] = false, false
+				if e.h == r.h {
+					if e.j != r.j {
+						alone[e.j], alone[r.j] = false, false
+					}
 					break
 				}
 				s = (s + 1) & mask
@@ -184,6 +258,12 @@ func (w *welder) alone(corners []mgl64.Vec3, distinct []int32, workers int) []bo
 		}
 	})
 	return alone
+}
+
+// cellRec is a grid cell (its hash) that position j's box touches.
+type cellRec struct {
+	h uint64
+	j int32
 }
 
 // unsafeFlatten views the triangles as one list of corner indices.
@@ -509,14 +589,14 @@ const weldCellTols = 64
 // weldMaxCell keeps cell indices far inside int64 whatever the coordinates.
 const weldMaxCell = 1 << 40
 
-// newWelder sets the tolerance and grid; distinct are the corners that stand for every
-// position (the largest coordinate is theirs). Call reserve before adding vertices.
-func newWelder(corners []mgl64.Vec3, distinct []int32, tol, relTol float64) *welder {
+// newWelder sets the tolerance and grid; pos holds every distinct position (the largest
+// coordinate is theirs). Call reserve before adding vertices.
+func newWelder(pos []mgl64.Vec3, tol, relTol float64) *welder {
 	w := &welder{}
 	maxAbs := 0.0
 	if tol > 0 || relTol > 0 {
-		for _, ci := range distinct {
-			c := &corners[ci]
+		for ci := range pos {
+			c := &pos[ci]
 			for k := 0; k < 3; k++ {
 				if a := math.Abs(c[k]); a > maxAbs && a <= math.MaxFloat64 {
 					maxAbs = a
