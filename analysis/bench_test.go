@@ -2,6 +2,7 @@ package analysis
 
 import (
 	"context"
+	"math"
 	"sync"
 	"syscall"
 	"testing"
@@ -26,7 +27,7 @@ var (
 
 // benchScan is the demo canal as a fine segmented scan: voxel 0.022 mm, vertex noise 0.005 mm,
 // about 200k triangles (the size the speed targets are stated for).
-func benchScan(b *testing.B) (*mesh.Mesh, *Canal) {
+func benchScan(b testing.TB) (*mesh.Mesh, *Canal) {
 	benchOnce.Do(func() {
 		m, err := models.ScanLike(benchDemo(), 0.022, 0.005, 1)
 		if err != nil {
@@ -175,7 +176,7 @@ var (
 
 // benchRootScan is the bench canal (the demo canal as a fine scan, about 200k triangles)
 // inside a root of about 200k triangles (an oval root with a groove, as the spec makes it).
-func benchRootScan(b *testing.B) *Canal {
+func benchRootScan(b testing.TB) *Canal {
 	_, c := benchScan(b)
 	benchRootOnce.Do(func() {
 		spec := benchDemo()
@@ -231,6 +232,13 @@ func BenchmarkWallThickness(b *testing.B) {
 		b.ReportMetric(float64(cpuTime()-start)/1e6/float64(b.N), "cpu-ms/op")
 	})
 	b.Run("as-scanned", func(b *testing.B) {
+		start := cpuTime()
+		for i := 0; i < b.N; i++ {
+			c.wallThickness(c.Rho, nil, math.NaN(), wallScanned, 0)
+		}
+		b.ReportMetric(float64(cpuTime()-start)/1e6/float64(b.N), "cpu-ms/op")
+	})
+	b.Run("exact", func(b *testing.B) {
 		start := cpuTime()
 		for i := 0; i < b.N; i++ {
 			c.WallThickness(c.Rho, 0)

@@ -48,10 +48,12 @@ type Canal struct {
 	Exact []mgl64.Vec3
 	// Root is the root's outer surface around the canal (nil when none is known), and
 	// Thickness the wall left to it from the canal as scanned (station-major like Rho, mm;
-	// negative where the canal passes outside the root).
+	// negative where the canal passes outside the root), each cell at most wallMapTolerance
+	// (or a tenth of the wall) above the exact distance, the thinnest exactly.
 	Root        *Root
 	Thickness   []float32
-	scannedWall *wallMap // with each cell's nearest root point
+	scannedWall *wallMap     // with each cell's bounds and a nearby root point
+	wallAtLimit *wallAtLimit // the same, exact about the last limit a run asked for
 }
 
 // CanalOptions tune how a canal is measured.

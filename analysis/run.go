@@ -144,35 +144,36 @@ func (res *Result) measureWall() {
 		return // no root, or a copy of the canal on other stations (the planner's)
 	}
 	limit := res.Options.MinWallMM
-	res.ScannedWall = c.wallOf(c.Thickness, nil, c.Rho, limit)
+	from := c.scannedWallAt(limit, res.Options.Workers)
+	res.ScannedWall = c.wallOf(from, nil, limit)
 	res.ScannedWall.WallThinnedMM = nil
 	if t := res.ScannedWall.ThinnestWallMM; t != nil && *t < limit {
 		res.Warnings = append(res.Warnings, "as scanned: "+thinWallText(res.ScannedWall))
 	}
-	from := c.scannedWall
 	for _, sr := range res.Steps {
-		w := c.wallThickness(sr.Prepared, from, limit, math.Inf(1), res.Options.Workers)
-		sr.Metrics.Wall = c.wallOf(w.th, from.th, sr.Prepared, limit)
+		w := c.wallThickness(sr.Prepared, from, limit, wallFigures, res.Options.Workers)
+		sr.Metrics.Wall = c.wallOf(w, from, limit)
 		from = w
 	}
 }
 
 // WallMap is the wall left to the root's outer surface after step k (from 1; 0 = as scanned) at
 // every cell of the canal's map, each at most wallMapTolerance (or a tenth of the wall) above the
-// exact distance, for pictures; nil without a root. The maps of all steps are measured on the
-// first call (about as long as measuring the canal's own map) and kept.
+// exact distance and on its side of the run's limit, for pictures; nil without a root. The maps
+// of all steps are measured on the first call and kept.
 func (res *Result) WallMap(k int) []float32 {
 	c := res.Canal
 	if c.Root == nil || c.scannedWall == nil || len(c.scannedWall.th) != len(c.Rho) || k < 0 || k > len(res.Steps) {
 		return nil
 	}
+	scanned := c.scannedWallAt(res.Options.MinWallMM, res.Options.Workers)
 	if k == 0 {
-		return c.Thickness
+		return scanned.th
 	}
 	res.wallMapsOnce.Do(func() {
-		from := c.scannedWall
+		from := scanned
 		for _, sr := range res.Steps {
-			w := c.wallThickness(sr.Prepared, from, res.Options.MinWallMM, wallMapTolerance, res.Options.Workers)
+			w := c.wallThickness(sr.Prepared, from, res.Options.MinWallMM, wallPictures, res.Options.Workers)
 			res.wallMaps = append(res.wallMaps, w.th)
 			from = w
 		}

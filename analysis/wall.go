@@ -7,7 +7,6 @@ import (
 	"github.com/go-gl/mathgl/mgl64"
 
 	"tapersweep/mesh"
-	"tapersweep/mesh/parallel"
 )
 
 // DefaultMinWallMM is the least wall of dentine the thin-wall warning asks to keep between the
@@ -24,6 +23,8 @@ type Root struct {
 	Source string
 	// normals are the triangles' outward unit normals (the sign of a distance: inside or out).
 	normals []mgl64.Vec3
+	// near is Surface laid out for the closest-point queries of the wall.
+	near *mesh.NearTree
 }
 
 // newRoot prepares a root surface for distance queries; it is turned to face outward.
@@ -31,6 +32,7 @@ func newRoot(m *mesh.Mesh, source string) *Root {
 	mesh.OrientConsistently(m)
 	r := &Root{Mesh: m, Surface: mesh.NewBVH(m), Source: source, normals: make([]mgl64.Vec3, len(m.Triangles))}
 	r.Surface.AddSlabs()
+	r.near = r.Surface.NewNearTree()
 	for t := range m.Triangles {
 		r.normals[t] = mesh.FaceNormal(m, t)
 	}
@@ -62,7 +64,7 @@ func (r *Root) signedDistance(p mgl64.Vec3, seed nearPoint) (float64, nearPoint)
 	if seed.tri >= 0 {
 		limit = p.Sub(seed.q).Len()*(1+1e-9) + 1e-12
 	}
-	q, tri, d, ok := r.Surface.ClosestWithin(p, limit)
+	q, tri, d, ok := r.near.ClosestWithin(p, limit)
 	if !ok {
 		if seed.tri < 0 {
 			return math.Inf(1), seed
@@ -80,104 +82,6 @@ func (r *Root) signedDistance(p mgl64.Vec3, seed nearPoint) (float64, nearPoint)
 		return d, near
 	}
 	return -d, near
-}
-
-// WallThickness is the wall left between a station-major map of the canal (the radius map, a
-// step's prepared canal) and the root's outer surface at every (station, direction): the
-// shortest distance from the canal's wall there to the root surface, negative where the canal
-// passes outside the root. nil without a root.
-func (c *Canal) WallThickness(m []float32, workers int) []float32 {
-	if w := c.wallThickness(m, nil, 0, 0, workers); w != nil {
-		return w.th
-	}
-	return nil
-}
-
-// wallMap is a thickness map with each cell's nearest root point and a lower bound of its wall
-// (the wall itself where it was measured exactly).
-type wallMap struct {
-	rho, th, low []float32
-	near         []nearPoint
-}
-
-// wallMapTolerance is how far a cell of a step's map drawn in colour may lie above the exact
-// wall: the bounds of a cell that moved must be this close, or it is measured exactly.
-const wallMapTolerance = 0.05
-
-// wallMapShare: or this share of the wall, where that is more (a colour scale is read in shares).
-const wallMapShare = 0.1
-
-// wallThickness measures the wall of map m. Without from, every cell is measured exactly, each
-// seeded with its neighbour's nearest point around the station.
-//
-// With from (the map the step met) only the cells where m differs from it change. For such a
-// cell, moved by delta, the exact wall lies between its old lower bound less delta (the distance
-// cannot fall faster than the wall moves) and the distance to its old nearest root point (a
-// point of the root, so never nearer than the nearest). A cell is measured exactly when its
-// bounds do not tell whether it lies under limit, when it could be the thinnest wall (its
-// lower bound under the least upper bound of the map), or when its bounds lie more than
-// max(tol, wallMapShare of its wall) apart: every figure of the outputs is exact, and every
-// cell at most that far above the exact wall. tol = +Inf settles the figures only (Run).
-func (c *Canal) wallThickness(m []float32, from *wallMap, limit, tol float64, workers int) *wallMap {
-	if c.Root == nil {
-		return nil
-	}
-	n, na := c.Line.Len(), c.Angles
-	out := &wallMap{rho: m, th: make([]float32, n*na), near: make([]nearPoint, n*na)}
-	if from == nil {
-		parallel.For(workers, n, func(_, i int) {
-			prev := nearPoint{tri: -1}
-			for j := 0; j < na; j++ {
-				var d float64
-				d, prev = c.Root.signedDistance(c.wallPoint(m, i, j), prev)
-				out.th[i*na+j], out.near[i*na+j] = float32(d), prev
-			}
-		})
-		out.low = out.th
-		return out
-	}
-	out.low = make([]float32, n*na)
-	copy(out.th, from.th)
-	copy(out.low, from.low)
-	copy(out.near, from.near)
-	exact := make([]bool, n*na)
-	least := make([]float64, n)
-	parallel.For(workers, n, func(_, i int) {
-		least[i] = math.Inf(1)
-		for j := 0; j < na; j++ {
-			k := i*na + j
-			if m[k] != from.rho[k] {
-				moved := math.Abs(float64(m[k] - from.rho[k]))
-				low := float64(from.low[k]) - moved
-				up := c.wallPoint(m, i, j).Sub(from.near[k].q).Len()
-				out.low[k], out.th[k] = float32(low), float32(up)
-				exact[k] = !(low > 0) || up-low > max(tol, wallMapShare*low)
-			}
-			least[i] = min(least[i], float64(out.th[k]))
-		}
-	})
-	top := math.Inf(1)
-	for _, v := range least {
-		top = min(top, v)
-	}
-	top += 1e-6
-	parallel.For(workers, n, func(_, i int) {
-		for j := 0; j < na; j++ {
-			k := i*na + j
-			if m[k] == from.rho[k] {
-				continue
-			}
-			// Exact where the bounds do not tell whether the cell is under the limit, where it
-			// may be the thinnest, or where the bounds lie apart.
-			low, up := float64(out.low[k]), float64(out.th[k])
-			if !exact[k] && !(low < limit && up >= limit) && low >= top {
-				continue
-			}
-			d, q := c.Root.signedDistance(c.wallPoint(m, i, j), from.near[k])
-			out.th[k], out.low[k], out.near[k] = float32(d), float32(d), q
-		}
-	})
-	return out
 }
 
 // Wall is how much dentine a canal leaves to the root's outer surface, as every output states
@@ -215,18 +119,19 @@ func thinnest(th []float32) wallPlace {
 	return best
 }
 
-// wallOf states a thickness map against a limit; before (the map the step met, or nil) gives
-// how much the step thinned the wall at its thinnest place.
-func (c *Canal) wallOf(th, before []float32, prepared []float32, limit float64) Wall {
-	if th == nil {
+// wallOf states the wall of map w against a limit; before (the map the step met, or nil) gives
+// how much the step thinned the wall at its thinnest place, measured there exactly.
+func (c *Canal) wallOf(w, before *wallMap, limit float64) Wall {
+	if w == nil {
 		return Wall{}
 	}
+	th, prepared := w.th, w.rho
 	p := thinnest(th)
 	if p.cell < 0 {
 		return Wall{}
 	}
 	i, j := p.cell/c.Angles, p.cell%c.Angles
-	w := Wall{
+	wall := Wall{
 		ThinnestWallMM:         finite(round(max(p.thickness, 0), 3)),
 		ThinnestWallFromApexMM: finite(round(c.Line.Length()-c.Line.S[i], 2)),
 		ThinnestWallTowardDeg:  finite(towardDeg(math.Cos(2*math.Pi*float64(j)/float64(c.Angles)), math.Sin(2*math.Pi*float64(j)/float64(c.Angles)))),
@@ -243,12 +148,12 @@ func (c *Canal) wallOf(th, before []float32, prepared []float32, limit float64) 
 		}
 	}
 	if all > 0 {
-		w.WallUnderLimitPct = finite(round(100*under/all, 2))
+		wall.WallUnderLimitPct = finite(round(100*under/all, 2))
 	}
 	if before != nil {
-		w.WallThinnedMM = finite(round(max(float64(before[p.cell]), 0)-max(p.thickness, 0), 3))
+		wall.WallThinnedMM = finite(round(max(c.exactAt(before, p.cell), 0)-max(p.thickness, 0), 3))
 	}
-	return w
+	return wall
 }
 
 // share is station i's share of the centerline's length (half a spacing at each end).
@@ -293,7 +198,8 @@ func (c *Canal) attachRoot(m *mesh.Mesh, source string, workers int) error {
 		return &RootError{Source: source, Msg: fmt.Sprintf("the surface is not closed (%d edges border holes), so its inside is not known", rep.BoundaryEdges)}
 	}
 	c.Root = newRoot(m, source)
-	c.scannedWall = c.wallThickness(c.Rho, nil, 0, 0, workers)
+	c.scannedWall = c.wallThickness(c.Rho, nil, math.NaN(), wallScanned, workers)
+	c.wallAtLimit = &wallAtLimit{}
 	c.Thickness = c.scannedWall.th
 	outside := 0
 	for _, v := range c.Thickness {

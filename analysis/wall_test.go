@@ -107,7 +107,9 @@ func TestWallEccentric(t *testing.T) {
 			if got := cellDir(c, p.cell).Dot(tc.dir.Mul(-1)); got < math.Cos(1.5*math.Pi/180) {
 				t.Errorf("thinnest wall faces %.1f degrees off the side away from the root's move", math.Acos(min(got, 1))*180/math.Pi)
 			}
-			// Half-way down, on the side toward the move: R - |r - e|.
+			// Half-way down, on the side toward the move: R - |r - e| (each cell measured
+			// exactly; the map as scanned only bounds the cells far from the thinnest).
+			exact := c.WallThickness(c.Rho, 0)
 			i := c.Line.Station(6)
 			best, bestK := -2.0, 0
 			for j := 0; j < c.Angles; j++ {
@@ -115,7 +117,7 @@ func TestWallEccentric(t *testing.T) {
 					best, bestK = d, i*c.Angles+j
 				}
 			}
-			if got, want := float64(c.Thickness[bestK]), R-math.Abs(r-tc.e); math.Abs(got-want) > 0.005 {
+			if got, want := float64(exact[bestK]), R-math.Abs(r-tc.e); math.Abs(got-want) > 0.005 {
 				t.Errorf("wall toward the move %.4f, want R - |r - e| = %.4f", got, want)
 			}
 		})
@@ -267,8 +269,9 @@ func containsAll(s string, parts ...string) bool {
 // vtkImplicitPolyDataDistance of Debian's python3-vtk9 (its distance from a point to the nearest
 // cell of a surface), on a scan-like pair: the demo canal surfaced from a 0.06 mm voxel image
 // with 0.01 mm of noise, inside an oval root with a groove whose vertices carry 0.01 mm of
-// noise (the demo canal's shape, 1.0 to 0.25 mm wide). Every sampled cell agrees within
-// 0.01 mm (issue 17).
+// noise (the demo canal's shape, 1.0 to 0.25 mm wide). Every sampled cell measured exactly
+// agrees within 0.01 mm (issue 17), and the map as scanned (bounded, not measured, where the
+// bounds are close enough) lies above VTK's distance by at most the pictures' tolerance.
 func TestWallAgainstVTK(t *testing.T) {
 	out, err := exec.Command(debianPython, "-c", "import vtk; print('ok')").CombinedOutput()
 	needTool(t, err == nil && strings.Contains(string(out), "ok"), "python3-vtk9")
@@ -340,23 +343,29 @@ for line in open(%q):
 	if len(lines) != len(cells) {
 		t.Fatalf("vtk gave %d distances for %d points", len(lines), len(cells))
 	}
-	worst, thin := 0.0, math.Inf(1)
+	exact := c.WallThickness(c.Rho, 0)
+	worst, thin, over := 0.0, math.Inf(1), 0.0
 	for n, k := range cells {
 		ref, err := strconv.ParseFloat(lines[n], 64)
 		if err != nil {
 			t.Fatal(err)
 		}
-		got := float64(c.Thickness[k])
+		got := float64(exact[k])
 		// VTK's sign is negative inside a surface whose normals face out, ours positive.
 		if d := math.Abs(got - math.Abs(ref)); d > worst {
 			worst = d
 		}
+		drawn := float64(c.Thickness[k]) - math.Abs(ref)
+		if drawn < -0.01 || drawn > max(wallMapTolerance, wallMapShare*math.Abs(ref))+0.01 {
+			t.Errorf("cell %d: the map as scanned reads %.4f mm, VTK %.4f", k, c.Thickness[k], math.Abs(ref))
+		}
+		over = max(over, drawn)
 		if ref > 0 {
 			t.Errorf("cell %d lies outside the root for VTK (%.4f), inside for us (%.4f)", k, ref, got)
 		}
 		thin = min(thin, got)
 	}
-	t.Logf("%d cells, %d root triangles: largest difference from VTK %.2g mm; thinnest sampled wall %.3f mm", len(cells), len(root.Triangles), worst, thin)
+	t.Logf("%d cells, %d root triangles: largest difference from VTK %.2g mm; thinnest sampled wall %.3f mm; the map as scanned up to %.3f mm above", len(cells), len(root.Triangles), worst, thin, over)
 	if worst > 0.01 {
 		t.Errorf("wall differs from VTK's distance by up to %.4f mm", worst)
 	}
