@@ -1,5 +1,7 @@
 package render
 
+import "math/bits"
+
 // Rows are split into bands of bandH rows; one worker owns a band at a time, so no
 // two goroutines write the same pixel and the result does not depend on scheduling.
 
@@ -97,18 +99,21 @@ func (r *Renderer) clearRows(y0, y1, band int) {
 func edges(t *triSetup, x, y int32) (e0, e1, e2, s0, s1, s2 int64) {
 	px := int64(x)<<subBits + subHalf
 	py := int64(y)<<subBits + subHalf
-	edge := func(ax, ay, bx, by int32) (e, step int64) {
-		dx, dy := int64(bx-ax), int64(by-ay)
-		e = dx*(py-int64(ay)) - dy*(px-int64(ax))
-		if !(dy < 0 || (dy == 0 && dx > 0)) {
-			e--
-		}
-		return e, -dy << subBits
-	}
-	e0, s0 = edge(t.x1, t.y1, t.x2, t.y2)
-	e1, s1 = edge(t.x2, t.y2, t.x0, t.y0)
-	e2, s2 = edge(t.x0, t.y0, t.x1, t.y1)
+	e0, s0 = edgeFunction(t.x1, t.y1, t.x2, t.y2, px, py)
+	e1, s1 = edgeFunction(t.x2, t.y2, t.x0, t.y0, px, py)
+	e2, s2 = edgeFunction(t.x0, t.y0, t.x1, t.y1, px, py)
 	return
+}
+
+// edgeFunction returns the edge function of edge a->b at point (px, py) (fixed point), biased
+// for the top-left rule, and its step per pixel in x.
+func edgeFunction(ax, ay, bx, by int32, px, py int64) (e, step int64) {
+	dx, dy := int64(bx-ax), int64(by-ay)
+	e = dx*(py-int64(ay)) - dy*(px-int64(ax))
+	if !(dy < 0 || (dy == 0 && dx > 0)) {
+		e--
+	}
+	return e, -dy << subBits
 }
 
 // rowStep is how much the edge functions grow from one pixel row to the next.
@@ -159,6 +164,10 @@ func clampByte(v float32) byte {
 func (r *Renderer) rasterOpaque(t *triSetup, y0, y1 int) {
 	ys, ye := max(t.minY, int32(y0)), min(t.maxY, int32(y1-1))
 	if ys > ye {
+		return
+	}
+	if t.cover != 0 {
+		r.rasterOpaqueSmall(t, ys, ye)
 		return
 	}
 	e0, e1, e2, s0, s1, s2 := edges(t, t.minX, ys)
@@ -212,10 +221,42 @@ func (r *Renderer) rasterOpaque(t *triSetup, y0, y1 int) {
 	}
 }
 
+// rasterOpaqueSmall is rasterOpaque for a triangle whose covered pixels are known
+// (triSetup.cover), in rows ys..ye; the same arithmetic gives the same depths and colours.
+func (r *Renderer) rasterOpaqueSmall(t *triSetup, ys, ye int32) {
+	for m := uint(t.cover); m != 0; m &= m - 1 {
+		j := int32(bits.TrailingZeros(m))
+		dy := j >> 2
+		y := t.minY + dy
+		if y < ys || y > ye {
+			continue
+		}
+		dx := j & 3
+		fy, fx := float32(dy), float32(dx)
+		i := int(y*int32(r.w) + t.minX + dx)
+		if iw := t.z + t.zdy*fy + t.zdx*fx; iw > r.z[i] {
+			r.z[i] = iw
+			k := 1 / iw
+			o := r.base + int(y)*r.stride + int(t.minX+dx)*4
+			p := r.pix[o : o+4 : o+4]
+			p[0] = clampByte((t.r + t.rdy*fy + t.rdx*fx) * k)
+			p[1] = clampByte((t.g + t.gdy*fy + t.gdx*fx) * k)
+			p[2] = clampByte((t.b + t.bdy*fy + t.bdx*fx) * k)
+			p[3] = 255
+			r.oObj[i] = t.obj
+			r.triID[i] = t.tri
+		}
+	}
+}
+
 // rasterSeeThrough blends t (opacity alpha/256) over what is drawn, behind no opaque surface.
 func (r *Renderer) rasterSeeThrough(t *triSetup, y0, y1 int, alpha int32) {
 	ys, ye := max(t.minY, int32(y0)), min(t.maxY, int32(y1-1))
 	if ys > ye {
+		return
+	}
+	if t.cover != 0 {
+		r.rasterSeeThroughSmall(t, ys, ye, alpha)
 		return
 	}
 	e0, e1, e2, s0, s1, s2 := edges(t, t.minX, ys)
@@ -267,6 +308,35 @@ func (r *Renderer) rasterSeeThrough(t *triSetup, y0, y1 int, alpha int32) {
 		e0 += r0
 		e1 += r1
 		e2 += r2
+	}
+}
+
+// rasterSeeThroughSmall is rasterSeeThrough for a triangle whose covered pixels are known
+// (triSetup.cover), in rows ys..ye.
+func (r *Renderer) rasterSeeThroughSmall(t *triSetup, ys, ye int32, alpha int32) {
+	for m := uint(t.cover); m != 0; m &= m - 1 {
+		j := int32(bits.TrailingZeros(m))
+		dy := j >> 2
+		y := t.minY + dy
+		if y < ys || y > ye {
+			continue
+		}
+		dx := j & 3
+		fy, fx := float32(dy), float32(dx)
+		i := int(y*int32(r.w) + t.minX + dx)
+		if iw := t.z + t.zdy*fy + t.zdx*fx; iw > r.z[i] {
+			k := 1 / iw
+			o := r.base + int(y)*r.stride + int(t.minX+dx)*4
+			p := r.pix[o : o+4 : o+4]
+			p[0] = blend(p[0], clampByte((t.r+t.rdy*fy+t.rdx*fx)*k), alpha)
+			p[1] = blend(p[1], clampByte((t.g+t.gdy*fy+t.gdx*fx)*k), alpha)
+			p[2] = blend(p[2], clampByte((t.b+t.bdy*fy+t.bdx*fx)*k), alpha)
+			if iw > r.tz[i] {
+				r.tz[i] = iw
+				r.tObj[i] = t.obj
+				r.triID[i] = t.tri
+			}
+		}
 	}
 }
 

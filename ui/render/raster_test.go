@@ -4,6 +4,7 @@ import (
 	"image"
 	"image/color"
 	"math"
+	"math/rand/v2"
 	"testing"
 
 	"github.com/go-gl/mathgl/mgl64"
@@ -392,5 +393,59 @@ func TestReusedRendererMatchesFresh(t *testing.T) {
 			}
 		}
 		fresh.Close()
+	}
+}
+
+// The fill rule holds for triangles of about a pixel, which culling tests centre by centre and
+// draws from a mask: the square of TestSharedEdgeDrawnOnce cut into ~18k triangles of about
+// a quarter pixel still covers each of its 48 x 48 pixel centres exactly once (a partition of
+// the plane gives each sample to one triangle under the top-left rule of the OpenGL and
+// Direct3D rasterisation rules): opaque, every centre drawn; see-through at half opacity,
+// every pixel blended once, so all alike.
+func TestFineTrianglesCoverEachCentreOnce(t *testing.T) {
+	const n, dist, fov, cells = 64, 10.0, 50.0, 96
+	half := 0.75 * dist * math.Tan(fov*math.Pi/360)
+	rng := rand.New(rand.NewPCG(7, 11))
+	// Unjittered, the vertices lie on pixel corners and centres (half a pixel apart), so
+	// edges pass through centres and the rule's ties decide; jittered, they do not.
+	for _, jitter := range []float64{0, 0.6} {
+		m := &mesh.Mesh{}
+		for j := 0; j <= cells; j++ {
+			for i := 0; i <= cells; i++ {
+				x, z := -half+2*half*float64(i)/cells, -half+2*half*float64(j)/cells
+				if i > 0 && i < cells && j > 0 && j < cells { // the border stays on the square
+					step := 2 * half / cells
+					x += (rng.Float64() - 0.5) * jitter * step
+					z += (rng.Float64() - 0.5) * jitter * step
+				}
+				m.Vertices = append(m.Vertices, mgl64.Vec3{x, 0, z})
+			}
+		}
+		at := func(i, j int) int32 { return int32(j*(cells+1) + i) }
+		for j := 0; j < cells; j++ {
+			for i := 0; i < cells; i++ {
+				m.Triangles = append(m.Triangles,
+					[3]int32{at(i, j), at(i+1, j), at(i+1, j+1)},
+					[3]int32{at(i, j), at(i+1, j+1), at(i, j+1)})
+			}
+		}
+		for _, opacity := range []float64{1, 0.5} {
+			s := &Scene{Background: testBG, Objects: []Object{{Mesh: m, Color: color.RGBA{220, 220, 220, 255}, Opacity: opacity}}}
+			img := render(t, s, frontCamera(dist, fov), n, n, Options{})
+			if got := count(coverage(img, testBG)); got != 48*48 {
+				t.Errorf("jitter %v, opacity %v: %d pixels covered, want %d", jitter, opacity, got, 48*48)
+			}
+			if opacity == 1 {
+				continue
+			}
+			ref := img.RGBAAt(20, 40)
+			for y := 8; y < 56; y++ {
+				for x := 8; x < 56; x++ {
+					if p := img.RGBAAt(x, y); p != ref {
+						t.Fatalf("jitter %v: pixel (%d,%d) = %v, want %v like the rest (blended once)", jitter, x, y, p, ref)
+					}
+				}
+			}
+		}
 	}
 }

@@ -24,6 +24,7 @@ type Renderer struct {
 	// Internal frame size (output size times the supersampling factor).
 	w, h, ss      int
 	bandH, nBands int
+	rowBand       []int32 // [y] the band of row y
 	workers       int
 
 	// Camera for this frame.
@@ -41,11 +42,13 @@ type Renderer struct {
 	// simpler holds the simplified copies of huge meshes drawn while turning.
 	simpler map[*mesh.Mesh]*simplified
 	turning bool
-	verts   []packedVert
+	pos     []screenPos
+	col     []mgl32.Vec3 // lit colour of the vertices shadePhase lit
+	wcol    [][3]float32 // the same times 1/w
 	vjobs   []vertexJob
-	// marks[v] == stamp: vertex v belongs to a triangle that survived culling this frame.
-	marks []uint32
-	stamp uint32
+	// marks[w] has bit v set when worker w kept a triangle with corner v this frame (one bit
+	// set per worker, so marking takes no atomic operation and no lock).
+	marks [][]uint64
 
 	chunks     []triChunk
 	nChunks    int
@@ -95,15 +98,17 @@ type frameObject struct {
 	outline    bool
 	normals    []mgl32.Vec3
 	colors     bool
+	clusters   []coneCluster // when cull is set
 }
 
 type meshCache struct {
-	nv, nt  int
-	v0      *mgl64.Vec3
-	t0      *[3]int32
-	normals []mgl32.Vec3
-	lo, hi  mgl64.Vec3
-	used    bool
+	nv, nt   int
+	clusters []coneCluster // built the first time the mesh is drawn with back faces culled
+	v0       *mgl64.Vec3
+	t0       *[3]int32
+	normals  []mgl32.Vec3
+	lo, hi   mgl64.Vec3
+	used     bool
 }
 
 type vertexJob struct{ obj, v0, v1 int }
@@ -211,6 +216,12 @@ func (r *Renderer) resize(dst *image.RGBA, ss int) {
 	r.w, r.h = dst.Rect.Dx()*ss, dst.Rect.Dy()*ss
 	r.bandH = ss * max(1, bandRows/ss)
 	r.nBands = (r.h + r.bandH - 1) / r.bandH
+	// Binning asks every triangle for the bands of its top and bottom rows: a table, not
+	// two integer divisions (slow on x86) per triangle.
+	r.rowBand = grow(r.rowBand, r.h)
+	for y := range r.rowBand {
+		r.rowBand[y] = int32(y / r.bandH)
+	}
 	n := r.w * r.h
 	r.z = grow(r.z, n)
 	r.tz = grow(r.tz, n)
@@ -319,6 +330,12 @@ func (r *Renderer) prepareObjects(s *Scene) {
 			}
 		}
 		fo.cull = !fo.seeThrough && !fo.clip && !inside
+		if fo.cull {
+			if mc.clusters == nil {
+				mc.clusters = buildClusters(o.Mesh)
+			}
+			fo.clusters = mc.clusters
+		}
 		r.objs = append(r.objs, fo)
 		n := len(o.Mesh.Vertices)
 		const step = 8192
@@ -327,11 +344,13 @@ func (r *Renderer) prepareObjects(s *Scene) {
 		}
 		nv += n
 	}
-	r.verts = grow(r.verts, nv)
-	r.marks = grow(r.marks, nv)
-	if r.stamp++; r.stamp == 0 { // wrapped: old marks could match
-		clear(r.marks)
-		r.stamp = 1
+	r.col = grow(r.col, nv)
+	r.pos = grow(r.pos, nv)
+	r.wcol = grow(r.wcol, nv)
+	r.marks = grow(r.marks, r.workers)
+	for w := range r.marks {
+		r.marks[w] = grow(r.marks[w], (nv+63)/64)
+		clear(r.marks[w])
 	}
 }
 
@@ -392,7 +411,8 @@ func (r *Renderer) prepareChunks() {
 			total += len(o.mesh.Triangles)
 		}
 	}
-	size := max(4096, (total+255)/256)
+	// Whole blocks of culling (so its clusters of triangles line up with the chunks).
+	size := max(4096, (total+255)/256+cullBlock-1) &^ (cullBlock - 1)
 	n := 0
 	for oi, o := range r.objs {
 		if o.mesh == nil {

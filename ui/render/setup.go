@@ -1,8 +1,6 @@
 package render
 
 import (
-	"sync/atomic"
-
 	"github.com/go-gl/mathgl/mgl32"
 )
 
@@ -19,6 +17,9 @@ type triSetup struct {
 	id                     float32 // 1 / twice the signed area in pixels, shared by the planes
 	tri                    int32
 	obj                    uint16 // object+1
+	// cover, for a box of at most smallBox pixels, has a bit for each pixel centre the
+	// triangle covers, bit 4*(y-minY) + (x-minX); 0 for a bigger box.
+	cover uint16
 	// v holds the corners' indices into the frame's vertices in the order above, for the
 	// colour planes filled once the vertices are shaded; -1 for a piece of a clipped triangle
 	// (its colours are set with its geometry).
@@ -32,71 +33,133 @@ type triSetup struct {
 // clipping plane or the guard band.
 
 // cullPhase culls and sets up the geometry of triangles chunk by chunk.
-func (r *Renderer) cullPhase(int) {
+func (r *Renderer) cullPhase(worker int) {
 	for {
 		c, ok := r.nextItem(r.nChunks)
 		if !ok {
 			return
 		}
-		r.cullChunk(c)
+		r.cullChunk(c, r.marks[worker])
 	}
 }
 
-func (r *Renderer) cullChunk(c int) {
+func (r *Renderer) cullChunk(c int, marks []uint64) {
 	ch := &r.chunks[c]
 	o := &r.objs[ch.obj]
-	tris := o.mesh.Triangles
-	nv := uint32(len(o.mesh.Vertices))
+	nv := len(o.mesh.Vertices)
 	base := int32(o.vertBase)
-	verts := r.verts[o.vertBase : o.vertBase+int(nv)]
-	marks := r.marks[o.vertBase : o.vertBase+int(nv)]
+	pos := r.pos[o.vertBase : o.vertBase+nv]
 	bins := r.opaqueBins[c*r.nBands : (c+1)*r.nBands]
 	objID := uint16(ch.obj + 1)
-	stamp := r.stamp
 	mark := func(i int32) {
-		if atomic.LoadUint32(&marks[i]) != stamp {
-			atomic.StoreUint32(&marks[i], stamp)
-		}
+		v := base + i
+		marks[v>>6] |= 1 << (v & 63)
 	}
-	// Locals, not fields: the appends below write memory, which would make the compiler reload
-	// fields through the pointers on every triangle.
-	cull, t1 := o.cull, ch.t1
+	cull, w, h := o.cull, int32(r.w), int32(r.h)
 	var ts triSetup
-	for t := ch.t0; t < t1; t++ {
-		tri := tris[t]
-		if uint32(tri[0]) >= nv || uint32(tri[1]) >= nv || uint32(tri[2]) >= nv {
-			continue // a bad index draws nothing rather than panicking
+	var kept [cullBlock]int32
+	for t0 := ch.t0; t0 < ch.t1; t0 += cullBlock {
+		tris := o.mesh.Triangles[t0:min(ch.t1, t0+cullBlock)]
+		// Clusters whose triangles all face away (one bit each; chunks start on a block).
+		var away uint64
+		if cull {
+			for j := range (len(tris) + clusterSize - 1) / clusterSize {
+				if o.clusters[t0/clusterSize+j].facesAway(r.eye) {
+					away |= 1 << j
+				}
+			}
 		}
-		a, b, cc := &verts[tri[0]], &verts[tri[1]], &verts[tri[2]]
-		if (a.code|b.code|cc.code)&outBad != 0 || (a.code&b.code&cc.code)&outReject != 0 {
-			continue
-		}
-		if (a.code|b.code|cc.code)&outClip != 0 {
-			ch.clipped = append(ch.clipped, int32(t))
+		n := keptTriangles(tris, pos, cull, away, w, h, &kept)
+		for _, k := range kept[:n] {
+			if k < 0 { // crosses a clip plane or the guard band: clipped once its corners are lit
+				k = ^k
+				ch.clipped = append(ch.clipped, int32(t0)+k)
+				tri := tris[k]
+				mark(tri[0])
+				mark(tri[1])
+				mark(tri[2])
+				continue
+			}
+			cover := uint16(k >> keptShift)
+			k &= cullBlock - 1
+			tri := tris[k]
+			a, b, cc := &pos[tri[0]], &pos[tri[1]], &pos[tri[2]]
+			ts.v = [3]int32{base + tri[0], base + tri[1], base + tri[2]}
+			if int64(b.x-a.x)*int64(cc.y-a.y) < int64(b.y-a.y)*int64(cc.x-a.x) { // front face: reorder
+				b, cc = cc, b
+				ts.v[1], ts.v[2] = ts.v[2], ts.v[1]
+			}
+			x0, y0, x1, y1 := pixelBox(a, b, cc, w, h)
+			setupPlanes(&ts, a, b, cc, x0, y0, x1, y1, cover)
+			ts.tri, ts.obj = int32(t0)+k, objID
+			r.emit(ch, bins, o, &ts)
 			mark(tri[0])
 			mark(tri[1])
 			mark(tri[2])
-			continue
 		}
-		// Facing away or edge-on: no need to set it up (setupGeometry decides the rest).
-		area := int64(b.s.x-a.s.x)*int64(cc.s.y-a.s.y) - int64(b.s.y-a.s.y)*int64(cc.s.x-a.s.x)
-		if area == 0 || cull && area > 0 {
-			continue
-		}
-		swapped, ok := r.setupGeometryArea(&a.s, &b.s, &cc.s, area, cull, &ts)
-		if !ok {
-			continue
-		}
-		ts.v = [3]int32{base + tri[0], base + tri[1], base + tri[2]}
-		if swapped {
-			ts.v[1], ts.v[2] = ts.v[2], ts.v[1]
-		}
-		ts.tri, ts.obj = int32(t), objID
-		r.emit(ch, bins, o, &ts)
-		mark(tri[0])
-		mark(tri[1])
-		mark(tri[2])
 	}
+}
+
+// cullBlock is how many triangles keptTriangles looks at in one call.
+const cullBlock = 1024
+
+// keptShift places a kept triangle's cover mask above its index in keptTriangles' output.
+const keptShift = 10 // log2(cullBlock)
+
+// keptTriangles writes to kept the triangles of tris (at most cullBlock) that draw and returns
+// how many: corners valid, not wholly outside the view or cut away, facing the eye when cull
+// is set, and covering a pixel centre of the w x h viewport (tested one by one in a box of at
+// most smallBox pixels, else only the box), each as its index plus its cover mask
+// (triSetup.cover) << keptShift. A triangle that crosses a clip plane or the guard band is
+// written as ^index. This loop sees every triangle of a frame and rejects most, so it does the
+// cheap tests alone, where the compiler keeps its values in registers.
+func keptTriangles(tris [][3]int32, pos []screenPos, cull bool, away uint64, w, h int32, kept *[cullBlock]int32) int {
+	n := 0
+	for j := 0; j < len(tris); j += clusterSize {
+		if away>>(j/clusterSize)&1 != 0 {
+			continue
+		}
+		for k := j; k < min(j+clusterSize, len(tris)); k++ {
+			tri := &tris[k]
+			i0, i1, i2 := int(tri[0]), int(tri[1]), int(tri[2])
+			if uint(i0) >= uint(len(pos)) || uint(i1) >= uint(len(pos)) || uint(i2) >= uint(len(pos)) {
+				continue // a bad index draws nothing rather than panicking
+			}
+			a, b, c := &pos[i0], &pos[i1], &pos[i2]
+			if codes := a.code | b.code | c.code; codes != 0 {
+				if codes&outBad != 0 || (a.code&b.code&c.code)&outReject != 0 {
+					continue
+				}
+				if codes&outClip != 0 {
+					kept[n&(cullBlock-1)] = int32(^k)
+					n++
+					continue
+				}
+			}
+			// Facing away or edge-on (y points down on screen, so a front face has negative area).
+			area := int64(b.x-a.x)*int64(c.y-a.y) - int64(b.y-a.y)*int64(c.x-a.x)
+			if area == 0 || cull && area > 0 {
+				continue
+			}
+			x0, x1 := pixelRange(min3(a.x, b.x, c.x), max3(a.x, b.x, c.x), w) // pixelBox, inlined
+			y0, y1 := pixelRange(min3(a.y, b.y, c.y), max3(a.y, b.y, c.y), h)
+			if x0 > x1 || y0 > y1 {
+				continue
+			}
+			var cover uint16
+			if (x1-x0+1)*(y1-y0+1) <= smallBox {
+				if area < 0 {
+					b, c = c, b
+				}
+				if cover = coverMask(a, b, c, x0, y0, x1, y1); cover == 0 {
+					continue
+				}
+			}
+			kept[n&(cullBlock-1)] = int32(k) | int32(cover)<<keptShift
+			n++
+		}
+	}
+	return n
 }
 
 // colourPhase fills the colour planes of the chunks' triangles and clips the crossing ones.
@@ -114,12 +177,10 @@ func (r *Renderer) colourPhase(int) {
 			r.setupColour(&ch.clear[i])
 		}
 		o := &r.objs[ch.obj]
-		verts := r.verts[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
 		bins := r.opaqueBins[c*r.nBands : (c+1)*r.nBands]
 		objID := uint16(ch.obj + 1)
 		for _, t := range ch.clipped {
-			tri := o.mesh.Triangles[t]
-			r.clipTriangle(ch, bins, o, &verts[tri[0]], &verts[tri[1]], &verts[tri[2]], t, objID)
+			r.clipTriangle(ch, bins, o, t, objID)
 		}
 	}
 }
@@ -132,7 +193,7 @@ func (r *Renderer) emit(ch *triChunk, bins [][]int32, o *frameObject, ts *triSet
 	}
 	idx := int32(len(ch.opaque))
 	ch.opaque = append(ch.opaque, *ts)
-	for band := int(ts.minY) / r.bandH; band <= int(ts.maxY)/r.bandH; band++ {
+	for band := r.rowBand[ts.minY]; band <= r.rowBand[ts.maxY]; band++ {
 		bins[band] = append(bins[band], idx)
 	}
 }
@@ -143,12 +204,12 @@ func (r *Renderer) setupColour(ts *triSetup) {
 	if ts.v[0] < 0 {
 		return
 	}
-	colourPlanes(ts, &r.verts[ts.v[0]].s, &r.verts[ts.v[1]].s, &r.verts[ts.v[2]].s)
+	colourPlanes(ts, &r.wcol[ts.v[0]], &r.wcol[ts.v[1]], &r.wcol[ts.v[2]])
 }
 
-// colourPlanes fills the colour planes of ts from its corners' colours, a, b and c in the
-// order of ts's corners.
-func colourPlanes(ts *triSetup, a, b, c *screenVert) {
+// colourPlanes fills the colour planes of ts from its corners' colours divided by w, a, b and c
+// in the order of ts's corners.
+func colourPlanes(ts *triSetup, a, b, c *[3]float32) {
 	const inv = 1.0 / subOne
 	dx1, dy1 := float32(ts.x1-ts.x0)*inv, float32(ts.y1-ts.y0)*inv
 	dx2, dy2 := float32(ts.x2-ts.x0)*inv, float32(ts.y2-ts.y0)*inv
@@ -161,22 +222,22 @@ func colourPlanes(ts *triSetup, a, b, c *screenVert) {
 		gy = (d2*dx1 - d1*dx2) * id
 		return va + gx*ox + gy*oy, gx, gy
 	}
-	ts.r, ts.rdx, ts.rdy = plane(a.r, b.r, c.r)
-	ts.g, ts.gdx, ts.gdy = plane(a.g, b.g, c.g)
-	ts.b, ts.bdx, ts.bdy = plane(a.b, b.b, c.b)
+	ts.r, ts.rdx, ts.rdy = plane(a[0], b[0], c[0])
+	ts.g, ts.gdx, ts.gdy = plane(a[1], b[1], c[1])
+	ts.b, ts.bdx, ts.bdy = plane(a[2], b[2], c[2])
 }
 
 // setup prepares triangle (a, b, c) whose corners carry their colours; false when it covers no
 // pixel centre or faces away and cull is set.
 func (r *Renderer) setup(a, b, c *screenVert, cull bool, ts *triSetup) bool {
-	swapped, ok := r.setupGeometry(a, b, c, cull, ts)
+	swapped, ok := r.setupGeometry(&a.screenPos, &b.screenPos, &c.screenPos, cull, ts)
 	if !ok {
 		return false
 	}
 	if swapped {
 		b, c = c, b
 	}
-	colourPlanes(ts, a, b, c)
+	colourPlanes(ts, &a.c, &b.c, &c.c)
 	ts.v = [3]int32{-1, -1, -1}
 	return true
 }
@@ -185,38 +246,54 @@ func (r *Renderer) setup(a, b, c *screenVert, cull bool, ts *triSetup) bool {
 // false when it covers no pixel centre or faces away and cull is set. Counter-clockwise
 // triangles (seen from outside) face the viewer; swapped says b and c were exchanged to make
 // the edge functions positive inside.
-func (r *Renderer) setupGeometry(a, b, c *screenVert, cull bool, ts *triSetup) (swapped, ok bool) {
+func (r *Renderer) setupGeometry(a, b, c *screenPos, cull bool, ts *triSetup) (swapped, ok bool) {
 	area := int64(b.x-a.x)*int64(c.y-a.y) - int64(b.y-a.y)*int64(c.x-a.x)
 	return r.setupGeometryArea(a, b, c, area, cull, ts)
 }
 
-// setupGeometryArea is setupGeometry given the triangle's doubled signed area in fixed point
-// (the culling loop has it already).
-func (r *Renderer) setupGeometryArea(a, b, c *screenVert, area int64, cull bool, ts *triSetup) (swapped, ok bool) {
-	if area == 0 {
+// setupGeometryArea is setupGeometry given the triangle's doubled signed area in fixed point.
+func (r *Renderer) setupGeometryArea(a, b, c *screenPos, area int64, cull bool, ts *triSetup) (swapped, ok bool) {
+	if area == 0 || cull && area > 0 {
 		return false, false
 	}
 	// On screen y points down, so a front face has negative area; reorder to positive.
-	if area > 0 {
-		if cull {
-			return false, false
-		}
-	} else {
+	if area < 0 {
 		b, c = c, b
 		swapped = true
 	}
-	minx, maxx := min3(a.x, b.x, c.x), max3(a.x, b.x, c.x)
-	miny, maxy := min3(a.y, b.y, c.y), max3(a.y, b.y, c.y)
-	// Pixels whose centres (k + 1/2) lie within the box.
-	x0 := max((minx-subHalf+subOne-1)>>subBits, 0)
-	x1 := min((maxx-subHalf)>>subBits, int32(r.w-1))
-	y0 := max((miny-subHalf+subOne-1)>>subBits, 0)
-	y1 := min((maxy-subHalf)>>subBits, int32(r.h-1))
+	x0, y0, x1, y1 := pixelBox(a, b, c, int32(r.w), int32(r.h))
 	if x0 > x1 || y0 > y1 {
 		return false, false
 	}
+	var cover uint16
+	if (x1-x0+1)*(y1-y0+1) <= smallBox {
+		if cover = coverMask(a, b, c, x0, y0, x1, y1); cover == 0 {
+			return false, false
+		}
+	}
+	setupPlanes(ts, a, b, c, x0, y0, x1, y1, cover)
+	return swapped, true
+}
+
+// pixelBox returns the pixels whose centres (k + 1/2) lie within the bounding box of a, b and
+// c, clamped to a w x h viewport; empty when x0 > x1 or y0 > y1.
+func pixelBox(a, b, c *screenPos, w, h int32) (x0, y0, x1, y1 int32) {
+	x0, x1 = pixelRange(min3(a.x, b.x, c.x), max3(a.x, b.x, c.x), w)
+	y0, y1 = pixelRange(min3(a.y, b.y, c.y), max3(a.y, b.y, c.y), h)
+	return
+}
+
+// pixelRange returns the pixels k0..k1 of 0..n-1 whose centres lie in lo..hi (fixed point).
+func pixelRange(lo, hi, n int32) (k0, k1 int32) {
+	return max((lo-subHalf+subOne-1)>>subBits, 0), min((hi-subHalf)>>subBits, n-1)
+}
+
+// setupPlanes fills ts for triangle (a, b, c), ordered so its edge functions are positive
+// inside, with pixel box x0..x1, y0..y1: corners, box, cover and the depth plane.
+func setupPlanes(ts *triSetup, a, b, c *screenPos, x0, y0, x1, y1 int32, cover uint16) {
 	ts.x0, ts.y0, ts.x1, ts.y1, ts.x2, ts.y2 = a.x, a.y, b.x, b.y, c.x, c.y
 	ts.minX, ts.minY, ts.maxX, ts.maxY = x0, y0, x1, y1
+	ts.cover = cover
 
 	const inv = 1.0 / subOne
 	dx1, dy1 := float32(b.x-a.x)*inv, float32(b.y-a.y)*inv
@@ -230,7 +307,50 @@ func (r *Renderer) setupGeometryArea(a, b, c *screenVert, area int64, cull bool,
 	ts.zdx = (d1*dy2 - d2*dy1) * id
 	ts.zdy = (d2*dx1 - d1*dx2) * id
 	ts.z = a.iw + ts.zdx*ox + ts.zdy*oy
-	return swapped, true
+}
+
+// smallBox is the largest pixel box (in pixels) whose centres culling tests one by one: most
+// triangles of a fine mesh are about a pixel, many cover no pixel centre and would draw
+// nothing, and those are dropped before the rest of the setup, the colours and the binning.
+// At most 4, so a box is at most 4 pixels wide or high (triSetup.cover).
+const smallBox = 4
+
+// coverMask returns which pixel centres of the box x0..x1, y0..y1 (at most smallBox pixels)
+// triangle (a, b, c) covers, ordered so its edge functions are positive inside: bit
+// 4*(y-y0) + (x-x0), by the same edge functions and fill rule that draw a bigger triangle.
+func coverMask(a, b, c *screenPos, x0, y0, x1, y1 int32) uint16 {
+	px := int64(x0)<<subBits + subHalf
+	if x0 == x1 && y0 == y1 { // one centre, the most common box: stop at the first edge it is outside
+		py := int64(y0)<<subBits + subHalf
+		if e, _ := edgeFunction(b.x, b.y, c.x, c.y, px, py); e < 0 {
+			return 0
+		}
+		if e, _ := edgeFunction(c.x, c.y, a.x, a.y, px, py); e < 0 {
+			return 0
+		}
+		if e, _ := edgeFunction(a.x, a.y, b.x, b.y, px, py); e < 0 {
+			return 0
+		}
+		return 1
+	}
+	var m uint16
+	for y := y0; y <= y1; y++ {
+		py := int64(y)<<subBits + subHalf
+		e0, s0 := edgeFunction(b.x, b.y, c.x, c.y, px, py)
+		e1, s1 := edgeFunction(c.x, c.y, a.x, a.y, px, py)
+		e2, s2 := edgeFunction(a.x, a.y, b.x, b.y, px, py)
+		bit := uint16(1) << (4 * (y - y0))
+		for x := x0; x <= x1; x++ {
+			if e0|e1|e2 >= 0 {
+				m |= bit
+			}
+			bit <<= 1
+			e0 += s0
+			e1 += s1
+			e2 += s2
+		}
+	}
+	return m
 }
 
 func min3(a, b, c int32) int32 { return min(a, min(b, c)) }
@@ -263,13 +383,22 @@ func (r *Renderer) distance(v *clipVert, bit uint32) float32 {
 
 // clipTriangle clips against the near plane, the clipping plane and the guard band
 // (Sutherland-Hodgman), then sets up the resulting fan.
-func (r *Renderer) clipTriangle(ch *triChunk, bins [][]int32, o *frameObject, a, b, c *packedVert, tri int32, objID uint16) {
+func (r *Renderer) clipTriangle(ch *triChunk, bins [][]int32, o *frameObject, tri int32, objID uint16) {
 	var bufA, bufB [12]clipVert
 	in, out := bufA[:0], bufB[:0]
-	for _, p := range [3]*packedVert{a, b, c} {
-		in = append(in, clipVert{x: p.cx, y: p.cy, w: p.cw, d: p.d, col: p.col})
+	var codes uint32
+	var cc [1][3]float64
+	for _, v := range o.mesh.Triangles[tri] {
+		i := o.vertBase + int(v)
+		codes |= r.pos[i].code
+		p := o.mesh.Vertices[v]
+		r.clipCoords(o.mesh.Vertices[v:v+1], cc[:])
+		cv := clipVert{x: float32(cc[0][0]), y: float32(cc[0][1]), w: float32(cc[0][2]), col: r.col[i]}
+		if o.clip {
+			cv.d = float32(r.clipDistance(o, int(v), p))
+		}
+		in = append(in, cv)
 	}
-	codes := a.code | b.code | c.code
 	for bit := uint32(outNear); bit <= outGuardB; bit <<= 1 {
 		if codes&bit == 0 {
 			continue

@@ -31,7 +31,7 @@ func (r *Renderer) sortSeeThrough() {
 			key := math.Float32bits(t.z + (t.zdx*float32(t.maxX-t.minX)+t.zdy*float32(t.maxY-t.minY))*0.5)
 			items = append(items, sortItem{
 				key: key, chunk: uint32(c), idx: uint32(i),
-				b0: uint32(int(t.minY) / r.bandH), b1: uint32(int(t.maxY) / r.bandH),
+				b0: uint32(r.rowBand[t.minY]), b1: uint32(r.rowBand[t.maxY]),
 			})
 		}
 	}

@@ -2,25 +2,25 @@ package render
 
 import (
 	"math"
+	"math/bits"
 
 	"github.com/go-gl/mathgl/mgl32"
+	"github.com/go-gl/mathgl/mgl64"
 )
 
-// screenVert is a projected vertex: fixed-point pixel position and attributes divided
-// by w, so they interpolate linearly across the screen (perspective-correct).
-type screenVert struct {
-	x, y    int32   // pixels with subBits fraction bits
-	iw      float32 // 1/w
-	r, g, b float32 // shaded colour (0..255) times 1/w
+// screenPos is where a vertex lands: fixed-point pixel position, 1/w and outcode, the 16 bytes
+// per corner the culling loop reads (kept apart from the rest, so that loop touches less memory).
+type screenPos struct {
+	x, y int32   // pixels with subBits fraction bits
+	iw   float32 // 1/w
+	code uint32  // outcode; 0 on the corners of a piece of a clipped triangle
 }
 
-// packedVert is a vertex transformed for this frame.
-type packedVert struct {
-	s          screenVert
-	cx, cy, cw float32 // clip-space x, y and w (w = distance in front of the eye)
-	d          float32 // signed distance to the clipping plane
-	col        mgl32.Vec3
-	code       uint32
+// screenVert is a projected vertex with its colour divided by w, so position, depth and colour
+// interpolate linearly across the screen (perspective-correct).
+type screenVert struct {
+	screenPos
+	c [3]float32 // shaded colour (0..255) times 1/w
 }
 
 // Outcode bits: which clip planes a vertex is outside of.
@@ -67,69 +67,93 @@ func (r *Renderer) vertexPhase(int) {
 }
 
 func (r *Renderer) transformVertices(o *frameObject, v0, v1 int) {
-	m := r.view
 	verts := o.mesh.Vertices
-	out := r.verts[o.vertBase : o.vertBase+len(verts)]
+	pos := r.pos[o.vertBase : o.vertBase+len(verts)]
 	near := float64(r.near)
-	for i := v0; i < v1; i++ {
-		p := verts[i]
+	var cc [clipBlock][3]float64
+	for b0 := v0; b0 < v1; b0 += clipBlock {
+		b1 := min(v1, b0+clipBlock)
+		r.clipCoords(verts[b0:b1], cc[:b1-b0])
+		for k, c := range cc[:b1-b0] {
+			cx, cy, cw := c[0], c[1], c[2]
+			// Most vertices lie in the view: one test for all the outcode's bits.
+			var code uint32
+			if sum := cx + cy + cw; !(cw >= near && cx <= cw && -cw <= cx && cy <= cw && -cw <= cy && sum-sum == 0) {
+				code = outcode(cx, cy, cw, near)
+			}
+			if o.clip && code != outBad && r.clipDistance(o, b0+k, verts[b0+k]) < 0 {
+				code |= outPlane
+			}
+			sp := &pos[b0+k]
+			if code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
+				*sp = r.projectPosition(float32(cx), float32(cy), float32(cw))
+			}
+			sp.code = code
+		}
+	}
+}
+
+// clipBlock is how many vertices transformVertices hands clipCoords at a time.
+const clipBlock = 256
+
+// clipCoords writes world points ps in clip space to out (as long): x and y scaled by the
+// projection, w the distance in front of the eye. Clipping finds a vertex's coordinates again
+// here, so they are the ones its outcode came from.
+func (r *Renderer) clipCoords(ps []mgl64.Vec3, out [][3]float64) {
+	m, p00, p11 := r.view, r.p00, r.p11
+	out = out[:len(ps)]
+	for k, p := range ps {
 		vx := m[0]*p[0] + m[4]*p[1] + m[8]*p[2] + m[12]
 		vy := m[1]*p[0] + m[5]*p[1] + m[9]*p[2] + m[13]
 		vz := m[2]*p[0] + m[6]*p[1] + m[10]*p[2] + m[14]
-		cx, cy, cw := vx*r.p00, vy*r.p11, -vz
-		pv := &out[i]
-		pv.cx, pv.cy, pv.cw = float32(cx), float32(cy), float32(cw)
-
-		var code uint32
-		if cw < near {
-			code |= outNear
-		}
-		if o.clip {
-			var d float64
-			if o.clipDist != nil {
-				d = float64(o.clipDist[i])
-			} else {
-				d = r.plane[0]*p[0] + r.plane[1]*p[1] + r.plane[2]*p[2] + r.plane[3]
-			}
-			pv.d = float32(d)
-			if d < 0 {
-				code |= outPlane
-			}
-		}
-		g := guard * cw
-		if cx > g {
-			code |= outGuardR
-		}
-		if cx < -g {
-			code |= outGuardL
-		}
-		if cy > g {
-			code |= outGuardT
-		}
-		if cy < -g {
-			code |= outGuardB
-		}
-		if cx > cw {
-			code |= outRight
-		}
-		if cx < -cw {
-			code |= outLeft
-		}
-		if cy > cw {
-			code |= outTop
-		}
-		if cy < -cw {
-			code |= outBottom
-		}
-		if sum := cx + cy + cw; sum-sum != 0 { // NaN or Inf
-			code = outBad
-		}
-		pv.code = code
-
-		if code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
-			pv.s = r.projectPosition(pv.cx, pv.cy, pv.cw)
-		}
+		out[k] = [3]float64{vx * p00, vy * p11, -vz}
 	}
+}
+
+// clipDistance is the signed distance of o's vertex i (at p) to its cut (>= 0 is kept).
+func (r *Renderer) clipDistance(o *frameObject, i int, p mgl64.Vec3) float64 {
+	if o.clipDist != nil {
+		return float64(o.clipDist[i])
+	}
+	return r.plane[0]*p[0] + r.plane[1]*p[1] + r.plane[2]*p[2] + r.plane[3]
+}
+
+// outcode classifies a vertex in clip space against the near plane, the guard band and the
+// viewport (not the clipping plane); outBad alone when a coordinate is NaN or infinite.
+func outcode(cx, cy, cw, near float64) uint32 {
+	if sum := cx + cy + cw; sum-sum != 0 { // NaN or Inf
+		return outBad
+	}
+	var code uint32
+	if cw < near {
+		code |= outNear
+	}
+	g := guard * cw
+	if cx > g {
+		code |= outGuardR
+	}
+	if cx < -g {
+		code |= outGuardL
+	}
+	if cy > g {
+		code |= outGuardT
+	}
+	if cy < -g {
+		code |= outGuardB
+	}
+	if cx > cw {
+		code |= outRight
+	}
+	if cx < -cw {
+		code |= outLeft
+	}
+	if cy > cw {
+		code |= outTop
+	}
+	if cy < -cw {
+		code |= outBottom
+	}
+	return code
 }
 
 // shadePhase lights the vertices marked by cullPhase, one job of 8192 at a time.
@@ -147,58 +171,69 @@ func (r *Renderer) shadePhase(int) {
 func (r *Renderer) shadeVertices(o *frameObject, v0, v1 int) {
 	rot := r.rot
 	src := o.src
-	out := r.verts[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
-	marks := r.marks[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
+	out := r.col[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
+	pos := r.pos[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
+	wcol := r.wcol[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
 	ownNormals := len(src.Normals) == len(out)
 	base := mgl32.Vec3{float32(src.Color.R), float32(src.Color.G), float32(src.Color.B)}
 	r00, r01, r02 := float32(rot[0]), float32(rot[3]), float32(rot[6])
 	r10, r11, r12 := float32(rot[1]), float32(rot[4]), float32(rot[7])
 	r20, r21, r22 := float32(rot[2]), float32(rot[5]), float32(rot[8])
-	stamp := r.stamp
-	for i := v0; i < v1; i++ {
-		if marks[i] != stamp {
-			continue
+	// The marked vertices of v0..v1, 64 at a time, by their numbers in the frame (g).
+	g0, g1 := o.vertBase+v0, o.vertBase+v1
+	for word := g0 >> 6; word <= (g1-1)>>6; word++ {
+		var m uint64
+		for _, mk := range r.marks {
+			m |= mk[word]
 		}
-		pv := &out[i]
-		// Two-sided shading: |n.l| lights the inside of a tube as well as the outside.
-		var n mgl32.Vec3
-		if ownNormals {
-			q := rot.Mul3x1(src.Normals[i])
-			n = mgl32.Vec3{float32(q[0]), float32(q[1]), float32(q[2])}
-		} else {
-			q := o.normals[i]
-			n = mgl32.Vec3{r00*q[0] + r01*q[1] + r02*q[2], r10*q[0] + r11*q[1] + r12*q[2], r20*q[0] + r21*q[1] + r22*q[2]}
-		}
-		c := base
-		if o.colors {
-			k := src.Colors[i]
-			c = mgl32.Vec3{float32(k.R), float32(k.G), float32(k.B)}
-		}
-		pv.col = shade(c, n)
-		if pv.code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
-			iw := pv.s.iw
-			pv.s.r, pv.s.g, pv.s.b = pv.col[0]*iw, pv.col[1]*iw, pv.col[2]*iw
+		for ; m != 0; m &= m - 1 {
+			g := word<<6 + bits.TrailingZeros64(m)
+			if g < g0 || g >= g1 {
+				continue
+			}
+			i := g - o.vertBase
+			// Two-sided shading: |n.l| lights the inside of a tube as well as the outside.
+			var nx, ny, nz float32
+			if ownNormals {
+				q := rot.Mul3x1(src.Normals[i])
+				nx, ny, nz = float32(q[0]), float32(q[1]), float32(q[2])
+			} else {
+				q := &o.normals[i]
+				nx, ny, nz = r00*q[0]+r01*q[1]+r02*q[2], r10*q[0]+r11*q[1]+r12*q[2], r20*q[0]+r21*q[1]+r22*q[2]
+			}
+			cr, cg, cb := base[0], base[1], base[2]
+			if o.colors {
+				k := src.Colors[i]
+				cr, cg, cb = float32(k.R), float32(k.G), float32(k.B)
+			}
+			k, h := light(nx, ny, nz)
+			col := mgl32.Vec3{cr*k + h, cg*k + h, cb*k + h}
+			out[i] = col
+			if sp := &pos[i]; sp.code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
+				iw := sp.iw
+				wcol[i] = [3]float32{col[0] * iw, col[1] * iw, col[2] * iw}
+			}
 		}
 	}
 }
 
-// shade lights colour c (0..255) on a surface with view-space normal n.
-func shade(c, n mgl32.Vec3) mgl32.Vec3 {
-	l := n.Len()
+// light returns how a surface with view-space normal (nx, ny, nz) lights a colour c (0..255):
+// c*k + h.
+func light(nx, ny, nz float32) (k, h float32) {
+	l := float32(math.Sqrt(float64(nx*nx + ny*ny + nz*nz)))
 	if !(l > 1e-12) {
-		return c.Mul(ambient + 0.5*(diffuse+fill))
+		return ambient + 0.5*(diffuse+fill), 0
 	}
-	n = n.Mul(1 / l)
-	d := abs32(n.Dot(keyLight))
-	s := abs32(n.Dot(halfway))
+	inv := 1 / l
+	nx, ny, nz = nx*inv, ny*inv, nz*inv
+	d := abs32(nx*keyLight[0] + ny*keyLight[1] + nz*keyLight[2])
+	s := abs32(nx*halfway[0] + ny*halfway[1] + nz*halfway[2])
 	s *= s // s^32 by squaring
 	s *= s
 	s *= s
 	s *= s
 	s *= s
-	k := ambient + diffuse*d + fill*abs32(n[2])
-	h := highlight * s
-	return mgl32.Vec3{c[0]*k + h, c[1]*k + h, c[2]*k + h}
+	return ambient + diffuse*d + fill*abs32(nz), highlight * s
 }
 
 func abs32(x float32) float32 {
@@ -212,17 +247,16 @@ func abs32(x float32) float32 {
 // The same float64 arithmetic serves all callers, so a vertex shared by a clipped
 // and an unclipped triangle lands on the same fixed-point position.
 func (r *Renderer) project(cx, cy, cw float32, col mgl32.Vec3) screenVert {
-	s := r.projectPosition(cx, cy, cw)
-	s.r, s.g, s.b = col[0]*s.iw, col[1]*s.iw, col[2]*s.iw
-	return s
+	p := r.projectPosition(cx, cy, cw)
+	return screenVert{screenPos: p, c: [3]float32{col[0] * p.iw, col[1] * p.iw, col[2] * p.iw}}
 }
 
 // projectPosition is project without the colour (filled in when the vertex is lit).
-func (r *Renderer) projectPosition(cx, cy, cw float32) screenVert {
+func (r *Renderer) projectPosition(cx, cy, cw float32) screenPos {
 	iw := 1 / float64(cw)
 	sx := (float64(cx)*iw*0.5 + 0.5) * float64(r.w)
 	sy := (0.5 - float64(cy)*iw*0.5) * float64(r.h)
-	return screenVert{
+	return screenPos{
 		x:  int32(math.Floor(sx*subOne + 0.5)),
 		y:  int32(math.Floor(sy*subOne + 0.5)),
 		iw: float32(iw),
