@@ -47,6 +47,20 @@ func (c *Canal) wallPoint(m []float32, i, j int) mgl64.Vec3 {
 	return c.Line.Points[i].Add(dir.Mul(float64(m[i*c.Angles+j])))
 }
 
+// WallAt is the wall left to the root at (s, theta) of the canal whose radius map is m (Rho as
+// scanned, a step's Before or Prepared): one exact query from the map's wall there, for a
+// reading at one place (the pictures' maps hold each cell only to their tolerance). NaN
+// without a root.
+func (c *Canal) WallAt(m []float32, s, theta float64) float64 {
+	if c.Root == nil || len(m) != len(c.Rho) {
+		return math.NaN()
+	}
+	p, _, n1, n2 := c.Line.At(s)
+	sin, cos := math.Sincos(theta)
+	d, _ := c.Root.signedDistance(p.Add(n1.Mul(cos).Add(n2.Mul(sin)).Mul(c.MapAt(m, s, theta))), nearPoint{tri: -1})
+	return d
+}
+
 // nearPoint is a surface point of the root and its triangle: the answer of one query, and the
 // seed of the next nearby one.
 type nearPoint struct {

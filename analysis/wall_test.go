@@ -67,6 +67,12 @@ func TestWallConcentric(t *testing.T) {
 			if worst > 0.003 {
 				t.Errorf("wall off R - r = %.3f by up to %.4f mm", want, worst)
 			}
+			// One place at a time (the window's readout), between stations and directions.
+			for _, at := range [][2]float64{{1.37, 0.4}, {c.Line.Length() / 2, 2.9}, {c.Line.Length() - 1.21, 5.1}} {
+				if got := c.WallAt(c.Rho, at[0], at[1]); math.Abs(got-want) > 0.003 {
+					t.Errorf("wall at s %.2f, theta %.1f: %.4f, want R - r = %.3f", at[0], at[1], got, want)
+				}
+			}
 			res, err := Run(context.Background(), c, &models.Sequence{}, RunOptions{})
 			if err != nil {
 				t.Fatal(err)
@@ -119,6 +125,16 @@ func TestWallEccentric(t *testing.T) {
 			}
 			if got, want := float64(exact[bestK]), R-math.Abs(r-tc.e); math.Abs(got-want) > 0.005 {
 				t.Errorf("wall toward the move %.4f, want R - |r - e| = %.4f", got, want)
+			}
+			// The same two sides read one place at a time (the window's readout), at the
+			// angle of the move itself rather than a cell's.
+			_, _, n1, n2 := c.Line.At(6)
+			toward := math.Atan2(tc.dir.Dot(n2), tc.dir.Dot(n1))
+			if got, want := c.WallAt(c.Rho, 6, toward), R-math.Abs(r-tc.e); math.Abs(got-want) > 0.005 {
+				t.Errorf("wall at the place toward the move %.4f, want R - |r - e| = %.4f", got, want)
+			}
+			if got, want := c.WallAt(c.Rho, 6, toward+math.Pi), R-r-tc.e; math.Abs(got-want) > 0.005 {
+				t.Errorf("wall at the place away from the move %.4f, want R - r - e = %.4f", got, want)
 			}
 		})
 	}

@@ -277,9 +277,15 @@ func TestHoverReadsTheWallUnderThePointer(t *testing.T) {
 			if !strings.Contains(text, "depth of cut") || !strings.Contains(text, "from the apical end") {
 				t.Errorf("hover at a contact pixel says %q", text)
 			}
-			// The demo has a root: the readout adds the wall to it as scanned at that place.
-			if want := fmt.Sprintf("wall to the root %.2f mm as scanned", w.canal.MapAt(w.canal.Thickness, p.S, p.Theta)); !strings.Contains(text, want) {
+			// The demo has a root: the readout adds the wall to it after the shown step at that
+			// place, measured there; it lies within the pictures' map of that step.
+			st := w.res.Steps[in.opt.Step-1]
+			exact := w.canal.WallAt(st.Prepared, p.S, p.Theta)
+			if want := fmt.Sprintf("wall to the root %.2f mm after this step", exact); !strings.Contains(text, want) {
 				t.Errorf("hover says %q, want %q", text, want)
+			}
+			if mapped := w.canal.MapAt(w.res.WallMap(st.Number), p.S, p.Theta); math.Abs(mapped-exact) > 0.05+0.1*exact {
+				t.Errorf("wall %.3f mm measured at the place, %.3f in the step's map", exact, mapped)
 			}
 			// The wall as the step leaves it lies at least as far out as the spec's short
 			// semi-axis: D(s)/2 / sqrt(oval) for an area-equivalent ellipse (analytic geometry).

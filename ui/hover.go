@@ -61,17 +61,18 @@ func hoverText(in sceneInput, b *scene.Built, r *render.Renderer, x, y int) stri
 	return fmt.Sprintf("%s · %.2f mm from the apical end · canal radius %.3f mm", cutText, fromApex, radius) + rootWallText(in, c, st, p)
 }
 
-// rootWallText adds the wall left to the root at the place ("" without a root): after the shown
-// step where the view is coloured by it (its maps are measured then), else as scanned, and
-// says which.
+// rootWallText adds the wall left to the root at the place ("" without a root), measured there
+// exactly: as scanned, or before or after the shown step as the view shows it.
 func rootWallText(in sceneInput, c *analysis.Canal, st *analysis.StepResult, p analysis.WallPlace) string {
-	if c.Root == nil || len(c.Thickness) != len(c.Rho) {
+	if c.Root == nil {
 		return ""
 	}
-	if st != nil && in.opt.WallThickness && !in.opt.Before {
-		if th := in.res.WallMap(st.Number); len(th) == len(c.Rho) {
-			return fmt.Sprintf(" · wall to the root %.2f mm after this step", c.MapAt(th, p.S, p.Theta))
-		}
+	m, when := c.Rho, "as scanned"
+	switch {
+	case st != nil && in.opt.Before:
+		m, when = st.Before, "before this step"
+	case st != nil:
+		m, when = st.Prepared, "after this step"
 	}
-	return fmt.Sprintf(" · wall to the root %.2f mm as scanned", c.MapAt(c.Thickness, p.S, p.Theta))
+	return fmt.Sprintf(" · wall to the root %.2f mm %s", c.WallAt(m, p.S, p.Theta), when)
 }
