@@ -146,7 +146,7 @@ func (c *Canal) wallThickness(m []float32, from *wallMap, limit float64, tol wal
 				}
 			}
 		}
-		out.low[k], out.th[k], out.near[k] = down32(low), up32(up), near
+		out.low[k], out.th[k], out.near[k] = mesh.Down32(low), mesh.Up32(up), near
 	}
 	// Coarse directions are every stride-th; along them, coarse stations every step-th and
 	// the last.
@@ -267,10 +267,10 @@ func (c *Canal) priorWall(m []float32, from *wallMap, limit float64, tol wallTol
 			}
 			open[k] = true
 			moved := math.Abs(float64(m[k]) - float64(from.rho[k]))
-			out.low[k] = down32(float64(from.low[k]) - moved)
+			out.low[k] = mesh.Down32(float64(from.low[k]) - moved)
 			out.th[k] = float32(math.Inf(1))
 			if from.near[k].tri >= 0 {
-				out.th[k] = up32(point(i, j).Sub(from.near[k].q).Len())
+				out.th[k] = mesh.Up32(point(i, j).Sub(from.near[k].q).Len())
 			}
 		}
 	})
@@ -319,23 +319,6 @@ func (r *Root) nearOn(p mgl64.Vec3, tri int32) (float64, nearPoint) {
 	a, b, cc := r.Mesh.Corners(int(tri))
 	q := mesh.ClosestOnTriangle(p, a, b, cc)
 	return p.Sub(q).Len(), nearPoint{q: q, tri: tri}
-}
-
-// down32 and up32 round a bound to float32 outward, so it stays a bound.
-func down32(x float64) float32 {
-	f := float32(x)
-	if float64(f) > x {
-		f = math.Nextafter32(f, float32(math.Inf(-1)))
-	}
-	return f
-}
-
-func up32(x float64) float32 {
-	f := float32(x)
-	if float64(f) < x {
-		f = math.Nextafter32(f, float32(math.Inf(1)))
-	}
-	return f
 }
 
 // wallAtLimit keeps the canal's map as scanned with the cells about one limit measured

@@ -41,7 +41,7 @@ func (b *BVH) NewNearTree() *NearTree {
 		out := &t.nodes[i]
 		out.first, out.count = nd.first, nd.count
 		for k := 0; k < 3; k++ {
-			out.lo[k], out.hi[k] = down32(nd.lo[k]), up32(nd.hi[k])
+			out.lo[k], out.hi[k] = Down32(nd.lo[k]), Up32(nd.hi[k])
 		}
 		if b.slabs == nil || b.slabs[i].n == (mgl64.Vec3{}) {
 			continue
@@ -60,12 +60,13 @@ func (b *BVH) NewNearTree() *NearTree {
 		}
 		lo, hi := sl.lo-e, sl.hi+e
 		pad := 1e-12*(math.Abs(lo)+math.Abs(hi)) + 1e-12
-		out.n, out.slo, out.shi = n32, down32(lo-pad), up32(hi+pad)
+		out.n, out.slo, out.shi = n32, Down32(lo-pad), Up32(hi+pad)
 	}
 	return t
 }
 
-func down32(x float64) float32 {
+// Down32 and Up32 round a bound to float32 outward, so it stays a bound.
+func Down32(x float64) float32 {
 	f := float32(x)
 	if float64(f) > x {
 		f = math.Nextafter32(f, float32(math.Inf(-1)))
@@ -73,7 +74,7 @@ func down32(x float64) float32 {
 	return f
 }
 
-func up32(x float64) float32 {
+func Up32(x float64) float32 {
 	f := float32(x)
 	if float64(f) < x {
 		f = math.Nextafter32(f, float32(math.Inf(1)))
