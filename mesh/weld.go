@@ -450,65 +450,22 @@ func float32Exact(c *mgl64.Vec3) bool {
 		c[0]-c[0] == 0 && c[1]-c[1] == 0 && c[2]-c[2] == 0
 }
 
-// packedCorner is a missed corner's position (float32 holds it exactly) and index: a block
-// of them is deduplicated without reading the corners, which a scattered file would read in
-// random order, a cache miss each.
-type packedCorner struct {
-	x, y, z float32
-	i       int32
-}
-
-// exactPassPacked is exactPass's blocked dedup on packed copies of the corners, grouped by
-// the same top bits of exactHash (count holds the block starts).
+// exactPassPacked is exactPass's blocked dedup on packed copies of the corners (their
+// folded float32 bits), grouped by the same top bits of exactHash (count holds the block
+// starts): a block is deduplicated without reading the corners, which a scattered file would
+// read in random order, a cache miss each.
 func exactPassPacked(corners []mgl64.Vec3, first, missed, count []int32, shift, workers int) {
 	blocks := len(count) - 1
-	recs := make([]packedCorner, len(missed))
+	recs := make([]keyedCorner, len(missed))
 	fill := append([]int32(nil), count[:blocks]...)
+	bits := func(v float64) uint32 { return fold32(math.Float32bits(float32(v))) }
 	for _, i := range missed {
 		c := &corners[i]
 		b := exactHash(*c) >> shift
-		// +0 folds -0 into 0, as == does.
-		recs[fill[b]] = packedCorner{float32(c[0]) + 0, float32(c[1]) + 0, float32(c[2]) + 0, i}
+		recs[fill[b]] = keyedCorner{bits(c[0]), bits(c[1]), bits(c[2]), i}
 		fill[b]++
 	}
-	k := min(parallel.Workers(workers, blocks), maxDedupWorkers)
-	tables := make([][]int32, k)
-	parallel.For(k, blocks, func(w, b int) {
-		blk := recs[count[b]:count[b+1]]
-		size := 16
-		for size < 2*len(blk) {
-			size <<= 1
-		}
-		if cap(tables[w]) < size {
-			tables[w] = make([]int32, size)
-		}
-		table := tables[w][:size]
-		for i := range table {
-			table[i] = -1
-		}
-		mask := uint32(size - 1)
-		for j := range blk {
-			p := &blk[j]
-			h := packedHash(p) & mask
-			for {
-				e := table[h]
-				if e < 0 {
-					table[h] = int32(j)
-					break // first[p.i] = p.i already
-				}
-				if q := &blk[e]; q.x == p.x && q.y == p.y && q.z == p.z {
-					first[p.i] = q.i
-					break
-				}
-				h = (h + 1) & mask
-			}
-		}
-	})
-}
-
-func packedHash(p *packedCorner) uint32 {
-	h := (uint64(math.Float32bits(p.x))<<32|uint64(math.Float32bits(p.y)))*0x9E3779B97F4A7C15 ^ uint64(math.Float32bits(p.z))*0xC2B2AE3D27D4EB4F
-	return uint32(h >> 32)
+	dedupKeyed(first, recs, count, workers)
 }
 
 // The recent-positions cache holds the index of the last corner the cache missed for each

@@ -105,6 +105,15 @@ func (g *cornerGroups) first(workers int) []int32 {
 		}
 	})
 	first := make([]int32, len(g.keys))
+	dedupKeyed(first, recs, start, workers)
+	return first
+}
+
+// dedupKeyed sets first[i] for every corner of every block recs[start[b]:start[b+1]] (each in
+// ascending corner order) to the first corner of its block with the same folded bits: itself
+// for the first of each position.
+func dedupKeyed(first []int32, recs []keyedCorner, start []int32, workers int) {
+	nb := len(start) - 1
 	k := min(parallel.Workers(workers, nb), maxDedupWorkers)
 	tables := make([][]int32, k)
 	parallel.For(k, nb, func(w, b int) {
@@ -139,7 +148,6 @@ func (g *cornerGroups) first(workers int) []int32 {
 			}
 		}
 	})
-	return first
 }
 
 // distinctPositions lists, in corner order, the position (times s) of every corner that is
