@@ -8,16 +8,8 @@ import (
 
 // Area returns the total surface area (mm2).
 func Area(m *Mesh) float64 {
-	nv := int32(len(m.Vertices))
-	sum := 0.0
-	for t, tri := range m.Triangles {
-		if !triInRange(tri, nv) {
-			continue
-		}
-		a, b, c := m.Corners(t)
-		sum += b.Sub(a).Cross(c.Sub(a)).Len() / 2
-	}
-	return sum
+	area, _ := AreaVolume(m)
+	return area
 }
 
 // Volume returns the enclosed volume (mm3) by the divergence theorem: the sum over triangles
@@ -25,25 +17,12 @@ func Area(m *Mesh) float64 {
 // out; meaningful only for a closed mesh. The reference is the centre of the bounding box,
 // which keeps the terms small for meshes far from the origin.
 func Volume(m *Mesh) float64 {
-	// The sum volumeMoments makes, term for term, without the moment it also carries (a
-	// third of the work on a 4M-triangle canal).
-	lo, hi := m.Bounds()
-	ref := lo.Add(hi).Mul(0.5)
-	nv := int32(len(m.Vertices))
-	vol := 0.0
-	for t, tri := range m.Triangles {
-		if !triInRange(tri, nv) {
-			continue
-		}
-		a, b, c := m.Corners(t)
-		a, b, c = a.Sub(ref), b.Sub(ref), c.Sub(ref)
-		vol += a.Dot(b.Cross(c)) / 6
-	}
+	_, vol := AreaVolume(m)
 	return vol
 }
 
-// AreaVolume is Area and Volume from one pass over the triangles, each sum term for term and
-// in the same order as theirs (so the same numbers): a huge mesh is read once, not twice.
+// AreaVolume is Area and Volume from one pass over the triangles: a huge mesh is read once,
+// not twice.
 func AreaVolume(m *Mesh) (area, vol float64) {
 	lo, hi := m.Bounds()
 	ref := lo.Add(hi).Mul(0.5)
