@@ -375,8 +375,11 @@ const growNarrowing = 0.9
 
 // growEnds carries each end of a re-centred line on along the canal, one station at a time:
 // the next station is the last one moved on by ds along the end's direction and re-centred on
-// its cross-section, until the station leaves the canal (it is past the end), its section meets the end cap (its centre moves sideways by more than half a station, or its area drops by a tenth), or the growth passes reach end radii (at the start, at the end) plus 1 mm. The medial
-// path's ends were cut back by about one and a half end radii, since a path through the middle
+// its cross-section, until the station leaves the canal (it is past the end), its section
+// meets the end cap (its centre moves sideways by more than half a station, or its area drops
+// by a tenth), or the growth passes four end radii (reach: at the start, at the end) plus
+// 1 mm, well past the one and a half cut off (a bound, not a rule: the canal ends first). The
+// medial path's ends were cut back by about one and a half end radii, since a path through the middle
 // cannot reach an end; a bend within that stretch is followed here, where a straight carry
 // along the end tangent would cut across it. Stations whose sections meet an end cap are
 // left for trimBent.
