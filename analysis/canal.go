@@ -96,9 +96,10 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 		c.Angles = DefaultAngles
 	}
 	// The BVH is not needed until the centerline's sections are outlined, nor the surface's
-	// check until the end: with a core to spare the BVH is built while the voxel searches
-	// run, then the check is made. On a huge mesh the searches are done first, and the
-	// check is made on their goroutine while the BVH is still building.
+	// check until the very end: with a core to spare the BVH is built while the voxel
+	// searches run, then the check is made while the line is measured and the vertices
+	// placed. On a huge mesh the searches are done first, and the check is made on their
+	// goroutine while the BVH is still building.
 	var check mesh.Report
 	var checkOnce sync.Once
 	validate := func() { checkOnce.Do(func() { check = mesh.Validate(m) }) }
@@ -124,8 +125,6 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	}
 	pts, info, err := extractCenterline(ctx, m, wall, opt.Extract, opt.Workers)
 	<-ready
-	validate()
-	c.Warnings = append(c.Warnings, check.Warnings()...)
 	if err != nil {
 		return nil, fmt.Errorf("centerline: %w", err)
 	}
@@ -159,6 +158,9 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
+	// The surface's check, made meanwhile, is only read now; its warnings come first.
+	validate()
+	c.Warnings = append(check.Warnings(), c.Warnings...)
 	c.Warnings = append(c.Warnings, c.Measures.Warnings()...)
 	c.WorkingLength = c.Line.Length()
 	if opt.WorkingLength > 0 {

@@ -5,6 +5,8 @@ import (
 	"slices"
 
 	"github.com/go-gl/mathgl/mgl64"
+
+	"tapersweep/mesh/parallel"
 )
 
 // BVH is a bounding volume hierarchy over a mesh's triangles for ray casts, closest points
@@ -198,14 +200,19 @@ type bvhBuilder struct {
 	items []bvhItem
 	bin   []uint8 // scratch: each item's bin in the current split
 	nodes []bvhNode
+	// forkAbove: subtrees of more items are split into tasks (bvhForkAbove; tests build
+	// serially with a larger one to compare).
+	forkAbove int
 }
 
 // NewBVH builds the hierarchy by binned surface-area-heuristic splits (Wald, "On fast
-// construction of SAH-based bounding volume hierarchies", 2007), the root's two halves on two
-// cores. The tree depends only on the mesh. Triangles whose indices are out of range are left out.
-func NewBVH(m *Mesh) *BVH {
+// construction of SAH-based bounding volume hierarchies", 2007), large subtrees as tasks the
+// cores share. The tree depends only on the mesh, not on how the work was shared. Triangles whose indices are out of range are left out.
+func NewBVH(m *Mesh) *BVH { return newBVH(m, bvhForkAbove) }
+
+func newBVH(m *Mesh, forkAbove int) *BVH {
 	nv := int32(len(m.Vertices))
-	b := &bvhBuilder{items: make([]bvhItem, 0, len(m.Triangles))}
+	b := &bvhBuilder{items: make([]bvhItem, 0, len(m.Triangles)), forkAbove: forkAbove}
 	root := emptyBounds()
 	for t, tri := range m.Triangles {
 		if !triInRange(tri, nv) {
@@ -276,58 +283,112 @@ func triBox(t *bvhTri) (lo, hi mgl64.Vec3) {
 	return
 }
 
-// bvhParallelMin is the size above which the root's two halves are built concurrently.
-const bvhParallelMin = 20000
+// bvhForkAbove is the size above which a subtree's two halves are built as separate tasks:
+// small enough that many tasks keep both cores busy to the end (two halves alone finished
+// 0.4 s apart on a 4M-triangle canal while other work shared the cores), large enough that
+// a task's own node array and goroutine cost nothing beside its build.
+const bvhForkAbove = 1 << 15
 
-// buildRoot splits the root once, builds the two halves concurrently into their own node
-// arrays (their items and bins are disjoint) and joins them in the layout a serial build gives.
+// bvhTask is a subtree built on its own: either a serial build into its own node array
+// (sub), or a split whose two sides are tasks (node is then its node, refitted from theirs).
+type bvhTask struct {
+	sub         *bvhBuilder
+	left, right *bvhTask
+	// below is how many nodes the subtree holds besides its root.
+	below int
+}
+
+// buildRoot builds the tree as tasks (the right side of each large split on a goroutine of
+// its own, so the cores share the work to the end), then joins their node arrays into the
+// layout a serial build gives: a node's two children side by side, then the left child's
+// subtree, then the right's. Items and bins of separate tasks are disjoint ranges.
 func (b *bvhBuilder) buildRoot(root bvhBounds, m *Mesh, tris []bvhTri) {
-	n := len(b.items)
-	if n < bvhParallelMin {
-		b.nodes = make([]bvhNode, 1, bvhNodesFor(n))
-		b.build(0, 0, n, 0, root)
-		b.finish(m, tris)
+	t := b.task(0, len(b.items), 0, root, m, tris)
+	if t.sub != nil {
+		b.nodes = t.sub.nodes
 		return
 	}
-	b.nodes = make([]bvhNode, 1)
-	mid, lb, rb := b.split(0, 0, n, 0, root)
-	if mid < 0 {
-		b.finish(m, tris)
-		return
+	b.nodes = make([]bvhNode, 1+t.below)
+	var serial []placedTask
+	t.place(b.nodes, 0, 1, &serial)
+	parallel.For(0, len(serial), func(_, i int) { serial[i].copyInto(b.nodes) })
+	t.refit(b.nodes, 0)
+}
+
+// task builds items[begin:end] (whose bounds are bd) as a serial subtree, or splits it and
+// builds the two sides as tasks, the right one on another goroutine.
+func (b *bvhBuilder) task(begin, end, depth int, bd bvhBounds, m *Mesh, tris []bvhTri) *bvhTask {
+	if end-begin <= b.forkAbove {
+		sub := &bvhBuilder{items: b.items, bin: b.bin, nodes: make([]bvhNode, 1, bvhNodesFor(end-begin))}
+		sub.build(0, begin, end, depth, bd)
+		sub.finish(m, tris)
+		return &bvhTask{sub: sub, below: len(sub.nodes) - 1}
 	}
-	l := &bvhBuilder{items: b.items, bin: b.bin, nodes: make([]bvhNode, 1, bvhNodesFor(mid))}
-	r := &bvhBuilder{items: b.items, bin: b.bin, nodes: make([]bvhNode, 1, bvhNodesFor(n-mid))}
+	top := &bvhBuilder{items: b.items, bin: b.bin, nodes: make([]bvhNode, 1), forkAbove: b.forkAbove}
+	mid, lb, rb := top.split(0, begin, end, depth, bd)
+	if mid < 0 { // a leaf (never at this size, but split decides)
+		top.finish(m, tris)
+		return &bvhTask{sub: top}
+	}
+	t := &bvhTask{}
 	done := make(chan struct{})
 	go func() {
-		r.build(0, mid, n, 1, rb)
-		r.finish(m, tris)
+		t.right = b.task(mid, end, depth+1, rb, m, tris)
 		close(done)
 	}()
-	l.build(0, 0, mid, 1, lb)
-	l.finish(m, tris)
+	t.left = b.task(begin, mid, depth+1, lb, m, tris)
 	<-done
-	// Root at 0, the halves' roots at 1 and 2, then the rest of the left half, then the right
-	// (one array of the exact size: a copy of each half, no regrowth).
-	root0 := b.nodes[0]
-	b.nodes = make([]bvhNode, 1, len(l.nodes)+len(r.nodes)+1)
-	b.nodes[0] = root0
-	b.nodes[0].first = 1
-	b.nodes[0].lo, b.nodes[0].hi = l.nodes[0].lo, l.nodes[0].hi
-	growBox(&b.nodes[0].lo, &b.nodes[0].hi, r.nodes[0].lo, r.nodes[0].hi)
-	b.nodes = append(b.nodes, l.nodes[0], r.nodes[0])
-	b.nodes = append(b.nodes, l.nodes[1:]...)
-	b.nodes = append(b.nodes, r.nodes[1:]...)
-	// A half's local index i > 0 moves to 3 + (i - 1) (+ the left's extra nodes for the right).
-	lOff, rOff := int32(2), int32(2+len(l.nodes)-1)
-	for i := 1; i < len(b.nodes); i++ {
-		off := lOff
-		if i == 2 || i >= 3+len(l.nodes)-1 {
-			off = rOff
-		}
-		if b.nodes[i].count == 0 {
-			b.nodes[i].first += off
-		}
+	t.below = 2 + t.left.below + t.right.below
+	return t
+}
+
+// placedTask is a serial subtree with the places of its root (at) and of the rest (from).
+type placedTask struct {
+	sub      *bvhBuilder
+	at, from int32
+}
+
+// place puts a split's own node at nodes[at] (its children at from and from + 1, their
+// subtrees after them) and lists the serial subtrees with their places.
+func (t *bvhTask) place(nodes []bvhNode, at, from int32, serial *[]placedTask) {
+	if t.sub != nil {
+		*serial = append(*serial, placedTask{sub: t.sub, at: at, from: from})
+		return
 	}
+	nodes[at] = bvhNode{first: from}
+	t.left.place(nodes, from, from+2, serial)
+	t.right.place(nodes, from+1, from+2+int32(t.left.below), serial)
+}
+
+// copyInto copies a serial subtree into its places: its local index i > 0 goes to
+// from + i - 1, so an inner node's children index moves with it.
+func (p placedTask) copyInto(nodes []bvhNode) {
+	local := p.sub.nodes
+	move := func(nd bvhNode) bvhNode {
+		if nd.count == 0 {
+			nd.first += p.from - 1
+		}
+		return nd
+	}
+	nodes[p.at] = move(local[0])
+	dst := nodes[p.from : p.from+int32(len(local))-1]
+	for i, nd := range local[1:] {
+		dst[i] = move(nd)
+	}
+}
+
+// refit gives the splits' nodes (t's at index at) their boxes from their children, bottom-up;
+// serial subtrees came refitted.
+func (t *bvhTask) refit(nodes []bvhNode, at int32) {
+	if t.sub != nil {
+		return
+	}
+	nd := &nodes[at]
+	t.left.refit(nodes, nd.first)
+	t.right.refit(nodes, nd.first+1)
+	l, r := &nodes[nd.first], &nodes[nd.first+1]
+	nd.lo, nd.hi = l.lo, l.hi
+	growBox(&nd.lo, &nd.hi, r.lo, r.hi)
 }
 
 // bvhNodesFor is room for the nodes of a tree over n triangles: leaves hold at most

@@ -47,10 +47,10 @@ func TestBVHRayMatchesBruteForce(t *testing.T) {
 		soup.Vertices = append(soup.Vertices, c, c.Add(randVec(rng, -1, 1)), c.Add(randVec(rng, -1, 1)))
 		soup.Triangles = append(soup.Triangles, [3]int32{n, n + 1, n + 2})
 	}
-	// "big" is above bvhParallelMin, so its two halves are built concurrently and joined.
-	meshes := map[string]*Mesh{"soup": soup, "tube": shapeCanalLike(24, 60), "big": shapeCanalLike(64, 160)}
-	if len(meshes["big"].Triangles) < bvhParallelMin {
-		t.Fatal("the big mesh must take the parallel build")
+	// "big" is above bvhForkAbove, so it is built as tasks and joined.
+	meshes := map[string]*Mesh{"soup": soup, "tube": shapeCanalLike(24, 60), "big": shapeCanalLike(128, 160)}
+	if len(meshes["big"].Triangles) <= bvhForkAbove {
+		t.Fatal("the big mesh must be built as tasks")
 	}
 	for name, m := range meshes {
 		b := NewBVH(m)
@@ -89,6 +89,48 @@ func TestBVHRayMatchesBruteForce(t *testing.T) {
 		}
 		if hits < rays/10 {
 			t.Errorf("%s: only %d hits, the check is too weak", name, hits)
+		}
+	}
+}
+
+// TestBVHTasksJoinAsSerialBuild: the tree built as tasks on goroutines and joined is the tree
+// one serial build makes, node for node and triangle for triangle (the layout a serial build
+// gives is what the join promises), on canal tubes many tasks deep, a soup and a mesh whose
+// triangles are shuffled. Small fork sizes make many tasks of uneven size.
+func TestBVHTasksJoinAsSerialBuild(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 8))
+	shuffled := shapeCanalLike(48, 120)
+	rng.Shuffle(len(shuffled.Triangles), func(i, j int) {
+		shuffled.Triangles[i], shuffled.Triangles[j] = shuffled.Triangles[j], shuffled.Triangles[i]
+	})
+	soup := &Mesh{}
+	for i := 0; i < 5000; i++ {
+		c := randVec(rng, -5, 5)
+		n := int32(len(soup.Vertices))
+		soup.Vertices = append(soup.Vertices, c, c.Add(randVec(rng, -1, 1)), c.Add(randVec(rng, -1, 1)))
+		soup.Triangles = append(soup.Triangles, [3]int32{n, n + 1, n + 2})
+	}
+	for name, m := range map[string]*Mesh{"tube": shapeCanalLike(64, 160), "shuffled": shuffled, "soup": soup} {
+		want := newBVH(m, math.MaxInt)
+		for _, fork := range []int{bvhForkAbove, 1000, 37} {
+			got := newBVH(m, fork)
+			if len(got.nodes) != len(want.nodes) || len(got.tris) != len(want.tris) {
+				t.Fatalf("%s, fork above %d: %d nodes %d triangles, serial %d %d", name, fork,
+					len(got.nodes), len(got.tris), len(want.nodes), len(want.tris))
+			}
+			for i := range want.nodes {
+				if got.nodes[i] != want.nodes[i] {
+					t.Fatalf("%s, fork above %d: node %d is %+v, serial %+v", name, fork, i, got.nodes[i], want.nodes[i])
+				}
+			}
+			for i := range want.tris {
+				if got.tris[i] != want.tris[i] {
+					t.Fatalf("%s, fork above %d: triangle %d differs", name, fork, i)
+				}
+			}
+		}
+		if len(m.Triangles) > 1000 && len(want.nodes) < len(m.Triangles)/8 {
+			t.Fatalf("%s: only %d nodes, the check is too weak", name, len(want.nodes))
 		}
 	}
 }
