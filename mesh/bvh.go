@@ -218,7 +218,7 @@ func newBVH(m *Mesh, forkAbove int) *BVH {
 		if !triInRange(tri, nv) {
 			continue
 		}
-		p, q, r := m.Corners(t)
+		p, q, r := &m.Vertices[tri[0]], &m.Vertices[tri[1]], &m.Vertices[tri[2]] // not copied
 		it := bvhItem{id: int32(t)}
 		for k := 0; k < 3; k++ {
 			lo, hi := min(p[k], q[k], r[k]), max(p[k], q[k], r[k])
@@ -254,8 +254,15 @@ func (b *bvhBuilder) finish(m *Mesh, tris []bvhTri) {
 		}
 		for j := nd.first; j < nd.first+nd.count; j++ {
 			t := b.items[j].id
-			p, q, r := m.Corners(int(t))
-			tris[j] = bvhTri{a: p, e1: q.Sub(p), e2: r.Sub(p), id: t}
+			// Written out by coordinate: the same subtractions as Vec3.Sub without the
+			// copies of whole vectors through the stack.
+			tri := &m.Triangles[t]
+			p, q, r := &m.Vertices[tri[0]], &m.Vertices[tri[1]], &m.Vertices[tri[2]]
+			tr := &tris[j]
+			tr.a = *p
+			tr.e1 = mgl64.Vec3{q[0] - p[0], q[1] - p[1], q[2] - p[2]}
+			tr.e2 = mgl64.Vec3{r[0] - p[0], r[1] - p[1], r[2] - p[2]}
+			tr.id = t
 		}
 		lo, hi := triBox(&tris[nd.first])
 		for j := nd.first + 1; j < nd.first+nd.count; j++ {
