@@ -1,0 +1,96 @@
+package analysis
+
+import (
+	"math"
+
+	"github.com/go-gl/mathgl/mgl64"
+
+	"tapersweep/mesh/parallel"
+)
+
+// placeVertices gives every wall vertex its own (s, theta): the nearest point of the
+// centerline, refined onto the neighbouring segment, and the angle in the frame
+// Centerline.At gives there.
+//
+// The arithmetic is written out on plain numbers, each operation in the order the Vec3
+// methods and Centerline.At take them, so every result rounds exactly as theirs does (Vec3
+// values go through memory, which made this several times slower);
+// TestPlaceVerticesMatchesDefinition holds it to those formulas bit for bit.
+func (c *Canal) placeVertices(workers int) {
+	line := c.Line
+	nv := len(c.Mesh.Vertices)
+	c.VertexS = make([]float32, nv)
+	c.VertexTheta = make([]float32, nv)
+	stations := newStationFinder(line.Points)
+	// Each worker takes runs of neighbouring vertices: the last one's station is a good start.
+	// (Padded to a cache line each, so the workers do not fight over one.)
+	last := make([]struct {
+		i int
+		_ [56]byte
+	}, parallel.Workers(workers, nv))
+	for w := range last {
+		last[w].i = -1
+	}
+	parallel.For(workers, nv, func(w, v int) {
+		p := c.Mesh.Vertices[v]
+		i := stations.nearest(p, last[w].i)
+		last[w].i = i
+		s := line.nearestArc(p, i)
+		c.VertexS[v] = float32(s)
+		c.VertexTheta[v] = float32(line.angleAt(p, s))
+	})
+}
+
+// nearestArc is the arc length of the point of the segments on either side of station i
+// nearest p (the earlier segment on a tie; station i's own when neither has a length).
+func (c *Centerline) nearestArc(p mgl64.Vec3, i int) float64 {
+	pts, arc := c.Points, c.S
+	px, py, pz := p[0], p[1], p[2]
+	s, best := arc[i], math.Inf(1)
+	for k := i - 1; k <= i; k++ {
+		if k < 0 || k+1 >= len(pts) {
+			continue
+		}
+		a, b := &pts[k], &pts[k+1]
+		abx, aby, abz := b[0]-a[0], b[1]-a[1], b[2]-a[2]
+		pax, pay, paz := px-a[0], py-a[1], pz-a[2]
+		// Clamped to the segment; a segment of no length gives NaN here and is passed over.
+		t := max(0, min(1, (pax*abx+pay*aby+paz*abz)/(abx*abx+aby*aby+abz*abz)))
+		dx, dy, dz := px-(a[0]+abx*t), py-(a[1]+aby*t), pz-(a[2]+abz*t)
+		if d := math.Sqrt(dx*dx + dy*dy + dz*dz); d < best {
+			best = d
+			s = arc[k] + t*(arc[k+1]-arc[k])
+		}
+	}
+	return s
+}
+
+// angleAt is the angle of p about the line in the frame At(s) gives, in [0, 2 pi): At's
+// arithmetic written out, operation for operation.
+func (c *Centerline) angleAt(p mgl64.Vec3, s float64) float64 {
+	arc := c.S
+	s = max(0, min(s, c.Length()))
+	i := min(int(s/c.DS), len(arc)-2)
+	f := (s - arc[i]) / (arc[i+1] - arc[i])
+	g := 1 - f
+	a, b := &c.Points[i], &c.Points[i+1]
+	qx, qy, qz := a[0]*g+b[0]*f, a[1]*g+b[1]*f, a[2]*g+b[2]*f
+	a, b = &c.T[i], &c.T[i+1]
+	tx, ty, tz := a[0]*g+b[0]*f, a[1]*g+b[1]*f, a[2]*g+b[2]*f
+	l := 1.0 / math.Sqrt(tx*tx+ty*ty+tz*tz)
+	tx, ty, tz = tx*l, ty*l, tz*l
+	a, b = &c.N1[i], &c.N1[i+1]
+	nx, ny, nz := a[0]*g+b[0]*f, a[1]*g+b[1]*f, a[2]*g+b[2]*f
+	dot := nx*tx + ny*ty + nz*tz
+	nx, ny, nz = nx-tx*dot, ny-ty*dot, nz-tz*dot
+	l = 1.0 / math.Sqrt(nx*nx+ny*ny+nz*nz)
+	nx, ny, nz = nx*l, ny*l, nz*l
+	// n2 = t x n1
+	mx, my, mz := ty*nz-tz*ny, tz*nx-tx*nz, tx*ny-ty*nx
+	dx, dy, dz := p[0]-qx, p[1]-qy, p[2]-qz
+	th := math.Atan2(dx*mx+dy*my+dz*mz, dx*nx+dy*ny+dz*nz)
+	if th < 0 {
+		th += 2 * math.Pi
+	}
+	return th
+}
