@@ -57,7 +57,8 @@ func (c *Centerline) nearestArc(p mgl64.Vec3, i int) float64 {
 		// Clamped to the segment; a segment of no length gives NaN here and is passed over.
 		t := max(0, min(1, (pax*abx+pay*aby+paz*abz)/(abx*abx+aby*aby+abz*abz)))
 		dx, dy, dz := px-(a[0]+abx*t), py-(a[1]+aby*t), pz-(a[2]+abz*t)
-		if d := math.Sqrt(dx*dx + dy*dy + dz*dz); d < best {
+		// Compared as their roots (Len) compare, without taking them.
+		if d := dx*dx + dy*dy + dz*dz; lenLess(d, best) {
 			best = d
 			s = arc[k] + t*(arc[k+1]-arc[k])
 		}

@@ -50,9 +50,12 @@ func (f *stationFinder) nearest(p mgl64.Vec3, hint int) int {
 	lo, hi := 0, 0
 	if hint >= 0 {
 		lo, hi = max(hint-stationWindow, 0), min(hint+stationWindow+1, n)
-		for i := lo; i < hi; i++ {
-			if d := sq(i); lenLess(d, bsq) {
-				best, bsq = i, d
+		win := pts[lo:hi]
+		for i := range win {
+			q := &win[i]
+			dx, dy, dz := q[0]-px, q[1]-py, q[2]-pz
+			if d := dx*dx + dy*dy + dz*dz; lenLess(d, bsq) {
+				best, bsq = lo+i, d
 			}
 		}
 	}
@@ -91,10 +94,10 @@ const stationWindow = 8
 // roots only when the squares are too close for their order to tell (the roots of two squares
 // within rounding may be equal).
 func lenLess(a, b float64) bool {
+	if !(a < b) {
+		return false
+	}
 	// A square below (1 - 4e-15) times a normal one has a root below the other's by more than
 	// the two roots' rounding (each within 2^-53 of the true root).
-	if a < b*(1-4e-15) && b >= 0x1p-1000 {
-		return true
-	}
-	return a < b && math.Sqrt(a) < math.Sqrt(b)
+	return a < b*(1-4e-15) && b >= 0x1p-1000 || math.Sqrt(a) < math.Sqrt(b)
 }
