@@ -31,15 +31,41 @@ func (c *Canal) placeVertices(workers int) {
 	for w := range last {
 		last[w].i = -1
 	}
-	parallel.For(workers, nv, func(w, v int) {
-		p := c.Mesh.Vertices[v]
-		i := stations.nearest(p, last[w].i)
+	// Vertices go in small batches, each step for the whole batch before the next step: the
+	// steps' chains of roots and divisions for neighbouring vertices are independent and sit
+	// close together in the instruction stream, so the processor overlaps them.
+	nb := (nv + placeBatch - 1) / placeBatch
+	parallel.For(workers, nb, func(w, b int) {
+		lo := b * placeBatch
+		n := min(placeBatch, nv-lo)
+		vs := c.Mesh.Vertices[lo : lo+n]
+		var near [placeBatch]int
+		var s, y, x [placeBatch]float64
+		i := last[w].i
+		for k := range vs {
+			i = stations.nearest(vs[k], i)
+			near[k] = i
+		}
 		last[w].i = i
-		s := line.nearestArc(p, i)
-		c.VertexS[v] = float32(s)
-		c.VertexTheta[v] = float32(line.angleAt(p, s))
+		for k := range vs {
+			s[k] = line.nearestArc(vs[k], near[k])
+		}
+		for k := range vs {
+			y[k], x[k] = line.frameCoords(vs[k], s[k])
+		}
+		for k := range vs {
+			th := math.Atan2(y[k], x[k])
+			if th < 0 {
+				th += 2 * math.Pi
+			}
+			c.VertexS[lo+k] = float32(s[k])
+			c.VertexTheta[lo+k] = float32(th)
+		}
 	})
 }
+
+// placeBatch is how many vertices placeVertices takes a step at a time.
+const placeBatch = 8
 
 // nearestArc is the arc length of the point of the segments on either side of station i
 // nearest p (the earlier segment on a tie; station i's own when neither has a length).
@@ -66,9 +92,9 @@ func (c *Centerline) nearestArc(p mgl64.Vec3, i int) float64 {
 	return s
 }
 
-// angleAt is the angle of p about the line in the frame At(s) gives, in [0, 2 pi): At's
-// arithmetic written out, operation for operation.
-func (c *Centerline) angleAt(p mgl64.Vec3, s float64) float64 {
+// frameCoords are p's coordinates along n2 and n1 of the frame At(s) gives (the angle about
+// the line is their Atan2): At's arithmetic written out, operation for operation.
+func (c *Centerline) frameCoords(p mgl64.Vec3, s float64) (y, x float64) {
 	arc := c.S
 	s = max(0, min(s, c.Length()))
 	i := min(int(s/c.DS), len(arc)-2)
@@ -89,9 +115,5 @@ func (c *Centerline) angleAt(p mgl64.Vec3, s float64) float64 {
 	// n2 = t x n1
 	mx, my, mz := ty*nz-tz*ny, tz*nx-tx*nz, tx*ny-ty*nx
 	dx, dy, dz := p[0]-qx, p[1]-qy, p[2]-qz
-	th := math.Atan2(dx*mx+dy*my+dz*mz, dx*nx+dy*ny+dz*nz)
-	if th < 0 {
-		th += 2 * math.Pi
-	}
-	return th
+	return dx*mx + dy*my + dz*mz, dx*nx + dy*ny + dz*nz
 }
