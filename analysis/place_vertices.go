@@ -93,26 +93,10 @@ func (c *Centerline) nearestArc(p mgl64.Vec3, i int) float64 {
 }
 
 // frameCoords are p's coordinates along n2 and n1 of the frame At(s) gives (the angle about
-// the line is their Atan2): At's arithmetic written out, operation for operation.
+// the line is their Atan2), with At's arithmetic (frameAt, then n2 = t.Cross(n1) and the two
+// dot products written out).
 func (c *Centerline) frameCoords(p mgl64.Vec3, s float64) (y, x float64) {
-	arc := c.S
-	s = max(0, min(s, c.Length()))
-	i := min(int(s/c.DS), len(arc)-2)
-	f := (s - arc[i]) / (arc[i+1] - arc[i])
-	g := 1 - f
-	a, b := &c.Points[i], &c.Points[i+1]
-	qx, qy, qz := a[0]*g+b[0]*f, a[1]*g+b[1]*f, a[2]*g+b[2]*f
-	a, b = &c.T[i], &c.T[i+1]
-	tx, ty, tz := a[0]*g+b[0]*f, a[1]*g+b[1]*f, a[2]*g+b[2]*f
-	l := 1.0 / math.Sqrt(tx*tx+ty*ty+tz*tz)
-	tx, ty, tz = tx*l, ty*l, tz*l
-	a, b = &c.N1[i], &c.N1[i+1]
-	nx, ny, nz := a[0]*g+b[0]*f, a[1]*g+b[1]*f, a[2]*g+b[2]*f
-	dot := nx*tx + ny*ty + nz*tz
-	nx, ny, nz = nx-tx*dot, ny-ty*dot, nz-tz*dot
-	l = 1.0 / math.Sqrt(nx*nx+ny*ny+nz*nz)
-	nx, ny, nz = nx*l, ny*l, nz*l
-	// n2 = t x n1
+	qx, qy, qz, tx, ty, tz, nx, ny, nz := c.frameAt(s)
 	mx, my, mz := ty*nz-tz*ny, tz*nx-tx*nz, tx*ny-ty*nx
 	dx, dy, dz := p[0]-qx, p[1]-qy, p[2]-qz
 	return dx*mx + dy*my + dz*mz, dx*nx + dy*ny + dz*nz

@@ -15,8 +15,8 @@ import (
 // placeByDefinition is a wall point's (s, theta) straight from its definition, the formulas
 // placeVertices must reproduce bit for bit: the nearest station over every station (distances
 // as Vec3.Len gives them, the lowest index among equally near), refined onto the nearer of its
-// two segments (the earlier one on a tie), and the angle in the frame Centerline.At gives at
-// that arc length, in [0, 2 pi).
+// two segments (the earlier one on a tie), and the angle in the frame at that arc length
+// (atByDefinition), in [0, 2 pi).
 func placeByDefinition(line *Centerline, p mgl64.Vec3) (s, theta float32) {
 	i, bd := 0, math.Inf(1)
 	for k, q := range line.Points {
@@ -38,13 +38,59 @@ func placeByDefinition(line *Centerline, p mgl64.Vec3) (s, theta float32) {
 			at = line.S[k] + t*(line.S[k+1]-line.S[k])
 		}
 	}
-	q, _, n1, n2 := line.At(at)
+	q, _, n1, n2 := atByDefinition(line, at)
 	d := p.Sub(q)
 	th := math.Atan2(d.Dot(n2), d.Dot(n1))
 	if th < 0 {
 		th += 2 * math.Pi
 	}
 	return float32(at), float32(th)
+}
+
+// atByDefinition is the interpolated point and frame at arc length s as Vec3 arithmetic
+// gives them: the point and both frame vectors mixed linearly between the neighbouring
+// stations, the tangent normalised, the first normal made square to it and normalised, the
+// second their cross product. Centerline.At must give exactly these.
+func atByDefinition(c *Centerline, s float64) (p, t, n1, n2 mgl64.Vec3) {
+	s = math.Max(0, math.Min(s, c.Length()))
+	i := min(int(s/c.DS), len(c.S)-2)
+	f := (s - c.S[i]) / (c.S[i+1] - c.S[i])
+	mix := func(a, b mgl64.Vec3) mgl64.Vec3 { return a.Mul(1 - f).Add(b.Mul(f)) }
+	p = mix(c.Points[i], c.Points[i+1])
+	t = mix(c.T[i], c.T[i+1]).Normalize()
+	n1 = mix(c.N1[i], c.N1[i+1])
+	n1 = n1.Sub(t.Mul(n1.Dot(t))).Normalize()
+	n2 = t.Cross(n1)
+	return
+}
+
+// checkAt compares Centerline.At with atByDefinition bit for bit at every station, midway
+// between stations, at random arc lengths, and beyond both ends.
+func checkAt(t *testing.T, name string, line *Centerline, rng *rand.Rand) {
+	t.Helper()
+	var ss []float64
+	for i, s := range line.S {
+		ss = append(ss, s, s+0.5*line.DS, math.Nextafter(s, math.Inf(-1)), float64(i)*line.DS)
+	}
+	for range 2000 {
+		ss = append(ss, rng.Float64()*line.Length())
+	}
+	ss = append(ss, -1, 0, line.Length(), line.Length()+1)
+	same := func(a, b mgl64.Vec3) bool {
+		for k := range 3 {
+			if math.Float64bits(a[k]) != math.Float64bits(b[k]) {
+				return false
+			}
+		}
+		return true
+	}
+	for _, s := range ss {
+		p, tt, n1, n2 := line.At(s)
+		wp, wt, wn1, wn2 := atByDefinition(line, s)
+		if !same(p, wp) || !same(tt, wt) || !same(n1, wn1) || !same(n2, wn2) {
+			t.Fatalf("%s: At(%.17g) = %v %v %v %v, by definition %v %v %v %v", name, s, p, tt, n1, n2, wp, wt, wn1, wn2)
+		}
+	}
 }
 
 // checkPlacement places pts on line with placeVertices (one worker and all cores, in the given
@@ -115,7 +161,7 @@ func probePoints(line *Centerline, rng *rand.Rand, n int) []mgl64.Vec3 {
 	return out
 }
 
-// Every wall vertex's (s, theta) is exactly what its definition gives, on spec canals (straight,
+// Every wall vertex's (s, theta), and the frame At gives, are exactly what their definitions give, on spec canals (straight,
 // the tightest and widest example curves, an S-curve, a curve out of its plane, an oval), on
 // scan-like canals (one turned and moved in the grid), and at probe points around each line.
 func TestPlaceVerticesMatchesDefinition(t *testing.T) {
@@ -140,6 +186,7 @@ func TestPlaceVerticesMatchesDefinition(t *testing.T) {
 		if err != nil {
 			t.Fatalf("%s: %v", ex.File, err)
 		}
+		checkAt(t, ex.File, c.Line, rng)
 		checkPlacement(t, ex.File, c.Line, c.Mesh.Vertices, rng)
 		checkPlacement(t, ex.File+" probes", c.Line, probePoints(c.Line, rng, 2000), rng)
 	}
@@ -152,6 +199,7 @@ func TestPlaceVerticesMatchesDefinition(t *testing.T) {
 	if err != nil {
 		t.Fatalf("%s: %v", fam.Name, err)
 	}
+	checkAt(t, fam.Name, c.Line, rng)
 	checkPlacement(t, fam.Name, c.Line, c.Mesh.Vertices, rng)
 }
 
@@ -192,5 +240,6 @@ func TestPlaceVerticesHairpin(t *testing.T) {
 			probes = append(probes, line.Points[i].Add(line.N1[i].Mul(0.25*math.Cos(a))).Add(line.N2[i].Mul(0.25*math.Sin(a))))
 		}
 	}
+	checkAt(t, "hairpin", line, rng)
 	checkPlacement(t, "hairpin", line, probes, rng)
 }
