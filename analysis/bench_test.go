@@ -246,3 +246,29 @@ func BenchmarkWallThickness(b *testing.B) {
 		b.ReportMetric(float64(cpuTime()-start)/1e6/float64(b.N), "cpu-ms/op")
 	})
 }
+
+// BenchmarkPlaceVertices gives every wall vertex its (s, theta) (the last stage of measuring a
+// canal): the fine scan (~240k triangles, ~120k vertices) and the 4M-triangle mesh (~2M
+// vertices), on all cores.
+func BenchmarkPlaceVertices(b *testing.B) {
+	_, fine, huge := benchMeshSet(b)
+	for _, tc := range []struct {
+		name string
+		m    *mesh.Mesh
+	}{{"fine", fine}, {"4M", huge}} {
+		b.Run(tc.name, func(b *testing.B) {
+			c, err := NewCanal(context.Background(), "bench", tc.m, CanalOptions{})
+			if err != nil {
+				b.Fatal(err)
+			}
+			cc := *c
+			cpu0 := cpuSeconds()
+			for b.Loop() {
+				cc.placeVertices(0)
+			}
+			b.ReportMetric((cpuSeconds()-cpu0)/float64(b.N)*1e3, "cpu-ms/op")
+			b.ReportMetric(float64(len(tc.m.Vertices)), "vertices")
+			b.ReportMetric(float64(cc.Line.Len()), "stations")
+		})
+	}
+}

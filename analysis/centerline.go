@@ -52,15 +52,35 @@ func (c *Centerline) Station(s float64) int {
 
 // At interpolates position and frame at arc length s (clamped to the line).
 func (c *Centerline) At(s float64) (p, t, n1, n2 mgl64.Vec3) {
-	s = math.Max(0, math.Min(s, c.Length()))
-	i := min(int(s/c.DS), len(c.S)-2)
-	f := (s - c.S[i]) / (c.S[i+1] - c.S[i])
-	mix := func(a, b mgl64.Vec3) mgl64.Vec3 { return a.Mul(1 - f).Add(b.Mul(f)) }
-	p = mix(c.Points[i], c.Points[i+1])
-	t = mix(c.T[i], c.T[i+1]).Normalize()
-	n1 = mix(c.N1[i], c.N1[i+1])
-	n1 = n1.Sub(t.Mul(n1.Dot(t))).Normalize()
+	px, py, pz, tx, ty, tz, nx, ny, nz := c.frameAt(s)
+	p, t, n1 = mgl64.Vec3{px, py, pz}, mgl64.Vec3{tx, ty, tz}, mgl64.Vec3{nx, ny, nz}
 	n2 = t.Cross(n1)
+	return
+}
+
+// frameAt is At's point, tangent and first normal as plain numbers, which stay in registers
+// where Vec3 values go through memory (placeVertices calls it for every wall vertex). The
+// arithmetic is the Vec3 methods', operation for operation, so it rounds as they would:
+// mix(a, b) = a.Mul(1 - f).Add(b.Mul(f)), t = mix(T).Normalize(),
+// n1 = (m - t.Mul(m.Dot(t))).Normalize() with m = mix(N1).
+func (c *Centerline) frameAt(s float64) (px, py, pz, tx, ty, tz, nx, ny, nz float64) {
+	arc := c.S
+	s = max(0, min(s, c.Length()))
+	i := min(int(s/c.DS), len(arc)-2)
+	f := (s - arc[i]) / (arc[i+1] - arc[i])
+	g := 1 - f
+	a, b := &c.Points[i], &c.Points[i+1]
+	px, py, pz = a[0]*g+b[0]*f, a[1]*g+b[1]*f, a[2]*g+b[2]*f
+	a, b = &c.T[i], &c.T[i+1]
+	tx, ty, tz = a[0]*g+b[0]*f, a[1]*g+b[1]*f, a[2]*g+b[2]*f
+	l := 1.0 / math.Sqrt(tx*tx+ty*ty+tz*tz)
+	tx, ty, tz = tx*l, ty*l, tz*l
+	a, b = &c.N1[i], &c.N1[i+1]
+	nx, ny, nz = a[0]*g+b[0]*f, a[1]*g+b[1]*f, a[2]*g+b[2]*f
+	dot := nx*tx + ny*ty + nz*tz
+	nx, ny, nz = nx-tx*dot, ny-ty*dot, nz-tz*dot
+	l = 1.0 / math.Sqrt(nx*nx+ny*ny+nz*nz)
+	nx, ny, nz = nx*l, ny*l, nz*l
 	return
 }
 

@@ -54,3 +54,40 @@ func TestStationFinderMatchesFullScan(t *testing.T) {
 		}
 	}
 }
+
+// lenLess must order two squares exactly as their roots (math.Sqrt, correctly rounded by IEEE
+// 754) order: squares a few units apart in the last place (whose roots are often equal), tiny
+// and subnormal squares, zero, infinity and NaN, and random pairs over a wide range.
+func TestLenLessOrdersAsTheRoots(t *testing.T) {
+	rng := rand.New(rand.NewPCG(18, 3))
+	var pairs [][2]float64
+	special := []float64{0, math.SmallestNonzeroFloat64, 0x1p-1000, 0x1p-1022, 1e-300, 1, 2, 1e300,
+		math.MaxFloat64, math.Inf(1), math.NaN()}
+	for _, a := range special {
+		for _, b := range special {
+			pairs = append(pairs, [2]float64{a, b})
+		}
+	}
+	for range 200000 {
+		a := math.Exp(rng.NormFloat64() * 20)
+		switch rng.IntN(10) {
+		case 0:
+			a = math.Ldexp(rng.Float64(), -1074+rng.IntN(80)) // the smallest subnormals
+		case 1:
+			a = math.Ldexp(rng.Float64(), -1022+rng.IntN(3)) // the largest subnormals and the smallest normals
+		}
+		b := a
+		for range rng.IntN(6) {
+			b = math.Nextafter(b, math.Inf(1))
+		}
+		if rng.IntN(4) == 0 {
+			b = a * (1 + rng.NormFloat64()*1e-14)
+		}
+		pairs = append(pairs, [2]float64{a, b}, [2]float64{b, a})
+	}
+	for _, p := range pairs {
+		if got, want := lenLess(p[0], p[1]), math.Sqrt(p[0]) < math.Sqrt(p[1]); got != want {
+			t.Fatalf("lenLess(%g, %g) = %v, roots %.17g and %.17g", p[0], p[1], got, math.Sqrt(p[0]), math.Sqrt(p[1]))
+		}
+	}
+}
