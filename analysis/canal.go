@@ -99,9 +99,22 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	// check until the end: with a core to spare the BVH is built while the voxel searches
 	// run, then the check is made. On a huge mesh the searches are done first, and the
 	// check is made on their goroutine while the BVH is still building.
+	// The check and the centerline's size both use sums over the triangles (area, volume,
+	// degenerate triangles), taken in one pass first.
+	var sums mesh.TriangleSums
+	summed := make(chan struct{})
+	sum := func() {
+		sums = mesh.SumTriangles(m)
+		close(summed)
+	}
 	var check mesh.Report
 	var checkOnce sync.Once
-	validate := func() { checkOnce.Do(func() { check = mesh.Validate(m) }) }
+	validate := func() {
+		checkOnce.Do(func() {
+			<-summed
+			check = mesh.ValidateWithSums(m, sums)
+		})
+	}
 	ready := make(chan struct{})
 	prepare := func() {
 		c.Wall = mesh.NewBVH(m)
@@ -110,7 +123,9 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	}
 	if parallel.Workers(opt.Workers, 2) > 1 {
 		go prepare()
+		sum()
 	} else {
+		sum()
 		prepare()
 	}
 	wall := func() *mesh.BVH {
@@ -122,7 +137,7 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 		}
 		return c.Wall
 	}
-	pts, info, err := extractCenterline(ctx, m, wall, opt.Extract, opt.Workers)
+	pts, info, err := extractCenterline(ctx, m, sums.Area, sums.Volume, wall, opt.Extract, opt.Workers)
 	<-ready
 	validate()
 	c.Warnings = append(c.Warnings, check.Warnings()...)
