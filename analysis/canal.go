@@ -100,9 +100,22 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	// searches run, then the check is made while the line is measured and the vertices
 	// placed. On a huge mesh the searches are done first, and the check is made on their
 	// goroutine while the BVH is still building.
+	// The check and the centerline's size both use sums over the triangles (area, volume,
+	// degenerate triangles), taken in one pass first.
+	var sums mesh.TriangleSums
+	summed := make(chan struct{})
+	sum := func() {
+		sums = mesh.SumTriangles(m)
+		close(summed)
+	}
 	var check mesh.Report
 	var checkOnce sync.Once
-	validate := func() { checkOnce.Do(func() { check = mesh.Validate(m) }) }
+	validate := func() {
+		checkOnce.Do(func() {
+			<-summed
+			check = mesh.ValidateWithSums(m, sums)
+		})
+	}
 	ready := make(chan struct{})
 	prepare := func() {
 		c.Wall = mesh.NewBVH(m)
@@ -111,7 +124,9 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	}
 	if parallel.Workers(opt.Workers, 2) > 1 {
 		go prepare()
+		sum()
 	} else {
+		sum()
 		prepare()
 	}
 	wall := func() *mesh.BVH {
@@ -123,7 +138,7 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 		}
 		return c.Wall
 	}
-	pts, info, err := extractCenterline(ctx, m, wall, opt.Extract, opt.Workers)
+	pts, info, err := extractCenterline(ctx, m, sums.Area, sums.Volume, wall, opt.Extract, opt.Workers)
 	<-ready
 	if err != nil {
 		return nil, fmt.Errorf("centerline: %w", err)

@@ -54,10 +54,10 @@ func (e extension) add(pts []mgl64.Vec3, tail extension) []mgl64.Vec3 {
 // extractCenterline finds the canal's axis in a closed mesh: voxelise, distance transform,
 // the two ends of the longest geodesic path, a minimal path through the middle, smoothing,
 // ends carried to the wall by ray casts, and each station re-centred on its cross-section.
-// wall gives the mesh's BVH, waiting until it is built (it is made meanwhile).
-func extractCenterline(ctx context.Context, m *mesh.Mesh, wall func() *mesh.BVH, opt ExtractOptions, workers int) ([]mgl64.Vec3, extraction, error) {
+// area and vol are mesh.AreaVolume(m); wall gives the mesh's BVH, waiting until it is built (it
+// is made meanwhile).
+func extractCenterline(ctx context.Context, m *mesh.Mesh, area, vol float64, wall func() *mesh.BVH, opt ExtractOptions, workers int) ([]mgl64.Vec3, extraction, error) {
 	var info extraction
-	area, vol := mesh.AreaVolume(m)
 	if area <= 0 || vol <= 0 {
 		return nil, info, errors.New("the surface encloses no volume (is it closed, with normals facing out?)")
 	}

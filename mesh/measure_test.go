@@ -2,6 +2,7 @@ package mesh
 
 import (
 	"math"
+	"math/rand/v2"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -192,5 +193,70 @@ func TestAreaVolumeMatchVTK(t *testing.T) {
 		vol, _ := strconv.ParseFloat(f[1], 64)
 		within(t, name+" area vs VTK", Area(got), area, 1e-6)
 		within(t, name+" volume vs VTK", Volume(got), vol, 1e-6)
+	}
+}
+
+// vectorAreaVolume is AreaVolume as it was written with mgl64's vector operations.
+func vectorAreaVolume(m *Mesh) (area, vol float64) {
+	lo, hi := m.Bounds()
+	ref := lo.Add(hi).Mul(0.5)
+	nv := int32(len(m.Vertices))
+	for t, tri := range m.Triangles {
+		if !triInRange(tri, nv) {
+			continue
+		}
+		a, b, c := m.Corners(t)
+		area += b.Sub(a).Cross(c.Sub(a)).Len() / 2
+		a, b, c = a.Sub(ref), b.Sub(ref), c.Sub(ref)
+		vol += a.Dot(b.Cross(c)) / 6
+	}
+	return area, vol
+}
+
+// vectorSignedVolume is Validate's signed volume as it was written with mgl64's vector
+// operations (the first vertex as the reference, divided by 6 at the end).
+func vectorSignedVolume(m *Mesh) float64 {
+	if len(m.Vertices) == 0 {
+		return 0
+	}
+	ref := m.Vertices[0]
+	nv := int32(len(m.Vertices))
+	vol := 0.0
+	for _, tri := range m.Triangles {
+		if !triInRange(tri, nv) {
+			continue
+		}
+		a, b, c := m.Vertices[tri[0]].Sub(ref), m.Vertices[tri[1]].Sub(ref), m.Vertices[tri[2]].Sub(ref)
+		vol += a.Dot(b.Cross(c))
+	}
+	return vol / 6
+}
+
+// SumTriangles' scalar sums must be those of the same formulas written with mgl64's vector
+// operations (and of isDegenerate), bit for bit: Sub, Cross, Dot and Len in the same order, on
+// tubes moved far from the origin and stretched unevenly, with degenerate and out-of-range
+// triangles.
+func TestSumTrianglesMatchesVectorOperations(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	for trial := range 40 {
+		m := shapeCanalLike(12+trial%5*7, 10+trial*3)
+		for i := range m.Vertices {
+			for k := range 3 {
+				m.Vertices[i][k] = m.Vertices[i][k]*(1+rng.Float64()) + 100*rng.Float64()
+			}
+		}
+		nv := int32(len(m.Vertices))
+		m.Triangles = append(m.Triangles, [3]int32{0, 0, 1}, [3]int32{0, nv, 1}, [3]int32{-1, 2, 3}, [3]int32{4, 5, 4})
+		a, v := vectorAreaVolume(m)
+		s := SumTriangles(m)
+		deg := 0
+		for tt := range m.Triangles {
+			if isDegenerate(m, tt) {
+				deg++
+			}
+		}
+		if s.Area != a || s.Volume != v || s.SignedVolume != vectorSignedVolume(m) || s.Degenerate != deg {
+			t.Fatalf("trial %d: %+v, by vectors %v %v %v, degenerate %d", trial, s, a, v, vectorSignedVolume(m), deg)
+		}
 	}
 }

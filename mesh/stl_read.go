@@ -159,9 +159,11 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	rd.corners, rd.keys, rd.first = nil, nil, nil
 	m, removed := dropDegenerate(m, degenerate, opt.Workers)
 	rep.DegenerateRemoved = removed
-	var volume func() float64
+	// Degenerate triangles are gone already; the signed volume is summed from the corners'
+	// terms when they are known.
+	sums := func() TriangleSums { return TriangleSums{SignedVolume: signedVolume(m)} }
 	if terms != nil && removed == 0 {
-		volume = func() float64 { return sumVolume(terms) }
+		sums = func() TriangleSums { return TriangleSums{SignedVolume: sumVolume(terms)} }
 	}
 	if len(m.Triangles) == 0 {
 		return nil, rep, fmt.Errorf("%s: all %d triangles have zero area or a repeated corner", name, rep.TrianglesRead)
@@ -170,10 +172,10 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	if err := ctx.Err(); err != nil {
 		return nil, rep, fmt.Errorf("%s: loading stopped: %w", name, err)
 	}
-	rep.Surface = validate(m, false, volume) // degenerate triangles are gone already
+	rep.Surface = validate(m, opt.Workers, sums)
 	if rep.Surface.InconsistentOrientation > 0 || rep.Surface.Closed && rep.Surface.SignedVolume < 0 {
 		rep.Turned = OrientConsistently(m)
-		rep.Surface = validate(m, false, nil)
+		rep.Surface = validate(m, opt.Workers, func() TriangleSums { return TriangleSums{SignedVolume: signedVolume(m)} })
 	}
 	rep.Notes = append(rd.notes(), loadNotes(m, rep)...)
 	rep.Warnings = append(rep.Surface.Warnings(), rep.Notes...)

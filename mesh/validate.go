@@ -3,8 +3,11 @@ package mesh
 import (
 	"fmt"
 	"slices"
+	"sort"
 
 	"github.com/go-gl/mathgl/mgl64"
+
+	"tapersweep/mesh/parallel"
 )
 
 // Report describes how well a mesh bounds a solid.
@@ -30,30 +33,27 @@ type Report struct {
 // Validate checks edges, orientation, degenerate triangles and connectivity.
 // Triangles whose indices are out of range count as degenerate and are otherwise ignored.
 func Validate(m *Mesh) Report {
-	return validate(m, true, nil)
+	return validate(m, 0, func() TriangleSums { return SumTriangles(m) })
 }
 
-// validate counts edges and shells on two cores; degenerate triangles only when asked.
-// volume, when not nil, gives what signedVolume(m) would.
-func validate(m *Mesh, degenerate bool, volume func() float64) Report {
-	if volume == nil {
-		volume = func() float64 { return signedVolume(m) }
-	}
+// ValidateWithSums is Validate for a mesh whose sums are known (s is SumTriangles(m)): the
+// triangles' shapes are not read again.
+func ValidateWithSums(m *Mesh, s TriangleSums) Report {
+	return validate(m, 0, func() TriangleSums { return s })
+}
+
+// validate counts edges and shells on up to workers cores (0: every core, at least two
+// goroutines); sums gives the report's SignedVolume and Degenerate, as SumTriangles(m) would.
+func validate(m *Mesh, workers int, sums func() TriangleSums) Report {
 	r := Report{Triangles: len(m.Triangles), Vertices: len(m.Vertices)}
 	done := make(chan struct{})
 	go func() {
 		r.Shells = countShells(m)
-		r.SignedVolume = volume()
+		s := sums()
+		r.SignedVolume, r.Degenerate = s.SignedVolume, s.Degenerate
 		close(done)
 	}()
-	if degenerate {
-		for t := range m.Triangles {
-			if isDegenerate(m, t) {
-				r.Degenerate++
-			}
-		}
-	}
-	r.BoundaryEdges, r.NonManifoldEdges, r.InconsistentOrientation = edgeCounts(m)
+	r.BoundaryEdges, r.NonManifoldEdges, r.InconsistentOrientation = edgeCounts(m, workers)
 	<-done
 	r.Closed = r.BoundaryEdges == 0 && len(m.Triangles) > 0
 	r.Manifold = r.NonManifoldEdges == 0
@@ -163,17 +163,43 @@ func halfEdges(m *Mesh, withTris bool) (start []int32, entries []uint32, tris []
 	return start, entries, tris
 }
 
-// edgeCounts counts how many triangles use each undirected edge and in which directions.
-func edgeCounts(m *Mesh) (boundary, nonManifold, inconsistent int) {
+// edgeCounts counts how many triangles use each undirected edge and in which directions; the
+// buckets are classified in stretches of vertices on up to workers goroutines (0: every core).
+func edgeCounts(m *Mesh, workers int) (boundary, nonManifold, inconsistent int) {
 	if !edgesLocal(m) {
-		return edgeCountsInLines(m)
+		return edgeCountsInLines(m, workers)
 	}
 	start, entries, _ := halfEdges(m, false)
-	var c edgeTally
-	for v := range int32(len(start) - 1) {
-		c.sorted(entries[start[v]:start[v+1]])
-	}
+	c := tallyStretches(int32(len(start)-1), workers, func(c *edgeTally, lo, hi int32, _ *[]uint32) {
+		for v := lo; v < hi; v++ {
+			c.sorted(entries[start[v]:start[v+1]])
+		}
+	})
 	return c.boundary, c.nonManifold, c.inconsistent
+}
+
+// tallyStretch is how many vertices' buckets one goroutine classifies at a time (a variable
+// only so that tests can cut small meshes into several stretches).
+var tallyStretch int32 = 1 << 15
+
+// tallyStretches runs tally over stretches of the vertices [0, nv) on up to workers
+// goroutines, each stretch with its own counts and scratch space, and adds up the counts (a
+// sum of whole numbers: the same on any number of cores).
+func tallyStretches(nv int32, workers int, tally func(c *edgeTally, lo, hi int32, scratch *[]uint32)) edgeTally {
+	n := int((nv + tallyStretch - 1) / tallyStretch)
+	parts := make([]edgeTally, n)
+	scratch := make([][]uint32, parallel.Workers(workers, n))
+	parallel.For(workers, n, func(w, st int) {
+		lo := int32(st) * tallyStretch
+		tally(&parts[st], lo, min(nv, lo+tallyStretch), &scratch[w])
+	})
+	var c edgeTally
+	for _, p := range parts {
+		c.boundary += p.boundary
+		c.nonManifold += p.nonManifold
+		c.inconsistent += p.inconsistent
+	}
+	return c
 }
 
 // edgeLine is the number of half-edges a vertex keeps in its own cache line.
@@ -183,8 +209,9 @@ const edgeLine = 16
 // for triangles in scattered order: each vertex's half-edges go into a line of 16 slots of its
 // own (64 bytes, a cache line; the rare rest into a list sorted at the end), so there is no
 // counting pass of random increments first, and the counts per vertex (a byte each) stay in
-// the cache. It takes 64 bytes a vertex, against about 40 for halfEdges.
-func edgeCountsInLines(m *Mesh) (boundary, nonManifold, inconsistent int) {
+// the cache. It takes 64 bytes a vertex, against about 40 for halfEdges. The pass writes and
+// never reads a line, so the writes' cache misses do not hold it up.
+func edgeCountsInLines(m *Mesh, workers int) (boundary, nonManifold, inconsistent int) {
 	nv := int32(len(m.Vertices))
 	slots := make([]uint32, int(nv)*edgeLine)
 	count := make([]uint8, nv)
@@ -212,24 +239,24 @@ func edgeCountsInLines(m *Mesh) (boundary, nonManifold, inconsistent int) {
 		}
 	}
 	slices.Sort(spill)
-	var c edgeTally
-	var long []uint32
-	for v := range nv {
-		bucket := slots[int(v)*edgeLine:][:count[v]]
-		if len(spill) > 0 && int32(spill[0]>>32) == v {
-			long = append(long[:0], bucket...)
-			for len(spill) > 0 && int32(spill[0]>>32) == v {
-				long = append(long, uint32(spill[0]))
-				spill = spill[1:]
+	c := tallyStretches(nv, workers, func(c *edgeTally, lo, hi int32, long *[]uint32) {
+		// This stretch's part of the spill.
+		sp := spill[sort.Search(len(spill), func(i int) bool { return int32(spill[i]>>32) >= lo }):]
+		for v := lo; v < hi; v++ {
+			bucket := slots[int(v)*edgeLine:][:count[v]]
+			if len(sp) > 0 && int32(sp[0]>>32) == v {
+				*long = append((*long)[:0], bucket...)
+				for len(sp) > 0 && int32(sp[0]>>32) == v {
+					*long = append(*long, uint32(sp[0]))
+					sp = sp[1:]
+				}
+				c.sorted(*long)
+				continue
 			}
-			bucket = long
-		}
-		if len(bucket) <= 8 {
+			// A line holds at most 16: compared pair by pair, without a branch.
 			c.small(bucket)
-		} else {
-			c.sorted(bucket)
 		}
-	}
+	})
 	return c.boundary, c.nonManifold, c.inconsistent
 }
 
@@ -262,10 +289,10 @@ func (c *edgeTally) sorted(bucket []uint32) {
 	}
 }
 
-// small classifies a bucket of a few half-edges without sorting it, by comparing each with
-// those after it, without a branch: a vertex's half-edges come in random order from a file
-// whose triangles are scattered, and sorting them mispredicts most comparisons. later marks
-// the half-edges that repeat an earlier one's edge; each edge is classified at its first.
+// small classifies a bucket of up to 16 half-edges (a line) without sorting it, by comparing
+// each with those after it, without a branch: a vertex's half-edges come in random order from
+// a file whose triangles are scattered, and sorting them mispredicts most comparisons. later
+// marks the half-edges that repeat an earlier one's edge; each edge is classified at its first.
 func (c *edgeTally) small(bucket []uint32) {
 	later := 0
 	for i, x := range bucket {
@@ -327,10 +354,13 @@ func sortEdgeBucket(a []uint32) {
 	}
 }
 
-// vertexUnion joins the vertices of every triangle; find returns a vertex's shell root.
+// vertexUnion joins the vertices of every triangle; find returns a vertex's shell root, the
+// shell's smallest vertex.
 type vertexUnion []int32
 
-func newVertexUnion(m *Mesh) vertexUnion {
+// newVertexUnion joins the vertices of every triangle with an index in range; used, when not
+// nil, is set for every vertex such a triangle uses.
+func newVertexUnion(m *Mesh, used []bool) vertexUnion {
 	u := make(vertexUnion, len(m.Vertices))
 	for i := range u {
 		u[i] = int32(i)
@@ -340,8 +370,12 @@ func newVertexUnion(m *Mesh) vertexUnion {
 		if !triInRange(tri, nv) {
 			continue
 		}
-		u.union(tri[0], tri[1])
-		u.union(tri[0], tri[2])
+		// Three finds a triangle, not four: the root of the first two is known.
+		r := u.link(u.find(tri[0]), u.find(tri[1]))
+		u.link(r, u.find(tri[2]))
+		if used != nil {
+			used[tri[0]], used[tri[1]], used[tri[2]] = true, true, true
+		}
 	}
 	return u
 }
@@ -354,33 +388,26 @@ func (u vertexUnion) find(x int32) int32 {
 	return x
 }
 
-func (u vertexUnion) union(a, b int32) {
-	ra, rb := u.find(a), u.find(b)
-	if ra == rb {
-		return
-	}
-	// The smaller index becomes the root, so roots never depend on anything but the input.
+// link joins two roots and returns the joint root: the smaller index, so roots never depend
+// on anything but the input.
+func (u vertexUnion) link(ra, rb int32) int32 {
 	if ra < rb {
 		u[rb] = ra
-	} else {
-		u[ra] = rb
+		return ra
 	}
+	u[ra] = rb
+	return rb
 }
 
-// countShells counts the distinct shell roots among the triangles.
+// countShells counts the shell roots among the vertices the triangles use: one pass over the
+// vertices in order, where a pass over the triangles would find each one's root again, at
+// random in a file whose triangles are scattered.
 func countShells(m *Mesh) int {
-	u := newVertexUnion(m)
-	seen := make([]bool, len(m.Vertices))
+	used := make([]bool, len(m.Vertices))
+	u := newVertexUnion(m, used)
 	n := 0
-	nv := int32(len(m.Vertices))
-	for _, tri := range m.Triangles {
-		if !triInRange(tri, nv) {
-			continue
-		}
-		if r := u.find(tri[0]); !seen[r] {
-			seen[r] = true
-			n++
-		}
+	for v, r := range u {
+		n += b2i(r == int32(v) && used[v])
 	}
 	return n
 }
@@ -389,7 +416,7 @@ func countShells(m *Mesh) int {
 // vertices), largest first; ties go to the shell whose first triangle comes first. Each list is
 // in ascending order. Triangles with out-of-range indices belong to no shell.
 func Shells(m *Mesh) [][]int32 {
-	u := newVertexUnion(m)
+	u := newVertexUnion(m, nil)
 	nv := int32(len(m.Vertices))
 	shellOf := map[int32]int{} // root -> shell number in order of first triangle
 	var shells [][]int32

@@ -192,8 +192,8 @@ var minInjectiveScale = math.Ldexp(1, -873)
 // +0).
 
 // cornerChecks tells which triangles isDegenerate would find degenerate in the welded mesh,
-// and each triangle's term of signedVolume were none dropped (vertex 0 is corner 0), on up
-// to workers cores.
+// and each triangle's term of SumTriangles' signed volume were none dropped (vertex 0 is
+// corner 0), on up to workers cores.
 func cornerChecks(keys []corner32, s float64, workers int) (degenerate []bool, terms []float64) {
 	nt := len(keys) / 3
 	degenerate = make([]bool, nt)
@@ -202,7 +202,7 @@ func cornerChecks(keys []corner32, s float64, workers int) (degenerate []bool, t
 		return
 	}
 	// Scalars rather than mgl64.Vec3 (arrays the compiler keeps in memory), with the very
-	// operations of isDegenerate and of Sub, Cross and Dot in signedVolume, in their order.
+	// operations of isDegenerate and of SumTriangles' signed volume, in their order.
 	ref := keys[0].position(s)
 	rx, ry, rz := ref[0], ref[1], ref[2]
 	coord := func(bits uint32) float64 { return float64(math.Float32frombits(bits)) * s }
@@ -217,16 +217,13 @@ func cornerChecks(keys []corner32, s float64, workers int) (degenerate []bool, t
 			// Two equal corners (isDegenerate's repeated vertex) give a zero cross product
 			// too: u or v is zero, or u equals v.
 			degenerate[t] = uy*vz-uz*vy == 0 && uz*vx-ux*vz == 0 && ux*vy-uy*vx == 0
-			ax, ay, az = ax-rx, ay-ry, az-rz
-			bx, by, bz = bx-rx, by-ry, bz-rz
-			dx, dy, dz = dx-rx, dy-ry, dz-rz
-			terms[t] = ax*(by*dz-bz*dy) + ay*(bz*dx-bx*dz) + az*(bx*dy-by*dx)
+			terms[t] = tripleProduct(ax-rx, ay-ry, az-rz, bx-rx, by-ry, bz-rz, dx-rx, dy-ry, dz-rz)
 		}
 	})
 	return degenerate, terms
 }
 
-// sumVolume is signedVolume from its terms: the same sum in the same order.
+// sumVolume is SumTriangles' signed volume from its terms: the same sum in the same order.
 func sumVolume(terms []float64) float64 {
 	vol := 0.0
 	for _, v := range terms {
