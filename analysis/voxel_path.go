@@ -244,104 +244,12 @@ func (vg *voxelGraph) neighbours(n int32, fn func(m int32, step float64)) {
 }
 
 // searchNode is what a search keeps per node, together so that a relaxation touches one
-// place in memory: the distance so far, the predecessor (-1 for sources and unreached
-// nodes) and the node's place in the heap (-1 when not in it).
+// place in memory: the distance so far and the predecessor (-1 for sources and unreached
+// nodes), and whether it is settled.
 type searchNode struct {
-	dist      float64
-	prev, pos int32
-}
-
-// nodeHeap is an indexed 4-ary heap of nodes keyed by their distance (smallest first, ties by
-// node so every search is deterministic). A node sits in it at most once: lowering its
-// distance moves it up in place, so the heap never holds stale entries. Each entry carries
-// its key, so sifting compares within the heap's own array instead of looking keys up.
-type nodeHeap struct {
-	items []heapItem
-	state []searchNode // the search's nodes: keys and places
-}
-
-type heapItem struct {
-	key float64
-	n   int32
-}
-
-// before orders entries by key, then by node.
-func before(a, b heapItem) bool {
-	return a.key < b.key || a.key == b.key && a.n < b.n
-}
-
-// update puts node n in the heap or moves it up after its key was lowered.
-func (h *nodeHeap) update(n int32) {
-	st := h.state
-	it := heapItem{st[n].dist, n}
-	i := st[n].pos
-	if i < 0 {
-		i = int32(len(h.items))
-		h.items = append(h.items, it)
-	}
-	items := h.items
-	for i > 0 {
-		p := (i - 1) / 4
-		if !before(it, items[p]) {
-			break
-		}
-		items[i] = items[p]
-		st[items[i].n].pos = i
-		i = p
-	}
-	items[i] = it
-	st[n].pos = i
-}
-
-// pop removes and returns the node of smallest key.
-func (h *nodeHeap) pop() int32 {
-	st := h.state
-	top := h.items[0].n
-	st[top].pos = -1
-	last := h.items[len(h.items)-1]
-	h.items = h.items[:len(h.items)-1]
-	if len(h.items) == 0 {
-		return top
-	}
-	items := h.items
-	i, n := int32(0), int32(len(items))
-	for {
-		c := 4*i + 1
-		if c >= n {
-			break
-		}
-		best := c
-		if c+3 < n {
-			// A full set of four children (most levels): the least of two pairs, unrolled.
-			g := items[c : c+4 : c+4]
-			a, b := int32(0), int32(2)
-			if before(g[1], g[0]) {
-				a = 1
-			}
-			if before(g[3], g[2]) {
-				b = 3
-			}
-			if before(g[b], g[a]) {
-				a = b
-			}
-			best = c + a
-		} else {
-			for k := c + 1; k < n; k++ {
-				if before(items[k], items[best]) {
-					best = k
-				}
-			}
-		}
-		if !before(items[best], last) {
-			break
-		}
-		items[i] = items[best]
-		st[items[i].n].pos = i
-		i = best
-	}
-	items[i] = last
-	st[last.n].pos = i
-	return top
+	dist float64
+	prev int32
+	done bool // settled
 }
 
 // dijkstra returns distances from the sources over the graph, where crossing an edge costs
@@ -379,24 +287,53 @@ func (vg *voxelGraph) minimalPath(source, target int32, cost []float64) []int32 
 }
 
 // search is Dijkstra's algorithm over the inside voxels. With halfCost nil an edge costs its
-// length; otherwise its length times the sum of its ends' half costs. It stops when target
-// (>= 0) is settled; nodes beyond bound stay unreached. Each node's distance (+Inf when
-// unreached) and predecessor are in the result.
+// length; otherwise its length times the sum of its ends' half costs (positive and finite
+// for the bucket queue; see searchQueue). It stops when target (>= 0) is settled; nodes
+// beyond bound stay unreached. Each node's distance (+Inf when unreached) and predecessor are
+// in the result.
+//
+// The answers do not depend on the order in which the queue settles nodes of nearly equal
+// distance: a node's distance is the least over its neighbours of (their distance + the
+// edge's cost), the same numbers whatever the order, and its predecessor is, among the
+// neighbours that give that least, the one of least distance and then of least number (the
+// first that a heap ordered by distance, then node, would settle), kept so by replacing it on
+// a tie.
 func (vg *voxelGraph) search(sources []int32, halfCost []float64, bound float64, target int32) []searchNode {
 	n := len(vg.cells)
 	st := make([]searchNode, n)
 	for i := range st {
-		st[i] = searchNode{dist: math.Inf(1), prev: -1, pos: -1}
+		st[i] = searchNode{dist: math.Inf(1), prev: -1}
 	}
-	h := &nodeHeap{items: make([]heapItem, 0, 1024), state: st}
+	stepMin, stepMax := math.Inf(1), 0.0
+	for _, nb := range vg.nbr {
+		stepMin, stepMax = min(stepMin, nb.step), max(stepMax, nb.step)
+	}
+	wMin, wMax := stepMin, stepMax
+	if halfCost != nil {
+		lo, hi := math.Inf(1), math.Inf(-1)
+		for _, c := range halfCost {
+			lo, hi = min(lo, c), max(hi, c)
+		}
+		wMin, wMax = stepMin*2*lo, stepMax*2*hi
+	}
+	q := newSearchQueue(n, wMin, wMax)
 	for _, s := range sources {
-		st[s].dist = 0
-		h.update(s)
+		if st[s].dist != 0 {
+			st[s].dist = 0
+			q.push(0, math.Inf(1), s)
+		}
 	}
 	g := vg.g
 	node, cells, nbr := vg.node, vg.cells, &vg.nbr
-	for len(h.items) > 0 {
-		p := h.pop()
+	for {
+		p, ok := q.pop()
+		if !ok {
+			break
+		}
+		if st[p].done {
+			continue // an old entry: p was pushed again with a lower distance
+		}
+		st[p].done = true
 		d := st[p].dist
 		if p == target {
 			break
@@ -407,15 +344,20 @@ func (vg *voxelGraph) search(sources []int32, halfCost []float64, bound float64,
 		c := cells[p]
 		if vg.interior && halfCost != nil {
 			hp := halfCost[p]
-			for q := range nbr {
-				m := node[c+nbr[q].off]
+			for k := range nbr {
+				m := node[c+nbr[k].off]
 				if m < 0 {
 					continue
 				}
-				if nd := d + nbr[q].step*(hp+halfCost[m]); nd < st[m].dist && nd <= bound {
-					st[m].dist = nd
-					st[m].prev = p
-					h.update(m)
+				nd := d + nbr[k].step*(hp+halfCost[m])
+				if sm := &st[m]; nd < sm.dist {
+					if nd <= bound {
+						q.push(nd, sm.dist, m)
+						sm.dist = nd
+						sm.prev = p
+					}
+				} else if nd == sm.dist && sm.prev >= 0 && earlier(d, p, st[sm.prev].dist, sm.prev) {
+					sm.prev = p
 				}
 			}
 			continue
@@ -428,29 +370,39 @@ func (vg *voxelGraph) search(sources []int32, halfCost []float64, bound float64,
 		if halfCost != nil {
 			hp = halfCost[p]
 		}
-		for q := range nbr {
+		for e := range nbr {
 			if !vg.interior {
-				ii, jj, kk := i+nbr[q].di, j+nbr[q].dj, k+nbr[q].dk
+				ii, jj, kk := i+nbr[e].di, j+nbr[e].dj, k+nbr[e].dk
 				if ii < 0 || jj < 0 || kk < 0 || ii >= g.NX || jj >= g.NY || kk >= g.NZ {
 					continue
 				}
 			}
-			m := node[c+nbr[q].off]
+			m := node[c+nbr[e].off]
 			if m < 0 {
 				continue
 			}
-			w := nbr[q].step
+			w := nbr[e].step
 			if halfCost != nil {
 				w *= hp + halfCost[m]
 			}
-			if nd := d + w; nd < st[m].dist && nd <= bound {
-				st[m].dist = nd
-				st[m].prev = p
-				h.update(m)
+			nd := d + w
+			if sm := &st[m]; nd < sm.dist {
+				if nd <= bound {
+					q.push(nd, sm.dist, m)
+					sm.dist = nd
+					sm.prev = p
+				}
+			} else if nd == sm.dist && sm.prev >= 0 && earlier(d, p, st[sm.prev].dist, sm.prev) {
+				sm.prev = p
 			}
 		}
 	}
 	return st
+}
+
+// earlier orders settled nodes by distance, then by number.
+func earlier(d float64, p int32, e float64, q int32) bool {
+	return d < e || d == e && p < q
 }
 
 // farthest returns the reached node with the largest finite distance (lowest index on ties).
