@@ -323,8 +323,6 @@ func (vg *voxelGraph) search(sources []int32, halfCost []float64, bound float64,
 			q.push(0, math.Inf(1), s)
 		}
 	}
-	g := vg.g
-	node, cells, nbr := vg.node, vg.cells, &vg.nbr
 	for {
 		p, ok := q.pop()
 		if !ok {
@@ -334,70 +332,104 @@ func (vg *voxelGraph) search(sources []int32, halfCost []float64, bound float64,
 			continue // an old entry: p was pushed again with a lower distance
 		}
 		st[p].done = true
-		d := st[p].dist
 		if p == target {
 			break
 		}
-		// The 26 neighbours, inlined: this loop is most of the time a canal takes. Off the
-		// grid's border (the usual case: grids are padded) no bounds are checked, and the
-		// weighted search of that case has a loop of its own with nothing else to decide.
-		c := cells[p]
-		if vg.interior && halfCost != nil {
-			hp := halfCost[p]
-			for k := range nbr {
-				m := node[c+nbr[k].off]
-				if m < 0 {
-					continue
-				}
-				nd := d + nbr[k].step*(hp+halfCost[m])
-				if sm := &st[m]; nd < sm.dist {
-					if nd <= bound {
-						q.push(nd, sm.dist, m)
-						sm.dist = nd
-						sm.prev = p
-					}
-				} else if nd == sm.dist && sm.prev >= 0 && earlier(d, p, st[sm.prev].dist, sm.prev) {
-					sm.prev = p
-				}
-			}
-			continue
-		}
-		var i, j, k int
-		if !vg.interior {
-			i, j, k = vg.ijk(p)
-		}
-		hp := 0.0
-		if halfCost != nil {
-			hp = halfCost[p]
-		}
-		for e := range nbr {
-			if !vg.interior {
-				ii, jj, kk := i+nbr[e].di, j+nbr[e].dj, k+nbr[e].dk
-				if ii < 0 || jj < 0 || kk < 0 || ii >= g.NX || jj >= g.NY || kk >= g.NZ {
-					continue
-				}
-			}
-			m := node[c+nbr[e].off]
-			if m < 0 {
-				continue
-			}
-			w := nbr[e].step
-			if halfCost != nil {
-				w *= hp + halfCost[m]
-			}
-			nd := d + w
-			if sm := &st[m]; nd < sm.dist {
-				if nd <= bound {
-					q.push(nd, sm.dist, m)
-					sm.dist = nd
-					sm.prev = p
-				}
-			} else if nd == sm.dist && sm.prev >= 0 && earlier(d, p, st[sm.prev].dist, sm.prev) {
-				sm.prev = p
-			}
+		// The 26 neighbours: this is most of the time a canal takes. Off the grid's border
+		// (the usual case: grids are padded) no bounds are checked; each case has a loop of
+		// its own, in a function of its own so that its few values stay in registers.
+		switch {
+		case vg.interior && halfCost != nil:
+			vg.relaxWeighted(st, q, p, halfCost, bound)
+		case vg.interior:
+			vg.relaxUnit(st, q, p, bound)
+		default:
+			vg.relaxBorder(st, q, p, halfCost, bound)
 		}
 	}
 	return st
+}
+
+// relaxWeighted lowers the distances of the neighbours of the settled node p through p, an
+// edge costing its length times the sum of its ends' half costs; the node is off the grid's
+// border. A settled neighbour is passed over: nothing from p can reach or tie its distance.
+func (vg *voxelGraph) relaxWeighted(st []searchNode, q *searchQueue, p int32, halfCost []float64, bound float64) {
+	node, nbr := vg.node, &vg.nbr
+	c, d, hp := vg.cells[p], st[p].dist, halfCost[p]
+	for k := range nbr {
+		m := node[c+nbr[k].off]
+		if m < 0 || st[m].done {
+			continue
+		}
+		nd := d + nbr[k].step*(hp+halfCost[m])
+		if sm := &st[m]; nd < sm.dist {
+			if nd <= bound {
+				q.push(nd, sm.dist, m)
+				sm.dist = nd
+				sm.prev = p
+			}
+		} else if nd == sm.dist && sm.prev >= 0 && earlier(d, p, st[sm.prev].dist, sm.prev) {
+			sm.prev = p
+		}
+	}
+}
+
+// relaxUnit is relaxWeighted where an edge costs its length.
+func (vg *voxelGraph) relaxUnit(st []searchNode, q *searchQueue, p int32, bound float64) {
+	node, nbr := vg.node, &vg.nbr
+	c, d := vg.cells[p], st[p].dist
+	for k := range nbr {
+		m := node[c+nbr[k].off]
+		if m < 0 || st[m].done {
+			continue
+		}
+		nd := d + nbr[k].step
+		if sm := &st[m]; nd < sm.dist {
+			if nd <= bound {
+				q.push(nd, sm.dist, m)
+				sm.dist = nd
+				sm.prev = p
+			}
+		} else if nd == sm.dist && sm.prev >= 0 && earlier(d, p, st[sm.prev].dist, sm.prev) {
+			sm.prev = p
+		}
+	}
+}
+
+// relaxBorder is relaxWeighted (or relaxUnit with halfCost nil) for a node that may lie on the
+// grid's border: each neighbour's place is checked against the grid's bounds.
+func (vg *voxelGraph) relaxBorder(st []searchNode, q *searchQueue, p int32, halfCost []float64, bound float64) {
+	g, node, nbr := vg.g, vg.node, &vg.nbr
+	c, d := vg.cells[p], st[p].dist
+	i, j, k := vg.ijk(p)
+	hp := 0.0
+	if halfCost != nil {
+		hp = halfCost[p]
+	}
+	for e := range nbr {
+		ii, jj, kk := i+nbr[e].di, j+nbr[e].dj, k+nbr[e].dk
+		if ii < 0 || jj < 0 || kk < 0 || ii >= g.NX || jj >= g.NY || kk >= g.NZ {
+			continue
+		}
+		m := node[c+nbr[e].off]
+		if m < 0 || st[m].done {
+			continue
+		}
+		w := nbr[e].step
+		if halfCost != nil {
+			w *= hp + halfCost[m]
+		}
+		nd := d + w
+		if sm := &st[m]; nd < sm.dist {
+			if nd <= bound {
+				q.push(nd, sm.dist, m)
+				sm.dist = nd
+				sm.prev = p
+			}
+		} else if nd == sm.dist && sm.prev >= 0 && earlier(d, p, st[sm.prev].dist, sm.prev) {
+			sm.prev = p
+		}
+	}
 }
 
 // earlier orders settled nodes by distance, then by number.
