@@ -74,22 +74,27 @@ func (b *BVH) rayFan(orig, u, v mgl64.Vec3, cos, sin []float64, tMax float64, t 
 	defer fanPool.Put(f)
 	f.gather(b, orig, u, v, n)
 	for j := range n {
-		dir := u.Mul(cos[j]).Add(v.Mul(sin[j]))
-		if dir == (mgl64.Vec3{}) {
+		// dir is u.Mul(cos[j]).Add(v.Mul(sin[j])), written out: the same operations in the
+		// same order, so the same numbers.
+		cj, sj := cos[j], sin[j]
+		d0, d1, d2 := u[0]*cj+v[0]*sj, u[1]*cj+v[1]*sj, u[2]*cj+v[2]*sj
+		if d0 == 0 && d1 == 0 && d2 == 0 {
 			t[j] = -1
 			continue
 		}
-		sec := f.sector(pseudoAngle(cos[j], sin[j]))
+		sec := f.sector(pseudoAngle(cj, sj))
 		best, leaf := tMax, int32(-1)
 		for _, c := range f.bins[f.start[sec]:f.start[sec+1]] {
-			if hit, _, _, _, ok := rayTri(&b.tris[c.tri], orig, dir); ok && hit > 0 && hit < best {
-				best, leaf = hit, c.leaf
+			ft := &f.found[c]
+			if hit, ok := ft.ray(d0, d1, d2); ok && hit > 0 && hit < best {
+				best, leaf = hit, ft.leaf
 			}
 		}
 		if leaf < 0 {
 			t[j] = -1
 			continue
 		}
+		dir := mgl64.Vec3{d0, d1, d2}
 		if _, ok := rayBoxEnter(b.nodes[leaf].lo, b.nodes[leaf].hi, orig, inverse(dir), best); ok {
 			t[j] = best
 			continue
@@ -102,18 +107,60 @@ func (b *BVH) rayFan(orig, u, v mgl64.Vec3, cos, sin []float64, tMax float64, t 
 	return len(f.found)
 }
 
-// fanCandidate is a triangle (index in leaf order) and the leaf that holds it.
-type fanCandidate struct{ tri, leaf int32 }
+// fanTri is a triangle the fan's plane meets, with what rayTri works out from the origin
+// alone worked out once for the whole fan: s = orig - a, q = s x e1 and e2 . q.
+type fanTri struct {
+	e1, e2, s, q [3]float64
+	tq           float64
+	leaf         int32 // the leaf that holds it
+}
+
+// newFanTri is the fanTri of triangle tr for rays from o; the products as rayTri makes them
+// (mgl64's Sub, Cross and Dot written out, the same operations in the same order).
+func newFanTri(tr *bvhTri, leaf int32, o mgl64.Vec3) fanTri {
+	ft := fanTri{e1: tr.e1, e2: tr.e2, leaf: leaf}
+	s := &ft.s
+	s[0], s[1], s[2] = o[0]-tr.a[0], o[1]-tr.a[1], o[2]-tr.a[2]
+	e1, e2 := &ft.e1, &ft.e2
+	q := &ft.q
+	q[0], q[1], q[2] = s[1]*e1[2]-s[2]*e1[1], s[2]*e1[0]-s[0]*e1[2], s[0]*e1[1]-s[1]*e1[0]
+	ft.tq = e2[0]*q[0] + e2[1]*q[1] + e2[2]*q[2]
+	return ft
+}
+
+// ray is rayTri's T and ok for the ray from the fan's origin along (d0, d1, d2), bit for bit:
+// the same operations in the same order, those that depend on the origin alone done before.
+func (ft *fanTri) ray(d0, d1, d2 float64) (float64, bool) {
+	e1, e2, s, q := &ft.e1, &ft.e2, &ft.s, &ft.q
+	p0, p1, p2 := d1*e2[2]-d2*e2[1], d2*e2[0]-d0*e2[2], d0*e2[1]-d1*e2[0]
+	det := e1[0]*p0 + e1[1]*p1 + e1[2]*p2
+	if det == 0 {
+		return 0, false
+	}
+	inv := 1 / det
+	u := (s[0]*p0 + s[1]*p1 + s[2]*p2) * inv
+	if u < 0 || u > 1 {
+		return 0, false
+	}
+	v := (d0*q[0] + d1*q[1] + d2*q[2]) * inv
+	if v < 0 || u+v > 1 {
+		return 0, false
+	}
+	return ft.tq * inv, true
+}
 
 // fanScratch holds one fan's triangles by sector; reused across calls through fanPool.
 type fanScratch struct {
 	stack  []int32
-	found  []fanCandidate
+	found  []fanTri
 	lo, hi []int32 // each found triangle's sectors, lo..hi (hi may pass the last: it wraps)
 	count  []int32
 	start  []int32
-	bins   []fanCandidate
+	bins   []int32 // found triangles by sector
 	nSec   int
+	// The fan: origin, the plane's axes and normal, the plane's slack.
+	o, u, v, w mgl64.Vec3
+	pad        float64
 }
 
 var fanPool = sync.Pool{New: func() any { return &fanScratch{} }}
@@ -164,16 +211,19 @@ func (f *fanScratch) gather(b *BVH, orig, u, v mgl64.Vec3, nSec int) {
 		scale = max(scale, math.Abs(orig[k]), math.Abs(root.lo[k]), math.Abs(root.hi[k]))
 	}
 	// The plane's slack: far above what rounding moves a hit point off it.
-	pad := 1e-9 * scale
+	f.o, f.u, f.v, f.w, f.pad = orig, u, v, w, 1e-9*scale
+	// Each box's centre and half extent against the plane, as the Vec3 arithmetic
+	// (lo.Add(hi).Mul(0.5).Sub(orig), hi.Sub(lo).Mul(0.5), Dot) gives them, written out.
+	aw0, aw1, aw2 := math.Abs(w[0]), math.Abs(w[1]), math.Abs(w[2])
 	f.stack = append(f.stack[:0], 0)
 	for len(f.stack) > 0 {
 		i := f.stack[len(f.stack)-1]
 		f.stack = f.stack[:len(f.stack)-1]
 		nd := &b.nodes[i]
-		c := nd.lo.Add(nd.hi).Mul(0.5).Sub(orig)
-		e := nd.hi.Sub(nd.lo).Mul(0.5)
-		r := math.Abs(w[0])*e[0] + math.Abs(w[1])*e[1] + math.Abs(w[2])*e[2]
-		if !(math.Abs(c.Dot(w)) <= r+pad) {
+		lo, hi := &nd.lo, &nd.hi
+		c0, c1, c2 := (lo[0]+hi[0])*0.5-orig[0], (lo[1]+hi[1])*0.5-orig[1], (lo[2]+hi[2])*0.5-orig[2]
+		r := aw0*((hi[0]-lo[0])*0.5) + aw1*((hi[1]-lo[1])*0.5) + aw2*((hi[2]-lo[2])*0.5)
+		if !(math.Abs(c0*w[0]+c1*w[1]+c2*w[2]) <= r+f.pad) {
 			continue
 		}
 		if nd.count == 0 {
@@ -181,7 +231,7 @@ func (f *fanScratch) gather(b *BVH, orig, u, v mgl64.Vec3, nSec int) {
 			continue
 		}
 		for k := nd.first; k < nd.first+nd.count; k++ {
-			f.file(&b.tris[k], k, i, orig, u, v, w, pad)
+			f.file(&b.tris[k], i)
 		}
 	}
 	// Counting sort into sectors.
@@ -202,50 +252,47 @@ func (f *fanScratch) gather(b *BVH, orig, u, v mgl64.Vec3, nSec int) {
 		f.count[s] = f.start[s]
 	}
 	f.start[f.nSec] = sum
-	if cap(f.bins) < int(sum) {
-		f.bins = make([]fanCandidate, sum)
-	}
-	f.bins = f.bins[:sum]
-	for k, c := range f.found {
+	f.bins = resize(f.bins, int(sum))
+	for k := range f.found {
 		for s := f.lo[k]; s <= f.hi[k]; s++ {
 			sec := int(s) % f.nSec
-			f.bins[f.count[sec]] = c
+			f.bins[f.count[sec]] = int32(k)
 			f.count[sec]++
 		}
 	}
 }
 
-// file adds triangle k (of leaf) when it reaches the plane, with the sectors it covers.
-func (f *fanScratch) file(tr *bvhTri, k, leaf int32, orig, u, v, w mgl64.Vec3, pad float64) {
-	a := tr.a.Sub(orig)
-	corners := [3]mgl64.Vec3{a, a.Add(tr.e1), a.Add(tr.e2)}
-	d0, d1, d2 := corners[0].Dot(w), corners[1].Dot(w), corners[2].Dot(w)
-	if !(min(d0, d1, d2) <= pad && max(d0, d1, d2) >= -pad) {
+// file adds triangle tr (of leaf) when it reaches the fan's plane, with the sectors it covers.
+// The corners relative to the origin and their products with the plane's axes are the Vec3
+// arithmetic (a := tr.a.Sub(o); a, a.Add(e1), a.Add(e2); Dot) written out, the same numbers.
+func (f *fanScratch) file(tr *bvhTri, leaf int32) {
+	o, w := &f.o, &f.w
+	a0, a1, a2 := tr.a[0]-o[0], tr.a[1]-o[1], tr.a[2]-o[2]
+	b0, b1, b2 := a0+tr.e1[0], a1+tr.e1[1], a2+tr.e1[2]
+	c0, c1, c2 := a0+tr.e2[0], a1+tr.e2[1], a2+tr.e2[2]
+	d0 := a0*w[0] + a1*w[1] + a2*w[2]
+	d1 := b0*w[0] + b1*w[1] + b2*w[2]
+	d2 := c0*w[0] + c1*w[1] + c2*w[2]
+	if !(min(d0, d1, d2) <= f.pad && max(d0, d1, d2) >= -f.pad) {
 		return // off the plane (or not a number: such a triangle is never hit)
 	}
-	var x, y [3]float64
-	for c, p := range corners {
-		x[c], y[c] = p.Dot(u), p.Dot(v)
-	}
-	whole := func() {
-		f.found = append(f.found, fanCandidate{k, leaf})
-		f.lo = append(f.lo, 0)
-		f.hi = append(f.hi, int32(f.nSec-1))
-	}
+	u, v := &f.u, &f.v
+	x := [3]float64{a0*u[0] + a1*u[1] + a2*u[2], b0*u[0] + b1*u[1] + b2*u[2], c0*u[0] + c1*u[1] + c2*u[2]}
+	y := [3]float64{a0*v[0] + a1*v[1] + a2*v[2], b0*v[0] + b1*v[1] + b2*v[2], c0*v[0] + c1*v[1] + c2*v[2]}
 	// orig inside the projected triangle, on its edge or on a corner: every direction.
-	c0 := x[0]*y[1] - y[0]*x[1]
-	c1 := x[1]*y[2] - y[1]*x[2]
-	c2 := x[2]*y[0] - y[2]*x[0]
-	if (c0 >= 0 && c1 >= 0 && c2 >= 0) || (c0 <= 0 && c1 <= 0 && c2 <= 0) {
-		whole()
+	k0 := x[0]*y[1] - y[0]*x[1]
+	k1 := x[1]*y[2] - y[1]*x[2]
+	k2 := x[2]*y[0] - y[2]*x[0]
+	if (k0 >= 0 && k1 >= 0 && k2 >= 0) || (k0 <= 0 && k1 <= 0 && k2 <= 0) {
+		f.add(tr, leaf, 0, f.nSec-1)
 		return
 	}
 	// Outside: the triangle covers less than half a turn; its angles relative to the first
 	// corner's give the span.
-	a0 := pseudoAngle(x[0], y[0])
+	first := pseudoAngle(x[0], y[0])
 	lo, hi := 0.0, 0.0
 	for c := 1; c < 3; c++ {
-		d := pseudoAngle(x[c], y[c]) - a0
+		d := pseudoAngle(x[c], y[c]) - first
 		if d > 2 {
 			d -= 4
 		} else if d < -2 {
@@ -254,19 +301,23 @@ func (f *fanScratch) file(tr *bvhTri, k, leaf int32, orig, u, v, w mgl64.Vec3, p
 		lo, hi = min(lo, d), max(hi, d)
 	}
 	if !(hi-lo < fanWholeSpan) {
-		whole()
+		f.add(tr, leaf, 0, f.nSec-1)
 		return
 	}
 	// Sectors as sector counts them, without the clamp: the span may run past 0 or 4.
-	at := func(a float64) int { return int(math.Floor(a * (float64(f.nSec) / 4))) }
-	from, to := at(a0+lo-fanAngleMargin), at(a0+hi+fanAngleMargin)
+	per := float64(f.nSec) / 4
+	from, to := int(math.Floor((first+lo-fanAngleMargin)*per)), int(math.Floor((first+hi+fanAngleMargin)*per))
 	if to-from+1 >= f.nSec {
-		whole()
+		f.add(tr, leaf, 0, f.nSec-1)
 		return
 	}
 	shift := ((from%f.nSec)+f.nSec)%f.nSec - from
-	from, to = from+shift, to+shift
-	f.found = append(f.found, fanCandidate{k, leaf})
+	f.add(tr, leaf, from+shift, to+shift)
+}
+
+// add files triangle tr (of leaf) under sectors from..to.
+func (f *fanScratch) add(tr *bvhTri, leaf int32, from, to int) {
+	f.found = append(f.found, newFanTri(tr, leaf, f.o))
 	f.lo = append(f.lo, int32(from))
 	f.hi = append(f.hi, int32(to))
 }
