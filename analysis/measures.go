@@ -382,18 +382,28 @@ func coronalAxis(pts []mgl64.Vec3, tol float64) (origin, axis mgl64.Vec3, end in
 		}
 		return o, d
 	}
+	// Every point within tol of the line: q := p.Sub(o); q.Sub(d.Mul(q.Dot(d))).LenSqr(),
+	// written out per coordinate (the same operations in the same order, the same numbers).
 	straight := func(o, d mgl64.Vec3, k int) bool {
-		for _, p := range pts[:k] {
-			q := p.Sub(o)
-			if q.Sub(d.Mul(q.Dot(d))).LenSqr() > tol*tol {
+		tt := tol * tol
+		for i := range pts[:k] {
+			p := &pts[i]
+			q0, q1, q2 := p[0]-o[0], p[1]-o[1], p[2]-o[2]
+			t := q0*d[0] + q1*d[1] + q2*d[2]
+			r0, r1, r2 := q0-d[0]*t, q1-d[1]*t, q2-d[2]*t
+			if r0*r0+r1*r1+r2*r2 > tt {
 				return false
 			}
 		}
 		return true
 	}
 	for i, p := range pts {
-		sum = sum.Add(p)
-		sxx = sxx.Add(outer(p, p))
+		// sum.Add(p) and sxx.Add(outer(p, p)) written out, the same numbers.
+		p0, p1, p2 := p[0], p[1], p[2]
+		sum[0], sum[1], sum[2] = sum[0]+p0, sum[1]+p1, sum[2]+p2
+		sxx[0], sxx[1], sxx[2] = sxx[0]+p0*p0, sxx[1]+p1*p0, sxx[2]+p2*p0
+		sxx[3], sxx[4], sxx[5] = sxx[3]+p0*p1, sxx[4]+p1*p1, sxx[5]+p2*p1
+		sxx[6], sxx[7], sxx[8] = sxx[6]+p0*p2, sxx[7]+p1*p2, sxx[8]+p2*p2
 		if i < first {
 			continue
 		}
@@ -470,20 +480,26 @@ func principalAxis(cov mgl64.Mat3) mgl64.Vec3 {
 
 // powerIterate runs at most 100 steps of power iteration from start. A step that returns its
 // own input exactly would return it for ever, so the loop stops there with the same answer.
+// Each step is m.Mul3x1(v), Len and Normalize written out per coordinate (the same operations
+// in the same order, the same numbers).
 func powerIterate(m mgl64.Mat3, start mgl64.Vec3) mgl64.Vec3 {
-	v := start
+	v0, v1, v2 := start[0], start[1], start[2]
 	for it := 0; it < 100; it++ {
-		w := m.Mul3x1(v)
-		if w.Len() < 1e-30 {
+		w0 := m[0]*v0 + m[3]*v1 + m[6]*v2
+		w1 := m[1]*v0 + m[4]*v1 + m[7]*v2
+		w2 := m[2]*v0 + m[5]*v1 + m[8]*v2
+		l := math.Sqrt(w0*w0 + w1*w1 + w2*w2)
+		if l < 1e-30 {
 			return start
 		}
-		next := w.Normalize()
-		if next == v {
+		inv := 1.0 / l
+		n0, n1, n2 := w0*inv, w1*inv, w2*inv
+		if n0 == v0 && n1 == v1 && n2 == v2 {
 			break
 		}
-		v = next
+		v0, v1, v2 = n0, n1, n2
 	}
-	return v
+	return mgl64.Vec3{v0, v1, v2}
 }
 
 func outer(a, b mgl64.Vec3) mgl64.Mat3 {

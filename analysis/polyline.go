@@ -90,8 +90,17 @@ func derivatives(pts []mgl64.Vec3, ds float64, m int) (d1, d2 []mgl64.Vec3) {
 	n := len(pts)
 	d1 = make([]mgl64.Vec3, n)
 	d2 = make([]mgl64.Vec3, n)
+	// The weights depend on the window's half-width alone: made once for each.
+	weights := make([]sgWeights, m+1)
 	for i := range pts {
-		d1[i], d2[i] = derivativesAt(pts, ds, m, i)
+		h := min(m, i, n-1-i)
+		if h < 1 {
+			continue
+		}
+		if weights[h].first == nil {
+			weights[h] = newSGWeights(h)
+		}
+		d1[i], d2[i] = weights[h].at(pts, ds, i)
 	}
 	// Ends: carry the nearest fitted value outward.
 	for i := 0; i < n; i++ {
@@ -120,6 +129,16 @@ func derivativesAt(pts []mgl64.Vec3, ds float64, m, i int) (d1, d2 mgl64.Vec3) {
 	if h < 1 {
 		return d1, d2
 	}
+	return newSGWeights(h).at(pts, ds, i)
+}
+
+// sgWeights are the weights of the quadratic fit over a window of half-width h, for offsets
+// j = -h..h: j/s2 for the first derivative, (j^2 - mean2)/den2 for the second.
+type sgWeights struct {
+	first, second []float64
+}
+
+func newSGWeights(h int) sgWeights {
 	var s2, s4 float64
 	for j := -h; j <= h; j++ {
 		s2 += float64(j * j)
@@ -128,13 +147,26 @@ func derivativesAt(pts []mgl64.Vec3, ds float64, m, i int) (d1, d2 mgl64.Vec3) {
 	cnt := float64(2*h + 1)
 	mean2 := s2 / cnt
 	den2 := s4 - cnt*mean2*mean2
-	var a, b mgl64.Vec3
+	w := sgWeights{first: make([]float64, 2*h+1), second: make([]float64, 2*h+1)}
 	for j := -h; j <= h; j++ {
-		p := pts[i+j]
-		a = a.Add(p.Mul(float64(j) / s2))
-		b = b.Add(p.Mul((float64(j*j) - mean2) / den2))
+		w.first[j+h] = float64(j) / s2
+		w.second[j+h] = (float64(j*j) - mean2) / den2
 	}
-	return a.Mul(1 / ds), b.Mul(2 / (ds * ds))
+	return w
+}
+
+// at is the fit at point i, whose window of half-width h lies within pts. The sums are the
+// Vec3 arithmetic (a = a.Add(p.Mul(w))) written out per coordinate, the same numbers.
+func (w sgWeights) at(pts []mgl64.Vec3, ds float64, i int) (d1, d2 mgl64.Vec3) {
+	h := len(w.first) / 2
+	var a0, a1, a2, b0, b1, b2 float64
+	for j, p := range pts[i-h : i+h+1] {
+		x, y := w.first[j], w.second[j]
+		a0, a1, a2 = a0+p[0]*x, a1+p[1]*x, a2+p[2]*x
+		b0, b1, b2 = b0+p[0]*y, b1+p[1]*y, b2+p[2]*y
+	}
+	sa, sb := 1/ds, 2/(ds*ds)
+	return mgl64.Vec3{a0 * sa, a1 * sa, a2 * sa}, mgl64.Vec3{b0 * sb, b1 * sb, b2 * sb}
 }
 
 // curvatureOf returns unit tangents and curvature from first and second derivatives.
