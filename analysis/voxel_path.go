@@ -248,6 +248,7 @@ func (vg *voxelGraph) neighbours(n int32, fn func(m int32, step float64)) {
 // nodes), and whether it is settled.
 type searchNode struct {
 	dist float64
+	half float64 // the node's half cost (weighted searches)
 	prev int32
 	done bool // settled
 }
@@ -304,6 +305,11 @@ func (vg *voxelGraph) search(sources []int32, halfCost []float64, bound float64,
 	for i := range st {
 		st[i] = searchNode{dist: math.Inf(1), prev: -1}
 	}
+	if halfCost != nil {
+		for i, c := range halfCost {
+			st[i].half = c
+		}
+	}
 	stepMin, stepMax := math.Inf(1), 0.0
 	for _, nb := range vg.nbr {
 		stepMin, stepMax = min(stepMin, nb.step), max(stepMax, nb.step)
@@ -352,16 +358,17 @@ func (vg *voxelGraph) search(sources []int32, halfCost []float64, bound float64,
 
 // relaxWeighted lowers the distances of the neighbours of the settled node p through p, an
 // edge costing its length times the sum of its ends' half costs; the node is off the grid's
-// border. A settled neighbour is passed over: nothing from p can reach or tie its distance.
+// border. A settled neighbour needs no test of its own: nothing from p can reach or tie its
+// distance (and the test would cost more in mispredicted branches than the sum it saves).
 func (vg *voxelGraph) relaxWeighted(st []searchNode, q *searchQueue, p int32, halfCost []float64, bound float64) {
 	node, nbr := vg.node, &vg.nbr
-	c, d, hp := vg.cells[p], st[p].dist, halfCost[p]
+	c, d, hp := vg.cells[p], st[p].dist, st[p].half
 	for k := range nbr {
 		m := node[c+nbr[k].off]
-		if m < 0 || st[m].done {
+		if m < 0 {
 			continue
 		}
-		nd := d + nbr[k].step*(hp+halfCost[m])
+		nd := d + nbr[k].step*(hp+st[m].half)
 		if sm := &st[m]; nd < sm.dist {
 			if nd <= bound {
 				q.push(nd, sm.dist, m)
@@ -380,7 +387,7 @@ func (vg *voxelGraph) relaxUnit(st []searchNode, q *searchQueue, p int32, bound 
 	c, d := vg.cells[p], st[p].dist
 	for k := range nbr {
 		m := node[c+nbr[k].off]
-		if m < 0 || st[m].done {
+		if m < 0 {
 			continue
 		}
 		nd := d + nbr[k].step
@@ -412,7 +419,7 @@ func (vg *voxelGraph) relaxBorder(st []searchNode, q *searchQueue, p int32, half
 			continue
 		}
 		m := node[c+nbr[e].off]
-		if m < 0 || st[m].done {
+		if m < 0 {
 			continue
 		}
 		w := nbr[e].step
