@@ -30,8 +30,12 @@ func newVoxelGraph(g *mesh.Grid, sq []float32) *voxelGraph {
 	vg := graphOf(g)
 	for n, c := range vg.cells {
 		// Centre-to-centre distance to the nearest outside voxel overstates the distance to the
-		// wall by about half a voxel.
-		vg.dist[n] = math.Max(math.Sqrt(float64(sq[c]))-0.5, 0.25) * g.Voxel
+		// wall by about half a voxel. (max(r, 0.25) by a comparison: math.Max is a call.)
+		r := math.Sqrt(float64(sq[c])) - 0.5
+		if r < 0.25 {
+			r = 0.25
+		}
+		vg.dist[n] = r * g.Voxel
 	}
 	return vg
 }
@@ -39,13 +43,24 @@ func newVoxelGraph(g *mesh.Grid, sq []float32) *voxelGraph {
 // graphOf numbers the inside voxels of g and sets up the neighbour table; distances to the
 // wall are left for the caller.
 func graphOf(g *mesh.Grid) *voxelGraph {
-	vg := &voxelGraph{g: g, node: make([]int32, len(g.Inside))}
-	for i, in := range g.Inside {
-		if in {
-			vg.node[i] = int32(len(vg.cells))
-			vg.cells = append(vg.cells, int32(i))
-		} else {
-			vg.node[i] = -1
+	vg := &voxelGraph{g: g, node: make([]int32, len(g.Inside)), interior: true}
+	idx := 0
+	for k := range g.NZ {
+		for j := range g.NY {
+			rim := k == 0 || j == 0 || k == g.NZ-1 || j == g.NY-1
+			for i := range g.NX {
+				if g.Inside[idx] {
+					vg.node[idx] = int32(len(vg.cells))
+					vg.cells = append(vg.cells, int32(idx))
+					// interior: no inside voxel on the grid's border.
+					if rim || i == 0 || i == g.NX-1 {
+						vg.interior = false
+					}
+				} else {
+					vg.node[idx] = -1
+				}
+				idx++
+			}
 		}
 	}
 	vg.dist = make([]float64, len(vg.cells))
@@ -61,14 +76,6 @@ func graphOf(g *mesh.Grid) *voxelGraph {
 				vg.nbr[k].di, vg.nbr[k].dj, vg.nbr[k].dk = di, dj, dk
 				k++
 			}
-		}
-	}
-	vg.interior = true
-	for n := range vg.cells {
-		i, j, k := vg.ijk(int32(n))
-		if i == 0 || j == 0 || k == 0 || i == g.NX-1 || j == g.NY-1 || k == g.NZ-1 {
-			vg.interior = false
-			break
 		}
 	}
 	return vg
@@ -90,13 +97,15 @@ func (vg *voxelGraph) component(seed int32) ([]bool, int) {
 	runs := make([]run, 0, len(cells)/8+1)
 	lines := g.NY * g.NZ
 	lineRuns := make([]int32, lines+1)
+	lineEnd := 0 // the grid index past the current run's line
 	for n := 0; n < len(cells); n++ {
 		c := int(cells[n])
-		l, i := c/g.NX, int32(c%g.NX)
-		if n > 0 && int(cells[n-1]) == c-1 && c%g.NX != 0 {
-			runs[len(runs)-1].i1 = i
+		if n > 0 && int(cells[n-1]) == c-1 && c < lineEnd {
+			runs[len(runs)-1].i1++
 			continue
 		}
+		l, i := c/g.NX, int32(c%g.NX)
+		lineEnd = (l + 1) * g.NX
 		runs = append(runs, run{first: int32(n), i0: i, i1: i})
 		lineRuns[l+1]++
 	}
@@ -187,13 +196,22 @@ func (vg *voxelGraph) coarsen(keep []bool) *coarseGraph {
 	g := vg.g
 	cg := &mesh.Grid{Origin: g.Origin, Voxel: 2 * g.Voxel, NX: (g.NX + 1) / 2, NY: (g.NY + 1) / 2, NZ: (g.NZ + 1) / 2}
 	cg.Inside = make([]bool, cg.NX*cg.NY*cg.NZ)
-	parent := func(n int32) int {
-		i, j, k := vg.ijk(n)
-		return cg.Index(i/2, j/2, k/2)
+	// Each fine node's coarse voxel. Nodes come in grid order: a line's place is worked out
+	// (by division) once per line met, the rest from the line's start.
+	parent := make([]int32, len(vg.cells))
+	lineStart, row := -g.NX, 0
+	for n, c32 := range vg.cells {
+		c := int(c32)
+		if c >= lineStart+g.NX {
+			l := c / g.NX
+			lineStart = l * g.NX
+			row = cg.NX * ((l%g.NY)/2 + cg.NY*((l/g.NY)/2))
+		}
+		parent[n] = int32(row + (c-lineStart)/2)
 	}
 	for n := range vg.cells {
 		if keep[n] {
-			cg.Inside[parent(int32(n))] = true
+			cg.Inside[parent[n]] = true
 		}
 	}
 	c := &coarseGraph{voxelGraph: graphOf(cg), up: make([]int32, len(vg.cells))}
@@ -206,9 +224,12 @@ func (vg *voxelGraph) coarsen(keep []bool) *coarseGraph {
 		if !keep[n] {
 			continue
 		}
-		m := c.node[parent(int32(n))]
+		m := c.node[parent[n]]
 		c.up[n] = m
-		c.dist[m] = math.Max(c.dist[m], vg.dist[n])
+		// max by a comparison (math.Max is a call); distances are positive.
+		if d := vg.dist[n]; d > c.dist[m] {
+			c.dist[m] = d
+		}
 		if c.rep[m] < 0 {
 			c.rep[m] = int32(n)
 		}
