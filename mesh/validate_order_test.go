@@ -44,16 +44,12 @@ func edgeCountsByDefinition(m *Mesh) (boundary, nonManifold, inconsistent int) {
 }
 
 // Both ways of counting edges (buckets of every vertex for triangles in build order, a cache
-// line per vertex for scattered ones) must give the definition's counts, whatever the order
-// and however the vertices are split between goroutines: on a closed tube, with holes, flipped
-// triangles, fans of up to 40 triangles on one edge (beyond a line's 16 slots), repeated
-// corners and out-of-range indices.
+// line per vertex for scattered ones) must give the definition's counts, whatever the order:
+// on a closed tube, with holes, flipped triangles, fans of up to 40 triangles on one edge
+// (beyond a line's 16 slots), repeated corners and out-of-range indices.
 func TestEdgeCountsMatchDefinitionInAnyOrder(t *testing.T) {
 	rng := rand.New(rand.NewPCG(11, 13))
-	defer func(s int32) { tallyStretch = s }(tallyStretch)
 	for trial := range 24 {
-		// Every other trial in stretches of 50 vertices, classified on two goroutines.
-		tallyStretch = []int32{1 << 15, 50}[trial%2]
 		m := shapeCanalLike(12+trial%5*7, 10+trial*3)
 		nv := int32(len(m.Vertices))
 		if trial%2 == 1 {
@@ -75,10 +71,10 @@ func TestEdgeCountsMatchDefinitionInAnyOrder(t *testing.T) {
 			rng.Shuffle(len(m.Triangles), func(i, j int) { m.Triangles[i], m.Triangles[j] = m.Triangles[j], m.Triangles[i] })
 		}
 		wb, wn, wi := edgeCountsByDefinition(m)
-		if b, n, i := edgeCounts(m, 0); b != wb || n != wn || i != wi {
+		if b, n, i := edgeCounts(m); b != wb || n != wn || i != wi {
 			t.Errorf("trial %d (local %v): edgeCounts %d %d %d, by definition %d %d %d", trial, edgesLocal(m), b, n, i, wb, wn, wi)
 		}
-		if b, n, i := edgeCountsInLines(m, 0); b != wb || n != wn || i != wi {
+		if b, n, i := edgeCountsInLines(m); b != wb || n != wn || i != wi {
 			t.Errorf("trial %d: by lines %d %d %d, by definition %d %d %d", trial, b, n, i, wb, wn, wi)
 		}
 	}
