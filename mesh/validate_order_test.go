@@ -79,3 +79,77 @@ func TestEdgeCountsMatchDefinitionInAnyOrder(t *testing.T) {
 		}
 	}
 }
+
+// shellsByDefinition counts the pieces of the triangles with indices in range, joined through
+// shared vertices, by a breadth-first search from triangle to triangle through a map of each
+// vertex's triangles.
+func shellsByDefinition(m *Mesh) int {
+	nv := int32(len(m.Vertices))
+	of := map[int32][]int{}
+	for t, tri := range m.Triangles {
+		if triInRange(tri, nv) {
+			for _, v := range tri {
+				of[v] = append(of[v], t)
+			}
+		}
+	}
+	seen := make([]bool, len(m.Triangles))
+	n := 0
+	for t, tri := range m.Triangles {
+		if seen[t] || !triInRange(tri, nv) {
+			continue
+		}
+		n++
+		seen[t] = true
+		queue := []int{t}
+		for len(queue) > 0 {
+			u := queue[0]
+			queue = queue[1:]
+			for _, v := range m.Triangles[u] {
+				for _, w := range of[v] {
+					if !seen[w] {
+						seen[w] = true
+						queue = append(queue, w)
+					}
+				}
+			}
+		}
+	}
+	return n
+}
+
+// countShells and Shells must find the definition's pieces in any triangle order: several
+// tubes (some sharing a vertex, which joins them), vertices no triangle uses, triangles of one
+// repeated vertex, and out-of-range indices.
+func TestShellsMatchDefinitionInAnyOrder(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 9))
+	for trial := range 20 {
+		var parts []*Mesh
+		for range 1 + rng.IntN(4) {
+			parts = append(parts, shapeCanalLike(6+rng.IntN(10), 3+rng.IntN(8)))
+		}
+		m := shapeMerge(parts...)
+		nv := int32(len(m.Vertices))
+		for range rng.IntN(6) {
+			m.Vertices = append(m.Vertices, m.Vertices[0]) // used by no triangle
+		}
+		for range rng.IntN(4) {
+			switch v := rng.Int32N(int32(len(m.Vertices))); rng.IntN(3) {
+			case 0:
+				m.Triangles = append(m.Triangles, [3]int32{v, v, v})
+			case 1:
+				m.Triangles = append(m.Triangles, [3]int32{v, rng.Int32N(nv), rng.Int32N(nv)})
+			default:
+				m.Triangles = append(m.Triangles, [3]int32{v, -1, int32(len(m.Vertices))})
+			}
+		}
+		rng.Shuffle(len(m.Triangles), func(i, j int) { m.Triangles[i], m.Triangles[j] = m.Triangles[j], m.Triangles[i] })
+		want := shellsByDefinition(m)
+		if got := countShells(m); got != want {
+			t.Errorf("trial %d: countShells %d, by definition %d", trial, got, want)
+		}
+		if got := len(Shells(m)); got != want {
+			t.Errorf("trial %d: Shells %d, by definition %d", trial, got, want)
+		}
+	}
+}
