@@ -22,6 +22,7 @@ func (c *Canal) placeVertices(workers int) {
 	c.VertexS = make([]float32, nv)
 	c.VertexTheta = make([]float32, nv)
 	stations := newStationFinder(line.Points)
+	stations.buildReach(workers)
 	// Each worker takes runs of neighbouring vertices: the last one's station is a good start.
 	// (Padded to a cache line each, so the workers do not fight over one.)
 	last := make([]struct {

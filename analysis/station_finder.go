@@ -16,6 +16,11 @@ type stationFinder struct {
 	// perStep is one over a bound from above of every segment's length (rounding included):
 	// a station k steps from another is at most k/perStep from it.
 	perStep float64
+	// Reach certificates (station_reach.go; nil until buildReach): each station's unit
+	// direction, the squared reach across the line (negative: none), and the reach along it.
+	axis   [][3]float64
+	reach2 []float64
+	along  float64
 }
 
 func newStationFinder(pts []mgl64.Vec3) *stationFinder {
@@ -42,6 +47,27 @@ func (f *stationFinder) nearest(p mgl64.Vec3, hint int) int {
 		q := &pts[i]
 		dx, dy, dz := q[0]-px, q[1]-py, q[2]-pz
 		return dx*dx + dy*dy + dz*dz
+	}
+	// A point within the hint's reach certificate has its nearest among the few stations
+	// around the hint (compared in rising order, as below).
+	if hint >= 0 && f.reach2 != nil && f.reach2[hint] >= 0 {
+		lo, hi := max(hint-reachWindow, 0), min(hint+reachWindow+1, n)
+		best, bsq := 0, math.Inf(1)
+		var hx, hy, hz, hsq float64
+		for i := lo; i < hi; i++ {
+			q := &pts[i]
+			dx, dy, dz := q[0]-px, q[1]-py, q[2]-pz
+			d := dx*dx + dy*dy + dz*dz
+			if i == hint {
+				hx, hy, hz, hsq = dx, dy, dz, d
+			}
+			if lenLess(d, bsq) {
+				best, bsq = i, d
+			}
+		}
+		if f.certified(hint, hx, hy, hz, hsq) {
+			return best
+		}
 	}
 	best, bsq := 0, math.Inf(1)
 	// The stations around the hint one by one (independent, so the processor overlaps them),
