@@ -38,7 +38,7 @@ func newStationFinder(pts []mgl64.Vec3) *stationFinder {
 // nearest is the station nearest p, the lowest index among equally near ones (distances as
 // Vec3.Len gives them). hint (or -1) is a station likely to be near (the answer for a
 // neighbouring point): it only makes the search quicker, never changes the answer.
-func (f *stationFinder) nearest(p mgl64.Vec3, hint int) int {
+func (f *stationFinder) nearest(p *mgl64.Vec3, hint int) int {
 	pts := f.pts
 	n := len(pts)
 	px, py, pz := p[0], p[1], p[2]

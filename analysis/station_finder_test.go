@@ -49,7 +49,7 @@ func TestStationFinderMatchesFullScan(t *testing.T) {
 				}
 			}
 			for _, hint := range []int{-1, 0, len(pts) - 1, rng.IntN(len(pts)), want} {
-				if got := f.nearest(p, hint); got != want {
+				if got := f.nearest(&p, hint); got != want {
 					t.Fatalf("%s: point %v hint %d: station %d (%.17g), full scan %d (%.17g)",
 						name, p, hint, got, pts[got].Sub(p).Len(), want, wd)
 				}
