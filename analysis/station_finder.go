@@ -6,11 +6,12 @@ import (
 	"github.com/go-gl/mathgl/mgl64"
 )
 
-// stationFinder finds the station nearest a point by walking the line: no station can be
-// nearer than a station's distance minus its step count times the longest segment, so from a
-// station far from the point whole stretches of the line are skipped at once, and only the
-// stations near the point are looked at one by one (about twenty per query, where cells of
-// space held a hundred).
+// stationFinder finds the station nearest a point. A point within its hint station's reach
+// certificate (station_reach.go) needs only the 7 stations around the hint. Otherwise it
+// walks the line: no station can be nearer than a station's distance minus its step count
+// times the longest segment, so from a station far from the point whole stretches of the line
+// are skipped at once, and only the stations near the point are looked at one by one (about
+// twenty per query, where cells of space held a hundred).
 type stationFinder struct {
 	pts []mgl64.Vec3
 	// perStep is one over a bound from above of every segment's length (rounding included):

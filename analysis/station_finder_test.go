@@ -9,9 +9,9 @@ import (
 )
 
 // The station finder must give exactly what a scan of every station gives (the definition
-// of the nearest point, lowest index among equals), whatever the hint: on a helix, a line
-// that doubles back on itself (a far stretch nearer than the hint's), repeated points and
-// points far from the line.
+// of the nearest point, lowest index among equals), whatever the hint, with reach
+// certificates and without: on a helix, a line that doubles back on itself (a far stretch
+// nearer than the hint's), repeated points and points far from the line.
 func TestStationFinderMatchesFullScan(t *testing.T) {
 	rng := rand.New(rand.NewPCG(7, 7))
 	lines := map[string][]mgl64.Vec3{}
