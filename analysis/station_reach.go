@@ -23,8 +23,9 @@ import (
 // of squares).
 const (
 	reachWindow = 3
-	// reachCap is the largest reach looked for, mm: more than a canal's widest half-width,
-	// so the wall's vertices fall within it; a point farther out takes the full search.
+	// reachCap is the largest reach looked for, mm: about a wide canal's half-width at its
+	// orifice, so most wall vertices fall within it; a point farther out takes the full
+	// search (the same answer, found more slowly). A larger cap costs more to build.
 	reachCap = 1.0
 	// reachMargin is how much farther (as a share of the squared distance) every station
 	// outside the window must surely be.
