@@ -68,6 +68,9 @@ type CanalOptions struct {
 	// Root is the root's outer surface (nil: none known), named by RootSource in the outputs.
 	Root       *mesh.Mesh
 	RootSource string
+	// checked is the surface's check when already made on this very mesh (by the load), so
+	// it is not made again; nil: the canal checks its mesh.
+	checked *mesh.Report
 }
 
 // NewCanal measures a closed canal mesh whose units are not known to be mm (a scan): a size no
@@ -110,6 +113,10 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	}
 	var check mesh.Report
 	var checkOnce sync.Once
+	if opt.checked != nil {
+		check = *opt.checked
+		checkOnce.Do(func() {})
+	}
 	validate := func() {
 		checkOnce.Do(func() {
 			<-summed

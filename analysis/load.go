@@ -103,8 +103,8 @@ func loadSpec(ctx context.Context, name string, data []byte, opt LoadOptions) (*
 // canalFromSurface keeps the asked-for shell, refuses a surface that cannot be trusted
 // (unless forced) and measures it.
 func canalFromSurface(ctx context.Context, name string, m *mesh.Mesh, rep mesh.LoadReport, opt LoadOptions) (*Canal, error) {
-	// NewCanal checks the surface it is given (after a shell is picked), so only what reading
-	// found is carried over from the load.
+	// The check of the surface measured (the load's, or the kept shell's) is handed to the
+	// canal, which would otherwise make it again; what reading found is carried over as notes.
 	notes := rep.Notes
 	surface := rep.Surface
 	if opt.Canal.Root == nil && surface.Shells > 1 {
@@ -135,6 +135,7 @@ func canalFromSurface(ctx context.Context, name string, m *mesh.Mesh, rep mesh.L
 		}
 		notes = append(notes, "measured although "+why+": treat every figure as doubtful")
 	}
+	opt.Canal.checked = &surface
 	c, err := NewCanal(ctx, name, m, opt.Canal)
 	if err != nil {
 		return nil, err

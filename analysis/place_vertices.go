@@ -22,6 +22,7 @@ func (c *Canal) placeVertices(workers int) {
 	c.VertexS = make([]float32, nv)
 	c.VertexTheta = make([]float32, nv)
 	stations := newStationFinder(line.Points)
+	stations.buildReach(workers)
 	// Each worker takes runs of neighbouring vertices: the last one's station is a good start.
 	// (Padded to a cache line each, so the workers do not fight over one.)
 	last := make([]struct {
@@ -43,15 +44,15 @@ func (c *Canal) placeVertices(workers int) {
 		var s, y, x [placeBatch]float64
 		i := last[w].i
 		for k := range vs {
-			i = stations.nearest(vs[k], i)
+			i = stations.nearest(&vs[k], i)
 			near[k] = i
 		}
 		last[w].i = i
 		for k := range vs {
-			s[k] = line.nearestArc(vs[k], near[k])
+			s[k] = line.nearestArc(&vs[k], near[k])
 		}
 		for k := range vs {
-			y[k], x[k] = line.frameCoords(vs[k], s[k])
+			y[k], x[k] = line.frameCoords(&vs[k], s[k])
 		}
 		for k := range vs {
 			th := math.Atan2(y[k], x[k])
@@ -69,7 +70,7 @@ const placeBatch = 8
 
 // nearestArc is the arc length of the point of the segments on either side of station i
 // nearest p (the earlier segment on a tie; station i's own when neither has a length).
-func (c *Centerline) nearestArc(p mgl64.Vec3, i int) float64 {
+func (c *Centerline) nearestArc(p *mgl64.Vec3, i int) float64 {
 	pts, arc := c.Points, c.S
 	px, py, pz := p[0], p[1], p[2]
 	s, best := arc[i], math.Inf(1)
@@ -95,7 +96,7 @@ func (c *Centerline) nearestArc(p mgl64.Vec3, i int) float64 {
 // frameCoords are p's coordinates along n2 and n1 of the frame At(s) gives (the angle about
 // the line is their Atan2), with At's arithmetic (frameAt, then n2 = t.Cross(n1) and the two
 // dot products written out).
-func (c *Centerline) frameCoords(p mgl64.Vec3, s float64) (y, x float64) {
+func (c *Centerline) frameCoords(p *mgl64.Vec3, s float64) (y, x float64) {
 	qx, qy, qz, tx, ty, tz, nx, ny, nz := c.frameAt(s)
 	mx, my, mz := ty*nz-tz*ny, tz*nx-tx*nz, tx*ny-ty*nx
 	dx, dy, dz := p[0]-qx, p[1]-qy, p[2]-qz

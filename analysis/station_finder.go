@@ -6,16 +6,22 @@ import (
 	"github.com/go-gl/mathgl/mgl64"
 )
 
-// stationFinder finds the station nearest a point by walking the line: no station can be
-// nearer than a station's distance minus its step count times the longest segment, so from a
-// station far from the point whole stretches of the line are skipped at once, and only the
-// stations near the point are looked at one by one (about twenty per query, where cells of
-// space held a hundred).
+// stationFinder finds the station nearest a point. A point within its hint station's reach
+// certificate (station_reach.go) needs only the 7 stations around the hint. Otherwise it
+// walks the line: no station can be nearer than a station's distance minus its step count
+// times the longest segment, so from a station far from the point whole stretches of the line
+// are skipped at once, and only the stations near the point are looked at one by one (about
+// twenty per query, where cells of space held a hundred).
 type stationFinder struct {
 	pts []mgl64.Vec3
 	// perStep is one over a bound from above of every segment's length (rounding included):
 	// a station k steps from another is at most k/perStep from it.
 	perStep float64
+	// Reach certificates (station_reach.go; nil until buildReach): each station's unit
+	// direction, the squared reach across the line (negative: none), and the reach along it.
+	axis   [][3]float64
+	reach2 []float64
+	along  float64
 }
 
 func newStationFinder(pts []mgl64.Vec3) *stationFinder {
@@ -33,7 +39,7 @@ func newStationFinder(pts []mgl64.Vec3) *stationFinder {
 // nearest is the station nearest p, the lowest index among equally near ones (distances as
 // Vec3.Len gives them). hint (or -1) is a station likely to be near (the answer for a
 // neighbouring point): it only makes the search quicker, never changes the answer.
-func (f *stationFinder) nearest(p mgl64.Vec3, hint int) int {
+func (f *stationFinder) nearest(p *mgl64.Vec3, hint int) int {
 	pts := f.pts
 	n := len(pts)
 	px, py, pz := p[0], p[1], p[2]
@@ -42,6 +48,27 @@ func (f *stationFinder) nearest(p mgl64.Vec3, hint int) int {
 		q := &pts[i]
 		dx, dy, dz := q[0]-px, q[1]-py, q[2]-pz
 		return dx*dx + dy*dy + dz*dz
+	}
+	// A point within the hint's reach certificate has its nearest among the few stations
+	// around the hint (compared in rising order, as below).
+	if hint >= 0 && f.reach2 != nil && f.reach2[hint] >= 0 {
+		lo, hi := max(hint-reachWindow, 0), min(hint+reachWindow+1, n)
+		best, bsq := 0, math.Inf(1)
+		var hx, hy, hz, hsq float64
+		for i := lo; i < hi; i++ {
+			q := &pts[i]
+			dx, dy, dz := q[0]-px, q[1]-py, q[2]-pz
+			d := dx*dx + dy*dy + dz*dz
+			if i == hint {
+				hx, hy, hz, hsq = dx, dy, dz, d
+			}
+			if lenLess(d, bsq) {
+				best, bsq = i, d
+			}
+		}
+		if f.certified(hint, hx, hy, hz, hsq) {
+			return best
+		}
 	}
 	best, bsq := 0, math.Inf(1)
 	// The stations around the hint one by one (independent, so the processor overlaps them),

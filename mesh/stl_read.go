@@ -172,10 +172,10 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	if err := ctx.Err(); err != nil {
 		return nil, rep, fmt.Errorf("%s: loading stopped: %w", name, err)
 	}
-	rep.Surface = validate(m, opt.Workers, sums)
+	rep.Surface = validate(m, sums)
 	if rep.Surface.InconsistentOrientation > 0 || rep.Surface.Closed && rep.Surface.SignedVolume < 0 {
 		rep.Turned = OrientConsistently(m)
-		rep.Surface = validate(m, opt.Workers, func() TriangleSums { return TriangleSums{SignedVolume: signedVolume(m)} })
+		rep.Surface = validate(m, func() TriangleSums { return TriangleSums{SignedVolume: signedVolume(m)} })
 	}
 	rep.Notes = append(rd.notes(), loadNotes(m, rep)...)
 	rep.Warnings = append(rep.Surface.Warnings(), rep.Notes...)

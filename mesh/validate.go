@@ -3,11 +3,8 @@ package mesh
 import (
 	"fmt"
 	"slices"
-	"sort"
 
 	"github.com/go-gl/mathgl/mgl64"
-
-	"tapersweep/mesh/parallel"
 )
 
 // Report describes how well a mesh bounds a solid.
@@ -33,18 +30,18 @@ type Report struct {
 // Validate checks edges, orientation, degenerate triangles and connectivity.
 // Triangles whose indices are out of range count as degenerate and are otherwise ignored.
 func Validate(m *Mesh) Report {
-	return validate(m, 0, func() TriangleSums { return SumTriangles(m) })
+	return validate(m, func() TriangleSums { return SumTriangles(m) })
 }
 
 // ValidateWithSums is Validate for a mesh whose sums are known (s is SumTriangles(m)): the
 // triangles' shapes are not read again.
 func ValidateWithSums(m *Mesh, s TriangleSums) Report {
-	return validate(m, 0, func() TriangleSums { return s })
+	return validate(m, func() TriangleSums { return s })
 }
 
-// validate counts edges and shells on up to workers cores (0: every core, at least two
-// goroutines); sums gives the report's SignedVolume and Degenerate, as SumTriangles(m) would.
-func validate(m *Mesh, workers int, sums func() TriangleSums) Report {
+// validate counts edges and shells on two cores; sums (called beside the edges, after the
+// shells) gives the report's SignedVolume and Degenerate, as SumTriangles(m) would.
+func validate(m *Mesh, sums func() TriangleSums) Report {
 	r := Report{Triangles: len(m.Triangles), Vertices: len(m.Vertices)}
 	done := make(chan struct{})
 	go func() {
@@ -53,7 +50,7 @@ func validate(m *Mesh, workers int, sums func() TriangleSums) Report {
 		r.SignedVolume, r.Degenerate = s.SignedVolume, s.Degenerate
 		close(done)
 	}()
-	r.BoundaryEdges, r.NonManifoldEdges, r.InconsistentOrientation = edgeCounts(m, workers)
+	r.BoundaryEdges, r.NonManifoldEdges, r.InconsistentOrientation = edgeCounts(m)
 	<-done
 	r.Closed = r.BoundaryEdges == 0 && len(m.Triangles) > 0
 	r.Manifold = r.NonManifoldEdges == 0
@@ -163,43 +160,17 @@ func halfEdges(m *Mesh, withTris bool) (start []int32, entries []uint32, tris []
 	return start, entries, tris
 }
 
-// edgeCounts counts how many triangles use each undirected edge and in which directions; the
-// buckets are classified in stretches of vertices on up to workers goroutines (0: every core).
-func edgeCounts(m *Mesh, workers int) (boundary, nonManifold, inconsistent int) {
+// edgeCounts counts how many triangles use each undirected edge and in which directions.
+func edgeCounts(m *Mesh) (boundary, nonManifold, inconsistent int) {
 	if !edgesLocal(m) {
-		return edgeCountsInLines(m, workers)
+		return edgeCountsInLines(m)
 	}
 	start, entries, _ := halfEdges(m, false)
-	c := tallyStretches(int32(len(start)-1), workers, func(c *edgeTally, lo, hi int32, _ *[]uint32) {
-		for v := lo; v < hi; v++ {
-			c.sorted(entries[start[v]:start[v+1]])
-		}
-	})
-	return c.boundary, c.nonManifold, c.inconsistent
-}
-
-// tallyStretch is how many vertices' buckets one goroutine classifies at a time (a variable
-// only so that tests can cut small meshes into several stretches).
-var tallyStretch int32 = 1 << 15
-
-// tallyStretches runs tally over stretches of the vertices [0, nv) on up to workers
-// goroutines, each stretch with its own counts and scratch space, and adds up the counts (a
-// sum of whole numbers: the same on any number of cores).
-func tallyStretches(nv int32, workers int, tally func(c *edgeTally, lo, hi int32, scratch *[]uint32)) edgeTally {
-	n := int((nv + tallyStretch - 1) / tallyStretch)
-	parts := make([]edgeTally, n)
-	scratch := make([][]uint32, parallel.Workers(workers, n))
-	parallel.For(workers, n, func(w, st int) {
-		lo := int32(st) * tallyStretch
-		tally(&parts[st], lo, min(nv, lo+tallyStretch), &scratch[w])
-	})
 	var c edgeTally
-	for _, p := range parts {
-		c.boundary += p.boundary
-		c.nonManifold += p.nonManifold
-		c.inconsistent += p.inconsistent
+	for v := range int32(len(start) - 1) {
+		c.sorted(entries[start[v]:start[v+1]])
 	}
-	return c
+	return c.boundary, c.nonManifold, c.inconsistent
 }
 
 // edgeLine is the number of half-edges a vertex keeps in its own cache line.
@@ -211,7 +182,7 @@ const edgeLine = 16
 // counting pass of random increments first, and the counts per vertex (a byte each) stay in
 // the cache. It takes 64 bytes a vertex, against about 40 for halfEdges. The pass writes and
 // never reads a line, so the writes' cache misses do not hold it up.
-func edgeCountsInLines(m *Mesh, workers int) (boundary, nonManifold, inconsistent int) {
+func edgeCountsInLines(m *Mesh) (boundary, nonManifold, inconsistent int) {
 	nv := int32(len(m.Vertices))
 	slots := make([]uint32, int(nv)*edgeLine)
 	count := make([]uint8, nv)
@@ -239,24 +210,22 @@ func edgeCountsInLines(m *Mesh, workers int) (boundary, nonManifold, inconsisten
 		}
 	}
 	slices.Sort(spill)
-	c := tallyStretches(nv, workers, func(c *edgeTally, lo, hi int32, long *[]uint32) {
-		// This stretch's part of the spill.
-		sp := spill[sort.Search(len(spill), func(i int) bool { return int32(spill[i]>>32) >= lo }):]
-		for v := lo; v < hi; v++ {
-			bucket := slots[int(v)*edgeLine:][:count[v]]
-			if len(sp) > 0 && int32(sp[0]>>32) == v {
-				*long = append((*long)[:0], bucket...)
-				for len(sp) > 0 && int32(sp[0]>>32) == v {
-					*long = append(*long, uint32(sp[0]))
-					sp = sp[1:]
-				}
-				c.sorted(*long)
-				continue
+	var c edgeTally
+	var long []uint32
+	for v := range nv {
+		bucket := slots[int(v)*edgeLine:][:count[v]]
+		if len(spill) > 0 && int32(spill[0]>>32) == v {
+			long = append(long[:0], bucket...)
+			for len(spill) > 0 && int32(spill[0]>>32) == v {
+				long = append(long, uint32(spill[0]))
+				spill = spill[1:]
 			}
-			// A line holds at most 16: compared pair by pair, without a branch.
-			c.small(bucket)
+			c.sorted(long)
+			continue
 		}
-	})
+		// A line holds at most 16: compared pair by pair, without a branch.
+		c.small(bucket)
+	}
 	return c.boundary, c.nonManifold, c.inconsistent
 }
 

@@ -55,12 +55,12 @@ func benchBothOrders(b *testing.B, f func(*Mesh)) {
 	}
 }
 
-// The parts of Validate on both meshes, on one core (cpu-ms/op is the CPU time of all the
-// goroutines; compare it on a shared machine):
+// The parts of Validate on both meshes (cpu-ms/op is the CPU time of all the goroutines;
+// compare it on a shared machine):
 //
 //	go test ./mesh -run XXX -bench 'EdgeCounts|CountShells|ValidateOrders' -benchtime 30x
 func BenchmarkEdgeCounts(b *testing.B) {
-	benchBothOrders(b, func(m *Mesh) { edgeCounts(m, 1) })
+	benchBothOrders(b, func(m *Mesh) { edgeCounts(m) })
 }
 
 func BenchmarkCountShells(b *testing.B) {

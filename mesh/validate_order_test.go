@@ -44,16 +44,12 @@ func edgeCountsByDefinition(m *Mesh) (boundary, nonManifold, inconsistent int) {
 }
 
 // Both ways of counting edges (buckets of every vertex for triangles in build order, a cache
-// line per vertex for scattered ones) must give the definition's counts, whatever the order
-// and however the vertices are split between goroutines: on a closed tube, with holes, flipped
-// triangles, fans of up to 40 triangles on one edge (beyond a line's 16 slots), repeated
-// corners and out-of-range indices.
+// line per vertex for scattered ones) must give the definition's counts, whatever the order:
+// on a closed tube, with holes, flipped triangles, fans of up to 40 triangles on one edge
+// (beyond a line's 16 slots), repeated corners and out-of-range indices.
 func TestEdgeCountsMatchDefinitionInAnyOrder(t *testing.T) {
 	rng := rand.New(rand.NewPCG(11, 13))
-	defer func(s int32) { tallyStretch = s }(tallyStretch)
 	for trial := range 24 {
-		// Every other trial in stretches of 50 vertices, classified on two goroutines.
-		tallyStretch = []int32{1 << 15, 50}[trial%2]
 		m := shapeCanalLike(12+trial%5*7, 10+trial*3)
 		nv := int32(len(m.Vertices))
 		if trial%2 == 1 {
@@ -75,11 +71,85 @@ func TestEdgeCountsMatchDefinitionInAnyOrder(t *testing.T) {
 			rng.Shuffle(len(m.Triangles), func(i, j int) { m.Triangles[i], m.Triangles[j] = m.Triangles[j], m.Triangles[i] })
 		}
 		wb, wn, wi := edgeCountsByDefinition(m)
-		if b, n, i := edgeCounts(m, 0); b != wb || n != wn || i != wi {
+		if b, n, i := edgeCounts(m); b != wb || n != wn || i != wi {
 			t.Errorf("trial %d (local %v): edgeCounts %d %d %d, by definition %d %d %d", trial, edgesLocal(m), b, n, i, wb, wn, wi)
 		}
-		if b, n, i := edgeCountsInLines(m, 0); b != wb || n != wn || i != wi {
+		if b, n, i := edgeCountsInLines(m); b != wb || n != wn || i != wi {
 			t.Errorf("trial %d: by lines %d %d %d, by definition %d %d %d", trial, b, n, i, wb, wn, wi)
+		}
+	}
+}
+
+// shellsByDefinition counts the pieces of the triangles with indices in range, joined through
+// shared vertices, by a breadth-first search from triangle to triangle through a map of each
+// vertex's triangles.
+func shellsByDefinition(m *Mesh) int {
+	nv := int32(len(m.Vertices))
+	of := map[int32][]int{}
+	for t, tri := range m.Triangles {
+		if triInRange(tri, nv) {
+			for _, v := range tri {
+				of[v] = append(of[v], t)
+			}
+		}
+	}
+	seen := make([]bool, len(m.Triangles))
+	n := 0
+	for t, tri := range m.Triangles {
+		if seen[t] || !triInRange(tri, nv) {
+			continue
+		}
+		n++
+		seen[t] = true
+		queue := []int{t}
+		for len(queue) > 0 {
+			u := queue[0]
+			queue = queue[1:]
+			for _, v := range m.Triangles[u] {
+				for _, w := range of[v] {
+					if !seen[w] {
+						seen[w] = true
+						queue = append(queue, w)
+					}
+				}
+			}
+		}
+	}
+	return n
+}
+
+// countShells and Shells must find the definition's pieces in any triangle order: several
+// tubes (some sharing a vertex, which joins them), vertices no triangle uses, triangles of one
+// repeated vertex, and out-of-range indices.
+func TestShellsMatchDefinitionInAnyOrder(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 9))
+	for trial := range 20 {
+		var parts []*Mesh
+		for range 1 + rng.IntN(4) {
+			parts = append(parts, shapeCanalLike(6+rng.IntN(10), 3+rng.IntN(8)))
+		}
+		m := shapeMerge(parts...)
+		nv := int32(len(m.Vertices))
+		for range rng.IntN(6) {
+			m.Vertices = append(m.Vertices, m.Vertices[0]) // used by no triangle
+		}
+		for range rng.IntN(4) {
+			switch v := rng.Int32N(int32(len(m.Vertices))); rng.IntN(3) {
+			case 0:
+				m.Triangles = append(m.Triangles, [3]int32{v, v, v})
+			case 1:
+				m.Triangles = append(m.Triangles, [3]int32{v, rng.Int32N(nv), rng.Int32N(nv)})
+			default:
+				m.Triangles = append(m.Triangles, [3]int32{v, -1, int32(len(m.Vertices))})
+			}
+		}
+		rng.Shuffle(len(m.Triangles), func(i, j int) { m.Triangles[i], m.Triangles[j] = m.Triangles[j], m.Triangles[i] })
+		want := shellsByDefinition(m)
+		if got := countShells(m); got != want {
+			t.Errorf("trial %d: countShells %d, by definition %d", trial, got, want)
+		}
+		if got := len(Shells(m)); got != want {
+			t.Errorf("trial %d: Shells %d, by definition %d", trial, got, want)
 		}
 	}
 }
