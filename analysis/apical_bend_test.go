@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
+	"strings"
 	"testing"
 
 	"github.com/go-gl/mathgl/mgl64"
@@ -58,4 +60,57 @@ func TestSharpBendNearTheApicalEnd(t *testing.T) {
 			}
 		}
 	}
+}
+
+// TestShortSharpBendAtAWideEndIsMeasuredOrWarned: canals of the family's "gentle then sharp"
+// kind whose sharp arc is short (20-25 degrees, about 1.1 mm) and ends 0.4-0.8 mm before a wide,
+// nearly uniform, oval apical end (what family canal 157-087 is): the sections there narrow a
+// little in the bend, as an end cap's cut makes them, so the grown end may be cut back and
+// carried straight across the bend. Either the tightest bend is measured (the family's
+// criteria, from analytic geometry of the spec: radius within 15 %, place within the true arc
+// +-0.6 mm), or its radius band holds the true radius (a short arc read through a wider fit
+// is flattened, and the band says so), or a warning says the canal turns where the line was
+// carried straight; never a confident wrong radius.
+func TestShortSharpBendAtAWideEndIsMeasuredOrWarned(t *testing.T) {
+	rng := rand.New(rand.NewPCG(157, 87))
+	u := func(a, b float64) float64 { return a + (b-a)*rng.Float64() }
+	warned := 0
+	for i := range 8 {
+		r, tail := u(2.8, 3.5), u(0.4, 0.8)
+		segs := fmt.Sprintf(`{"kind":"straight","length":%.3f},{"kind":"arc","radius":%.3f,"angle":%.3f},{"kind":"straight","length":%.3f},{"kind":"arc","radius":%.3f,"angle":%.3f},{"kind":"straight","length":%.3f}`,
+			u(5, 7), u(12, 15), u(20, 26), u(1, 1.5), r, u(20, 25), tail)
+		orifice := u(1.2, 1.6)
+		spec := specJSON(t, segs, orifice, orifice*u(0.85, 0.95), u(1.2, 1.6))
+		axis := mgl64.Vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}.Normalize()
+		scan := models.ScanOptions{Voxel: u(0.07, 0.12), Noise: u(0.005, 0.02), Seed: int64(100 + i),
+			Turn: mgl64.QuatRotate(u(0, 2*math.Pi), axis), Offset: mgl64.Vec3{rng.Float64(), rng.Float64(), rng.Float64()}}
+		m, err := models.Scan(spec, scan)
+		if err != nil {
+			t.Fatal(err)
+		}
+		truth := models.ScanTruth(spec, scan, StationSpacing)
+		from, to, radius, _ := spec.TightestArc()
+		// The orifice named, as the alike-ends warning asks.
+		c, err := NewCanal(context.Background(), "short sharp bend at a wide end", m, CanalOptions{Extract: ExtractOptions{Orifice: &truth[0]}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		R := c.Measures.MaxCurvatureR
+		sStar := trueArcLength(c.Line.Points[c.Line.Station(c.Measures.MaxCurvatureS)], truth)
+		measured := math.Abs(R-radius) <= 0.15*radius && sStar >= from-0.6 && sStar <= to+0.6
+		warning := slices.ContainsFunc(c.Warnings, func(w string) bool { return strings.Contains(w, "carried straight there") })
+		msg := fmt.Sprintf("canal %d (r %.2f mm, tail %.2f mm, apical %.2f mm, voxel %.3f): R %.2f of %.2f band %.2f, s* %.2f in [%.2f, %.2f], warned %v %q",
+			i, r, tail, spec.ApicalD, scan.Voxel, R, radius, c.Measures.RadiusRange, sStar, from, to, warning, c.Warnings)
+		if warning {
+			warned++
+		}
+		rr := c.Measures.RadiusRange
+		inBand := rr[0] <= radius && radius <= rr[1]
+		if !measured && !inBand && !warning {
+			t.Error(msg)
+		} else {
+			t.Log(msg)
+		}
+	}
+	t.Logf("%d of 8 warned", warned)
 }

@@ -202,7 +202,9 @@ func extractCenterline(ctx context.Context, m *mesh.Mesh, area, vol float64, wal
 	tol := math.Max(0.02, 0.3*info.noise)
 	pts, sec = trimBent(pts, sec, tol, info.endRadius, true)
 	pts, sec = growEnds(pts, sec, bvh, ds, info.endRadius)
-	pts, _ = trimBent(pts, sec, tol, info.endRadius, false)
+	first, last = bentKept(pts, sec, tol, info.endRadius, false)
+	info.warnings = append(info.warnings, unfollowedBend(pts, last)...)
+	pts = pts[first : last+1]
 	pts = resample(smoothGaussian(pts, math.Max(1, 2*info.noise/ds)), ds)
 	measured := arcLengths(pts)
 	info.head, info.tail = extendToWall(pts, bvh, rStart, rEnd)
@@ -285,6 +287,12 @@ const bentNarrowing = 0.02
 // trend counts only when the line may lean (leaning: a medial path's ends); a line grown
 // section by section does not lean, and an oval canal's sections widen in a sharp bend.
 func trimBent(pts []mgl64.Vec3, sec []section, tol float64, endRadius [2]float64, leaning bool) ([]mgl64.Vec3, []section) {
+	first, last := bentKept(pts, sec, tol, endRadius, leaning)
+	return pts[first : last+1], sec[first : last+1]
+}
+
+// bentKept is the first and last station trimBent keeps.
+func bentKept(pts []mgl64.Vec3, sec []section, tol float64, endRadius [2]float64, leaning bool) (first, last int) {
 	n := len(pts)
 	reach := func(r float64) int {
 		return min(int(math.Ceil(bentReach*r/StationSpacing)), n/3-bentGap-bentFit)
@@ -358,9 +366,44 @@ func trimBent(pts []mgl64.Vec3, sec []section, tol float64, endRadius [2]float64
 		}
 		return 0
 	}
-	first := cut(reach(endRadius[0]), func(i int) int { return i })
-	last := n - 1 - cut(reach(endRadius[1]), func(i int) int { return n - 1 - i })
-	return pts[first : last+1], sec[first : last+1]
+	first = cut(reach(endRadius[0]), func(i int) int { return i })
+	last = n - 1 - cut(reach(endRadius[1]), func(i int) int { return n - 1 - i })
+	return first, last
+}
+
+// A warning says a bend beyond the cut-back apical end is not measured where the stations cut
+// off end in a direction more than unfollowedTurn degrees from the end kept and more than
+// unfollowedOffset mm aside of the line carried straight. A section cut by an end cap pulls
+// its centroid aside by a few hundredths of a mm; a bend that only looks like a cut (an oval
+// canal's sections narrowing a little in a sharp bend near a wide end) turns by tens of
+// degrees over a mm or more and ends tenths of a mm aside.
+const (
+	unfollowedTurn   = 10.0
+	unfollowedOffset = 0.15
+)
+
+// unfollowedBend warns where the stations cut off the apical end of the grown line (pts after
+// last) turn away from the line's direction at the end kept: the line is carried straight
+// beyond it, so a bend there is not measured and may be the tightest. (At the orifice an
+// oblique access cut pulls the centroids of the last millimetres of stations far aside, and
+// no bend there is the tightest without the line showing it further in: no such warning.)
+func unfollowedBend(pts []mgl64.Vec3, last int) []string {
+	kept, dropped := pts[:last+1], pts[last+1:]
+	if len(dropped) <= growChord || len(kept) <= growChord {
+		return nil
+	}
+	dir := func(p []mgl64.Vec3) mgl64.Vec3 { return p[len(p)-1].Sub(p[len(p)-1-growChord]).Normalize() }
+	end, along := kept[len(kept)-1], dir(kept)
+	to := dropped[len(dropped)-1].Sub(end)
+	aside := to.Sub(along.Mul(to.Dot(along))).Len()
+	deg := math.Acos(math.Max(-1, math.Min(1, along.Dot(dir(dropped))))) * 180 / math.Pi
+	if deg <= unfollowedTurn || aside <= unfollowedOffset {
+		return nil
+	}
+	return []string{fmt.Sprintf("the canal turns about %.0f degrees in the last %.1f mm before the apical end, "+
+		"where the scan's end cuts its cross-sections: the centerline is carried straight there, so a bend "+
+		"within that stretch is not measured and may be the tightest (check the apical end on the scan)",
+		deg, float64(len(dropped))*StationSpacing)}
 }
 
 // growChord is the chord, in stations, whose direction carries a growing end on: 0.3 mm,
