@@ -207,7 +207,8 @@ type bvhBuilder struct {
 
 // NewBVH builds the hierarchy by binned surface-area-heuristic splits (Wald, "On fast
 // construction of SAH-based bounding volume hierarchies", 2007), large subtrees as tasks the
-// cores share. The tree depends only on the mesh, not on how the work was shared. Triangles whose indices are out of range are left out.
+// cores share. The tree depends only on the mesh, not on how the work was shared. Triangles
+// whose indices are out of range are left out.
 func NewBVH(m *Mesh) *BVH { return newBVH(m, bvhForkAbove) }
 
 func newBVH(m *Mesh, forkAbove int) *BVH {
@@ -297,7 +298,7 @@ func triBox(t *bvhTri) (lo, hi mgl64.Vec3) {
 const bvhForkAbove = 1 << 15
 
 // bvhTask is a subtree built on its own: either a serial build into its own node array
-// (sub), or a split whose two sides are tasks (node is then its node, refitted from theirs).
+// (sub), or a split whose two sides are tasks (its node is refitted from theirs once joined).
 type bvhTask struct {
 	sub         *bvhBuilder
 	left, right *bvhTask
@@ -331,7 +332,7 @@ func (b *bvhBuilder) task(begin, end, depth int, bd bvhBounds, m *Mesh, tris []b
 		sub.finish(m, tris)
 		return &bvhTask{sub: sub, below: len(sub.nodes) - 1}
 	}
-	top := &bvhBuilder{items: b.items, bin: b.bin, nodes: make([]bvhNode, 1), forkAbove: b.forkAbove}
+	top := &bvhBuilder{items: b.items, bin: b.bin, nodes: make([]bvhNode, 1)}
 	mid, lb, rb := top.split(0, begin, end, depth, bd)
 	if mid < 0 { // a leaf (never at this size, but split decides)
 		top.finish(m, tris)
