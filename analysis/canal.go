@@ -102,9 +102,9 @@ func newCanal(ctx context.Context, name string, m *mesh.Mesh, opt CanalOptions, 
 	// check until the very end: with a core to spare the BVH is built while the voxel
 	// searches run, then the check is made while the line is measured and the vertices
 	// placed. On a huge mesh the searches are done first, and the check is made on their
-	// goroutine while the BVH is still building.
-	// The check and the centerline's size both use sums over the triangles (area, volume,
-	// degenerate triangles), taken in one pass first.
+	// goroutine while the BVH is still building. The check and the centerline's size both use
+	// sums over the triangles (area, volume, degenerate triangles), taken in one pass first;
+	// a surface checked by its load is not checked again.
 	var sums mesh.TriangleSums
 	summed := make(chan struct{})
 	sum := func() {
