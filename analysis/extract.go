@@ -377,9 +377,16 @@ func bentKept(pts []mgl64.Vec3, sec []section, tol float64, endRadius [2]float64
 // its centroid aside by a few hundredths of a mm; a bend that only looks like a cut (an oval
 // canal's sections narrowing a little in a sharp bend near a wide end) turns by tens of
 // degrees over a mm or more and ends tenths of a mm aside.
+// The turn is the lesser of the angles between the stations cut off (a chord over their last
+// growChord) and the end kept, over its last growChord and over its last unfollowedChord (1
+// mm): the short chord alone takes a line's wander of a few hundredths of a mm across a
+// coarse, flat oval end for a turn (14-16 degrees of a straight tail, family 163-041), the
+// long one alone lags where a bend ends just inside the end kept (12 degrees of a straight
+// tail after a sharp arc, 113-071).
 const (
 	unfollowedTurn   = 10.0
 	unfollowedOffset = 0.15
+	unfollowedChord  = 20
 )
 
 // unfollowedBend warns where the stations cut off the apical end of the grown line (pts after
@@ -389,14 +396,16 @@ const (
 // no bend there is the tightest without the line showing it further in: no such warning.)
 func unfollowedBend(pts []mgl64.Vec3, last int) []string {
 	kept, dropped := pts[:last+1], pts[last+1:]
-	if len(dropped) <= growChord || len(kept) <= growChord {
+	if len(dropped) <= growChord || len(kept) <= unfollowedChord {
 		return nil
 	}
-	dir := func(p []mgl64.Vec3) mgl64.Vec3 { return p[len(p)-1].Sub(p[len(p)-1-growChord]).Normalize() }
-	end, along := kept[len(kept)-1], dir(kept)
+	dir := func(p []mgl64.Vec3, n int) mgl64.Vec3 { return p[len(p)-1].Sub(p[len(p)-1-n]).Normalize() }
+	angle := func(a, b mgl64.Vec3) float64 { return math.Acos(math.Max(-1, math.Min(1, a.Dot(b)))) * 180 / math.Pi }
+	end, along := kept[len(kept)-1], dir(kept, unfollowedChord)
 	to := dropped[len(dropped)-1].Sub(end)
 	aside := to.Sub(along.Mul(to.Dot(along))).Len()
-	deg := math.Acos(math.Max(-1, math.Min(1, along.Dot(dir(dropped))))) * 180 / math.Pi
+	tail := dir(dropped, growChord)
+	deg := min(angle(along, tail), angle(dir(kept, growChord), tail))
 	if deg <= unfollowedTurn || aside <= unfollowedOffset {
 		return nil
 	}
