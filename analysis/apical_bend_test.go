@@ -11,6 +11,7 @@ import (
 
 	"github.com/go-gl/mathgl/mgl64"
 
+	"tapersweep/mesh"
 	"tapersweep/models"
 )
 
@@ -26,18 +27,10 @@ func TestSharpBendNearTheApicalEnd(t *testing.T) {
 	u := func(a, b float64) float64 { return a + (b-a)*rng.Float64() }
 	for i := range 6 {
 		r, tail := u(2.5, 4), u(0.3, 1.0)
-		segs := fmt.Sprintf(`{"kind":"straight","length":%.3f},{"kind":"arc","radius":%.3f,"angle":%.3f},{"kind":"straight","length":%.3f},{"kind":"arc","radius":%.3f,"angle":%.3f},{"kind":"straight","length":%.3f}`,
-			u(3, 6), u(12, 16), u(15, 25), u(3, 5), r, u(30, 40), tail)
-		orifice := u(1.0, 1.6)
-		spec := specJSON(t, segs, orifice, orifice*u(0.85, 0.95), u(1, 1.8))
-		axis := mgl64.Vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}.Normalize()
-		scan := models.ScanOptions{Voxel: u(0.05, 0.12), Noise: u(0, 0.015), Seed: int64(i),
-			Turn: mgl64.QuatRotate(u(0, 2*math.Pi), axis), Offset: mgl64.Vec3{rng.Float64(), rng.Float64(), rng.Float64()}}
-		m, err := models.Scan(spec, scan)
-		if err != nil {
-			t.Fatal(err)
-		}
-		truth := models.ScanTruth(spec, scan, StationSpacing)
+		spec, scan, m, truth := scanSharpEnd(t, rng, r, tail, int64(i), sharpEndDraw{
+			straight: [2]float64{3, 6}, gentleR: [2]float64{12, 16}, gentleDeg: [2]float64{15, 25},
+			between: [2]float64{3, 5}, sharpDeg: [2]float64{30, 40}, orifice: [2]float64{1.0, 1.6},
+			oval: [2]float64{1, 1.8}, voxel: [2]float64{0.05, 0.12}, noise: [2]float64{0, 0.015}})
 		from, to, radius, _ := spec.TightestArc()
 		for _, named := range []bool{false, true} {
 			opt := CanalOptions{}
@@ -77,18 +70,10 @@ func TestShortSharpBendAtAWideEndIsMeasuredOrWarned(t *testing.T) {
 	warned := 0
 	for i := range 8 {
 		r, tail := u(2.8, 3.5), u(0.4, 0.8)
-		segs := fmt.Sprintf(`{"kind":"straight","length":%.3f},{"kind":"arc","radius":%.3f,"angle":%.3f},{"kind":"straight","length":%.3f},{"kind":"arc","radius":%.3f,"angle":%.3f},{"kind":"straight","length":%.3f}`,
-			u(5, 7), u(12, 15), u(20, 26), u(1, 1.5), r, u(20, 25), tail)
-		orifice := u(1.2, 1.6)
-		spec := specJSON(t, segs, orifice, orifice*u(0.85, 0.95), u(1.2, 1.6))
-		axis := mgl64.Vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}.Normalize()
-		scan := models.ScanOptions{Voxel: u(0.07, 0.12), Noise: u(0.005, 0.02), Seed: int64(100 + i),
-			Turn: mgl64.QuatRotate(u(0, 2*math.Pi), axis), Offset: mgl64.Vec3{rng.Float64(), rng.Float64(), rng.Float64()}}
-		m, err := models.Scan(spec, scan)
-		if err != nil {
-			t.Fatal(err)
-		}
-		truth := models.ScanTruth(spec, scan, StationSpacing)
+		spec, scan, m, truth := scanSharpEnd(t, rng, r, tail, int64(100+i), sharpEndDraw{
+			straight: [2]float64{5, 7}, gentleR: [2]float64{12, 15}, gentleDeg: [2]float64{20, 26},
+			between: [2]float64{1, 1.5}, sharpDeg: [2]float64{20, 25}, orifice: [2]float64{1.2, 1.6},
+			oval: [2]float64{1.2, 1.6}, voxel: [2]float64{0.07, 0.12}, noise: [2]float64{0.005, 0.02}})
 		from, to, radius, _ := spec.TightestArc()
 		// The orifice named, as the alike-ends warning asks.
 		c, err := NewCanal(context.Background(), "short sharp bend at a wide end", m, CanalOptions{Extract: ExtractOptions{Orifice: &truth[0]}})
@@ -113,4 +98,31 @@ func TestShortSharpBendAtAWideEndIsMeasuredOrWarned(t *testing.T) {
 		}
 	}
 	t.Logf("%d of 8 warned", warned)
+}
+
+// sharpEndDraw are the ranges a canal of a gentle coronal arc, then a sharp arc near a
+// nearly uniform apical end, is drawn from (mm and degrees; apical diameter 0.85-0.95 of the
+// orifice's).
+type sharpEndDraw struct {
+	straight, gentleR, gentleDeg, between, sharpDeg, orifice, oval, voxel, noise [2]float64
+}
+
+// scanSharpEnd draws such a canal, with its sharp arc of radius r ending tail mm before the
+// apical end, turns and places it at random and images it (scan seed seed): the spec, the
+// scan's options, the mesh and the exact centerline in the scan's frame.
+func scanSharpEnd(t *testing.T, rng *rand.Rand, r, tail float64, seed int64, d sharpEndDraw) (*models.CanalSpec, models.ScanOptions, *mesh.Mesh, []mgl64.Vec3) {
+	t.Helper()
+	u := func(ab [2]float64) float64 { return ab[0] + (ab[1]-ab[0])*rng.Float64() }
+	segs := fmt.Sprintf(`{"kind":"straight","length":%.3f},{"kind":"arc","radius":%.3f,"angle":%.3f},{"kind":"straight","length":%.3f},{"kind":"arc","radius":%.3f,"angle":%.3f},{"kind":"straight","length":%.3f}`,
+		u(d.straight), u(d.gentleR), u(d.gentleDeg), u(d.between), r, u(d.sharpDeg), tail)
+	orifice := u(d.orifice)
+	spec := specJSON(t, segs, orifice, orifice*u([2]float64{0.85, 0.95}), u(d.oval))
+	axis := mgl64.Vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}.Normalize()
+	scan := models.ScanOptions{Voxel: u(d.voxel), Noise: u(d.noise), Seed: seed,
+		Turn: mgl64.QuatRotate(u([2]float64{0, 2 * math.Pi}), axis), Offset: mgl64.Vec3{rng.Float64(), rng.Float64(), rng.Float64()}}
+	m, err := models.Scan(spec, scan)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return spec, scan, m, models.ScanTruth(spec, scan, StationSpacing)
 }
