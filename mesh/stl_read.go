@@ -172,10 +172,10 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	if err := ctx.Err(); err != nil {
 		return nil, rep, fmt.Errorf("%s: loading stopped: %w", name, err)
 	}
-	rep.Surface = validate(m, sums)
+	rep.Surface = validate(m, sums, opt.Workers)
 	if rep.Surface.InconsistentOrientation > 0 || rep.Surface.Closed && rep.Surface.SignedVolume < 0 {
 		rep.Turned = OrientConsistently(m)
-		rep.Surface = validate(m, func() TriangleSums { return TriangleSums{SignedVolume: signedVolume(m)} })
+		rep.Surface = validate(m, func() TriangleSums { return TriangleSums{SignedVolume: signedVolume(m)} }, opt.Workers)
 	}
 	rep.Notes = append(rd.notes(), loadNotes(m, rep)...)
 	rep.Warnings = append(rep.Surface.Warnings(), rep.Notes...)

@@ -30,18 +30,19 @@ type Report struct {
 // Validate checks edges, orientation, degenerate triangles and connectivity.
 // Triangles whose indices are out of range count as degenerate and are otherwise ignored.
 func Validate(m *Mesh) Report {
-	return validate(m, func() TriangleSums { return SumTriangles(m) })
+	return validate(m, func() TriangleSums { return SumTriangles(m) }, 0)
 }
 
 // ValidateWithSums is Validate for a mesh whose sums are known (s is SumTriangles(m)): the
 // triangles' shapes are not read again.
 func ValidateWithSums(m *Mesh, s TriangleSums) Report {
-	return validate(m, func() TriangleSums { return s })
+	return validate(m, func() TriangleSums { return s }, 0)
 }
 
-// validate counts edges and shells on two cores; sums (called beside the edges, after the
-// shells) gives the report's SignedVolume and Degenerate, as SumTriangles(m) would.
-func validate(m *Mesh, sums func() TriangleSums) Report {
+// validate counts edges and shells on two cores (the edges of triangles in scattered order on
+// up to workers cores, 0 for all); sums (called beside the edges, after the shells) gives the
+// report's SignedVolume and Degenerate, as SumTriangles(m) would.
+func validate(m *Mesh, sums func() TriangleSums, workers int) Report {
 	r := Report{Triangles: len(m.Triangles), Vertices: len(m.Vertices)}
 	done := make(chan struct{})
 	go func() {
@@ -50,7 +51,7 @@ func validate(m *Mesh, sums func() TriangleSums) Report {
 		r.SignedVolume, r.Degenerate = s.SignedVolume, s.Degenerate
 		close(done)
 	}()
-	r.BoundaryEdges, r.NonManifoldEdges, r.InconsistentOrientation = edgeCounts(m)
+	r.BoundaryEdges, r.NonManifoldEdges, r.InconsistentOrientation = edgeCounts(m, workers)
 	<-done
 	r.Closed = r.BoundaryEdges == 0 && len(m.Triangles) > 0
 	r.Manifold = r.NonManifoldEdges == 0
@@ -160,71 +161,17 @@ func halfEdges(m *Mesh, withTris bool) (start []int32, entries []uint32, tris []
 	return start, entries, tris
 }
 
-// edgeCounts counts how many triangles use each undirected edge and in which directions.
-func edgeCounts(m *Mesh) (boundary, nonManifold, inconsistent int) {
+// edgeCounts counts how many triangles use each undirected edge and in which directions:
+// from halfEdges' buckets for triangles in build order, whose vertices' half-edges come
+// nearly in order, else by ranges of vertices on up to workers cores (0: all).
+func edgeCounts(m *Mesh, workers int) (boundary, nonManifold, inconsistent int) {
 	if !edgesLocal(m) {
-		return edgeCountsInLines(m)
+		return edgeCountsInRanges(m, workers)
 	}
 	start, entries, _ := halfEdges(m, false)
 	var c edgeTally
 	for v := range int32(len(start) - 1) {
 		c.sorted(entries[start[v]:start[v+1]])
-	}
-	return c.boundary, c.nonManifold, c.inconsistent
-}
-
-// edgeLine is the number of half-edges a vertex keeps in its own cache line.
-const edgeLine = 16
-
-// edgeCountsInLines gives the counts of halfEdges' buckets in one pass over the triangles,
-// for triangles in scattered order: each vertex's half-edges go into a line of 16 slots of its
-// own (64 bytes, a cache line; the rare rest into a list sorted at the end), so there is no
-// counting pass of random increments first, and the counts per vertex (a byte each) stay in
-// the cache. It takes 64 bytes a vertex, against about 40 for halfEdges. The pass writes and
-// never reads a line, so the writes' cache misses do not hold it up.
-func edgeCountsInLines(m *Mesh) (boundary, nonManifold, inconsistent int) {
-	nv := int32(len(m.Vertices))
-	slots := make([]uint32, int(nv)*edgeLine)
-	count := make([]uint8, nv)
-	var spill []uint64 // smaller vertex << 32 | entry
-	for _, tri := range m.Triangles {
-		if !triInRange(tri, nv) {
-			continue
-		}
-		for k := 0; k < 3; k++ {
-			a, b := tri[k], tri[(k+1)%3]
-			lo, hi, dir := a, b, uint32(0)
-			if b < a {
-				lo, hi, dir = b, a, 1
-			}
-			if a == b {
-				continue
-			}
-			e := uint32(hi)<<1 | dir
-			if c := count[lo]; c < edgeLine {
-				slots[int(lo)*edgeLine+int(c)] = e
-				count[lo] = c + 1
-			} else {
-				spill = append(spill, uint64(lo)<<32|uint64(e))
-			}
-		}
-	}
-	slices.Sort(spill)
-	var c edgeTally
-	var long []uint32
-	for v := range nv {
-		bucket := slots[int(v)*edgeLine:][:count[v]]
-		if len(spill) > 0 && int32(spill[0]>>32) == v {
-			long = append(long[:0], bucket...)
-			for len(spill) > 0 && int32(spill[0]>>32) == v {
-				long = append(long, uint32(spill[0]))
-				spill = spill[1:]
-			}
-			c.sorted(long)
-			continue
-		}
-		// A line holds at most 16: compared pair by pair, without a branch.
-		c.small(bucket)
 	}
 	return c.boundary, c.nonManifold, c.inconsistent
 }
@@ -237,47 +184,7 @@ type edgeTally struct{ boundary, nonManifold, inconsistent int }
 // come nearly in order, as from triangles in build order.
 func (c *edgeTally) sorted(bucket []uint32) {
 	sortEdgeBucket(bucket)
-	for i := 0; i < len(bucket); {
-		j := i
-		fwd := 0
-		for j < len(bucket) && bucket[j]>>1 == bucket[i]>>1 {
-			if bucket[j]&1 == 0 {
-				fwd++
-			}
-			j++
-		}
-		switch n := j - i; {
-		case n == 1:
-			c.boundary++
-		case n > 2:
-			c.nonManifold++
-		case fwd != 1:
-			c.inconsistent++
-		}
-		i = j
-	}
-}
-
-// small classifies a bucket of up to 16 half-edges (a line) without sorting it, by comparing
-// each with those after it, without a branch: a vertex's half-edges come in random order from
-// a file whose triangles are scattered, and sorting them mispredicts most comparisons. later
-// marks the half-edges that repeat an earlier one's edge; each edge is classified at its first.
-func (c *edgeTally) small(bucket []uint32) {
-	later := 0
-	for i, x := range bucket {
-		n, fwd := 1, int(^x&1)
-		for j := i + 1; j < len(bucket); j++ {
-			y := bucket[j]
-			same := b2i((x^y)>>1 == 0)
-			n += same
-			fwd += same & int(^y&1)
-			later |= same << j
-		}
-		first := ^later >> i & 1
-		c.boundary += first & b2i(n == 1)
-		c.nonManifold += first & b2i(n > 2)
-		c.inconsistent += first & b2i(n == 2) & b2i(fwd != 1)
-	}
+	tallySortedKeys(c, bucket)
 }
 
 // b2i is 1 for true, 0 for false (compiled to a flag move, no branch).

@@ -60,7 +60,7 @@ func benchBothOrders(b *testing.B, f func(*Mesh)) {
 //
 //	go test ./mesh -run XXX -bench 'EdgeCounts|CountShells|ValidateOrders' -benchtime 30x
 func BenchmarkEdgeCounts(b *testing.B) {
-	benchBothOrders(b, func(m *Mesh) { edgeCounts(m) })
+	benchBothOrders(b, func(m *Mesh) { edgeCounts(m, 0) })
 }
 
 func BenchmarkCountShells(b *testing.B) {
@@ -83,4 +83,12 @@ func BenchmarkCanalChecks(b *testing.B) {
 		ValidateWithSums(m, s)
 	}
 	b.ReportMetric(float64(cpuTime(cpuSelf)-cpu0)/1e6/float64(b.N), "cpu-ms/op")
+}
+
+func BenchmarkEdgeRanges(b *testing.B) {
+	benchBothOrders(b, func(m *Mesh) { edgeCountsInRanges(m, 0) })
+}
+
+func BenchmarkEdgeRanges1(b *testing.B) {
+	benchBothOrders(b, func(m *Mesh) { edgeCountsInRanges(m, 1) })
 }

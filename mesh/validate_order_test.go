@@ -1,6 +1,7 @@
 package mesh
 
 import (
+	"math/bits"
 	"math/rand/v2"
 	"testing"
 )
@@ -43,10 +44,11 @@ func edgeCountsByDefinition(m *Mesh) (boundary, nonManifold, inconsistent int) {
 	return
 }
 
-// Both ways of counting edges (buckets of every vertex for triangles in build order, a cache
-// line per vertex for scattered ones) must give the definition's counts, whatever the order:
-// on a closed tube, with holes, flipped triangles, fans of up to 40 triangles on one edge
-// (beyond a line's 16 slots), repeated corners and out-of-range indices.
+// Both ways of counting edges (buckets of every vertex for triangles in build order, ranges of
+// vertices for scattered ones) must give the definition's counts, whatever the order: on a
+// closed tube, with holes, flipped triangles, fans of up to 40 triangles on one edge, repeated
+// corners and out-of-range indices. The ranges are tried on 1 to 3 cores, with keys of 32 and
+// 64 bits and ranges of 1 to 4096 vertices (many ranges, and ranges of many pages).
 func TestEdgeCountsMatchDefinitionInAnyOrder(t *testing.T) {
 	rng := rand.New(rand.NewPCG(11, 13))
 	for trial := range 24 {
@@ -71,11 +73,45 @@ func TestEdgeCountsMatchDefinitionInAnyOrder(t *testing.T) {
 			rng.Shuffle(len(m.Triangles), func(i, j int) { m.Triangles[i], m.Triangles[j] = m.Triangles[j], m.Triangles[i] })
 		}
 		wb, wn, wi := edgeCountsByDefinition(m)
-		if b, n, i := edgeCounts(m); b != wb || n != wn || i != wi {
+		if b, n, i := edgeCounts(m, 0); b != wb || n != wn || i != wi {
 			t.Errorf("trial %d (local %v): edgeCounts %d %d %d, by definition %d %d %d", trial, edgesLocal(m), b, n, i, wb, wn, wi)
 		}
-		if b, n, i := edgeCountsInLines(m); b != wb || n != wn || i != wi {
-			t.Errorf("trial %d: by lines %d %d %d, by definition %d %d %d", trial, b, n, i, wb, wn, wi)
+		_, hiBits, _ := rangeLayout(nv)
+		for _, workers := range []int{1, 2, 3} {
+			if b, n, i := edgeCountsInRanges(m, workers); b != wb || n != wn || i != wi {
+				t.Errorf("trial %d: by ranges on %d cores %d %d %d, by definition %d %d %d", trial, workers, b, n, i, wb, wn, wi)
+			}
+			for _, shift := range []uint{0, 3, 12} {
+				for wide, c := range []edgeTally{countInRanges[uint32](m, shift, hiBits, workers), countInRanges[uint64](m, shift, hiBits, workers)} {
+					if c != (edgeTally{wb, wn, wi}) {
+						t.Errorf("trial %d: by ranges of %d vertices (64-bit keys %d) on %d cores %v, by definition %d %d %d", trial, 1<<shift, wide, workers, c, wb, wn, wi)
+					}
+				}
+			}
+		}
+	}
+}
+
+// The ranges' layout keeps every key within its type and the radix sort's five passes, for
+// any number of vertices a mesh can index.
+func TestRangeLayoutFitsKeys(t *testing.T) {
+	for _, nv := range []int32{1, 2, 4095, 4096, 4097, 1 << 16, 524_288, 1_000_000, 1 << 20, 2_000_000, 24_000_000, 1<<31 - 1} {
+		shift, hiBits, wide := rangeLayout(nv)
+		if hiBits < uint(bits.Len32(uint32(nv-1)))+1 {
+			t.Errorf("%d vertices: %d bits cannot hold the other vertex and direction", nv, hiBits)
+		}
+		width := uint(32)
+		if wide {
+			width = 64
+		}
+		if shift+hiBits > width {
+			t.Errorf("%d vertices: keys of %d bits in %d", nv, shift+hiBits, width)
+		}
+		if passes := (shift + hiBits - 1 + radixBits - 1) / radixBits; passes > 5 {
+			t.Errorf("%d vertices: %d radix passes", nv, passes)
+		}
+		if ranges := nv>>shift + 1; ranges > 1024 {
+			t.Errorf("%d vertices: %d ranges", nv, ranges)
 		}
 	}
 }

@@ -1,0 +1,210 @@
+package mesh
+
+import (
+	"math/bits"
+
+	"tapersweep/mesh/parallel"
+)
+
+// edgeCountsInRanges is edgeCounts in two streaming passes, for triangles in any order: every
+// half-edge is first written, as a key (its smaller vertex's place in its range, the other
+// vertex, the direction bit), into the range of vertices its smaller vertex falls in (a few
+// hundred ranges; each part of the triangles on a core of its own, one stream of pages per
+// range), then each range's keys are radix-sorted in the cache and every run of one edge is
+// classified. Nothing is read or written at random over the whole mesh, which a file whose
+// triangles are scattered otherwise makes every half-edge do.
+func edgeCountsInRanges(m *Mesh, workers int) (boundary, nonManifold, inconsistent int) {
+	nv := int32(len(m.Vertices))
+	if nv == 0 {
+		return 0, 0, 0
+	}
+	shift, hiBits, wide := rangeLayout(nv)
+	var t edgeTally
+	if wide {
+		t = countInRanges[uint64](m, shift, hiBits, workers)
+	} else {
+		t = countInRanges[uint32](m, shift, hiBits, workers)
+	}
+	return t.boundary, t.nonManifold, t.inconsistent
+}
+
+// rangeLayout gives, for nv vertices, the ranges' size (1 << shift vertices), the bits of a
+// key's other vertex and direction, and whether keys need 64 bits: ranges of at least 4096
+// vertices and at most 256 of them, or keys of 32 bits (half the bytes to write and sort)
+// when up to 1024 ranges allow it.
+func rangeLayout(nv int32) (shift, hiBits uint, wide bool) {
+	vbits := uint(bits.Len32(uint32(nv)))
+	hiBits = uint(bits.Len32(uint32(max(nv, 1)-1))) + 1
+	shift = 12
+	if vbits > 20 {
+		shift = vbits - 8
+	}
+	switch {
+	case shift+hiBits <= 32:
+		return shift, hiBits, false
+	case vbits >= 10 && 32-hiBits >= vbits-10:
+		return 32 - hiBits, hiBits, false
+	}
+	return shift, hiBits, true
+}
+
+// edgeKey is a half-edge as edgeCountsInRanges keys it.
+type edgeKey interface{ ~uint32 | ~uint64 }
+
+func countInRanges[K edgeKey](m *Mesh, shift, hiBits uint, workers int) edgeTally {
+	nv := int32(len(m.Vertices))
+	nr := int(nv>>shift) + 1
+	nt := len(m.Triangles)
+	parts := make([]rangeStreams[K], parallel.Workers(workers, (nt+triangleStretch-1)/triangleStretch))
+	parallel.For(len(parts), len(parts), func(_, p int) {
+		tris := m.Triangles[p*nt/len(parts) : (p+1)*nt/len(parts)]
+		parts[p].fill(tris, nv, nr, shift, hiBits)
+	})
+	k := parallel.Workers(workers, nr)
+	sorters := make([]rangeSorter[K], k)
+	parallel.For(k, nr, func(w, r int) {
+		sorters[w].classify(parts, r, shift+hiBits)
+	})
+	var t edgeTally
+	for _, s := range sorters {
+		t.boundary += s.tally.boundary
+		t.nonManifold += s.tally.nonManifold
+		t.inconsistent += s.tally.inconsistent
+	}
+	return t
+}
+
+// rangePage is how many keys a page of a range's stream holds.
+const rangePage = 1024
+
+// rangeStreams holds one part of the triangles' half-edges, range by range, in pages taken in
+// turn from one arena: no counting pass first.
+type rangeStreams[K edgeKey] struct {
+	arena []K
+	pages [][]int // pages[r]: range r's pages, by their start in arena
+	last  []int   // keys in range r's last page
+}
+
+func (s *rangeStreams[K]) fill(tris [][3]int32, nv int32, nr int, shift, hiBits uint) {
+	// Enough for every half-edge and one page a range left part full.
+	s.arena = make([]K, 3*len(tris)+nr*rangePage)
+	s.pages = make([][]int, nr)
+	s.last = make([]int, nr)
+	at := make([]int, nr) // where range r's next key goes
+	used := 0
+	for r := range nr {
+		at[r] = used
+		s.pages[r] = append(s.pages[r], used)
+		used += rangePage
+	}
+	mask := int32(1)<<shift - 1
+	for _, tri := range tris {
+		if !triInRange(tri, nv) {
+			continue
+		}
+		for k := 0; k < 3; k++ {
+			a, b := tri[k], tri[(k+1)%3]
+			if a == b {
+				continue
+			}
+			lo, hi, dir := a, b, K(0)
+			if b < a {
+				lo, hi, dir = b, a, 1
+			}
+			r := lo >> shift
+			s.arena[at[r]] = K(lo&mask)<<hiBits | K(hi)<<1 | dir
+			at[r]++
+			if at[r]%rangePage == 0 {
+				at[r] = used
+				s.pages[r] = append(s.pages[r], used)
+				used += rangePage
+			}
+		}
+	}
+	for r := range nr {
+		s.last[r] = at[r] % rangePage
+	}
+}
+
+// keys appends range r's keys to dst.
+func (s *rangeStreams[K]) keys(dst []K, r int) []K {
+	pages := s.pages[r]
+	for i, p := range pages {
+		n := rangePage
+		if i == len(pages)-1 {
+			n = s.last[r]
+		}
+		dst = append(dst, s.arena[p:p+n]...)
+	}
+	return dst
+}
+
+// rangeSorter is one goroutine's scratch space for sorting a range at a time.
+type rangeSorter[K edgeKey] struct {
+	a, b  []K
+	tally edgeTally
+}
+
+const radixBits = 11
+
+// classify sorts range r's keys of every part on their keyBits bits above the direction bit
+// (a least-significant-digit radix sort, all histograms from one read) and tallies the edges.
+func (s *rangeSorter[K]) classify(parts []rangeStreams[K], r int, keyBits uint) {
+	a := s.a[:0]
+	for p := range parts {
+		a = parts[p].keys(a, r)
+	}
+	s.a = a
+	if len(a) == 0 {
+		return
+	}
+	if cap(s.b) < len(a) {
+		s.b = make([]K, cap(a))
+	}
+	b := s.b[:len(a)]
+	// At most 23 bits of place in a range and 32 of other vertex and direction: 5 passes.
+	passes := int((keyBits - 1 + radixBits - 1) / radixBits)
+	var hist [5][1 << radixBits]int32
+	for _, x := range a {
+		for p := range passes {
+			hist[p][x>>(1+uint(p)*radixBits)&(1<<radixBits-1)]++
+		}
+	}
+	for p := range passes {
+		h := &hist[p]
+		at := int32(0)
+		for d, n := range h {
+			h[d] = at
+			at += n
+		}
+		sh := 1 + uint(p)*radixBits
+		for _, x := range a {
+			d := x >> sh & (1<<radixBits - 1)
+			b[h[d]] = x
+			h[d]++
+		}
+		a, b = b, a
+	}
+	tallySortedKeys(&s.tally, a)
+}
+
+// tallySortedKeys classifies the runs of sorted keys (edge << 1 | direction bit).
+func tallySortedKeys[K edgeKey](c *edgeTally, keys []K) {
+	for i := 0; i < len(keys); {
+		j := i + 1
+		fwd := int(^keys[i] & 1)
+		for j < len(keys) && keys[j]>>1 == keys[i]>>1 {
+			fwd += int(^keys[j] & 1)
+			j++
+		}
+		switch n := j - i; {
+		case n == 1:
+			c.boundary++
+		case n > 2:
+			c.nonManifold++
+		case fwd != 1:
+			c.inconsistent++
+		}
+		i = j
+	}
+}
