@@ -2,6 +2,7 @@ package mesh
 
 import (
 	"math/bits"
+	"slices"
 
 	"tapersweep/mesh/parallel"
 )
@@ -63,7 +64,7 @@ func countInRanges[K edgeKey](m *Mesh, shift, hiBits uint, workers int) edgeTall
 	k := parallel.Workers(workers, nr)
 	sorters := make([]rangeSorter[K], k)
 	parallel.For(k, nr, func(w, r int) {
-		sorters[w].classify(parts, r, shift+hiBits)
+		sorters[w].classify(parts, r, shift, hiBits)
 	})
 	var t edgeTally
 	for _, s := range sorters {
@@ -147,9 +148,11 @@ type rangeSorter[K edgeKey] struct {
 
 const radixBits = 11
 
-// classify sorts range r's keys of every part on their keyBits bits above the direction bit
-// (a least-significant-digit radix sort, all histograms from one read) and tallies the edges.
-func (s *rangeSorter[K]) classify(parts []rangeStreams[K], r int, keyBits uint) {
+// classify sorts range r's keys of every part and tallies the edges. A least-significant-digit
+// radix sort: the other vertex's low 11 bits, then the place in the range (one pass of up to
+// 13 bits, or two); the keys of one edge then lie together, and so, rarely, do other edges of
+// the same vertex with the same low bits, a group then sorted on its own.
+func (s *rangeSorter[K]) classify(parts []rangeStreams[K], r int, shift, hiBits uint) {
 	a := s.a[:0]
 	for p := range parts {
 		a = parts[p].keys(a, r)
@@ -162,30 +165,78 @@ func (s *rangeSorter[K]) classify(parts []rangeStreams[K], r int, keyBits uint) 
 		s.b = make([]K, cap(a))
 	}
 	b := s.b[:len(a)]
-	// At most 23 bits of place in a range and 32 of other vertex and direction: 5 passes.
-	passes := int((keyBits - 1 + radixBits - 1) / radixBits)
-	var hist [5][1 << radixBits]int32
+	// Digits: (shift, width) from the lowest; at most 23 bits of place in a range.
+	digits := [3][2]uint{{1, radixBits}, {hiBits, shift}}
+	n := 2
+	if shift > 13 {
+		digits[1][1] = shift / 2
+		digits[2] = [2]uint{hiBits + shift/2, shift - shift/2}
+		n = 3
+	}
+	var hist [3][1 << 13]int32
 	for _, x := range a {
-		for p := range passes {
-			hist[p][x>>(1+uint(p)*radixBits)&(1<<radixBits-1)]++
+		for d := range n {
+			hist[d][x>>digits[d][0]&(1<<digits[d][1]-1)]++
 		}
 	}
-	for p := range passes {
-		h := &hist[p]
-		at := int32(0)
-		for d, n := range h {
-			h[d] = at
-			at += n
-		}
-		sh := 1 + uint(p)*radixBits
-		for _, x := range a {
-			d := x >> sh & (1<<radixBits - 1)
-			b[h[d]] = x
-			h[d]++
-		}
+	for d := range n {
+		radixPass(a, b, hist[d][:1<<digits[d][1]], digits[d][0], 1<<digits[d][1]-1)
 		a, b = b, a
 	}
-	tallySortedKeys(&s.tally, a)
+	tallyGroups(&s.tally, a, ^K(0)<<hiBits|(1<<radixBits-1)<<1)
+}
+
+// radixPass places the keys of from into to by their digit x >> sh & mask, hist holding each
+// digit's count.
+func radixPass[K edgeKey](from, to []K, hist []int32, sh uint, mask K) {
+	at := int32(0)
+	for d, n := range hist {
+		hist[d] = at
+		at += n
+	}
+	for _, x := range from {
+		d := x >> sh & mask
+		to[hist[d]] = x
+		hist[d]++
+	}
+}
+
+// tallyGroups tallies keys sorted on their bits in mask: a group of one edge at once, a group
+// of several edges after sorting it.
+func tallyGroups[K edgeKey](c *edgeTally, keys []K, mask K) {
+	for i := 0; i < len(keys); {
+		x := keys[i]
+		j := i + 1
+		for j < len(keys) && keys[j]&mask == x&mask {
+			j++
+		}
+		if j == i+2 && keys[i+1]>>1 == x>>1 {
+			// The common case: an edge used once each way, or twice one way.
+			c.inconsistent += b2i(keys[i+1] == x)
+		} else {
+			g := keys[i:j]
+			sortKeys(g)
+			tallySortedKeys(c, g)
+		}
+		i = j
+	}
+}
+
+// sortKeys is an insertion sort: groups mostly hold a few keys.
+func sortKeys[K edgeKey](a []K) {
+	if len(a) > 32 {
+		slices.Sort(a)
+		return
+	}
+	for i := 1; i < len(a); i++ {
+		x := a[i]
+		j := i - 1
+		for j >= 0 && a[j] > x {
+			a[j+1] = a[j]
+			j--
+		}
+		a[j+1] = x
+	}
 }
 
 // tallySortedKeys classifies the runs of sorted keys (edge << 1 | direction bit).
