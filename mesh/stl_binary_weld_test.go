@@ -89,7 +89,7 @@ func TestBinaryWeldMatchesFloat64Weld(t *testing.T) {
 					}
 				}
 				want, removed := dropDegenerate(weld(corners, 0, weldRelTol, workers), nil, workers)
-				wantRep := validate(want, func() TriangleSums { return TriangleSums{SignedVolume: signedVolume(want)} }, 1)
+				wantRep := validate(want, func() TriangleSums { return TriangleSums{SignedVolume: signedVolume(want)} }, 1, false)
 				got, rep := mustLoad(t, file.name, file.data, LoadOptions{Scale: scale, Workers: workers})
 				if rep.Turned != 0 {
 					t.Fatalf("%s: %d triangles turned; the comparison assumes none", file.name, rep.Turned)

@@ -172,10 +172,12 @@ func Load(ctx context.Context, name string, r io.ReadSeeker, size int64, opt Loa
 	if err := ctx.Err(); err != nil {
 		return nil, rep, fmt.Errorf("%s: loading stopped: %w", name, err)
 	}
-	rep.Surface = validate(m, sums, opt.Workers)
+	// The weld made every vertex of a corner, and dropping triangles dropped the vertices only
+	// they used.
+	rep.Surface = validate(m, sums, opt.Workers, true)
 	if rep.Surface.InconsistentOrientation > 0 || rep.Surface.Closed && rep.Surface.SignedVolume < 0 {
 		rep.Turned = OrientConsistently(m)
-		rep.Surface = validate(m, func() TriangleSums { return TriangleSums{SignedVolume: signedVolume(m)} }, opt.Workers)
+		rep.Surface = validate(m, func() TriangleSums { return TriangleSums{SignedVolume: signedVolume(m)} }, opt.Workers, true)
 	}
 	rep.Notes = append(rd.notes(), loadNotes(m, rep)...)
 	rep.Warnings = append(rep.Surface.Warnings(), rep.Notes...)

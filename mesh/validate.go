@@ -30,23 +30,24 @@ type Report struct {
 // Validate checks edges, orientation, degenerate triangles and connectivity.
 // Triangles whose indices are out of range count as degenerate and are otherwise ignored.
 func Validate(m *Mesh) Report {
-	return validate(m, func() TriangleSums { return SumTriangles(m) }, 0)
+	return validate(m, func() TriangleSums { return SumTriangles(m) }, 0, false)
 }
 
 // ValidateWithSums is Validate for a mesh whose sums are known (s is SumTriangles(m)): the
 // triangles' shapes are not read again.
 func ValidateWithSums(m *Mesh, s TriangleSums) Report {
-	return validate(m, func() TriangleSums { return s }, 0)
+	return validate(m, func() TriangleSums { return s }, 0, false)
 }
 
 // validate counts edges and shells on two cores (the edges of triangles in scattered order on
 // up to workers cores, 0 for all); sums (called beside the edges, after the shells) gives the
-// report's SignedVolume and Degenerate, as SumTriangles(m) would.
-func validate(m *Mesh, sums func() TriangleSums, workers int) Report {
+// report's SignedVolume and Degenerate, as SumTriangles(m) would. everyVertexUsed is
+// countShells'.
+func validate(m *Mesh, sums func() TriangleSums, workers int, everyVertexUsed bool) Report {
 	r := Report{Triangles: len(m.Triangles), Vertices: len(m.Vertices)}
 	done := make(chan struct{})
 	go func() {
-		r.Shells = countShells(m)
+		r.Shells = countShells(m, everyVertexUsed)
 		s := sums()
 		r.SignedVolume, r.Degenerate = s.SignedVolume, s.Degenerate
 		close(done)
@@ -277,13 +278,18 @@ func (u vertexUnion) link(ra, rb int32) int32 {
 
 // countShells counts the shell roots among the vertices the triangles use: one pass over the
 // vertices in order, where a pass over the triangles would find each one's root again, at
-// random in a file whose triangles are scattered.
-func countShells(m *Mesh) int {
-	used := make([]bool, len(m.Vertices))
+// random in a file whose triangles are scattered. everyVertexUsed says that every vertex is a
+// corner of a triangle with its indices in range (as in every mesh Load returns): then the
+// vertices need not be marked, a random write per corner in such a file.
+func countShells(m *Mesh, everyVertexUsed bool) int {
+	var used []bool
+	if !everyVertexUsed {
+		used = make([]bool, len(m.Vertices))
+	}
 	u := newVertexUnion(m, used)
 	n := 0
 	for v, r := range u {
-		n += b2i(r == int32(v) && used[v])
+		n += b2i(r == int32(v) && (everyVertexUsed || used[v]))
 	}
 	return n
 }

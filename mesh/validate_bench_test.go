@@ -64,7 +64,7 @@ func BenchmarkEdgeCounts(b *testing.B) {
 }
 
 func BenchmarkCountShells(b *testing.B) {
-	benchBothOrders(b, func(m *Mesh) { countShells(m) })
+	benchBothOrders(b, func(m *Mesh) { countShells(m, false) })
 }
 
 func BenchmarkValidateOrders(b *testing.B) {

@@ -120,6 +120,15 @@ func TestRangeLayoutFitsKeys(t *testing.T) {
 	}
 }
 
+// allTriangles lists every triangle of m.
+func allTriangles(m *Mesh) []int32 {
+	all := make([]int32, len(m.Triangles))
+	for t := range all {
+		all[t] = int32(t)
+	}
+	return all
+}
+
 // shellsByDefinition counts the pieces of the triangles with indices in range, joined through
 // shared vertices, by a breadth-first search from triangle to triangle through a map of each
 // vertex's triangles.
@@ -185,8 +194,12 @@ func TestShellsMatchDefinitionInAnyOrder(t *testing.T) {
 		}
 		rng.Shuffle(len(m.Triangles), func(i, j int) { m.Triangles[i], m.Triangles[j] = m.Triangles[j], m.Triangles[i] })
 		want := shellsByDefinition(m)
-		if got := countShells(m); got != want {
+		if got := countShells(m, false); got != want {
 			t.Errorf("trial %d: countShells %d, by definition %d", trial, got, want)
+		}
+		whole := m.Subset(allTriangles(m)) // every vertex used, every index in range
+		if got, want := countShells(whole, true), shellsByDefinition(whole); got != want {
+			t.Errorf("trial %d: countShells of every vertex used %d, by definition %d", trial, got, want)
 		}
 		if got := len(Shells(m)); got != want {
 			t.Errorf("trial %d: Shells %d, by definition %d", trial, got, want)
