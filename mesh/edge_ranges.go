@@ -88,56 +88,51 @@ type rangeStreams[K edgeKey] struct {
 
 func (s *rangeStreams[K]) fill(tris [][3]int32, nv int32, nr int, shift, hiBits uint) {
 	// Enough for every half-edge and one page a range left part full.
-	s.arena = make([]K, 3*len(tris)+nr*rangePage)
+	arena := make([]K, 3*len(tris)+nr*rangePage)
+	s.arena = arena
 	s.pages = make([][]int, nr)
 	s.last = make([]int, nr)
-	at := make([]int, nr) // where range r's next key goes
+	at := make([]int32, nr) // where range r's next key goes
 	used := 0
 	for r := range nr {
-		at[r] = used
+		at[r] = int32(used)
 		s.pages[r] = append(s.pages[r], used)
 		used += rangePage
 	}
 	mask := int32(1)<<shift - 1
+	// put writes the half-edge a -> b, without a branch on its direction (as good as random
+	// in a file whose triangles are scattered).
+	put := func(a, b int32) {
+		lo, hi := min(a, b), max(a, b)
+		r := lo >> shift
+		i := at[r]
+		arena[i] = K(lo&mask)<<hiBits | K(hi)<<1 | K(b2i(b < a))
+		i++
+		if i%rangePage == 0 {
+			i = int32(used)
+			s.pages[r] = append(s.pages[r], used)
+			used += rangePage
+		}
+		at[r] = i
+	}
 	for _, tri := range tris {
+		a, b, c := tri[0], tri[1], tri[2]
 		if !triInRange(tri, nv) {
 			continue
 		}
-		for k := 0; k < 3; k++ {
-			a, b := tri[k], tri[(k+1)%3]
-			if a == b {
-				continue
-			}
-			lo, hi, dir := a, b, K(0)
-			if b < a {
-				lo, hi, dir = b, a, 1
-			}
-			r := lo >> shift
-			s.arena[at[r]] = K(lo&mask)<<hiBits | K(hi)<<1 | dir
-			at[r]++
-			if at[r]%rangePage == 0 {
-				at[r] = used
-				s.pages[r] = append(s.pages[r], used)
-				used += rangePage
-			}
+		if a != b {
+			put(a, b)
+		}
+		if b != c {
+			put(b, c)
+		}
+		if c != a {
+			put(c, a)
 		}
 	}
 	for r := range nr {
-		s.last[r] = at[r] % rangePage
+		s.last[r] = int(at[r]) % rangePage
 	}
-}
-
-// keys appends range r's keys to dst.
-func (s *rangeStreams[K]) keys(dst []K, r int) []K {
-	pages := s.pages[r]
-	for i, p := range pages {
-		n := rangePage
-		if i == len(pages)-1 {
-			n = s.last[r]
-		}
-		dst = append(dst, s.arena[p:p+n]...)
-	}
-	return dst
 }
 
 // rangeSorter is one goroutine's scratch space for sorting a range at a time.
@@ -153,9 +148,34 @@ const radixBits = 11
 // 13 bits, or two); the keys of one edge then lie together, and so, rarely, do other edges of
 // the same vertex with the same low bits, a group then sorted on its own.
 func (s *rangeSorter[K]) classify(parts []rangeStreams[K], r int, shift, hiBits uint) {
+	// Digits from the lowest: (shift, width); at most 23 bits of place in a range.
+	digits := [3][2]uint{{1, radixBits}, {hiBits, shift}, {0, 0}}
+	n := 2
+	if shift > 13 {
+		digits[1][1] = shift / 2
+		digits[2] = [2]uint{hiBits + shift/2, shift - shift/2}
+		n = 3
+	}
+	var hist [3][1 << 13]int32
+	sh0, sh1, sh2 := digits[0][0], digits[1][0], digits[2][0]
+	m0, m1, m2 := K(1)<<digits[0][1]-1, K(1)<<digits[1][1]-1, K(1)<<digits[2][1]-1
+	// The keys of every part, each page counted into the histograms as it is copied.
 	a := s.a[:0]
 	for p := range parts {
-		a = parts[p].keys(a, r)
+		st := &parts[p]
+		for i, pg := range st.pages[r] {
+			end := pg + rangePage
+			if i == len(st.pages[r])-1 {
+				end = pg + st.last[r]
+			}
+			from := len(a)
+			a = append(a, st.arena[pg:end]...)
+			for _, x := range a[from:] {
+				hist[0][x>>sh0&m0]++
+				hist[1][x>>sh1&m1]++
+				hist[2][x>>sh2&m2]++
+			}
+		}
 	}
 	s.a = a
 	if len(a) == 0 {
@@ -165,20 +185,6 @@ func (s *rangeSorter[K]) classify(parts []rangeStreams[K], r int, shift, hiBits 
 		s.b = make([]K, cap(a))
 	}
 	b := s.b[:len(a)]
-	// Digits: (shift, width) from the lowest; at most 23 bits of place in a range.
-	digits := [3][2]uint{{1, radixBits}, {hiBits, shift}}
-	n := 2
-	if shift > 13 {
-		digits[1][1] = shift / 2
-		digits[2] = [2]uint{hiBits + shift/2, shift - shift/2}
-		n = 3
-	}
-	var hist [3][1 << 13]int32
-	for _, x := range a {
-		for d := range n {
-			hist[d][x>>digits[d][0]&(1<<digits[d][1]-1)]++
-		}
-	}
 	for d := range n {
 		radixPass(a, b, hist[d][:1<<digits[d][1]], digits[d][0], 1<<digits[d][1]-1)
 		a, b = b, a
