@@ -85,6 +85,10 @@ func BenchmarkCanalChecks(b *testing.B) {
 	b.ReportMetric(float64(cpuTime(cpuSelf)-cpu0)/1e6/float64(b.N), "cpu-ms/op")
 }
 
+// The edge count by ranges of vertices on both meshes, on every core and on one (the order of
+// the triangles should not matter to it):
+//
+//	go test ./mesh -run XXX -bench 'EdgeRanges' -benchtime 20x
 func BenchmarkEdgeRanges(b *testing.B) {
 	benchBothOrders(b, func(m *Mesh) { edgeCountsInRanges(m, 0) })
 }
