@@ -34,14 +34,31 @@ func TestCanalDigest(t *testing.T) {
 	if *digestWrite == "" && *digestCheck == "" {
 		t.Skip("needs -digest-write FILE or -digest-check FILE")
 	}
-	type job struct {
-		name    string
-		measure func() (*Canal, error)
+	var lines []string
+	for _, j := range digestCanals() {
+		c, err := j.measure()
+		d := "error: " + fmt.Sprint(err)
+		if err == nil {
+			d = canalDigest(c)
+		}
+		lines = append(lines, j.name+"\t"+d)
+		t.Logf("%s\t%s", j.name, d)
 	}
+	matchDigests(t, lines, *digestWrite, *digestCheck)
+}
+
+// digestCanal is one canal of the digests: its name and how it is measured.
+type digestCanal struct {
+	name    string
+	measure func() (*Canal, error)
+}
+
+// digestCanals are the canals TestCanalDigest and TestRunDigest measure.
+func digestCanals() []digestCanal {
 	ctx := context.Background()
-	var jobs []job
+	var jobs []digestCanal
 	scanLike := func(name string, voxel, noise float64) {
-		jobs = append(jobs, job{name, func() (*Canal, error) {
+		jobs = append(jobs, digestCanal{name, func() (*Canal, error) {
 			m, err := models.ScanLike(benchDemo(), voxel, noise, 1)
 			if err != nil {
 				return nil, err
@@ -52,18 +69,18 @@ func TestCanalDigest(t *testing.T) {
 	scanLike("typical", 0.06, 0.01)
 	scanLike("fine", 0.02, 0.005)
 	jobs = append(jobs,
-		job{"demo spec", func() (*Canal, error) { return CanalFromSpec(ctx, "demo", benchDemo(), CanalOptions{}) }},
-		job{"demo mesh, ends found", func() (*Canal, error) {
+		digestCanal{"demo spec", func() (*Canal, error) { return CanalFromSpec(ctx, "demo", benchDemo(), CanalOptions{}) }},
+		digestCanal{"demo mesh, ends found", func() (*Canal, error) {
 			return NewCanal(ctx, "demo mesh", benchDemo().Mesh(StationSpacing, 96), CanalOptions{})
 		}},
-		job{"demo as shipped, spec", func() (*Canal, error) { return CanalFromSpec(ctx, "demo", models.DemoCanal(), CanalOptions{}) }},
+		digestCanal{"demo as shipped, spec", func() (*Canal, error) { return CanalFromSpec(ctx, "demo", models.DemoCanal(), CanalOptions{}) }},
 	)
 	n := *familySize
 	if n == 0 {
 		n = 12
 	}
 	for _, sc := range models.ScanFamily(*familySeed, n) {
-		jobs = append(jobs, job{sc.Name, func() (*Canal, error) {
+		jobs = append(jobs, digestCanal{sc.Name, func() (*Canal, error) {
 			m, err := models.Scan(sc.Spec, sc.Scan)
 			if err != nil {
 				return nil, err
@@ -76,39 +93,37 @@ func TestCanalDigest(t *testing.T) {
 			return c, err
 		}})
 	}
-	var lines []string
-	for _, j := range jobs {
-		c, err := j.measure()
-		d := "error: " + fmt.Sprint(err)
-		if err == nil {
-			d = canalDigest(c)
-		}
-		lines = append(lines, j.name+"\t"+d)
-		t.Logf("%s\t%s", j.name, d)
-	}
-	if *digestWrite != "" {
-		if err := os.WriteFile(*digestWrite, []byte(strings.Join(lines, "\n")+"\n"), 0o644); err != nil {
+	return jobs
+}
+
+// matchDigests writes lines to the file write and compares them with the file check, line for
+// line (either may be empty).
+func matchDigests(t *testing.T, lines []string, write, check string) {
+	t.Helper()
+	if write != "" {
+		if err := os.WriteFile(write, []byte(strings.Join(lines, "\n")+"\n"), 0o644); err != nil {
 			t.Fatal(err)
 		}
 	}
-	if *digestCheck != "" {
-		f, err := os.Open(*digestCheck)
-		if err != nil {
-			t.Fatal(err)
-		}
-		defer f.Close()
-		var want []string
-		sc := bufio.NewScanner(f)
-		for sc.Scan() {
-			want = append(want, sc.Text())
-		}
-		if len(want) != len(lines) {
-			t.Fatalf("%d canals, %s holds %d", len(lines), *digestCheck, len(want))
-		}
-		for i := range lines {
-			if lines[i] != want[i] {
-				t.Errorf("changed:\n got %s\nwant %s", lines[i], want[i])
-			}
+	if check == "" {
+		return
+	}
+	f, err := os.Open(check)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	var want []string
+	sc := bufio.NewScanner(f)
+	for sc.Scan() {
+		want = append(want, sc.Text())
+	}
+	if len(want) != len(lines) {
+		t.Fatalf("%d digests, %s holds %d", len(lines), check, len(want))
+	}
+	for i := range lines {
+		if lines[i] != want[i] {
+			t.Errorf("changed:\n got %s\nwant %s", lines[i], want[i])
 		}
 	}
 }
