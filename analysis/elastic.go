@@ -2,6 +2,8 @@ package analysis
 
 import (
 	"math"
+	"math/bits"
+	"slices"
 
 	"tapersweep/models"
 )
@@ -68,17 +70,21 @@ type elasticSolver struct {
 	// Work space for up to the whole line.
 	// Per node of a solve (every stride-th station): stiffness, the file's radius, the
 	// centerline's curvature vector, the node's station, offsets and curvature.
-	ei, r, k1, k2  []float64
-	node           []int
-	d1, d2, kn     []float64
-	sums           []contactSums
-	f1, f2         []float64 // offsets of the last solve per station (the next one's start)
-	solved         int       // stations of the last solve
-	bendA, bendB   []float64 // the bending part of the banded system
-	a, b, x, l, dd []float64
-	active, prev   []bool
-	lsP, lsS       []float64 // the line search's pressing directions
-	solves, rounds int       // solves so far and their contact rounds (for tests of the speed-up)
+	ei, r, k1, k2 []float64
+	node          []int
+	d1, d2, kn    []float64
+	sums          []contactSums
+	f1, f2        []float64 // offsets of the last solve per station (the next one's start)
+	solved        int       // stations of the last solve
+	bendA, bendB  []float64 // the bending part of the banded system
+	a, b, x       []float64
+	band          bandFactor
+	// The pressing directions of each node, a bit per direction in maskWords words: this
+	// round's and the last round's.
+	pressing, pressed []uint64
+	maskWords         int
+	lsP, lsS          []float64 // the line search's pressing directions
+	solves, rounds    int       // solves so far and their contact rounds (for tests of the speed-up)
 }
 
 func newElasticSolver(c *Canal, in models.Instrument, eGPa, kw float64, prepared []float32) *elasticSolver {
@@ -110,9 +116,11 @@ func newElasticSolver(c *Canal, in models.Instrument, eGPa, kw float64, prepared
 	es.d1, es.d2, es.kn = make([]float64, n), make([]float64, n), make([]float64, n)
 	es.f1, es.f2 = make([]float64, n), make([]float64, n)
 	N := 2 * n
-	es.bendA, es.a, es.l = make([]float64, N*bandW), make([]float64, N*bandW), make([]float64, (N+4)*bandW)
-	es.bendB, es.b, es.x, es.dd = make([]float64, N), make([]float64, N), make([]float64, N), make([]float64, N)
-	es.active, es.prev = make([]bool, n*m), make([]bool, n*m)
+	es.bendA, es.a = make([]float64, N*bandW), make([]float64, N*bandW)
+	es.bendB, es.b, es.x = make([]float64, N), make([]float64, N), make([]float64, N)
+	es.band = newBandFactor(N)
+	es.maskWords = (m + 63) / 64
+	es.pressing, es.pressed = make([]uint64, n*es.maskWords), make([]uint64, n*es.maskWords)
 	return es
 }
 
@@ -138,13 +146,12 @@ func (es *elasticSolver) solve(D float64, tip, stride int) elasticPath {
 	}
 	nc := (n-1)/stride + 1 // nodes of the solve: stations 0, stride, ..., tip
 	h := float64(stride) * line.DS
-	m := len(es.cos)
 	es.guess(n)
 	for j := 0; j < nc; j++ {
 		i := j * stride
-		u := math.Max(0, D-line.S[i])
-		es.ei[j] = es.eMPa * es.in.SecondMoment(u) // N*mm2
-		es.r[j] = es.in.Diameter(u) / 2
+		d := es.in.Diameter(math.Max(0, D-line.S[i]))
+		es.ei[j] = es.eMPa * es.in.Section.SecondMoment(d) // N*mm2
+		es.r[j] = d / 2
 		es.k1[j], es.k2[j] = line.KN1[i], line.KN2[i]
 		es.node[j] = i
 		es.d1[j], es.d2[j] = es.f1[i], es.f2[i]
@@ -152,19 +159,22 @@ func (es *elasticSolver) solve(D float64, tip, stride int) elasticPath {
 	es.d1[0], es.d1[1], es.d2[0], es.d2[1] = 0, 0, 0, 0
 	N := 2 * (nc - 2) // unknowns: both components at nodes 2..nc-1
 	es.assembleBending(nc, h)
-	act, prev := es.active[:nc*m], es.prev[:nc*m]
 	full := false // the last round took the whole Newton step
 	es.solves++
 	for round := 0; ; round++ {
 		es.rounds++
-		es.contact(nc, act)
-		if round > 0 && full && equalBools(act, prev) || round == maxContactRounds {
+		es.pressing, es.pressed = es.pressed, es.pressing
+		first := es.contact(nc, round == 0)
+		if round > 0 && full && first == nc || round == maxContactRounds {
 			break
 		}
-		copy(es.a[:N*bandW], es.bendA[:N*bandW])
-		copy(es.b[:N], es.bendB[:N])
+		// The rows of the nodes before the first whose contact changed are those of the last
+		// round, and so are their factors: the system is written and factored from there on.
+		from := 2 * (max(first, 2) - 2)
+		copy(es.a[from*bandW:N*bandW], es.bendA[from*bandW:N*bandW])
+		copy(es.b[from:N], es.bendB[from:N])
 		f := h * es.kw / math.Pi * es.dTheta
-		for j := 2; j < nc; j++ {
+		for j := max(first, 2); j < nc; j++ {
 			cs := &es.sums[j]
 			ia := 2 * (j - 2)
 			es.a[ia*bandW] += f * cs.k11
@@ -173,7 +183,7 @@ func (es *elasticSolver) solve(D float64, tip, stride int) elasticPath {
 			es.b[ia] += f * cs.b1
 			es.b[ia+1] += f * cs.b2
 		}
-		bandLDL(es.a, N, es.b, es.x, es.l, es.dd)
+		es.band.solve(es.a, es.b, es.x, N, from)
 		// Plain Newton steps first (most solves settle within a few rounds); from the seventh round
 		// on, a line search stops any cycling.
 		alpha := 1.0
@@ -191,7 +201,6 @@ func (es *elasticSolver) solve(D float64, tip, stride int) elasticPath {
 		if change < offsetTolerance {
 			break
 		}
-		act, prev = prev, act
 	}
 	// Curvature of the beam's own shape at the nodes (strain follows it), then both it and the
 	// offsets carried to every station between nodes.
@@ -375,58 +384,101 @@ func (es *elasticSolver) lineSearch(nc int, h, f float64) float64 {
 // contactSums are one station's active directions summed: sum e e^T and sum (rho - r) e.
 type contactSums struct{ k11, k12, k22, b1, b2 float64 }
 
-// contact marks the directions where the file's surface, delta . e + r, passes the wall and sums
-// each node's active directions.
-func (es *elasticSolver) contact(nc int, act []bool) {
-	m := len(es.cos)
+// contact marks the directions where the file's surface, delta . e + r, passes the wall
+// (es.pressing) and sums each node's pressing directions. It returns the first node whose
+// directions differ from the last round's (es.pressed; nc: none), whose sums alone it makes
+// again, or 0 when all is set (the first round of a solve), which sums every node.
+func (es *elasticSolver) contact(nc int, all bool) int {
+	m, mw := len(es.cos), es.maskWords
+	first := nc
 	for j := 0; j < nc; j++ {
 		d1, d2, r := es.d1[j], es.d2[j], es.r[j]
 		i := es.node[j]
-		wall := es.wall[i*m : (i+1)*m]
-		flags := act[j*m : (j+1)*m]
-		var cs contactSums
+		mask := es.pressing[j*mw : (j+1)*mw]
+		clear(mask)
 		// No direction can press where the wall is further than the file reaches anywhere.
 		if gap := es.minWall[i] - r; j >= 2 && (gap < 0 || d1*d1+d2*d2 > gap*gap) {
-			for q, w := range wall {
-				cq, sq := es.cos[q], es.sin[q]
-				on := d1*cq+d2*sq+r > w
-				flags[q] = on
-				if on {
-					cs.k11 += cq * cq
-					cs.k12 += cq * sq
-					cs.k22 += sq * sq
-					g := w - r
-					cs.b1 += g * cq
-					cs.b2 += g * sq
+			cos, sin := es.cos[:m], es.sin[:m]
+			for q, w := range es.wall[i*m : (i+1)*m] {
+				if d1*cos[q]+d2*sin[q]+r > w {
+					mask[q>>6] |= 1 << (q & 63)
 				}
 			}
-		} else {
-			clear(flags)
 		}
-		es.sums[j] = cs
+		if !all && slices.Equal(mask, es.pressed[j*mw:(j+1)*mw]) {
+			continue // the sums of the last round
+		}
+		first = min(first, j)
+		es.sums[j] = es.contactSums(i, r, mask)
 	}
+	if all {
+		return 0
+	}
+	return first
 }
 
-func equalBools(a, b []bool) bool {
-	for i := range a {
-		if a[i] != b[i] {
-			return false
+// contactSums sums the pressing directions of mask at station i for a file of radius r, in the
+// order of the directions.
+func (es *elasticSolver) contactSums(i int, r float64, mask []uint64) contactSums {
+	m := len(es.cos)
+	wall := es.wall[i*m : (i+1)*m]
+	var cs contactSums
+	for k, word := range mask {
+		for ; word != 0; word &= word - 1 {
+			q := k*64 + bits.TrailingZeros64(word)
+			cq, sq := es.cos[q], es.sin[q]
+			cs.k11 += cq * cq
+			cs.k12 += cq * sq
+			cs.k22 += sq * sq
+			g := wall[q] - r
+			cs.b1 += g * cq
+			cs.b2 += g * sq
 		}
 	}
-	return true
+	return cs
 }
 
-// bandLDL solves A x = b for a symmetric positive definite matrix of half-bandwidth 4 stored by
-// rows, a[i*5+k] = A[i][i+k], by an LDL^T factorisation (l: L[i][i-k] at l[i*5+k], room for
-// n+4 rows; d: 1/D), row by row with the rows above it carried in registers (the solve runs
-// hundreds of times a step).
-func bandLDL(a []float64, n int, b, x, l, d []float64) {
+// bandFactor is an LDL^T factorisation of a symmetric positive definite matrix of
+// half-bandwidth 4 and the forward substitution of a right-hand side, kept so that a system
+// whose rows changed only from some row on is factored and solved again from that row.
+type bandFactor struct {
+	l    []float64 // L[i][i-k] at l[i*5+k], room for n+4 rows (the rows past the last read as 0)
+	d, e []float64 // D and 1/D
+	y    []float64 // L y = b
+}
+
+func newBandFactor(n int) bandFactor {
+	return bandFactor{l: make([]float64, (n+4)*bandW), d: make([]float64, n), e: make([]float64, n), y: make([]float64, n)}
+}
+
+// solve solves A x = b for a matrix stored by rows, a[i*5+k] = A[i][i+k], row by row with the
+// rows above it carried in registers (the solve runs hundreds of times a step). Rows before
+// from are taken as factored and forward-substituted already: A and b are those of the last
+// solve there (from = 0 for a new system).
+func (f *bandFactor) solve(a, b, x []float64, n, from int) {
 	const W = bandW
 	// Row i needs the three rows above it: L[i-1][i-2..i-4] (q11, q12, q13), L[i-2][i-3..i-4]
-	// (q21, q22), L[i-3][i-4] (q31), and D of rows i-1..i-4 (d1..d4; e1..e4 their inverses).
+	// (q21, q22), L[i-3][i-4] (q31), and D of rows i-1..i-4 (d1..d4; e1..e4 their inverses),
+	// zero above the first row.
 	var q11, q12, q13, q21, q22, q31 float64
 	var d1, d2, d3, d4, e1, e2, e3, e4 float64
-	for i := 0; i < n; i++ {
+	var x1, x2, x3, x4 float64 // y[i-1..i-4]
+	if from >= 1 {
+		q11, q12, q13 = f.l[(from-1)*W+1], f.l[(from-1)*W+2], f.l[(from-1)*W+3]
+		d1, e1, x1 = f.d[from-1], f.e[from-1], f.y[from-1]
+	}
+	if from >= 2 {
+		q21, q22 = f.l[(from-2)*W+1], f.l[(from-2)*W+2]
+		d2, e2, x2 = f.d[from-2], f.e[from-2], f.y[from-2]
+	}
+	if from >= 3 {
+		q31 = f.l[(from-3)*W+1]
+		d3, e3, x3 = f.d[from-3], f.e[from-3], f.y[from-3]
+	}
+	if from >= 4 {
+		d4, e4, x4 = f.d[from-4], f.e[from-4], f.y[from-4]
+	}
+	for i := from; i < n; i++ {
 		var m1, m2, m3, m4 float64      // L[i][i-1], ..., L[i][i-4]
 		col := a[max(0, i-4)*W : i*W+1] // A[i-4..i][i] lie at col[(4-k)*W+k] for k rows above
 		off := min(i, 4) * W
@@ -443,26 +495,21 @@ func bandLDL(a []float64, n int, b, x, l, d []float64) {
 			m1 = (col[off-W+1] - m4*q13*d4 - m3*q12*d3 - m2*q11*d2) * e1
 		}
 		di := col[off] - m1*m1*d1 - m2*m2*d2 - m3*m3*d3 - m4*m4*d4
-		row := l[i*W : i*W+W]
+		row := f.l[i*W : i*W+W]
 		row[1], row[2], row[3], row[4] = m1, m2, m3, m4
 		q31, q21, q22, q11, q12, q13 = q21, q11, q12, m1, m2, m3
 		d4, d3, d2, d1 = d3, d2, d1, di
 		e4, e3, e2, e1 = e3, e2, e1, 1/di
-		d[i] = e1
-	}
-	// The rows just past the last are read (as zeros) by the back substitution.
-	clear(l[n*W : (n+4)*W])
-	var x1, x2, x3, x4 float64 // y[i-1..i-4]
-	for i := 0; i < n; i++ {   // L y = b
-		row := l[i*W : i*W+W]
-		v := b[i] - row[1]*x1 - row[2]*x2 - row[3]*x3 - row[4]*x4
-		x[i] = v
+		f.d[i], f.e[i] = di, e1
+		v := b[i] - m1*x1 - m2*x2 - m3*x3 - m4*x4 // L y = b
+		f.y[i] = v
 		x4, x3, x2, x1 = x3, x2, x1, v
 	}
+	clear(f.l[n*W : (n+4)*W])
 	x1, x2, x3, x4 = 0, 0, 0, 0   // x[i+1..i+4]
 	for i := n - 1; i >= 0; i-- { // L^T x = y / D
-		below := l[(i+1)*W : (i+5)*W]
-		v := x[i]*d[i] - below[1]*x1 - below[W+2]*x2 - below[2*W+3]*x3 - below[3*W+4]*x4
+		below := f.l[(i+1)*W : (i+5)*W]
+		v := f.y[i]*f.e[i] - below[1]*x1 - below[W+2]*x2 - below[2*W+3]*x3 - below[3*W+4]*x4
 		x[i] = v
 		x4, x3, x2, x1 = x3, x2, x1, v
 	}
