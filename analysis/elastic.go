@@ -3,7 +3,6 @@ package analysis
 import (
 	"math"
 	"math/bits"
-	"slices"
 
 	"tapersweep/models"
 )
@@ -259,33 +258,32 @@ func (es *elasticSolver) guess(n int) {
 
 // assembleBending writes the bending part of the system over nc nodes h apart: for each j,
 // c_j (h^2 k_j + d_{j+1} - 2 d_j + d_{j-1})^2 per component with c_j = E I_j / h^3 (twice the
-// energy), d_0 = d_1 = 0.
+// energy), d_0 = d_1 = 0. Node j adds c_j (1, -2, 1)^T (1, -2, 1) to the rows and columns of
+// nodes j-1, j, j+1 and -c_j h^2 k_j (1, -2, 1) to their right-hand sides, each entry in the
+// order of j.
 func (es *elasticSolver) assembleBending(nc int, h float64) {
 	N := 2 * (nc - 2)
 	A, B := es.bendA[:N*bandW], es.bendB[:N]
 	clear(A)
 	clear(B)
-	v := [3]float64{1, -2, 1}
 	for j := 1; j <= nc-2; j++ {
-		cj := es.ei[j] / (h * h * h)
+		c := es.ei[j] / (h * h * h)
 		for comp, kappa := range [2]float64{es.k1[j], es.k2[j]} {
-			rhs := -cj * h * h * kappa
-			for a := 0; a < 3; a++ {
-				sa := j - 1 + a // node
-				if sa < 2 {
-					continue
-				}
-				ia := 2*(sa-2) + comp
-				B[ia] += rhs * v[a]
-				for q := a; q < 3; q++ {
-					sq := j - 1 + q
-					if sq < 2 {
-						continue
-					}
-					iq := 2*(sq-2) + comp
-					A[ia*bandW+iq-ia] += cj * v[a] * v[q]
-				}
+			rhs := -c * h * h * kappa
+			at := 2*(j-2) + comp // node j's row
+			if j >= 3 {
+				A[(at-2)*bandW] += c
+				A[(at-2)*bandW+2] += -2 * c
+				A[(at-2)*bandW+4] += c
+				B[at-2] += rhs
 			}
+			if j >= 2 {
+				A[at*bandW] += 4 * c
+				A[at*bandW+2] += -2 * c
+				B[at] += -2 * rhs
+			}
+			A[(at+2)*bandW] += c
+			B[at+2] += rhs
 		}
 	}
 }
@@ -394,22 +392,30 @@ func (es *elasticSolver) contact(nc int, all bool) int {
 	for j := 0; j < nc; j++ {
 		d1, d2, r := es.d1[j], es.d2[j], es.r[j]
 		i := es.node[j]
-		mask := es.pressing[j*mw : (j+1)*mw]
-		clear(mask)
 		// No direction can press where the wall is further than the file reaches anywhere.
-		if gap := es.minWall[i] - r; j >= 2 && (gap < 0 || d1*d1+d2*d2 > gap*gap) {
-			cos, sin := es.cos[:m], es.sin[:m]
-			for q, w := range es.wall[i*m : (i+1)*m] {
-				if d1*cos[q]+d2*sin[q]+r > w {
-					mask[q>>6] |= 1 << (q & 63)
+		gap := es.minWall[i] - r
+		near := j >= 2 && (gap < 0 || d1*d1+d2*d2 > gap*gap)
+		wall := es.wall[i*m : (i+1)*m]
+		now, before := es.pressing[j*mw:(j+1)*mw], es.pressed[j*mw:(j+1)*mw]
+		changed := all
+		for k := range now {
+			var word uint64
+			if near {
+				part := wall[k*64 : min(m, k*64+64)]
+				cos, sin := es.cos[k*64:k*64+len(part)], es.sin[k*64:k*64+len(part)]
+				for q, w := range part {
+					if d1*cos[q]+d2*sin[q]+r > w {
+						word |= 1 << uint(q)
+					}
 				}
 			}
+			changed = changed || word != before[k]
+			now[k] = word
 		}
-		if !all && slices.Equal(mask, es.pressed[j*mw:(j+1)*mw]) {
-			continue // the sums of the last round
+		if changed {
+			first = min(first, j)
+			es.sums[j] = es.contactSums(i, r, now)
 		}
-		first = min(first, j)
-		es.sums[j] = es.contactSums(i, r, mask)
 	}
 	if all {
 		return 0
