@@ -54,7 +54,10 @@ func newLifeLaw(in models.Instrument, alloy models.Alloy, points int, ds float64
 }
 
 // canalFactors are K^(1/b) and, where some point of the file could pass eps_r, K^(1/b2).
-type canalFactors struct{ k, below, above []float64 }
+type canalFactors struct {
+	k, below, above []float64
+	passes          bool // some point could pass eps_r somewhere (else every point takes the lower branch)
+}
 
 func (l *lifeLaw) factors(k []float64) canalFactors {
 	cf := canalFactors{k: k, below: make([]float64, len(k)), above: make([]float64, len(k))}
@@ -62,6 +65,7 @@ func (l *lifeLaw) factors(k []float64) canalFactors {
 		cf.below[i] = math.Pow(ki, l.invB)
 		if ki >= l.lowestLimit {
 			cf.above[i] = math.Pow(ki, l.invB2)
+			cf.passes = true
 		}
 	}
 	return cf
@@ -94,6 +98,10 @@ func (l *lifeLaw) accumulate(damage []float64, pf pathFactors, tip int, revs flo
 	if lo != nil {
 		split = max(0, tip+1-len(lo.k))
 	}
+	if !hi.passes && (lo == nil || !lo.passes) {
+		l.accumulateBelow(damage, pf, tip, split, revs)
+		return
+	}
 	for k := 0; k < split; k++ {
 		i := tip - k
 		if hi.k[i] >= limit[k] {
@@ -119,6 +127,25 @@ func (l *lifeLaw) accumulate(damage []float64, pf pathFactors, tip int, revs flo
 		} else {
 			rl = below[k] * lo.below[i]
 		}
+		damage[k] += wh*rh + wl*rl
+	}
+}
+
+// accumulateBelow is accumulate where no point passes eps_r: the lower branch throughout.
+func (l *lifeLaw) accumulateBelow(damage []float64, pf pathFactors, tip, split int, revs float64) {
+	below, hi := l.below[:tip+1], pf.hi.below[:tip+1]
+	for k := 0; k < split; k++ {
+		damage[k] += revs * below[k] * hi[tip-k]
+	}
+	if pf.lo == nil {
+		return
+	}
+	lo := pf.lo.below
+	wh, wl := revs*pf.w, revs*(1-pf.w)
+	for k := split; k <= tip; k++ {
+		i := tip - k
+		rh := below[k] * hi[i]
+		rl := below[k] * lo[i]
 		damage[k] += wh*rh + wl*rl
 	}
 }
