@@ -157,6 +157,11 @@ func (k *Kernel) Sweep(wall []float32, pre, f *Placed, out *Traces) Engagement {
 	na := k.na
 	tip := f.Tip()
 	var torque float64
+	cells := out != nil && out.Cut != nil // the cells' cut and reach are kept
+	var stationTorque []float64
+	if out != nil {
+		stationTorque = out.StationTorque
+	}
 	for i := 0; i <= tip; i++ {
 		r32 := f.Radius[i]
 		var p float32
@@ -183,15 +188,20 @@ func (k *Kernel) Sweep(wall []float32, pre, f *Placed, out *Traces) Engagement {
 			continue
 		}
 		kc, ks := k.line.KN1[i], k.line.KN2[i]
-		var o1, o2 float64
+		var o1, o2, oo float64
 		reach := r // the furthest the file's surface gets from the centerline here
 		if off {
 			o1, o2 = f.Off1[i], f.Off2[i]
-			reach += math.Sqrt(o1*o1 + o2*o2)
+			oo = o1*o1 + o2*o2
+			reach += math.Sqrt(oo)
 		}
+		rr := r * r
 		engaged := false
 		for j, rho32 := range row {
-			rho := float64(max(rho32, p))
+			if p > rho32 {
+				rho32 = p
+			}
+			rho := float64(rho32)
 			if rho >= reach {
 				continue
 			}
@@ -199,22 +209,22 @@ func (k *Kernel) Sweep(wall []float32, pre, f *Placed, out *Traces) Engagement {
 			if off {
 				// The far side of the offset circle in this direction.
 				pj := o1*k.cos[j] + o2*k.sin[j]
-				q2 := o1*o1 + o2*o2 - pj*pj
-				if q2 >= r*r {
+				q2 := oo - pj*pj
+				if q2 >= rr {
 					continue
 				}
-				t = pj + math.Sqrt(r*r-q2)
+				t = pj + math.Sqrt(rr-q2)
 			}
 			cut := t - rho
 			if cut <= 0 {
 				continue
 			}
-			if out != nil && out.Cut != nil {
+			if cells {
 				idx := i*na + j
 				out.Cut[idx] = float32(cut)
 				out.Prepared[idx] = float32(t)
 				if idx < len(k.wallArea) {
-					if r0 := float64(k.rho0[idx]); float64(rho32)-r0 <= k.thr && t-r0 > k.thr {
+					if r0 := float64(k.rho0[idx]); float64(row[j])-r0 <= k.thr && t-r0 > k.thr {
 						e.NewlyTouchedMM2 += k.wallArea[idx]
 					}
 				}
@@ -230,8 +240,8 @@ func (k *Kernel) Sweep(wall []float32, pre, f *Placed, out *Traces) Engagement {
 			e.MaxCutMM = max(e.MaxCutMM, cut)
 			dT := k.ct * r * dA
 			torque += dT
-			if out != nil && out.StationTorque != nil {
-				out.StationTorque[i] += dT
+			if stationTorque != nil {
+				stationTorque[i] += dT
 			}
 		}
 		if engaged {
