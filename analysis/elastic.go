@@ -86,9 +86,11 @@ type elasticSolver struct {
 	solves, rounds    int       // solves so far and their contact rounds (for tests of the speed-up)
 }
 
-func newElasticSolver(c *Canal, in models.Instrument, eGPa, kw float64, prepared []float32) *elasticSolver {
+// newElasticSolver makes the work space of the solves on canal c with wall stiffness kw; prepare
+// sets the file and the wall before solving.
+func newElasticSolver(c *Canal, kw float64) *elasticSolver {
 	n := c.Line.Len()
-	es := &elasticSolver{c: c, in: in, eMPa: eGPa * 1000, kw: kw, prepared: prepared}
+	es := &elasticSolver{c: c, kw: kw}
 	stride := 1
 	if c.Angles > contactDirections && c.Angles%contactDirections == 0 {
 		stride = c.Angles / contactDirections
@@ -100,16 +102,6 @@ func newElasticSolver(c *Canal, in models.Instrument, eGPa, kw float64, prepared
 		es.cos[q], es.sin[q] = math.Cos(float64(q)*es.dTheta), math.Sin(float64(q)*es.dTheta)
 	}
 	es.wall, es.minWall = make([]float64, n*m), make([]float64, n)
-	for i := 0; i < n; i++ {
-		row := prepared[i*c.Angles : (i+1)*c.Angles]
-		lo := math.Inf(1)
-		for q := 0; q < m; q++ {
-			w := float64(row[q*stride])
-			es.wall[i*m+q] = w
-			lo = min(lo, w)
-		}
-		es.minWall[i] = lo
-	}
 	es.ei, es.r, es.k1, es.k2 = make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
 	es.node, es.sums = make([]int, n), make([]contactSums, n)
 	es.d1, es.d2, es.kn = make([]float64, n), make([]float64, n), make([]float64, n)
@@ -123,6 +115,27 @@ func newElasticSolver(c *Canal, in models.Instrument, eGPa, kw float64, prepared
 	return es
 }
 
+// prepare sets the file in of elastic modulus eGPa and the wall of the canal as prepared so far
+// (a radius map); the solves that follow start afresh.
+func (es *elasticSolver) prepare(in models.Instrument, eGPa float64, prepared []float32) *elasticSolver {
+	c := es.c
+	es.in, es.eMPa, es.prepared = in, eGPa*1000, prepared
+	m := len(es.cos)
+	stride := c.Angles / m
+	for i := range es.minWall {
+		row := prepared[i*c.Angles : (i+1)*c.Angles]
+		lo := math.Inf(1)
+		for q := 0; q < m; q++ {
+			w := float64(row[q*stride])
+			es.wall[i*m+q] = w
+			lo = min(lo, w)
+		}
+		es.minWall[i] = lo
+	}
+	es.solved = 0
+	return es
+}
+
 // Half-bandwidth of the system: unknowns are interleaved (station, component), the bending term
 // couples stations two apart (4 places) and the contact the two components of one station.
 const (
@@ -130,15 +143,46 @@ const (
 	bandW    = halfBand + 1
 )
 
-// solve returns the file's path with its tip at depth D, at station tip, solving the beam at
-// every stride-th station (1 or 2; the path between is interpolated, its curvature too).
-func (es *elasticSolver) solve(D float64, tip, stride int) elasticPath {
+// path returns the file's path with its tip at depth D, at station tip, the beam solved at
+// every station.
+func (es *elasticSolver) path(D float64, tip int) elasticPath {
 	c, line := es.c, es.c.Line
 	n := tip + 1
-	p := elasticPath{o1: make([]float64, n), o2: make([]float64, n), k: make([]float64, n)}
-	copy(p.k, line.K[:n])
-	if n < 4 || es.eMPa <= 0 || es.kw <= 0 {
-		return p
+	p := elasticPath{k: es.solve(D, tip, 1), o1: make([]float64, n), o2: make([]float64, n)}
+	if es.solvable(n) {
+		copy(p.o1, es.f1[:n])
+		copy(p.o2, es.f2[:n])
+	}
+	// The axis itself stays inside the canal as prepared (the contact keeps it there unless the
+	// wall is set very soft).
+	for i := 0; i < n; i++ {
+		mag := math.Hypot(p.o1[i], p.o2[i])
+		if mag <= es.minWall[i] {
+			continue
+		}
+		if lim := c.MapAt(es.prepared, line.S[i], math.Atan2(p.o2[i], p.o1[i])); mag > lim {
+			f := math.Max(0, lim) / mag
+			p.o1[i] *= f
+			p.o2[i] *= f
+		}
+	}
+	return p
+}
+
+// solvable reports whether a beam of n stations is solved (else the file follows the centerline).
+func (es *elasticSolver) solvable(n int) bool { return n >= 4 && es.eMPa > 0 && es.kw > 0 }
+
+// solve solves the beam with its tip at depth D, at station tip, at every stride-th station (1
+// or 2; the path between is interpolated, its curvature too). It returns the curvature of the
+// file's axis at every station up to the tip and leaves its offsets there in f1, f2 (the next
+// solve's start).
+func (es *elasticSolver) solve(D float64, tip, stride int) []float64 {
+	line := es.c.Line
+	n := tip + 1
+	k := make([]float64, n)
+	copy(k, line.K[:n])
+	if !es.solvable(n) {
+		return k
 	}
 	if stride < 1 || (n-1)%stride != 0 || (n-1)/stride < 3 {
 		stride = 1
@@ -213,32 +257,17 @@ func (es *elasticSolver) solve(D float64, tip, stride int) elasticPath {
 	kn[nc-1] = kn[nc-2]
 	for j := 0; j < nc; j++ {
 		i := es.node[j]
-		p.o1[i], p.o2[i], p.k[i] = es.d1[j], es.d2[j], kn[j]
+		es.f1[i], es.f2[i], k[i] = es.d1[j], es.d2[j], kn[j]
 		if j+1 < nc {
 			for q := 1; q < stride; q++ {
 				t := float64(q) / float64(stride)
-				p.o1[i+q] = (1-t)*es.d1[j] + t*es.d1[j+1]
-				p.o2[i+q] = (1-t)*es.d2[j] + t*es.d2[j+1]
-				p.k[i+q] = (1-t)*kn[j] + t*kn[j+1]
+				es.f1[i+q] = (1-t)*es.d1[j] + t*es.d1[j+1]
+				es.f2[i+q] = (1-t)*es.d2[j] + t*es.d2[j+1]
+				k[i+q] = (1-t)*kn[j] + t*kn[j+1]
 			}
 		}
 	}
-	copy(es.f1[:n], p.o1)
-	copy(es.f2[:n], p.o2)
-	// The axis itself stays inside the canal as prepared (the contact keeps it there unless the
-	// wall is set very soft).
-	for i := 0; i < n; i++ {
-		mag := math.Hypot(p.o1[i], p.o2[i])
-		if mag <= es.minWall[i] {
-			continue
-		}
-		if lim := c.MapAt(es.prepared, line.S[i], math.Atan2(p.o2[i], p.o1[i])); mag > lim {
-			f := math.Max(0, lim) / mag
-			p.o1[i] *= f
-			p.o2[i] *= f
-		}
-	}
-	return p
+	return k
 }
 
 // guess sets the offsets (per station) a solve of n stations starts from: the last solve's,

@@ -124,7 +124,7 @@ func TestElasticCantileverOnOneWall(t *testing.T) {
 	line := *c.Line
 	line.K, line.KN1, line.KN2 = make([]float64, line.Len()), make([]float64, line.Len()), make([]float64, line.Len())
 	c.Line = &line
-	p := newElasticSolver(&c, in, 40, 1e7, c.Rho).solve(D, tip, 1)
+	p := newElasticSolver(&c, 1e7).prepare(in, 40, c.Rho).path(D, tip)
 	va := p.o1[ia]
 	if math.Abs(va+(0.15-rho0)) > 1e-3 {
 		t.Fatalf("offset at the wall %.5f mm, want -0.100 (pushed away from the wall by r - rho)", va)
@@ -233,14 +233,14 @@ func TestElasticContactSettles(t *testing.T) {
 	c := canalFor(t, `{"kind":"straight","length":8},{"kind":"arc","radius":3,"angle":60},{"kind":"straight","length":2}`, 1.0, 0.25)
 	for _, in := range []models.Instrument{models.NewInstrument(10, 0.02), models.NewInstrument(25, 0.06),
 		models.NewInstrument(35, 0.04)} {
-		es := newElasticSolver(c, in, in.Alloy.ElasticModulusGPa, DefaultWallStiffness, c.Rho)
+		es := newElasticSolver(c, DefaultWallStiffness).prepare(in, in.Alloy.ElasticModulusGPa, c.Rho)
 		along := pathCurvature(c, es)
 		tip := c.Line.Len() - 1
 		for z := 0; z < tip+pathEvery; z += pathEvery {
 			along(min(z, tip))
 		}
 		before := es.rounds
-		es.solve(c.Line.Length(), tip, 1)
+		es.path(c.Line.Length(), tip)
 		last := es.rounds - before
 		per := float64(es.rounds) / float64(es.solves)
 		t.Logf("%s: %d solves, %.2f rounds each; the file at its target %d", in.Label(), es.solves, per, last)

@@ -232,9 +232,13 @@ type scheduleVisit struct {
 
 // scheduleSteps lays the strokes out station by station: each visit spends ds/speed seconds.
 func scheduleSteps(moves []move, ds float64, kmax int, revsPerSecond float64) []scheduleVisit {
-	var out []scheduleVisit
+	visits := 0
 	for _, m := range moves {
-		steps := int(math.Round(math.Abs(m.to-m.from) / ds))
+		visits += m.steps(ds)
+	}
+	out := make([]scheduleVisit, 0, visits)
+	for _, m := range moves {
+		steps := m.steps(ds)
 		if steps == 0 {
 			continue
 		}
@@ -250,6 +254,9 @@ func scheduleSteps(moves []move, ds float64, kmax int, revsPerSecond float64) []
 	}
 	return out
 }
+
+// steps is how many stations of ds the stroke passes.
+func (m move) steps(ds float64) int { return int(math.Round(math.Abs(m.to-m.from) / ds)) }
 
 // replayToFracture walks the schedule in time order until the first material point's damage
 // reaches 1 and records when, where and with the tip how deep.

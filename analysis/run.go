@@ -110,6 +110,10 @@ func Run(ctx context.Context, c *Canal, seq *models.Sequence, opt RunOptions) (*
 	res.Warnings = append(res.Warnings, seq.Warnings...)
 	before := c.Rho
 	kern := NewKernel(c, opt)
+	var es *elasticSolver // the elastic path's work space, shared by the steps
+	if opt.PathModel == models.PathElastic {
+		es = newElasticSolver(c, opt.WallStiffness)
+	}
 	for k, st := range seq.Steps {
 		if err := ctx.Err(); err != nil {
 			return nil, err
@@ -122,7 +126,7 @@ func Run(ctx context.Context, c *Canal, seq *models.Sequence, opt RunOptions) (*
 		if k > 0 {
 			touched = res.Steps[k-1].touched
 		}
-		sr := runStep(c, kern, st, alloy, before, touched, opt)
+		sr := runStep(c, kern, es, st, alloy, before, touched)
 		sr.Number = k + 1
 		sr.Metrics.Step = k + 1
 		sr.Metrics.Alloy = st.AlloyName
@@ -188,9 +192,9 @@ func seqName(seq *models.Sequence) string {
 	return "sequence"
 }
 
-// runStep sweeps one file with its tip at the target depth.
+// runStep sweeps one file with its tip at the target depth, on its own path when es is set.
 // touched is the canal's own wall the earlier steps have cut past the contact threshold, mm2.
-func runStep(c *Canal, k *Kernel, st models.Step, alloy models.Alloy, before []float32, touched float64, opt RunOptions) *StepResult {
+func runStep(c *Canal, k *Kernel, es *elasticSolver, st models.Step, alloy models.Alloy, before []float32, touched float64) *StepResult {
 	line := c.Line
 	n := line.Len()
 	in := st.Instrument
@@ -204,19 +208,17 @@ func runStep(c *Canal, k *Kernel, st models.Step, alloy models.Alloy, before []f
 	sr.Prepared = append([]float32(nil), before...)
 	m := &sr.Metrics
 	m.Label, m.TipDepthMM, m.TipFromApexMM = in.Label(), D, line.Length()-D
-	elastic := opt.PathModel == models.PathElastic
 	path := elasticPath{k: line.K}
-	var es *elasticSolver
 	var along pathAt
-	if elastic {
-		es = newElasticSolver(c, in, alloy.ElasticModulusGPa, opt.WallStiffness, before)
+	if es != nil {
+		es.prepare(in, alloy.ElasticModulusGPa, before)
 		// The schedule's solves first, tip advancing from the orifice (each starts from the one
 		// before), then the file at its target, which starts from the deepest of them.
 		along = pathCurvature(c, es)
 		for z := 0; z < tip+pathEvery; z += pathEvery {
 			along(min(z, tip))
 		}
-		path = es.solve(D, tip, 1)
+		path = es.path(D, tip)
 		sr.Offset1, sr.Offset2 = path.o1, path.o2
 		f.Off1, f.Off2 = path.o1, path.o2
 	}
@@ -329,7 +331,7 @@ func pathCurvature(c *Canal, es *elasticSolver) pathAt {
 		if k, ok := cache[z]; ok {
 			return k
 		}
-		k := es.solve(c.Line.S[z], z, pathStride).k
+		k := es.solve(c.Line.S[z], z, pathStride)
 		cache[z] = k
 		return k
 	}
