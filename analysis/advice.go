@@ -108,7 +108,7 @@ func addAdvice(res *Result) {
 		}
 		if !transportNoted {
 			at := c.Line.Length() - 1
-			if shift := centreShift(c, c.Rho, sr.Prepared, at); shift > apicalTransportLimit {
+			if shift := newCentroidDirections(c).centreShift(c, c.Rho, sr.Prepared, at); shift > apicalTransportLimit {
 				add(AdviceTransportation, "The canal's centre 1 mm from the apical end has moved %.2f mm from where it was scanned "+
 					"(Gambill's transportation there: %.2f mm, twice the shift for a canal widened on one side); above about "+
 					"0.3 mm of such a shift the apical seal was found to suffer.", shift, transportAt(c, c.Rho, sr.Prepared, at).size())

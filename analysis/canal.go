@@ -243,19 +243,39 @@ func (c *Canal) RhoAt(s, theta float64) float64 { return c.MapAt(c.Rho, s, theta
 // MapAt interpolates any station-major map of this canal (the radius map, a step's depth of
 // cut or prepared canal) bilinearly at arc length s and angle theta (radians).
 func (c *Canal) MapAt(m []float32, s, theta float64) float64 {
+	return c.mapAt(m, c.stationPlace(s), c.anglePlace(theta))
+}
+
+// mapPlace is where a point falls between the map's stations (i, i+1, the weight a of i+1) or
+// between its directions (j, j1, the weight b of j1).
+type mapPlace struct {
+	i, i1 int
+	w     float64
+}
+
+// stationPlace is where arc length s falls between the stations.
+func (c *Canal) stationPlace(s float64) mapPlace {
 	n := c.Line.Len()
 	fs := math.Max(0, math.Min(s/c.Line.DS, float64(n-1)))
 	i := min(int(fs), n-2)
-	a := fs - float64(i)
+	return mapPlace{i, i + 1, fs - float64(i)}
+}
+
+// anglePlace is where angle theta (radians) falls between the map's directions.
+func (c *Canal) anglePlace(theta float64) mapPlace {
 	ft := math.Mod(theta/(2*math.Pi)*float64(c.Angles), float64(c.Angles))
 	if ft < 0 {
 		ft += float64(c.Angles)
 	}
 	j := int(ft) % c.Angles
-	b := ft - math.Floor(ft)
-	j1 := (j + 1) % c.Angles
+	return mapPlace{j, (j + 1) % c.Angles, ft - math.Floor(ft)}
+}
+
+// mapAt interpolates map m bilinearly at a place between stations and one between directions.
+func (c *Canal) mapAt(m []float32, st, an mapPlace) float64 {
+	a, b := st.w, an.w
 	r := func(i, j int) float64 { return float64(m[i*c.Angles+j]) }
-	return (1-a)*((1-b)*r(i, j)+b*r(i, j1)) + a*((1-b)*r(i+1, j)+b*r(i+1, j1))
+	return (1-a)*((1-b)*r(st.i, an.i)+b*r(st.i, an.i1)) + a*((1-b)*r(st.i1, an.i)+b*r(st.i1, an.i1))
 }
 
 // MeanRadius is the mean wall distance at station i.

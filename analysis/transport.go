@@ -67,6 +67,7 @@ func transportBetween(c *Canal, from, to []float32) Transport {
 		CenteringRatioInPlane: map[string]*float64{}, CenteringRatioAcross: map[string]*float64{},
 		CentreShiftMM: map[string]float64{}}
 	L := c.Line.Length()
+	dirs := newCentroidDirections(c)
 	ratio := func(r *float64) *float64 {
 		if r == nil {
 			return nil
@@ -89,14 +90,14 @@ func transportBetween(c *Canal, from, to []float32) Transport {
 		tr.CenteringRatio[key] = ratio(at.ratioAlong)
 		tr.CenteringRatioInPlane[key] = ratio(at.ratioInPlane)
 		tr.CenteringRatioAcross[key] = ratio(at.ratioAcross)
-		tr.CentreShiftMM[key] = round(centreShift(c, from, to, L-x), 4)
+		tr.CentreShiftMM[key] = round(dirs.centreShift(c, from, to, L-x), 4)
 	}
 	largest := largestTransport(c, from, to)
 	if largest.mag > 0 {
 		tr.Largest = TransportPlace{MM: round(largest.mag, 4), FromApexMM: round(L-c.Line.S[largest.station], 3),
 			TowardDeg: towardDeg(largest.inPlane, largest.across)}
 	}
-	tr.ForamenShiftMM = round(centreShift(c, from, to, math.Max(0, L-0.1)), 4)
+	tr.ForamenShiftMM = round(dirs.centreShift(c, from, to, math.Max(0, L-0.1)), 4)
 	return tr
 }
 
@@ -163,15 +164,34 @@ func towardDeg(inPlane, across float64) float64 {
 	return d
 }
 
+// centroidDirections are the directions a cross-section's area centroid is taken along: the
+// map's own angles, each with its place in the map and its cosine and sine, found once for
+// every section compared.
+type centroidDirections struct {
+	place    []mapPlace
+	cos, sin []float64
+}
+
+func newCentroidDirections(c *Canal) centroidDirections {
+	n := c.Angles
+	d := centroidDirections{place: make([]mapPlace, n), cos: make([]float64, n), sin: make([]float64, n)}
+	for j := 0; j < n; j++ {
+		th := 2 * math.Pi * float64(j) / float64(n)
+		d.place[j] = c.anglePlace(th)
+		d.cos[j], d.sin[j] = math.Cos(th), math.Sin(th)
+	}
+	return d
+}
+
 // centreShift is how far the area centroid of the canal's cross-section at s moved.
-func centreShift(c *Canal, from, to []float32, s float64) float64 {
+func (d centroidDirections) centreShift(c *Canal, from, to []float32, s float64) float64 {
+	st := c.stationPlace(s)
+	n := len(d.place)
+	xs, ys := make([]float64, n), make([]float64, n)
 	centroid := func(m []float32) (float64, float64) {
-		n := c.Angles
-		xs, ys := make([]float64, n), make([]float64, n)
-		for j := 0; j < n; j++ {
-			th := 2 * math.Pi * float64(j) / float64(n)
-			r := c.MapAt(m, s, th)
-			xs[j], ys[j] = r*math.Cos(th), r*math.Sin(th)
+		for j, an := range d.place {
+			r := c.mapAt(m, st, an)
+			xs[j], ys[j] = r*d.cos[j], r*d.sin[j]
 		}
 		x, y, _ := polygonCentroid(xs, ys)
 		return x, y
