@@ -424,26 +424,27 @@ func (es *elasticSolver) contact(nc int, all bool) int {
 		// No direction can press where the wall is further than the file reaches anywhere.
 		gap := es.minWall[i] - r
 		near := j >= 2 && (gap < 0 || d1*d1+d2*d2 > gap*gap)
-		wall := es.wall[i*m : (i+1)*m]
-		now, before := es.pressing[j*mw:(j+1)*mw], es.pressed[j*mw:(j+1)*mw]
+		row := es.wall[i*m : i*m+m]
 		changed := all
-		for k := range now {
+		for k := 0; k < mw; k++ {
 			var word uint64
 			if near {
-				part := wall[k*64 : min(m, k*64+64)]
-				cos, sin := es.cos[k*64:k*64+len(part)], es.sin[k*64:k*64+len(part)]
+				part := row[k*64 : min(m, k*64+64)]
+				cos, sin := es.cos[k*64:], es.sin[k*64:]
+				cos, sin = cos[:len(part)], sin[:len(part)]
 				for q, w := range part {
 					if d1*cos[q]+d2*sin[q]+r > w {
 						word |= 1 << uint(q)
 					}
 				}
 			}
-			changed = changed || word != before[k]
-			now[k] = word
+			at := j*mw + k
+			changed = changed || word != es.pressed[at]
+			es.pressing[at] = word
 		}
 		if changed {
 			first = min(first, j)
-			es.sums[j] = es.contactSums(i, r, now)
+			es.sums[j] = es.contactSums(row, r, es.pressing[j*mw:(j+1)*mw])
 		}
 	}
 	if all {
@@ -452,11 +453,9 @@ func (es *elasticSolver) contact(nc int, all bool) int {
 	return first
 }
 
-// contactSums sums the pressing directions of mask at station i for a file of radius r, in the
-// order of the directions.
-func (es *elasticSolver) contactSums(i int, r float64, mask []uint64) contactSums {
-	m := len(es.cos)
-	wall := es.wall[i*m : (i+1)*m]
+// contactSums sums the pressing directions of mask on a wall row for a file of radius r, in
+// the order of the directions.
+func (es *elasticSolver) contactSums(wall []float64, r float64, mask []uint64) contactSums {
 	var cs contactSums
 	for k, word := range mask {
 		for ; word != 0; word &= word - 1 {
