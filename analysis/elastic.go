@@ -512,24 +512,24 @@ func (f *bandFactor) solve(a, b, x []float64, n, from int) {
 	if from >= 4 {
 		d4, e4, x4 = f.d[from-4], f.e[from-4], f.y[from-4]
 	}
+	// The first rows read their column from a copy with zeros for the rows above the matrix:
+	// with those rows' registers zero, their factors come out zero, as the matrix has none.
+	var top [4*W + 1]float64
 	for i := from; i < n; i++ {
-		var m1, m2, m3, m4 float64      // L[i][i-1], ..., L[i][i-4]
-		col := a[max(0, i-4)*W : i*W+1] // A[i-4..i][i] lie at col[(4-k)*W+k] for k rows above
-		off := min(i, 4) * W
+		var c *[4*W + 1]float64 // A[i-4..i][i] at c[(4-k)*W+k] for k rows above
 		if i >= 4 {
-			m4 = col[off-4*W+4] * e4
+			c = (*[4*W + 1]float64)(a[(i-4)*W : i*W+1])
+		} else {
+			clear(top[:])
+			copy(top[(4-i)*W:], a[:i*W+1])
+			c = &top
 		}
-		if i >= 3 {
-			m3 = (col[off-3*W+3] - m4*q31*d4) * e3
-		}
-		if i >= 2 {
-			m2 = (col[off-2*W+2] - m4*q22*d4 - m3*q21*d3) * e2
-		}
-		if i >= 1 {
-			m1 = (col[off-W+1] - m4*q13*d4 - m3*q12*d3 - m2*q11*d2) * e1
-		}
-		di := col[off] - m1*m1*d1 - m2*m2*d2 - m3*m3*d3 - m4*m4*d4
-		row := f.l[i*W : i*W+W]
+		m4 := c[4] * e4 // L[i][i-4], ..., L[i][i-1]
+		m3 := (c[W+3] - m4*q31*d4) * e3
+		m2 := (c[2*W+2] - m4*q22*d4 - m3*q21*d3) * e2
+		m1 := (c[3*W+1] - m4*q13*d4 - m3*q12*d3 - m2*q11*d2) * e1
+		di := c[4*W] - m1*m1*d1 - m2*m2*d2 - m3*m3*d3 - m4*m4*d4
+		row := (*[W]float64)(f.l[i*W : i*W+W])
 		row[1], row[2], row[3], row[4] = m1, m2, m3, m4
 		q31, q21, q22, q11, q12, q13 = q21, q11, q12, m1, m2, m3
 		d4, d3, d2, d1 = d3, d2, d1, di
@@ -542,7 +542,7 @@ func (f *bandFactor) solve(a, b, x []float64, n, from int) {
 	clear(f.l[n*W : (n+4)*W])
 	x1, x2, x3, x4 = 0, 0, 0, 0   // x[i+1..i+4]
 	for i := n - 1; i >= 0; i-- { // L^T x = y / D
-		below := f.l[(i+1)*W : (i+5)*W]
+		below := (*[4 * W]float64)(f.l[(i+1)*W : (i+5)*W])
 		v := f.y[i]*f.e[i] - below[1]*x1 - below[W+2]*x2 - below[2*W+3]*x3 - below[3*W+4]*x4
 		x[i] = v
 		x4, x3, x2, x1 = x3, x2, x1, v
