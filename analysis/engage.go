@@ -156,7 +156,11 @@ func (k *Kernel) Sweep(wall []float32, pre, f *Placed, out *Traces) Engagement {
 	e := Engagement{First: -1, Last: -1, ShankFirst: -1, ShankLast: -1}
 	na := k.na
 	tip := f.Tip()
-	var torque float64
+	// The sums in locals, and the kernel's fields read once (the stores to the traces would
+	// make the compiler read them again at every cell).
+	var area, volume, maxCut, torque float64
+	cos, sin, dTheta, thr, ct := k.cos, k.sin, k.dTheta, k.thr, k.ct
+	rho0, wallArea := k.rho0, k.wallArea
 	cells := out != nil && out.Cut != nil // the cells' cut and reach are kept
 	var stationTorque []float64
 	if out != nil {
@@ -197,6 +201,10 @@ func (k *Kernel) Sweep(wall []float32, pre, f *Placed, out *Traces) Engagement {
 		}
 		rr := r * r
 		engaged := false
+		var cellTorque float64 // this station's, added up in the order of the cells
+		if stationTorque != nil {
+			cellTorque = stationTorque[i]
+		}
 		for j, rho32 := range row {
 			if p > rho32 {
 				rho32 = p
@@ -205,10 +213,11 @@ func (k *Kernel) Sweep(wall []float32, pre, f *Placed, out *Traces) Engagement {
 			if rho >= reach {
 				continue
 			}
+			cj, sj := cos[j], sin[j]
 			t := r
 			if off {
 				// The far side of the offset circle in this direction.
-				pj := o1*k.cos[j] + o2*k.sin[j]
+				pj := o1*cj + o2*sj
 				q2 := oo - pj*pj
 				if q2 >= rr {
 					continue
@@ -223,26 +232,29 @@ func (k *Kernel) Sweep(wall []float32, pre, f *Placed, out *Traces) Engagement {
 				idx := i*na + j
 				out.Cut[idx] = float32(cut)
 				out.Prepared[idx] = float32(t)
-				if idx < len(k.wallArea) {
-					if r0 := float64(k.rho0[idx]); float64(row[j])-r0 <= k.thr && t-r0 > k.thr {
-						e.NewlyTouchedMM2 += k.wallArea[idx]
+				if idx < len(wallArea) {
+					if r0 := float64(rho0[idx]); float64(row[j])-r0 <= thr && t-r0 > thr {
+						e.NewlyTouchedMM2 += wallArea[idx]
 					}
 				}
 			}
-			if cut <= k.thr {
+			if cut <= thr {
 				continue
 			}
 			engaged = true
-			bend := kc*k.cos[j] + ks*k.sin[j]
-			dA := t * (1 - bend*t) * k.dTheta * w
-			e.AreaMM2 += dA
-			e.VolumeMM3 += ((t*t-rho*rho)/2 - bend*(t*t*t-rho*rho*rho)/3) * k.dTheta * w
-			e.MaxCutMM = max(e.MaxCutMM, cut)
-			dT := k.ct * r * dA
-			torque += dT
-			if stationTorque != nil {
-				stationTorque[i] += dT
+			bend := kc*cj + ks*sj
+			dA := t * (1 - bend*t) * dTheta * w
+			area += dA
+			volume += ((t*t-rho*rho)/2 - bend*(t*t*t-rho*rho*rho)/3) * dTheta * w
+			if cut > maxCut {
+				maxCut = cut
 			}
+			dT := ct * r * dA
+			torque += dT
+			cellTorque += dT
+		}
+		if stationTorque != nil {
+			stationTorque[i] = cellTorque
 		}
 		if engaged {
 			if e.First < 0 {
@@ -251,6 +263,7 @@ func (k *Kernel) Sweep(wall []float32, pre, f *Placed, out *Traces) Engagement {
 			e.Last = i
 		}
 	}
+	e.AreaMM2, e.VolumeMM3, e.MaxCutMM = area, volume, maxCut
 	e.TorqueNcm = torque / 10 // N*mm -> N*cm
 	return e
 }
