@@ -82,8 +82,10 @@ func (in Instrument) IsVariableTaper() bool {
 	return false
 }
 
-// fluteDiameter is d0 plus the integral of the taper from the tip to u, without caps.
-func (in Instrument) fluteDiameter(u float64) float64 {
+// fluteDiameter is d0 plus the integral of the taper from the tip to u, without caps. It and
+// cappedFlute take a pointer, so that Diameter (thousands of calls a step) copies the file's
+// description once, not at every call within.
+func (in *Instrument) fluteDiameter(u float64) float64 {
 	d := in.TipDiameter()
 	if len(in.Tapers) == 0 {
 		return d + in.Taper*u
@@ -108,7 +110,7 @@ func (in Instrument) fluteDiameter(u float64) float64 {
 }
 
 // cappedFlute applies MaxFluteD.
-func (in Instrument) cappedFlute(u float64) float64 {
+func (in *Instrument) cappedFlute(u float64) float64 {
 	d := in.fluteDiameter(u)
 	if in.MaxFluteD > 0 && d > in.MaxFluteD {
 		return in.MaxFluteD
