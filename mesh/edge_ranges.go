@@ -228,7 +228,7 @@ func tallyGroups[K edgeKey](c *edgeTally, keys []K, mask K) {
 	}
 }
 
-// sortKeys is an insertion sort: groups mostly hold a few keys.
+// sortKeys is an insertion sort: a vertex's buckets and groups mostly hold a few keys.
 func sortKeys[K edgeKey](a []K) {
 	if len(a) > 32 {
 		slices.Sort(a)
