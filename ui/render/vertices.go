@@ -70,11 +70,14 @@ func (r *Renderer) transformVertices(o *frameObject, v0, v1 int) {
 	verts := o.mesh.Vertices
 	pos := r.pos[o.vertBase : o.vertBase+len(verts)]
 	near := float64(r.near)
+	fw, fh := float64(r.w), float64(r.h)
 	var cc [clipBlock][3]float64
 	for b0 := v0; b0 < v1; b0 += clipBlock {
 		b1 := min(v1, b0+clipBlock)
 		r.clipCoords(verts[b0:b1], cc[:b1-b0])
-		for k, c := range cc[:b1-b0] {
+		block := pos[b0:b1]
+		for k := range block {
+			c := &cc[k]
 			cx, cy, cw := c[0], c[1], c[2]
 			// Most vertices lie in the view: one test for all the outcode's bits.
 			var code uint32
@@ -84,9 +87,9 @@ func (r *Renderer) transformVertices(o *frameObject, v0, v1 int) {
 			if o.clip && code != outBad && r.clipDistance(o, b0+k, verts[b0+k]) < 0 {
 				code |= outPlane
 			}
-			sp := &pos[b0+k]
+			sp := &block[k]
 			if code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
-				*sp = r.projectPosition(float32(cx), float32(cy), float32(cw))
+				*sp = projectPosition(float32(cx), float32(cy), float32(cw), fw, fh)
 			}
 			sp.code = code
 		}
@@ -247,15 +250,16 @@ func abs32(x float32) float32 {
 // The same float64 arithmetic serves all callers, so a vertex shared by a clipped
 // and an unclipped triangle lands on the same fixed-point position.
 func (r *Renderer) project(cx, cy, cw float32, col mgl32.Vec3) screenVert {
-	p := r.projectPosition(cx, cy, cw)
+	p := projectPosition(cx, cy, cw, float64(r.w), float64(r.h))
 	return screenVert{screenPos: p, c: [3]float32{col[0] * p.iw, col[1] * p.iw, col[2] * p.iw}}
 }
 
-// projectPosition is project without the colour (filled in when the vertex is lit).
-func (r *Renderer) projectPosition(cx, cy, cw float32) screenPos {
+// projectPosition is project without the colour (filled in when the vertex is lit), onto a
+// screen of fw x fh pixels.
+func projectPosition(cx, cy, cw float32, fw, fh float64) screenPos {
 	iw := 1 / float64(cw)
-	sx := (float64(cx)*iw*0.5 + 0.5) * float64(r.w)
-	sy := (0.5 - float64(cy)*iw*0.5) * float64(r.h)
+	sx := (float64(cx)*iw*0.5 + 0.5) * fw
+	sy := (0.5 - float64(cy)*iw*0.5) * fh
 	return screenPos{
 		x:  int32(math.Floor(sx*subOne + 0.5)),
 		y:  int32(math.Floor(sy*subOne + 0.5)),
