@@ -142,14 +142,15 @@ func keptTriangles(tris [][3]int32, pos []screenPos, cull bool, away uint64, w, 
 					continue
 				}
 			}
-			// Facing away or edge-on (y points down on screen, so a front face has negative area).
-			area := int64(b.x-a.x)*int64(c.y-a.y) - int64(b.y-a.y)*int64(c.x-a.x)
-			if area == 0 || cull && area > 0 {
-				continue
-			}
+			// No pixel centre in the box (tested first: it rejects most).
 			x0, x1 := pixelRange(min3(a.x, b.x, c.x), max3(a.x, b.x, c.x), w) // pixelBox, inlined
 			y0, y1 := pixelRange(min3(a.y, b.y, c.y), max3(a.y, b.y, c.y), h)
 			if x0 > x1 || y0 > y1 {
+				continue
+			}
+			// Facing away or edge-on (y points down on screen, so a front face has negative area).
+			area := int64(b.x-a.x)*int64(c.y-a.y) - int64(b.y-a.y)*int64(c.x-a.x)
+			if area == 0 || cull && area > 0 {
 				continue
 			}
 			kt := int32(j + k)
