@@ -19,7 +19,11 @@ func (r *Renderer) opaquePhase(int) {
 			list := r.chunks[c].opaque
 			for _, idx := range r.opaqueBins[c*r.nBands+band] {
 				t := &list[idx]
-				r.rasterOpaque(t, y0, y1)
+				if t.cover != 0 { // most triangles: no edge functions, so no setup for them
+					r.rasterOpaqueSmall(t, max(t.minY, int32(y0)), min(t.maxY, int32(y1-1)))
+				} else {
+					r.rasterOpaque(t, y0, y1)
+				}
 				lo, hi = min(lo, t.minX), max(hi, t.maxX)
 			}
 		}
@@ -160,14 +164,11 @@ func clampByte(v float32) byte {
 	return byte(v + 0.5)
 }
 
-// rasterOpaque draws the rows y0..y1-1 of t with a depth test (larger 1/w is nearer).
+// rasterOpaque draws the rows y0..y1-1 of t, a triangle without a cover mask, with a depth test
+// (larger 1/w is nearer).
 func (r *Renderer) rasterOpaque(t *triSetup, y0, y1 int) {
 	ys, ye := max(t.minY, int32(y0)), min(t.maxY, int32(y1-1))
 	if ys > ye {
-		return
-	}
-	if t.cover != 0 {
-		r.rasterOpaqueSmall(t, ys, ye)
 		return
 	}
 	e0, e1, e2, s0, s1, s2 := edges(t, t.minX, ys)
@@ -222,7 +223,8 @@ func (r *Renderer) rasterOpaque(t *triSetup, y0, y1 int) {
 }
 
 // rasterOpaqueSmall is rasterOpaque for a triangle whose covered pixels are known
-// (triSetup.cover), in rows ys..ye; the same arithmetic gives the same depths and colours.
+// (triSetup.cover), in rows ys..ye (none when ys > ye); the same arithmetic gives the same
+// depths and colours.
 func (r *Renderer) rasterOpaqueSmall(t *triSetup, ys, ye int32) {
 	for m := uint(t.cover); m != 0; m &= m - 1 {
 		j := int32(bits.TrailingZeros(m))
