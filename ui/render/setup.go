@@ -180,12 +180,8 @@ func (r *Renderer) colourPhase(int) {
 			return
 		}
 		ch := &r.chunks[c]
-		for i := range ch.opaque {
-			r.setupColour(&ch.opaque[i])
-		}
-		for i := range ch.clear {
-			r.setupColour(&ch.clear[i])
-		}
+		r.setupColours(ch.opaque)
+		r.setupColours(ch.clear)
 		o := &r.objs[ch.obj]
 		bins := r.opaqueBins[c*r.nBands : (c+1)*r.nBands]
 		objID := uint16(ch.obj + 1)
@@ -221,13 +217,15 @@ func (r *Renderer) bin(ch *triChunk, bins [][]int32, o *frameObject, ts *triSetu
 	}
 }
 
-// setupColour fills the colour planes of a triangle set up by setupGeometry from its shaded
-// corners.
-func (r *Renderer) setupColour(ts *triSetup) {
-	if ts.v[0] < 0 {
-		return
+// setupColours fills the colour planes of triangles set up by cullChunk from their shaded
+// corners (pieces of clipped triangles have theirs already).
+func (r *Renderer) setupColours(tris []triSetup) {
+	wcol := r.wcol
+	for i := range tris {
+		if ts := &tris[i]; ts.v[0] >= 0 {
+			colourPlanes(ts, &wcol[ts.v[0]], &wcol[ts.v[1]], &wcol[ts.v[2]])
+		}
 	}
-	colourPlanes(ts, &r.wcol[ts.v[0]], &r.wcol[ts.v[1]], &r.wcol[ts.v[2]])
 }
 
 // colourPlanes fills the colour planes of ts from its corners' colours divided by w, a, b and c
