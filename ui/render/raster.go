@@ -24,16 +24,18 @@ func (r *Renderer) opaquePhase(worker int) {
 		y0, y1 := r.bandRows(band)
 		r.clearRows(y0, y1, band)
 		lo, hi := int32(r.w), int32(-1)
+		tilesSet := false
 		for k, oi := range r.opaqueOrder {
-			if k == 1 {
-				r.farthestInTiles(tiles, y0, y1, lo, hi)
-			}
 			for c := r.objChunks[oi][0]; c < r.objChunks[oi][1]; c++ {
 				list := r.chunks[c].opaque
 				for _, idx := range r.opaqueBins[c*r.nBands+band] {
 					t := &list[idx]
-					lo, hi = min(lo, t.minX), max(hi, t.maxX)
 					ys, ye := max(t.minY, int32(y0)), min(t.maxY, int32(y1-1))
+					if k > 0 && !tilesSet { // the nearest object is drawn
+						r.farthestInTiles(tiles, y0, y1, lo, hi)
+						tilesSet = true
+					}
+					lo, hi = min(lo, t.minX), max(hi, t.maxX)
 					if k > 0 && behindTiles(t, ys, ye, tiles) {
 						continue
 					}

@@ -434,7 +434,9 @@ func (r *Renderer) prepareChunks() {
 		if o.mesh == nil {
 			continue
 		}
-		r.opaqueOrder = append(r.opaqueOrder, oi)
+		if !o.seeThrough {
+			r.opaqueOrder = append(r.opaqueOrder, oi)
+		}
 		nt := len(o.mesh.Triangles)
 		for t := 0; t < nt; t += size {
 			if n == len(r.chunks) {
