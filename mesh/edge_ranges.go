@@ -92,7 +92,9 @@ func (s *rangeStreams[K]) fill(tris [][3]int32, nv int32, nr int, shift, hiBits 
 	s.arena = arena
 	s.pages = make([][]int, nr)
 	s.last = make([]int, nr)
-	at := make([]int32, nr) // where range r's next key goes
+	// Where range r's next key goes (int32: an arena of three keys a triangle fits for any
+	// surface a file may hold, MaxTriangles, and far beyond).
+	at := make([]int32, nr)
 	used := 0
 	for r := range nr {
 		at[r] = int32(used)
@@ -228,7 +230,7 @@ func tallyGroups[K edgeKey](c *edgeTally, keys []K, mask K) {
 	}
 }
 
-// sortKeys is an insertion sort: groups mostly hold a few keys.
+// sortKeys is an insertion sort: a vertex's buckets and groups mostly hold a few keys.
 func sortKeys[K edgeKey](a []K) {
 	if len(a) > 32 {
 		slices.Sort(a)

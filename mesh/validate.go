@@ -184,7 +184,7 @@ type edgeTally struct{ boundary, nonManifold, inconsistent int }
 // sorted sorts the bucket and classifies each run of one edge: cheap when the half-edges
 // come nearly in order, as from triangles in build order.
 func (c *edgeTally) sorted(bucket []uint32) {
-	sortEdgeBucket(bucket)
+	sortKeys(bucket)
 	tallySortedKeys(c, bucket)
 }
 
@@ -212,23 +212,6 @@ func edgesLocal(m *Mesh) bool {
 		n++
 	}
 	return far*4 <= n
-}
-
-// sortEdgeBucket is an insertion sort: buckets hold a vertex's few edges.
-func sortEdgeBucket(a []uint32) {
-	if len(a) > 32 {
-		slices.Sort(a)
-		return
-	}
-	for i := 1; i < len(a); i++ {
-		x := a[i]
-		j := i - 1
-		for j >= 0 && a[j] > x {
-			a[j+1] = a[j]
-			j--
-		}
-		a[j+1] = x
-	}
 }
 
 // vertexUnion joins the vertices of every triangle; find returns a vertex's shell root, the

@@ -1,12 +1,21 @@
 package render
 
-import "math/bits"
+import (
+	"math"
+	"math/bits"
+)
 
 // Rows are split into bands of bandH rows; one worker owns a band at a time, so no
 // two goroutines write the same pixel and the result does not depend on scheduling.
 
-// opaquePhase clears each band and draws the opaque triangles into it.
-func (r *Renderer) opaquePhase(int) {
+// opaquePhase clears each band and draws the opaque triangles into it, object by object nearest
+// first (opaqueOrder). A pixel goes to the nearest surface and, of surfaces at the same depth,
+// to the one of the lowest object number: the first one drawn when objects are drawn in their
+// order, so the picture does not depend on the order (within an object, triangles keep theirs).
+// Once the nearest object is drawn, a triangle of another that lies behind everything drawn in
+// the tiles it touches is skipped whole (behindTiles).
+func (r *Renderer) opaquePhase(worker int) {
+	tiles := r.tiles[worker]
 	for {
 		band, ok := r.nextItem(r.nBands)
 		if !ok {
@@ -15,16 +24,81 @@ func (r *Renderer) opaquePhase(int) {
 		y0, y1 := r.bandRows(band)
 		r.clearRows(y0, y1, band)
 		lo, hi := int32(r.w), int32(-1)
-		for c := 0; c < r.nChunks; c++ {
-			list := r.chunks[c].opaque
-			for _, idx := range r.opaqueBins[c*r.nBands+band] {
-				t := &list[idx]
-				r.rasterOpaque(t, y0, y1)
-				lo, hi = min(lo, t.minX), max(hi, t.maxX)
+		tilesSet := false
+		for k, oi := range r.opaqueOrder {
+			for c := r.objChunks[oi][0]; c < r.objChunks[oi][1]; c++ {
+				list := r.chunks[c].opaque
+				for _, idx := range r.opaqueBins[c*r.nBands+band] {
+					t := &list[idx]
+					ys, ye := max(t.minY, int32(y0)), min(t.maxY, int32(y1-1))
+					if k > 0 && !tilesSet { // the nearest object is drawn
+						r.farthestInTiles(tiles, y0, y1, lo, hi)
+						tilesSet = true
+					}
+					lo, hi = min(lo, t.minX), max(hi, t.maxX)
+					if k > 0 && behindTiles(t, ys, ye, tiles) {
+						continue
+					}
+					if t.cover != 0 { // most triangles: no edge functions, so no setup for them
+						r.rasterOpaqueSmall(t, ys, ye)
+					} else {
+						r.rasterOpaque(t, ys, ye)
+					}
+				}
 			}
 		}
 		r.opaqueSpan[band] = [2]int32{lo, hi}
 	}
+}
+
+// tileCols is the width in columns of the tiles whose farthest depth hides triangles.
+const tileCols = 8
+
+// farthestInTiles sets tiles[i] to the smallest 1/w (0 where nothing is drawn) in rows y0..y1-1
+// of columns i*tileCols.. (i+1)*tileCols-1, for the tiles that meet columns lo..hi, outside of
+// which nothing is drawn yet; 0 elsewhere.
+func (r *Renderer) farthestInTiles(tiles []float32, y0, y1 int, lo, hi int32) {
+	clear(tiles)
+	if lo > hi {
+		return
+	}
+	t0, t1 := int(lo)/tileCols, int(hi)/tileCols
+	for i := t0; i <= t1; i++ {
+		tiles[i] = float32(math.Inf(1))
+	}
+	x0, x1 := t0*tileCols, min(r.w, (t1+1)*tileCols)
+	for y := y0; y < y1; y++ {
+		row := r.z[y*r.w+x0 : y*r.w+x1]
+		for x, z := range row {
+			if i := (x0 + x) / tileCols; z < tiles[i] {
+				tiles[i] = z
+			}
+		}
+	}
+}
+
+// behindTiles reports whether every pixel of t in rows ys..ye lies behind the farthest depth of
+// each tile it touches, by more than the rounding of the pixels' depths: drawing it would
+// change nothing.
+func behindTiles(t *triSetup, ys, ye int32, tiles []float32) bool {
+	if ys > ye {
+		return true
+	}
+	fa, fb, fx := float32(ys-t.minY), float32(ye-t.minY), float32(t.maxX-t.minX)
+	za, zb, zx := t.zdy*fa, t.zdy*fb, t.zdx*fx
+	nearest := t.z + max(za, zb) + max(zx, 0)
+	// Each pixel's 1/w is two roundings of float32 sums away from the plane's: a bound on
+	// their error, with room to spare.
+	slack := (abs32(t.z) + abs32(za) + abs32(zb) + abs32(zx)) * 1e-5
+	if !(nearest+slack < float32(math.Inf(1))) {
+		return false // NaN or infinite planes: drawn, as before
+	}
+	for _, far := range tiles[t.minX/tileCols : t.maxX/tileCols+1] {
+		if !(nearest+slack < far) {
+			return false
+		}
+	}
+	return true
 }
 
 // seeThroughPhase outlines the opaque layer, then blends the see-through triangles far to near.
@@ -160,14 +234,10 @@ func clampByte(v float32) byte {
 	return byte(v + 0.5)
 }
 
-// rasterOpaque draws the rows y0..y1-1 of t with a depth test (larger 1/w is nearer).
-func (r *Renderer) rasterOpaque(t *triSetup, y0, y1 int) {
-	ys, ye := max(t.minY, int32(y0)), min(t.maxY, int32(y1-1))
+// rasterOpaque draws the rows ys..ye of t, a triangle without a cover mask, with a depth test
+// (larger 1/w is nearer; opaquePhase says who wins a tie).
+func (r *Renderer) rasterOpaque(t *triSetup, ys, ye int32) {
 	if ys > ye {
-		return
-	}
-	if t.cover != 0 {
-		r.rasterOpaqueSmall(t, ys, ye)
 		return
 	}
 	e0, e1, e2, s0, s1, s2 := edges(t, t.minX, ys)
@@ -196,7 +266,7 @@ func (r *Renderer) rasterOpaque(t *triSetup, y0, y1 int) {
 		fx := float32(x0 - t.minX)
 		for x := x0; x <= x1; x++ {
 			if a0|a1|a2 >= 0 {
-				if iw := zr + t.zdx*fx; iw > zb[i] {
+				if iw := zr + t.zdx*fx; iw > zb[i] || iw == zb[i] && t.obj < r.oObj[i] {
 					zb[i] = iw
 					k := 1 / iw
 					p := pix[o : o+4 : o+4]
@@ -222,7 +292,8 @@ func (r *Renderer) rasterOpaque(t *triSetup, y0, y1 int) {
 }
 
 // rasterOpaqueSmall is rasterOpaque for a triangle whose covered pixels are known
-// (triSetup.cover), in rows ys..ye; the same arithmetic gives the same depths and colours.
+// (triSetup.cover), in rows ys..ye (none when ys > ye); the same arithmetic gives the same
+// depths and colours.
 func (r *Renderer) rasterOpaqueSmall(t *triSetup, ys, ye int32) {
 	for m := uint(t.cover); m != 0; m &= m - 1 {
 		j := int32(bits.TrailingZeros(m))
@@ -234,7 +305,7 @@ func (r *Renderer) rasterOpaqueSmall(t *triSetup, ys, ye int32) {
 		dx := j & 3
 		fy, fx := float32(dy), float32(dx)
 		i := int(y*int32(r.w) + t.minX + dx)
-		if iw := t.z + t.zdy*fy + t.zdx*fx; iw > r.z[i] {
+		if iw := t.z + t.zdy*fy + t.zdx*fx; iw > r.z[i] || iw == r.z[i] && t.obj < r.oObj[i] {
 			r.z[i] = iw
 			k := 1 / iw
 			o := r.base + int(y)*r.stride + int(t.minX+dx)*4

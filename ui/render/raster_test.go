@@ -5,6 +5,7 @@ import (
 	"image/color"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"testing"
 
 	"github.com/go-gl/mathgl/mgl64"
@@ -111,6 +112,30 @@ func TestNearerTriangleWinsEitherOrder(t *testing.T) {
 		if !ok || s.Objects[obj].Mesh != near {
 			t.Errorf("order %v: pick found object %d ok=%v, want the nearer one", order, obj, ok)
 		}
+	}
+}
+
+// Of two surfaces at exactly the same depth the lower object number keeps the pixel, as when
+// objects are drawn in their order through a strict less-than depth test (OpenGL's default
+// GL_LESS: only a strictly nearer fragment replaces; from memory), even though the opaque pass
+// draws the nearer object first: the second object holds the same triangle, plus one 3 mm
+// nearer the eye, off screen, which brings its bounds nearer.
+func TestSameDepthGoesToLowerObjectNumber(t *testing.T) {
+	const w, h = 64, 64
+	tri := []mgl64.Vec3{{-1, 0, -1}, {1, 0, -1}, {0, 0, 1}}
+	first := &mesh.Mesh{Vertices: tri, Triangles: [][3]int32{{0, 1, 2}}}
+	second := &mesh.Mesh{
+		Vertices:  append(slices.Clone(tri), mgl64.Vec3{20, -3, -1}, mgl64.Vec3{21, -3, -1}, mgl64.Vec3{20.5, -3, 1}),
+		Triangles: [][3]int32{{0, 1, 2}, {3, 4, 5}},
+	}
+	red, blue := color.RGBA{255, 0, 0, 255}, color.RGBA{0, 0, 255, 255}
+	s := &Scene{Background: testBG, Objects: []Object{{Mesh: first, Color: red}, {Mesh: second, Color: blue}}}
+	img := render(t, s, frontCamera(8, 40), w, h, Options{})
+	if p := img.RGBAAt(w/2, h/2); !(p.R > 100 && p.B < 50) {
+		t.Errorf("centre pixel %v, want the first object's red", p)
+	}
+	if obj, _, _, ok := lastPick(t, s, frontCamera(8, 40), w, h, w/2, h/2); !ok || obj != 0 {
+		t.Errorf("pick found object %d ok=%v, want object 0", obj, ok)
 	}
 }
 

@@ -5,9 +5,11 @@
 package render
 
 import (
+	"cmp"
 	"image"
 	"math"
 	"runtime"
+	"slices"
 	"sync/atomic"
 
 	"github.com/go-gl/mathgl/mgl32"
@@ -50,12 +52,17 @@ type Renderer struct {
 	// set per worker, so marking takes no atomic operation and no lock).
 	marks [][]uint64
 
-	chunks     []triChunk
-	nChunks    int
-	opaqueBins [][]int32 // [chunk*nBands+band] indices into chunks[chunk].opaque
-	sortItems  []sortItem
-	sortTmp    []sortItem
-	clearBins  [][]clearRef // [band] see-through triangles, far to near
+	chunks  []triChunk
+	nChunks int
+	// objChunks[o] is the range of chunks holding object o's triangles; opaqueOrder lists the
+	// objects nearest first, the order the opaque pass draws them in (see opaquePhase).
+	objChunks   [][2]int
+	opaqueOrder []int
+	tiles       [][]float32 // [worker] the band's farthest depth per tile of tileCols columns
+	opaqueBins  [][]int32   // [chunk*nBands+band] indices into chunks[chunk].opaque
+	sortItems   []sortItem
+	sortTmp     []sortItem
+	clearBins   [][]clearRef // [band] see-through triangles, far to near
 	// opaqueSpan and clearSpan are the columns each band's opaque and see-through triangles
 	// reach, so the outline passes skip the empty rest of the row.
 	opaqueSpan, clearSpan [][2]int32
@@ -99,6 +106,7 @@ type frameObject struct {
 	normals    []mgl32.Vec3
 	colors     bool
 	clusters   []coneCluster // when cull is set
+	eyeGap     float64       // distance from the eye to the mesh's bounding box
 }
 
 type meshCache struct {
@@ -330,6 +338,11 @@ func (r *Renderer) prepareObjects(s *Scene) {
 			}
 		}
 		fo.cull = !fo.seeThrough && !fo.clip && !inside
+		var gap mgl64.Vec3
+		for k := range 3 {
+			gap[k] = max(mc.lo[k]-r.eye[k], 0, r.eye[k]-mc.hi[k])
+		}
+		fo.eyeGap = gap.Len()
 		if fo.cull {
 			if mc.clusters == nil {
 				mc.clusters = buildClusters(o.Mesh)
@@ -414,9 +427,15 @@ func (r *Renderer) prepareChunks() {
 	// Whole blocks of culling (so its clusters of triangles line up with the chunks).
 	size := max(4096, (total+255)/256+cullBlock-1) &^ (cullBlock - 1)
 	n := 0
+	r.objChunks = grow(r.objChunks, len(r.objs))
+	r.opaqueOrder = r.opaqueOrder[:0]
 	for oi, o := range r.objs {
+		r.objChunks[oi] = [2]int{n, n}
 		if o.mesh == nil {
 			continue
+		}
+		if !o.seeThrough {
+			r.opaqueOrder = append(r.opaqueOrder, oi)
 		}
 		nt := len(o.mesh.Triangles)
 		for t := 0; t < nt; t += size {
@@ -430,8 +449,16 @@ func (r *Renderer) prepareChunks() {
 			ch.clipped = ch.clipped[:0]
 			n++
 		}
+		r.objChunks[oi][1] = n
 	}
 	r.nChunks = n
+	// Nearest first (stable: objects at the same distance keep their order), so a surface hidden
+	// inside another is mostly found hidden before it is drawn.
+	slices.SortStableFunc(r.opaqueOrder, func(a, b int) int { return cmp.Compare(r.objs[a].eyeGap, r.objs[b].eyeGap) })
+	r.tiles = grow(r.tiles, r.workers)
+	for w := range r.tiles {
+		r.tiles[w] = grow(r.tiles[w], (r.w+tileCols-1)/tileCols)
+	}
 	nb := n * r.nBands
 	if len(r.opaqueBins) < nb {
 		r.opaqueBins = append(r.opaqueBins, make([][]int32, nb-len(r.opaqueBins))...)

@@ -56,8 +56,7 @@ func (r *Renderer) cullChunk(c int, marks []uint64) {
 		marks[v>>6] |= 1 << (v & 63)
 	}
 	cull, w, h := o.cull, int32(r.w), int32(r.h)
-	var ts triSetup
-	var kept [cullBlock]int32
+	var kept [cullBlock]keptTri
 	for t0 := ch.t0; t0 < ch.t1; t0 += cullBlock {
 		tris := o.mesh.Triangles[t0:min(ch.t1, t0+cullBlock)]
 		// Clusters whose triangles all face away (one bit each; chunks start on a block).
@@ -70,32 +69,27 @@ func (r *Renderer) cullChunk(c int, marks []uint64) {
 			}
 		}
 		n := keptTriangles(tris, pos, cull, away, w, h, &kept)
-		for _, k := range kept[:n] {
-			if k < 0 { // crosses a clip plane or the guard band: clipped once its corners are lit
-				k = ^k
-				ch.clipped = append(ch.clipped, int32(t0)+k)
-				tri := tris[k]
-				mark(tri[0])
-				mark(tri[1])
-				mark(tri[2])
-				continue
-			}
-			cover := uint16(k >> keptShift)
-			k &= cullBlock - 1
-			tri := tris[k]
-			a, b, cc := &pos[tri[0]], &pos[tri[1]], &pos[tri[2]]
-			ts.v = [3]int32{base + tri[0], base + tri[1], base + tri[2]}
-			if int64(b.x-a.x)*int64(cc.y-a.y) < int64(b.y-a.y)*int64(cc.x-a.x) { // front face: reorder
-				b, cc = cc, b
-				ts.v[1], ts.v[2] = ts.v[2], ts.v[1]
-			}
-			x0, y0, x1, y1 := pixelBox(a, b, cc, w, h)
-			setupPlanes(&ts, a, b, cc, x0, y0, x1, y1, cover)
-			ts.tri, ts.obj = int32(t0)+k, objID
-			r.emit(ch, bins, o, &ts)
+		for i := range kept[:n] {
+			kt := &kept[i]
+			tri := &tris[kt.k&(cullBlock-1)]
 			mark(tri[0])
 			mark(tri[1])
 			mark(tri[2])
+			if kt.k&keptClip != 0 { // crosses a clip plane or the guard band: clipped once its corners are lit
+				ch.clipped = append(ch.clipped, int32(t0)+kt.k&(cullBlock-1))
+				continue
+			}
+			a, b, cc := &pos[tri[0]], &pos[tri[1]], &pos[tri[2]]
+			v := [3]int32{base + tri[0], base + tri[1], base + tri[2]}
+			if kt.k&keptSwap != 0 { // front face: reorder
+				b, cc = cc, b
+				v[1], v[2] = v[2], v[1]
+			}
+			ts := r.newTriangle(ch, o)
+			setupPlanes(ts, a, b, cc, kt.x0, kt.y0, kt.x1, kt.y1, uint16(kt.k>>keptShift))
+			ts.v = v
+			ts.tri, ts.obj = int32(t0)+kt.k&(cullBlock-1), objID
+			r.bin(ch, bins, o, ts)
 		}
 	}
 }
@@ -103,24 +97,36 @@ func (r *Renderer) cullChunk(c int, marks []uint64) {
 // cullBlock is how many triangles keptTriangles looks at in one call.
 const cullBlock = 1024
 
-// keptShift places a kept triangle's cover mask above its index in keptTriangles' output.
-const keptShift = 10 // log2(cullBlock)
+// A keptTri's k holds the triangle's index in the block, its cover mask (triSetup.cover) <<
+// keptShift and two flags: keptSwap, corners b and c exchange to make the edge functions
+// positive inside; keptClip, it crosses a clip plane or the guard band (nothing else is set).
+const (
+	keptShift = 10 // log2(cullBlock)
+	keptSwap  = 1 << 26
+	keptClip  = 1 << 27
+)
+
+// keptTri is a triangle that keptTriangles lets through, with the pixel box it found.
+type keptTri struct {
+	k              int32
+	x0, y0, x1, y1 int32
+}
 
 // keptTriangles writes to kept the triangles of tris (at most cullBlock) that draw and returns
 // how many: corners valid, not wholly outside the view or cut away, facing the eye when cull
 // is set, and covering a pixel centre of the w x h viewport (tested one by one in a box of at
-// most smallBox pixels, else only the box), each as its index plus its cover mask
-// (triSetup.cover) << keptShift. A triangle that crosses a clip plane or the guard band is
-// written as ^index. This loop sees every triangle of a frame and rejects most, so it does the
-// cheap tests alone, where the compiler keeps its values in registers.
-func keptTriangles(tris [][3]int32, pos []screenPos, cull bool, away uint64, w, h int32, kept *[cullBlock]int32) int {
+// most smallBox pixels, else only the box). This loop sees every triangle of a frame and
+// rejects most, so it does the cheap tests alone, where the compiler keeps its values in
+// registers.
+func keptTriangles(tris [][3]int32, pos []screenPos, cull bool, away uint64, w, h int32, kept *[cullBlock]keptTri) int {
 	n := 0
 	for j := 0; j < len(tris); j += clusterSize {
 		if away>>(j/clusterSize)&1 != 0 {
 			continue
 		}
-		for k := j; k < min(j+clusterSize, len(tris)); k++ {
-			tri := &tris[k]
+		cluster := tris[j:min(j+clusterSize, len(tris))]
+		for k := range cluster {
+			tri := &cluster[k]
 			i0, i1, i2 := int(tri[0]), int(tri[1]), int(tri[2])
 			if uint(i0) >= uint(len(pos)) || uint(i1) >= uint(len(pos)) || uint(i2) >= uint(len(pos)) {
 				continue // a bad index draws nothing rather than panicking
@@ -131,31 +137,35 @@ func keptTriangles(tris [][3]int32, pos []screenPos, cull bool, away uint64, w, 
 					continue
 				}
 				if codes&outClip != 0 {
-					kept[n&(cullBlock-1)] = int32(^k)
+					kept[n&(cullBlock-1)].k = int32(j+k) | keptClip
 					n++
 					continue
 				}
+			}
+			// No pixel centre in the box (tested first: it rejects most).
+			x0, x1 := pixelRange(min3(a.x, b.x, c.x), max3(a.x, b.x, c.x), w) // pixelBox, inlined
+			y0, y1 := pixelRange(min3(a.y, b.y, c.y), max3(a.y, b.y, c.y), h)
+			if x0 > x1 || y0 > y1 {
+				continue
 			}
 			// Facing away or edge-on (y points down on screen, so a front face has negative area).
 			area := int64(b.x-a.x)*int64(c.y-a.y) - int64(b.y-a.y)*int64(c.x-a.x)
 			if area == 0 || cull && area > 0 {
 				continue
 			}
-			x0, x1 := pixelRange(min3(a.x, b.x, c.x), max3(a.x, b.x, c.x), w) // pixelBox, inlined
-			y0, y1 := pixelRange(min3(a.y, b.y, c.y), max3(a.y, b.y, c.y), h)
-			if x0 > x1 || y0 > y1 {
-				continue
+			kt := int32(j + k)
+			if area < 0 {
+				b, c = c, b
+				kt |= keptSwap
 			}
-			var cover uint16
 			if (x1-x0+1)*(y1-y0+1) <= smallBox {
-				if area < 0 {
-					b, c = c, b
-				}
-				if cover = coverMask(a, b, c, x0, y0, x1, y1); cover == 0 {
+				cover := coverMask(a, b, c, x0, y0, x1, y1)
+				if cover == 0 {
 					continue
 				}
+				kt |= int32(cover) << keptShift
 			}
-			kept[n&(cullBlock-1)] = int32(k) | int32(cover)<<keptShift
+			kept[n&(cullBlock-1)] = keptTri{kt, x0, y0, x1, y1}
 			n++
 		}
 	}
@@ -170,12 +180,8 @@ func (r *Renderer) colourPhase(int) {
 			return
 		}
 		ch := &r.chunks[c]
-		for i := range ch.opaque {
-			r.setupColour(&ch.opaque[i])
-		}
-		for i := range ch.clear {
-			r.setupColour(&ch.clear[i])
-		}
+		r.setupColours(ch.opaque)
+		r.setupColours(ch.clear)
 		o := &r.objs[ch.obj]
 		bins := r.opaqueBins[c*r.nBands : (c+1)*r.nBands]
 		objID := uint16(ch.obj + 1)
@@ -185,26 +191,41 @@ func (r *Renderer) colourPhase(int) {
 	}
 }
 
-// emit stores a set-up triangle: opaque ones are binned now, see-through ones after sorting.
-func (r *Renderer) emit(ch *triChunk, bins [][]int32, o *frameObject, ts *triSetup) {
+// newTriangle returns a slot for a triangle of ch, among the opaque or the see-through ones as o
+// is drawn; the caller fills it (setting up in place saves copying it).
+func (r *Renderer) newTriangle(ch *triChunk, o *frameObject) *triSetup {
+	list := &ch.opaque
 	if o.seeThrough {
-		ch.clear = append(ch.clear, *ts)
+		list = &ch.clear
+	}
+	if len(*list) == cap(*list) {
+		*list = append(*list, triSetup{})[:len(*list)]
+	}
+	*list = (*list)[:len(*list)+1]
+	return &(*list)[len(*list)-1]
+}
+
+// bin files ts, the last triangle newTriangle gave out for ch, under the bands it touches when
+// it is opaque; see-through ones are binned after sorting.
+func (r *Renderer) bin(ch *triChunk, bins [][]int32, o *frameObject, ts *triSetup) {
+	if o.seeThrough {
 		return
 	}
-	idx := int32(len(ch.opaque))
-	ch.opaque = append(ch.opaque, *ts)
+	idx := int32(len(ch.opaque) - 1)
 	for band := r.rowBand[ts.minY]; band <= r.rowBand[ts.maxY]; band++ {
 		bins[band] = append(bins[band], idx)
 	}
 }
 
-// setupColour fills the colour planes of a triangle set up by setupGeometry from its shaded
-// corners.
-func (r *Renderer) setupColour(ts *triSetup) {
-	if ts.v[0] < 0 {
-		return
+// setupColours fills the colour planes of triangles set up by cullChunk from their shaded
+// corners (pieces of clipped triangles have theirs already).
+func (r *Renderer) setupColours(tris []triSetup) {
+	wcol := r.wcol
+	for i := range tris {
+		if ts := &tris[i]; ts.v[0] >= 0 {
+			colourPlanes(ts, &wcol[ts.v[0]], &wcol[ts.v[1]], &wcol[ts.v[2]])
+		}
 	}
-	colourPlanes(ts, &r.wcol[ts.v[0]], &r.wcol[ts.v[1]], &r.wcol[ts.v[2]])
 }
 
 // colourPlanes fills the colour planes of ts from its corners' colours divided by w, a, b and c
@@ -436,7 +457,8 @@ func (r *Renderer) clipTriangle(ch *triChunk, bins [][]int32, o *frameObject, tr
 	for i := 1; i+1 < len(in); i++ {
 		if r.setup(&sv[0], &sv[i], &sv[i+1], o.cull, &ts) {
 			ts.tri, ts.obj = tri, objID
-			r.emit(ch, bins, o, &ts)
+			*r.newTriangle(ch, o) = ts
+			r.bin(ch, bins, o, &ts)
 		}
 	}
 }

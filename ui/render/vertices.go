@@ -70,11 +70,14 @@ func (r *Renderer) transformVertices(o *frameObject, v0, v1 int) {
 	verts := o.mesh.Vertices
 	pos := r.pos[o.vertBase : o.vertBase+len(verts)]
 	near := float64(r.near)
+	fw, fh := float64(r.w), float64(r.h)
 	var cc [clipBlock][3]float64
 	for b0 := v0; b0 < v1; b0 += clipBlock {
 		b1 := min(v1, b0+clipBlock)
 		r.clipCoords(verts[b0:b1], cc[:b1-b0])
-		for k, c := range cc[:b1-b0] {
+		block := pos[b0:b1]
+		for k := range block {
+			c := &cc[k]
 			cx, cy, cw := c[0], c[1], c[2]
 			// Most vertices lie in the view: one test for all the outcode's bits.
 			var code uint32
@@ -84,9 +87,9 @@ func (r *Renderer) transformVertices(o *frameObject, v0, v1 int) {
 			if o.clip && code != outBad && r.clipDistance(o, b0+k, verts[b0+k]) < 0 {
 				code |= outPlane
 			}
-			sp := &pos[b0+k]
+			sp := &block[k]
 			if code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
-				*sp = r.projectPosition(float32(cx), float32(cy), float32(cw))
+				*sp = projectPosition(float32(cx), float32(cy), float32(cw), fw, fh)
 			}
 			sp.code = code
 		}
@@ -174,11 +177,13 @@ func (r *Renderer) shadeVertices(o *frameObject, v0, v1 int) {
 	out := r.col[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
 	pos := r.pos[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
 	wcol := r.wcol[o.vertBase : o.vertBase+len(o.mesh.Vertices)]
+	normals := o.normals[:len(out)]
 	ownNormals := len(src.Normals) == len(out)
 	base := mgl32.Vec3{float32(src.Color.R), float32(src.Color.G), float32(src.Color.B)}
 	r00, r01, r02 := float32(rot[0]), float32(rot[3]), float32(rot[6])
 	r10, r11, r12 := float32(rot[1]), float32(rot[4]), float32(rot[7])
 	r20, r21, r22 := float32(rot[2]), float32(rot[5]), float32(rot[8])
+	unlit := ambient + 0.5*(diffuse+fill) // a normal of length 0
 	// The marked vertices of v0..v1, 64 at a time, by their numbers in the frame (g).
 	g0, g1 := o.vertBase+v0, o.vertBase+v1
 	for word := g0 >> 6; word <= (g1-1)>>6; word++ {
@@ -186,19 +191,21 @@ func (r *Renderer) shadeVertices(o *frameObject, v0, v1 int) {
 		for _, mk := range r.marks {
 			m |= mk[word]
 		}
+		if word == g0>>6 {
+			m &= ^uint64(0) << (g0 & 63)
+		}
+		if word == (g1-1)>>6 {
+			m &= ^uint64(0) >> (63 - (g1-1)&63)
+		}
 		for ; m != 0; m &= m - 1 {
-			g := word<<6 + bits.TrailingZeros64(m)
-			if g < g0 || g >= g1 {
-				continue
-			}
-			i := g - o.vertBase
+			i := word<<6 + bits.TrailingZeros64(m) - o.vertBase
 			// Two-sided shading: |n.l| lights the inside of a tube as well as the outside.
 			var nx, ny, nz float32
 			if ownNormals {
 				q := rot.Mul3x1(src.Normals[i])
 				nx, ny, nz = float32(q[0]), float32(q[1]), float32(q[2])
 			} else {
-				q := &o.normals[i]
+				q := &normals[i]
 				nx, ny, nz = r00*q[0]+r01*q[1]+r02*q[2], r10*q[0]+r11*q[1]+r12*q[2], r20*q[0]+r21*q[1]+r22*q[2]
 			}
 			cr, cg, cb := base[0], base[1], base[2]
@@ -206,7 +213,21 @@ func (r *Renderer) shadeVertices(o *frameObject, v0, v1 int) {
 				k := src.Colors[i]
 				cr, cg, cb = float32(k.R), float32(k.G), float32(k.B)
 			}
-			k, h := light(nx, ny, nz)
+			// The light, written out here: a call would spill every value the loop keeps.
+			// A colour c (0..255) is lit to c*k + h.
+			k, h := unlit, float32(0)
+			if l := float32(math.Sqrt(float64(nx*nx + ny*ny + nz*nz))); l > 1e-12 {
+				inv := 1 / l
+				nx, ny, nz = nx*inv, ny*inv, nz*inv
+				d := abs32(nx*keyLight[0] + ny*keyLight[1] + nz*keyLight[2])
+				s := abs32(nx*halfway[0] + ny*halfway[1] + nz*halfway[2])
+				s *= s // s^32 by squaring
+				s *= s
+				s *= s
+				s *= s
+				s *= s
+				k, h = ambient+diffuse*d+fill*abs32(nz), highlight*s
+			}
 			col := mgl32.Vec3{cr*k + h, cg*k + h, cb*k + h}
 			out[i] = col
 			if sp := &pos[i]; sp.code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
@@ -215,25 +236,6 @@ func (r *Renderer) shadeVertices(o *frameObject, v0, v1 int) {
 			}
 		}
 	}
-}
-
-// light returns how a surface with view-space normal (nx, ny, nz) lights a colour c (0..255):
-// c*k + h.
-func light(nx, ny, nz float32) (k, h float32) {
-	l := float32(math.Sqrt(float64(nx*nx + ny*ny + nz*nz)))
-	if !(l > 1e-12) {
-		return ambient + 0.5*(diffuse+fill), 0
-	}
-	inv := 1 / l
-	nx, ny, nz = nx*inv, ny*inv, nz*inv
-	d := abs32(nx*keyLight[0] + ny*keyLight[1] + nz*keyLight[2])
-	s := abs32(nx*halfway[0] + ny*halfway[1] + nz*halfway[2])
-	s *= s // s^32 by squaring
-	s *= s
-	s *= s
-	s *= s
-	s *= s
-	return ambient + diffuse*d + fill*abs32(nz), highlight * s
 }
 
 func abs32(x float32) float32 {
@@ -247,15 +249,16 @@ func abs32(x float32) float32 {
 // The same float64 arithmetic serves all callers, so a vertex shared by a clipped
 // and an unclipped triangle lands on the same fixed-point position.
 func (r *Renderer) project(cx, cy, cw float32, col mgl32.Vec3) screenVert {
-	p := r.projectPosition(cx, cy, cw)
+	p := projectPosition(cx, cy, cw, float64(r.w), float64(r.h))
 	return screenVert{screenPos: p, c: [3]float32{col[0] * p.iw, col[1] * p.iw, col[2] * p.iw}}
 }
 
-// projectPosition is project without the colour (filled in when the vertex is lit).
-func (r *Renderer) projectPosition(cx, cy, cw float32) screenPos {
+// projectPosition is project without the colour (filled in when the vertex is lit), onto a
+// screen of fw x fh pixels.
+func projectPosition(cx, cy, cw float32, fw, fh float64) screenPos {
 	iw := 1 / float64(cw)
-	sx := (float64(cx)*iw*0.5 + 0.5) * float64(r.w)
-	sy := (0.5 - float64(cy)*iw*0.5) * float64(r.h)
+	sx := (float64(cx)*iw*0.5 + 0.5) * fw
+	sy := (0.5 - float64(cy)*iw*0.5) * fh
 	return screenPos{
 		x:  int32(math.Floor(sx*subOne + 0.5)),
 		y:  int32(math.Floor(sy*subOne + 0.5)),
