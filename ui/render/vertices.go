@@ -76,22 +76,33 @@ func (r *Renderer) transformVertices(o *frameObject, v0, v1 int) {
 		b1 := min(v1, b0+clipBlock)
 		r.clipCoords(verts[b0:b1], cc[:b1-b0])
 		block := pos[b0:b1]
+		// Outcodes first, then the projection in a loop of its own: apart, each loop is short
+		// enough for the processor to overlap many vertices (together they ran at half the speed).
 		for k := range block {
 			c := &cc[k]
 			cx, cy, cw := c[0], c[1], c[2]
 			// Most vertices lie in the view: one test for all the outcode's bits.
 			var code uint32
-			if sum := cx + cy + cw; !(cw >= near && cx <= cw && -cw <= cx && cy <= cw && -cw <= cy && sum-sum == 0) {
+			// (|x| <= w is -w <= x <= w, NaN failing both; a finite w keeps x and y finite.)
+			if !(near <= cw && cw <= math.MaxFloat64 && math.Abs(cx) <= cw && math.Abs(cy) <= cw) {
 				code = outcode(cx, cy, cw, near)
 			}
-			if o.clip && code != outBad && r.clipDistance(o, b0+k, verts[b0+k]) < 0 {
-				code |= outPlane
+			block[k].code = code
+		}
+		if o.clip {
+			for k := range block {
+				if sp := &block[k]; sp.code != outBad && r.clipDistance(o, b0+k, verts[b0+k]) < 0 {
+					sp.code |= outPlane
+				}
 			}
+		}
+		for k := range block {
 			sp := &block[k]
-			if code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
-				*sp = projectPosition(float32(cx), float32(cy), float32(cw), fw, fh)
+			if sp.code&(outNear|outGuardR|outGuardL|outGuardT|outGuardB|outBad) == 0 {
+				c := &cc[k]
+				p := projectPosition(float32(c[0]), float32(c[1]), float32(c[2]), fw, fh)
+				sp.x, sp.y, sp.iw = p.x, p.y, p.iw
 			}
-			sp.code = code
 		}
 	}
 }
