@@ -81,20 +81,30 @@ func buildClusters(m *mesh.Mesh) []coneCluster {
 	return out
 }
 
-// facesAway reports whether every triangle of cl faces away from eye: for any point p of the
-// ball and normal n of the cone, (p - eye).n >= |d| cos(theta + beta) - radius > 0, with d the
-// centre seen from the eye and theta its angle to the axis (both under 90 degrees).
-func (cl *coneCluster) facesAway(eye mgl64.Vec3) bool {
-	if cl.cosB <= 0 {
-		return false
+// awayMask has bit j set when every triangle of cluster j of cls (at most 64) faces away from
+// eye: for any point p of the ball and normal n of the cone, (p - eye).n >= |d| cos(theta +
+// beta) - radius > 0, with d the centre seen from the eye and theta its angle to the axis
+// (both under 90 degrees).
+//
+// It is written out in scalars and without branches: vector values copied through the stack,
+// and a branch mispredicted every few clusters, each cost this loop more than its arithmetic.
+// No test of the sign of along or of cosB is needed: a cluster that is never skipped has cosB
+// = sinB = radius = 0, so the left side is 0 (or NaN), not above 0; and along <= 0 with cosB
+// >= 0 makes the left side <= 0 < radius. Both give false, as they should.
+func awayMask(cls []coneCluster, eye mgl64.Vec3) uint64 {
+	var mask uint64
+	for j := range cls {
+		cl := &cls[j]
+		dx, dy, dz := cl.centre[0]-eye[0], cl.centre[1]-eye[1], cl.centre[2]-eye[2]
+		along := dx*cl.axis[0] + dy*cl.axis[1] + dz*cl.axis[2]
+		across2 := max(dx*dx+dy*dy+dz*dz-along*along, 0)
+		var bit uint64
+		if along*cl.cosB-math.Sqrt(across2)*cl.sinB > cl.radius {
+			bit = 1
+		}
+		mask |= bit << j
 	}
-	d := cl.centre.Sub(eye)
-	along := d.Dot(cl.axis)
-	if along <= 0 {
-		return false
-	}
-	across := math.Sqrt(math.Max(0, d.Dot(d)-along*along))
-	return along*cl.cosB-across*cl.sinB > cl.radius
+	return mask
 }
 
 // min4 and max4 are min and max of finite numbers, without the builtins' care for NaN.

@@ -42,7 +42,7 @@ func TestSkippedClustersFaceAway(t *testing.T) {
 			eye := mgl64.Vec3{1, 0, -8}.Add(dir.Mul(2 + 38*rng.Float64()))
 			for ci := range cl {
 				total++
-				if !cl[ci].facesAway(eye) {
+				if awayMask(cl[ci:ci+1], eye) == 0 {
 					continue
 				}
 				skipped++

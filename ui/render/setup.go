@@ -62,11 +62,8 @@ func (r *Renderer) cullChunk(c int, marks []uint64) {
 		// Clusters whose triangles all face away (one bit each; chunks start on a block).
 		var away uint64
 		if cull {
-			for j := range (len(tris) + clusterSize - 1) / clusterSize {
-				if o.clusters[t0/clusterSize+j].facesAway(r.eye) {
-					away |= 1 << j
-				}
-			}
+			c0 := t0 / clusterSize
+			away = awayMask(o.clusters[c0:c0+(len(tris)+clusterSize-1)/clusterSize], r.eye)
 		}
 		n := keptTriangles(tris, pos, cull, away, w, h, &kept)
 		for i := range kept[:n] {
