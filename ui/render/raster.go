@@ -28,7 +28,7 @@ func (r *Renderer) opaquePhase(worker int) {
 		for k, oi := range r.opaqueOrder {
 			for c := r.objChunks[oi][0]; c < r.objChunks[oi][1]; c++ {
 				list := r.chunks[c].opaque
-				for _, idx := range r.opaqueBins[c*r.nBands+band] {
+				for _, idx := range r.bins[c*r.nBands+band] {
 					t := &list[idx]
 					ys, ye := max(t.minY, int32(y0)), min(t.maxY, int32(y1-1))
 					if k > 0 && !tilesSet { // the nearest object is drawn
@@ -102,7 +102,7 @@ func behindTiles(t *triSetup, ys, ye int32, tiles []float32) bool {
 }
 
 // seeThroughPhase outlines the opaque layer, then blends the see-through triangles far to near.
-func (r *Renderer) seeThroughPhase(int) {
+func (r *Renderer) seeThroughPhase(worker int) {
 	for {
 		band, ok := r.nextItem(r.nBands)
 		if !ok {
@@ -111,8 +111,8 @@ func (r *Renderer) seeThroughPhase(int) {
 		y0, y1 := r.bandRows(band)
 		r.outlineRows(y0, y1, r.z, r.oObj, 190, r.opaqueSpan[band])
 		lo, hi := int32(r.w), int32(-1)
-		for _, ref := range r.clearBins[band] {
-			t := &r.chunks[ref.chunk].clear[ref.idx]
+		for _, it := range r.sortSeeThrough(band, worker) {
+			t := &r.chunks[it.chunk].clear[it.idx]
 			r.rasterSeeThrough(t, y0, y1, r.objs[t.obj-1].alpha)
 			lo, hi = min(lo, t.minX), max(hi, t.maxX)
 		}

@@ -59,10 +59,11 @@ type Renderer struct {
 	objChunks   [][2]int
 	opaqueOrder []int
 	tiles       [][]float32 // [worker] the band's farthest depth per tile of tileCols columns
-	opaqueBins  [][]int32   // [chunk*nBands+band] indices into chunks[chunk].opaque
-	sortItems   []sortItem
-	sortTmp     []sortItem
-	clearBins   [][]clearRef // [band] see-through triangles, far to near
+	// bins[chunk*nBands+band] lists the triangles of the chunk (opaque or see-through, as its
+	// object is drawn) that touch the band, by their indices in the chunk's list.
+	bins [][]int32
+	// sortBufs[worker] are the worker's two buffers for ordering a band's see-through triangles.
+	sortBufs [][2][]sortItem
 	// opaqueSpan and clearSpan are the columns each band's opaque and see-through triangles
 	// reach, so the outline passes skip the empty rest of the row.
 	opaqueSpan, clearSpan [][2]int32
@@ -128,8 +129,6 @@ type triChunk struct {
 	clipped     []int32 // triangles to clip once their corners are lit
 }
 
-type clearRef struct{ chunk, idx uint32 }
-
 // NewRenderer returns a renderer with no buffers yet; the first frame sizes them.
 func NewRenderer() *Renderer {
 	r := &Renderer{pool: newPool(), meshes: map[*mesh.Mesh]*meshCache{}, simpler: map[*mesh.Mesh]*simplified{}}
@@ -189,7 +188,6 @@ func (r *Renderer) Render(dst *image.RGBA, s *Scene, cam *Camera, opt Options) {
 	r.runPhase(r.nChunks, r.fnCull)
 	r.runPhase(len(r.vjobs), r.fnShade)
 	r.runPhase(r.nChunks, r.fnColour)
-	r.sortSeeThrough()
 	r.runPhase(r.nBands, r.fnOpaque)
 	r.runPhase(r.nBands, r.fnSeeThrough)
 	r.runPhase(r.nBands, r.fnFinish)
@@ -243,9 +241,6 @@ func (r *Renderer) resize(dst *image.RGBA, ss int) {
 	} else {
 		r.own = grow(r.own, n*4)
 		r.pix, r.stride, r.base = r.own, r.w*4, 0
-	}
-	if len(r.clearBins) < r.nBands {
-		r.clearBins = append(r.clearBins, make([][]clearRef, r.nBands-len(r.clearBins))...)
 	}
 	r.opaqueSpan = grow(r.opaqueSpan, r.nBands)
 	r.clearSpan = grow(r.clearSpan, r.nBands)
@@ -460,10 +455,11 @@ func (r *Renderer) prepareChunks() {
 		r.tiles[w] = grow(r.tiles[w], (r.w+tileCols-1)/tileCols)
 	}
 	nb := n * r.nBands
-	if len(r.opaqueBins) < nb {
-		r.opaqueBins = append(r.opaqueBins, make([][]int32, nb-len(r.opaqueBins))...)
+	if len(r.bins) < nb {
+		r.bins = append(r.bins, make([][]int32, nb-len(r.bins))...)
 	}
 	for i := 0; i < nb; i++ {
-		r.opaqueBins[i] = r.opaqueBins[i][:0]
+		r.bins[i] = r.bins[i][:0]
 	}
+	r.sortBufs = grow(r.sortBufs, r.workers)
 }

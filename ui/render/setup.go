@@ -49,7 +49,7 @@ func (r *Renderer) cullChunk(c int, marks []uint64) {
 	nv := len(o.mesh.Vertices)
 	base := int32(o.vertBase)
 	pos := r.pos[o.vertBase : o.vertBase+nv]
-	bins := r.opaqueBins[c*r.nBands : (c+1)*r.nBands]
+	bins := r.bins[c*r.nBands : (c+1)*r.nBands]
 	objID := uint16(ch.obj + 1)
 	mark := func(i int32) {
 		v := base + i
@@ -180,7 +180,7 @@ func (r *Renderer) colourPhase(int) {
 		r.setupColours(ch.opaque)
 		r.setupColours(ch.clear)
 		o := &r.objs[ch.obj]
-		bins := r.opaqueBins[c*r.nBands : (c+1)*r.nBands]
+		bins := r.bins[c*r.nBands : (c+1)*r.nBands]
 		objID := uint16(ch.obj + 1)
 		for _, t := range ch.clipped {
 			r.clipTriangle(ch, bins, o, t, objID)
@@ -202,13 +202,12 @@ func (r *Renderer) newTriangle(ch *triChunk, o *frameObject) *triSetup {
 	return &(*list)[len(*list)-1]
 }
 
-// bin files ts, the last triangle newTriangle gave out for ch, under the bands it touches when
-// it is opaque; see-through ones are binned after sorting.
+// bin files ts, the last triangle newTriangle gave out for ch, under the bands it touches.
 func (r *Renderer) bin(ch *triChunk, bins [][]int32, o *frameObject, ts *triSetup) {
-	if o.seeThrough {
-		return
-	}
 	idx := int32(len(ch.opaque) - 1)
+	if o.seeThrough {
+		idx = int32(len(ch.clear) - 1)
+	}
 	for band := r.rowBand[ts.minY]; band <= r.rowBand[ts.maxY]; band++ {
 		bins[band] = append(bins[band], idx)
 	}

@@ -7,43 +7,36 @@ import "math"
 type sortItem struct {
 	key        uint32
 	chunk, idx uint32
-	b0, b1     uint32 // first and last band it touches
 }
 
-// sortSeeThrough orders the see-through triangles far to near with a stable LSD radix sort
-// on the depth keys and bins them by band, keeping that order within each band.
-func (r *Renderer) sortSeeThrough() {
-	for b := 0; b < r.nBands; b++ {
-		r.clearBins[b] = r.clearBins[b][:0]
-	}
-	n := 0
+// sortSeeThrough returns the see-through triangles that touch band, far to near, in one of
+// worker's buffers: by a stable LSD radix sort on their depth keys, of the triangles listed
+// in chunk order, so triangles at the same depth keep the order of their chunks and lists.
+// Each band is sorted on its own, in parallel with the others, and gets the order a sort of
+// all the triangles at once would give it.
+func (r *Renderer) sortSeeThrough(band, worker int) []sortItem {
+	buf := &r.sortBufs[worker]
+	items := buf[0][:0]
 	for c := 0; c < r.nChunks; c++ {
-		n += len(r.chunks[c].clear)
-	}
-	if n == 0 {
-		return
-	}
-	items := grow(r.sortItems, n)[:0]
-	for c := 0; c < r.nChunks; c++ {
-		for i := range r.chunks[c].clear {
-			t := &r.chunks[c].clear[i]
+		ch := &r.chunks[c]
+		if !r.objs[ch.obj].seeThrough {
+			continue
+		}
+		for _, idx := range r.bins[c*r.nBands+band] {
+			t := &ch.clear[idx]
 			// Mean 1/w over the triangle's box is close enough to the mean over its corners.
 			key := math.Float32bits(t.z + (t.zdx*float32(t.maxX-t.minX)+t.zdy*float32(t.maxY-t.minY))*0.5)
-			items = append(items, sortItem{
-				key: key, chunk: uint32(c), idx: uint32(i),
-				b0: uint32(r.rowBand[t.minY]), b1: uint32(r.rowBand[t.maxY]),
-			})
+			items = append(items, sortItem{key: key, chunk: uint32(c), idx: uint32(idx)})
 		}
 	}
-	tmp := grow(r.sortTmp, n)
+	if len(items) == 0 {
+		buf[0] = items
+		return nil
+	}
+	tmp := grow(buf[1], len(items))
 	items, tmp = radixSort(items, tmp)
-	r.sortItems, r.sortTmp = items[:0], tmp[:0]
-	for _, it := range items {
-		ref := clearRef{chunk: it.chunk, idx: it.idx}
-		for b := it.b0; b <= it.b1; b++ {
-			r.clearBins[b] = append(r.clearBins[b], ref)
-		}
-	}
+	buf[0], buf[1] = items, tmp
+	return items
 }
 
 // radixSort sorts items by key (stable, 4 passes of 8 bits) using tmp of the same length;
