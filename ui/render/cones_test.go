@@ -40,6 +40,15 @@ func TestSkippedClustersFaceAway(t *testing.T) {
 			// Eyes all around the canal, 2 to 40 mm from its middle.
 			dir := mgl64.Vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}.Normalize()
 			eye := mgl64.Vec3{1, 0, -8}.Add(dir.Mul(2 + 38*rng.Float64()))
+			// The mask of 64 clusters at once says what each says alone.
+			for b := 0; b < len(cl); b += 64 {
+				mask := awayMask(cl[b:min(b+64, len(cl))], eye)
+				for j := b; j < min(b+64, len(cl)); j++ {
+					if one := awayMask(cl[j:j+1], eye); mask>>(j-b)&1 != one {
+						t.Fatalf("%s: cluster %d: %d in a mask of 64, %d alone", c.name, j, mask>>(j-b)&1, one)
+					}
+				}
+			}
 			for ci := range cl {
 				total++
 				if awayMask(cl[ci:ci+1], eye) == 0 {
