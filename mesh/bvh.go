@@ -744,10 +744,8 @@ func (b *BVH) ClosestWithin(p mgl64.Vec3, limit float64) (q mgl64.Vec3, tri int3
 		}
 		if n.count > 0 {
 			for i := n.first; i < n.first+n.count; i++ {
-				tr := &b.tris[i]
-				c := closestOnTriangle(p, tr.a, tr.a.Add(tr.e1), tr.a.Add(tr.e2))
-				if d := c.Sub(p); d.Dot(d) < best2 {
-					best2, q, tri = d.Dot(d), c, tr.id
+				if d2, c := closestOnStored(&p, &b.tris[i]); d2 < best2 {
+					best2, q, tri = d2, c, b.tris[i].id
 				}
 			}
 			continue
@@ -784,39 +782,67 @@ func boxDist2(lo, hi, p mgl64.Vec3) float64 {
 // closestOnTriangle finds the point of triangle abc nearest p by its Voronoi regions
 // (Ericson, Real-Time Collision Detection, 5.1.5).
 func closestOnTriangle(p, a, b, c mgl64.Vec3) mgl64.Vec3 {
-	ab, ac, ap := b.Sub(a), c.Sub(a), p.Sub(a)
-	d1, d2 := ab.Dot(ap), ac.Dot(ap)
+	x, y, z := closestOnTriangleXYZ(p[0], p[1], p[2], a[0], a[1], a[2], b[0], b[1], b[2], c[0], c[1], c[2])
+	return mgl64.Vec3{x, y, z}
+}
+
+// closestOnTriangleXYZ is closestOnTriangle on plain numbers, each operation in the order the
+// Vec3 methods take it, so every result rounds the same: Vec3 values are arrays, which Go
+// passes and keeps in memory, and this test runs for every triangle a closest-point query
+// looks at (a third of its instructions went to copying vectors).
+func closestOnTriangleXYZ(px, py, pz, ax, ay, az, bx, by, bz, cx, cy, cz float64) (x, y, z float64) {
+	abx, aby, abz := bx-ax, by-ay, bz-az
+	acx, acy, acz := cx-ax, cy-ay, cz-az
+	apx, apy, apz := px-ax, py-ay, pz-az
+	d1 := abx*apx + aby*apy + abz*apz
+	d2 := acx*apx + acy*apy + acz*apz
 	if d1 <= 0 && d2 <= 0 {
-		return a
+		return ax, ay, az
 	}
-	bp := p.Sub(b)
-	d3, d4 := ab.Dot(bp), ac.Dot(bp)
+	bpx, bpy, bpz := px-bx, py-by, pz-bz
+	d3 := abx*bpx + aby*bpy + abz*bpz
+	d4 := acx*bpx + acy*bpy + acz*bpz
 	if d3 >= 0 && d4 <= d3 {
-		return b
+		return bx, by, bz
 	}
 	vc := d1*d4 - d3*d2
 	if vc <= 0 && d1 >= 0 && d3 <= 0 {
-		return a.Add(ab.Mul(d1 / (d1 - d3)))
+		t := d1 / (d1 - d3)
+		return ax + abx*t, ay + aby*t, az + abz*t
 	}
-	cp := p.Sub(c)
-	d5, d6 := ab.Dot(cp), ac.Dot(cp)
+	cpx, cpy, cpz := px-cx, py-cy, pz-cz
+	d5 := abx*cpx + aby*cpy + abz*cpz
+	d6 := acx*cpx + acy*cpy + acz*cpz
 	if d6 >= 0 && d5 <= d6 {
-		return c
+		return cx, cy, cz
 	}
 	vb := d5*d2 - d1*d6
 	if vb <= 0 && d2 >= 0 && d6 <= 0 {
-		return a.Add(ac.Mul(d2 / (d2 - d6)))
+		t := d2 / (d2 - d6)
+		return ax + acx*t, ay + acy*t, az + acz*t
 	}
 	va := d3*d6 - d5*d4
 	if va <= 0 && d4-d3 >= 0 && d5-d6 >= 0 {
-		return b.Add(c.Sub(b).Mul((d4 - d3) / ((d4 - d3) + (d5 - d6))))
+		t := (d4 - d3) / ((d4 - d3) + (d5 - d6))
+		return bx + (cx-bx)*t, by + (cy-by)*t, bz + (cz-bz)*t
 	}
 	den := va + vb + vc
 	if den == 0 { // zero-area triangle not caught above: fall back to the nearest corner
-		return nearestOf(p, a, b, c)
+		q := nearestOf(mgl64.Vec3{px, py, pz}, mgl64.Vec3{ax, ay, az}, mgl64.Vec3{bx, by, bz}, mgl64.Vec3{cx, cy, cz})
+		return q[0], q[1], q[2]
 	}
 	v, w := vb/den, vc/den
-	return a.Add(ab.Mul(v)).Add(ac.Mul(w))
+	return ax + abx*v + acx*w, ay + aby*v + acy*w, az + abz*v + acz*w
+}
+
+// closestOnStored is the point of stored triangle tr nearest p and its squared distance, as
+// closestOnTriangle(p, a, a+e1, a+e2) and (c-p).Dot(c-p) give them.
+func closestOnStored(p *mgl64.Vec3, tr *bvhTri) (d2 float64, c mgl64.Vec3) {
+	a, e1, e2 := &tr.a, &tr.e1, &tr.e2
+	x, y, z := closestOnTriangleXYZ(p[0], p[1], p[2], a[0], a[1], a[2],
+		a[0]+e1[0], a[1]+e1[1], a[2]+e1[2], a[0]+e2[0], a[1]+e2[1], a[2]+e2[2])
+	dx, dy, dz := x-p[0], y-p[1], z-p[2]
+	return dx*dx + dy*dy + dz*dz, mgl64.Vec3{x, y, z}
 }
 
 func nearestOf(p mgl64.Vec3, pts ...mgl64.Vec3) mgl64.Vec3 {

@@ -126,10 +126,8 @@ func (t *NearTree) ClosestWithin(p mgl64.Vec3, limit float64) (q mgl64.Vec3, tri
 		n := &t.nodes[e.node]
 		if n.count > 0 {
 			for i := n.first; i < n.first+n.count; i++ {
-				tr := &t.tris[i]
-				c := closestOnTriangle(p, tr.a, tr.a.Add(tr.e1), tr.a.Add(tr.e2))
-				if d := c.Sub(p); d.Dot(d) < best2 {
-					best2, q, tri = d.Dot(d), c, tr.id
+				if d2, c := closestOnStored(&p, &t.tris[i]); d2 < best2 {
+					best2, q, tri = d2, c, t.tris[i].id
 				}
 			}
 			continue
