@@ -135,7 +135,7 @@ func (c *Canal) wallThickness(m []float32, from *wallMap, limit float64, tol wal
 		}
 		for a := 0; a < nb; a++ {
 			for b := a + 1; b < nb; b++ {
-				low = max(low, outsideTwoBalls(p, balls[a], balls[b]))
+				low = max(low, outsideTwoBalls(&p, &balls[a], &balls[b]))
 			}
 		}
 		for _, ij := range nbrs {

@@ -21,7 +21,7 @@ import (
 // within the sample's spacing of the least of them.
 func TestOutsideTwoBalls(t *testing.T) {
 	R, a := 1.3, 0.4
-	got := outsideTwoBalls(mgl64.Vec3{}, ball{c: mgl64.Vec3{-a / 2, 0, 0}, r: R}, ball{c: mgl64.Vec3{a / 2, 0, 0}, r: R})
+	got := outsideTwoBalls(&mgl64.Vec3{}, &ball{c: mgl64.Vec3{-a / 2, 0, 0}, r: R}, &ball{c: mgl64.Vec3{a / 2, 0, 0}, r: R})
 	if want := math.Sqrt(R*R - a*a/4); math.Abs(got-want) > 1e-8 {
 		t.Errorf("midpoint of two equal balls: %.9f, want sqrt(R^2 - a^2/4) = %.9f", got, want)
 	}
@@ -34,7 +34,7 @@ func TestOutsideTwoBalls(t *testing.T) {
 		b1 := ball{c: rnd(0.3), r: 0.2 + rng.Float64()}
 		b2 := ball{c: rnd(0.3), r: 0.2 + rng.Float64()}
 		p := rnd(0.3)
-		got := outsideTwoBalls(p, b1, b2)
+		got := outsideTwoBalls(&p, &b1, &b2)
 		if p.Sub(b1.c).Len() >= b1.r && p.Sub(b2.c).Len() >= b2.r {
 			if got != 0 {
 				t.Fatalf("pair %d: %.6f for a point in neither ball", n, got)
