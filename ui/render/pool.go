@@ -13,10 +13,10 @@ import (
 // A frame runs seven phases back to back, each split between the caller and the workers. A
 // worker that went to sleep between two phases can take a tenth of a millisecond or more to
 // wake on a virtual machine (the sleeping processor has to be woken by its host), and a caller
-// asleep on the workers the same: measured on a 2-core build machine, the second core joined a
-// phase of 0.2 ms after 0.2 ms in the median, that is not at all. So a worker looks for its
-// next job for a short while before it sleeps, and the caller waits for the workers without
-// sleeping: a frame keeps both cores awake from its first phase to its last.
+// asleep on the workers the same: measured on a 2-core build machine, a sleeping worker joined
+// a phase 0.12-0.2 ms late in the median, when most phases last about that long. So a worker
+// looks for its next job for a short while before it sleeps, and the caller waits for the
+// workers without sleeping: a frame keeps both cores awake from its first phase to its last.
 type pool struct {
 	jobs    chan poolJob
 	pending atomic.Int32 // jobs handed out and not finished
