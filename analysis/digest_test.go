@@ -1,39 +1,31 @@
 package analysis
 
 import (
-	"bufio"
 	"context"
 	"crypto/sha256"
 	"encoding/binary"
-	"flag"
 	"fmt"
 	"hash"
 	"math"
-	"os"
-	"strings"
 	"testing"
 
 	"github.com/go-gl/mathgl/mgl64"
 
+	"tapersweep/mesh/digesttest"
 	"tapersweep/models"
 )
 
 // Speed work that must leave every output as it was: measure a set of canals, write one digest
 // per canal (-digest-write FILE) before the change, then check against it (-digest-check FILE)
 // after. Off unless a flag is given: the digests belong to one machine's build, not the repo.
-var (
-	digestWrite = flag.String("digest-write", "", "write the digests of TestCanalDigest's canals to this file")
-	digestCheck = flag.String("digest-check", "", "check the digests of TestCanalDigest's canals against this file")
-)
+var canalDigests = digesttest.Flags("digest", "TestCanalDigest's canals")
 
 // TestCanalDigest measures the benchmark canals (typical and fine scans), spec canals with and
 // without named ends, and canals of the scan-like family (-family, default 12; -family-seed),
 // and digests everything a measured canal holds: the centerline and its frame and curvature,
 // the radius map, each vertex's (s, theta), the measures and the warnings, bit for bit.
 func TestCanalDigest(t *testing.T) {
-	if *digestWrite == "" && *digestCheck == "" {
-		t.Skip("needs -digest-write FILE or -digest-check FILE")
-	}
+	canalDigests.Skip(t)
 	var lines []string
 	for _, j := range digestCanals() {
 		c, err := j.measure()
@@ -44,7 +36,7 @@ func TestCanalDigest(t *testing.T) {
 		lines = append(lines, j.name+"\t"+d)
 		t.Logf("%s\t%s", j.name, d)
 	}
-	matchDigests(t, lines, *digestWrite, *digestCheck)
+	canalDigests.Match(t, lines)
 }
 
 // digestCanal is one canal of the digests: its name and how it is measured.
@@ -94,38 +86,6 @@ func digestCanals() []digestCanal {
 		}})
 	}
 	return jobs
-}
-
-// matchDigests writes lines to the file write and compares them with the file check, line for
-// line (either may be empty).
-func matchDigests(t *testing.T, lines []string, write, check string) {
-	t.Helper()
-	if write != "" {
-		if err := os.WriteFile(write, []byte(strings.Join(lines, "\n")+"\n"), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	if check == "" {
-		return
-	}
-	f, err := os.Open(check)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	var want []string
-	sc := bufio.NewScanner(f)
-	for sc.Scan() {
-		want = append(want, sc.Text())
-	}
-	if len(want) != len(lines) {
-		t.Fatalf("%d digests, %s holds %d", len(lines), check, len(want))
-	}
-	for i := range lines {
-		if lines[i] != want[i] {
-			t.Errorf("changed:\n got %s\nwant %s", lines[i], want[i])
-		}
-	}
 }
 
 // canalDigest is a short hash of a measured canal's outputs, bit for bit, and a few figures

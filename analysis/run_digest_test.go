@@ -5,20 +5,17 @@ import (
 	"crypto/sha256"
 	"encoding/binary"
 	"encoding/json"
-	"flag"
 	"fmt"
 	"math"
 	"testing"
 
+	"tapersweep/mesh/digesttest"
 	"tapersweep/models"
 )
 
 // Speed work on Run that must leave every figure of a run as it was: -run-digest-write FILE
 // before the change, -run-digest-check FILE after (off unless a flag is given).
-var (
-	runDigestWrite = flag.String("run-digest-write", "", "write the digests of TestRunDigest's runs to this file")
-	runDigestCheck = flag.String("run-digest-check", "", "check the digests of TestRunDigest's runs against this file")
-)
+var runDigests = digesttest.Flags("run-digest", "TestRunDigest's runs")
 
 // runDigestSequences are the sequences TestRunDigest takes through every canal: the benchmark's,
 // the demo's, and one of other alloys, a variable taper, a square section, a short cutting
@@ -40,9 +37,7 @@ var runDigestSequences = map[string]string{
 // offsets, the metrics (with advice, transportation and the wall), the wall touched so far;
 // the run's warnings, transportation, wall as scanned and the wall maps of the pictures.
 func TestRunDigest(t *testing.T) {
-	if *runDigestWrite == "" && *runDigestCheck == "" {
-		t.Skip("needs -run-digest-write FILE or -run-digest-check FILE")
-	}
+	runDigests.Skip(t)
 	canals := append([]digestCanal{{"bench", func() (*Canal, error) { _, c := benchScan(t); return c, nil }}}, digestCanals()...)
 	var lines []string
 	for _, j := range canals {
@@ -68,7 +63,7 @@ func TestRunDigest(t *testing.T) {
 			}
 		}
 	}
-	matchDigests(t, lines, *runDigestWrite, *runDigestCheck)
+	runDigests.Match(t, lines)
 }
 
 // runDigest is a short hash of every figure of a run, bit for bit, and a few figures to read.

@@ -4,33 +4,27 @@ import (
 	"bufio"
 	"crypto/sha256"
 	"encoding/binary"
-	"flag"
 	"fmt"
 	"image"
 	"math"
-	"os"
-	"strings"
 	"testing"
 
 	"github.com/go-gl/mathgl/mgl64"
+
+	"tapersweep/mesh/digesttest"
 )
 
 // Speed work that must leave every frame as it was: render the benchmark scenes and a few more,
 // write one digest per frame (-frame-digest-write FILE) with the code before the change, then
 // check against it (-frame-digest-check FILE) after. Off unless a flag is given: the digests
 // belong to one machine's build, not the repo.
-var (
-	frameDigestWrite = flag.String("frame-digest-write", "", "write the digests of TestFrameDigest's frames to this file")
-	frameDigestCheck = flag.String("frame-digest-check", "", "check the digests of TestFrameDigest's frames against this file")
-)
+var frameDigests = digesttest.Flags("frame-digest", "TestFrameDigest's frames")
 
 // TestFrameDigest digests, bit for bit, each frame's pixels and what Pick answers from (the
 // depth, object and triangle buffers of both layers), on the benchmark scenes and on views that
 // take the other paths: cut, eye inside, near plane crossing, supersampled, an odd size.
 func TestFrameDigest(t *testing.T) {
-	if *frameDigestWrite == "" && *frameDigestCheck == "" {
-		t.Skip("needs -frame-digest-write FILE or -frame-digest-check FILE")
-	}
+	frameDigests.Skip(t)
 	type view struct {
 		name string
 		w, h int
@@ -98,29 +92,7 @@ func TestFrameDigest(t *testing.T) {
 			lines = append(lines, fmt.Sprintf("%s, frame %d: %x", v.name, frame, frameDigest(r, img)))
 		}
 	}
-	if *frameDigestWrite != "" {
-		if err := os.WriteFile(*frameDigestWrite, []byte(strings.Join(lines, "\n")+"\n"), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	f, err := os.Open(*frameDigestCheck)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	var want []string
-	for sc := bufio.NewScanner(f); sc.Scan(); {
-		want = append(want, sc.Text())
-	}
-	if len(want) != len(lines) {
-		t.Fatalf("%d digests in %s, %d frames", len(want), *frameDigestCheck, len(lines))
-	}
-	for i := range lines {
-		if lines[i] != want[i] {
-			t.Errorf("got %s, want %s", lines[i], want[i])
-		}
-	}
+	frameDigests.Match(t, lines)
 }
 
 // frameDigest hashes img's pixels and r's per-sample depth, object and triangle buffers.
