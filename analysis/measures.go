@@ -233,10 +233,20 @@ func schneiderBand(c *Centerline, tol float64, sc construction) [2]float64 {
 		slack += mgl64.RadToDeg(math.Atan(tol / (c.S[end] - c.S[start])))
 	}
 	if left {
+		// The departure is carried back along a line that wanders by a fraction of a voxel,
+		// so it is known to about the scan's resolution (2 tol) along the line: the angle from
+		// there, to either place of the apical end (211-021: departure 0.16 mm early at a
+		// 0.135 mm voxel, the angle 1.5 degrees short and out of the band without this).
 		straight, bent := c.apicalEnds()
-		for _, e := range []mgl64.Vec3{straight, bent} {
-			if d := angleBetween(axis, e.Sub(from)); d >= 0 {
-				lo, hi = math.Min(lo, d), math.Max(hi, d)
+		for _, shift := range []float64{0, -2 * tol, 2 * tol} {
+			p := from
+			if shift != 0 {
+				p, _, _, _ = c.At(math.Max(c.S[start], dep+shift))
+			}
+			for _, e := range []mgl64.Vec3{straight, bent} {
+				if d := angleBetween(axis, e.Sub(p)); d >= 0 {
+					lo, hi = math.Min(lo, d), math.Max(hi, d)
+				}
 			}
 		}
 	}
