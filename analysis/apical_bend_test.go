@@ -105,6 +105,10 @@ func TestShortSharpBendAtAWideEndIsMeasuredOrWarned(t *testing.T) {
 // orifice's).
 type sharpEndDraw struct {
 	straight, gentleR, gentleDeg, between, sharpDeg, orifice, oval, voxel, noise [2]float64
+	// apicalShare is the apical diameter's share of the orifice's (zero: 0.85-0.95, nearly
+	// uniform); sCurve turns the sharp arc's plane half a turn from the gentle one's.
+	apicalShare [2]float64
+	sCurve      bool
 }
 
 // scanSharpEnd draws such a canal, with its sharp arc of radius r ending tail mm before the
@@ -113,10 +117,18 @@ type sharpEndDraw struct {
 func scanSharpEnd(t *testing.T, rng *rand.Rand, r, tail float64, seed int64, d sharpEndDraw) (*models.CanalSpec, models.ScanOptions, *mesh.Mesh, []mgl64.Vec3) {
 	t.Helper()
 	u := func(ab [2]float64) float64 { return ab[0] + (ab[1]-ab[0])*rng.Float64() }
-	segs := fmt.Sprintf(`{"kind":"straight","length":%.3f},{"kind":"arc","radius":%.3f,"angle":%.3f},{"kind":"straight","length":%.3f},{"kind":"arc","radius":%.3f,"angle":%.3f},{"kind":"straight","length":%.3f}`,
-		u(d.straight), u(d.gentleR), u(d.gentleDeg), u(d.between), r, u(d.sharpDeg), tail)
+	turn := 0
+	if d.sCurve {
+		turn = 180
+	}
+	segs := fmt.Sprintf(`{"kind":"straight","length":%.3f},{"kind":"arc","radius":%.3f,"angle":%.3f},{"kind":"straight","length":%.3f},{"kind":"arc","radius":%.3f,"angle":%.3f,"plane_turn":%d},{"kind":"straight","length":%.3f}`,
+		u(d.straight), u(d.gentleR), u(d.gentleDeg), u(d.between), r, u(d.sharpDeg), turn, tail)
+	share := d.apicalShare
+	if share == [2]float64{} {
+		share = [2]float64{0.85, 0.95}
+	}
 	orifice := u(d.orifice)
-	spec := specJSON(t, segs, orifice, orifice*u([2]float64{0.85, 0.95}), u(d.oval))
+	spec := specJSON(t, segs, orifice, orifice*u(share), u(d.oval))
 	axis := mgl64.Vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}.Normalize()
 	scan := models.ScanOptions{Voxel: u(d.voxel), Noise: u(d.noise), Seed: seed,
 		Turn: mgl64.QuatRotate(u([2]float64{0, 2 * math.Pi}), axis), Offset: mgl64.Vec3{rng.Float64(), rng.Float64(), rng.Float64()}}

@@ -111,8 +111,12 @@ type scaleFit struct {
 	// square), already taken out of the curvature below.
 	noise float64
 	// peak is the mean curvature over the stretch around the greatest where it is within 10 %
-	// of the greatest; width is the length of the stretch within 20 % (mm).
+	// of the greatest; width is the length of the stretch within 20 % (mm), stations from..to.
 	peak, width float64
+	from, to    int
+	// atEdge: the stretch reaches an end of where the fit is read whole, so the peak may be
+	// the rise into an end rather than a bend.
+	atEdge bool
 }
 
 // NewCenterline builds a centerline from points already spaced ds apart (the last step may be
@@ -201,7 +205,13 @@ func (c *Centerline) curvatureBand() (lo, hi float64) {
 	if c.scale+1 < len(c.fits) {
 		b = c.fits[c.scale+1]
 	}
-	blur := bandBlur * math.Max(0, b.window/(a.width+c.DS)-0.5)
+	return fitBand(a, b, c.DS)
+}
+
+// fitBand is curvatureBand for the pair of fits a and the wider b (a twice for one fit) on a
+// line of stations ds apart.
+func fitBand(a, b scaleFit, ds float64) (lo, hi float64) {
+	blur := bandBlur * math.Max(0, b.window/(a.width+ds)-0.5)
 	lo = math.Min(a.peak, b.peak)*(1-bandFloor) - a.noise
 	hi = math.Max(a.peak, b.peak)*(1+bandFloor+blur) + a.noise
 	return math.Max(lo, 0), hi
@@ -267,7 +277,7 @@ func (c *Centerline) scaleFits(window float64, workers int) []scaleFit {
 			sum += k[i]
 		}
 		a8, b8 := stretch(0.8)
-		out[f] = scaleFit{window: w, noise: noise, peak: sum / float64(b-a+1), width: c.S[b8] - c.S[a8]}
+		out[f] = scaleFit{window: w, noise: noise, peak: sum / float64(b-a+1), width: c.S[b8] - c.S[a8], from: a8, to: b8, atEdge: a8 == wlo || b8 == whi}
 	})
 	return out
 }

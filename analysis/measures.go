@@ -63,15 +63,23 @@ func Measure(c *Centerline, tol float64) Measures {
 	if kStar > straightCurvature {
 		m.MaxCurvatureR = 1 / kStar
 	}
-	m.RadiusRange = [2]float64{1 / khi, math.Inf(1)}
-	if klo > straightCurvature {
-		m.RadiusRange[1] = 1 / klo
-	}
 	var own *bendFit
 	if fitted {
 		own = &bend
 	}
-	m.SRange, m.AsTight = c.placeBand(star, klo, own)
+	ownLo, ownHi := c.ownStretch(star, klo, own)
+	var rival *[2]int
+	if c.fits != nil {
+		if st, h, ok := c.rivalBend(ownLo, ownHi); ok {
+			// Either bend may be the tightest: the band holds the rival's reading too.
+			rival, khi = &st, math.Max(khi, h)
+		}
+	}
+	m.RadiusRange = [2]float64{1 / khi, math.Inf(1)}
+	if klo > straightCurvature {
+		m.RadiusRange[1] = 1 / klo
+	}
+	m.SRange, m.AsTight = c.placeBand(star, klo, ownLo, ownHi, rival)
 	if fitted {
 		// The middle of the bend the circle was fitted to is the other reading of its place:
 		// on a long arc of one radius the curvature's wander may put s* far from it. Each end
@@ -158,41 +166,67 @@ func (m Measures) WideBands() (radius, place, schneider bool) {
 	return radius, place, schneider
 }
 
-// placeBand is the stretch of the measured zone that holds station star and every station
-// where the curvature reaches klo, the low end of the tightest bend's band: the line cannot
-// say the tightest bend lies anywhere else. Its ends are given in mm from the orifice. asTight
-// is the strongest stretch outside the tightest bend's own stations (bend: those of the
-// fitted circle, or nil) where the curvature reaches klo over at least minAsTight stations (a
-// second bend that may be the tightest), zero when there is none.
-func (c *Centerline) placeBand(star int, klo float64, bend *bendFit) (band, asTight [2]float64) {
-	lo, hi := star, star
+// reaching is the stretch of the measured zone around station star where the curvature
+// reaches klo.
+func (c *Centerline) reaching(star int, klo float64) (lo, hi int) {
+	lo, hi = star, star
 	for lo > c.zone[0] && c.K[lo-1] >= klo {
 		lo--
 	}
 	for hi < c.zone[1] && c.K[hi+1] >= klo {
 		hi++
 	}
-	band = [2]float64{c.S[lo], c.S[hi]}
+	return lo, hi
+}
+
+// ownStretch is the tightest bend's own stations: those around station star where the
+// curvature reaches klo, the low end of its band, and those of the fitted circle (bend, or nil).
+func (c *Centerline) ownStretch(star int, klo float64, bend *bendFit) (lo, hi int) {
+	lo, hi = c.reaching(star, klo)
 	if bend != nil {
 		lo, hi = min(lo, bend.lo), max(hi, bend.hi)
 	}
+	return lo, hi
+}
+
+// placeBand is the stretch of the measured zone that holds station star and every station
+// where the curvature reaches klo, the low end of the tightest bend's band: the line cannot
+// say the tightest bend lies anywhere else. Its ends are given in mm from the orifice. asTight
+// is the strongest stretch outside the tightest bend's own stations (ownLo..ownHi, see
+// ownStretch) where the curvature reaches klo over at least minAsTight stations (a second bend
+// that may be the tightest), zero when there is none; a rival bend a narrower fit found
+// (stations, see rivalBend; or nil) joins it where they overlap and takes its place where not,
+// since a narrower fit reads a short bend truer.
+func (c *Centerline) placeBand(star int, klo float64, ownLo, ownHi int, rival *[2]int) (band, asTight [2]float64) {
+	lo, hi := c.reaching(star, klo)
+	band = [2]float64{c.S[lo], c.S[hi]}
 	best := 0.0
+	var at [2]int
 	for i := c.zone[0]; i <= c.zone[1]; {
-		if c.K[i] < klo || (i >= lo && i <= hi) {
+		if c.K[i] < klo || (i >= ownLo && i <= ownHi) {
 			i++
 			continue
 		}
 		j, peak := i, 0.0
-		for j <= c.zone[1] && c.K[j] >= klo && (j < lo || j > hi) {
+		for j <= c.zone[1] && c.K[j] >= klo && (j < ownLo || j > ownHi) {
 			peak = math.Max(peak, c.K[j])
 			j++
 		}
 		if j-i >= minAsTight && peak > best {
-			best, asTight = peak, [2]float64{c.S[i], c.S[j-1]}
+			best, at = peak, [2]int{i, j - 1}
 		}
 		i = j
 	}
+	if r := rival; r != nil {
+		if best > 0 && at[1] >= r[0] && at[0] <= r[1] {
+			at = [2]int{min(at[0], r[0]), max(at[1], r[1])}
+		} else {
+			at = *r
+		}
+		best = 1
+	}
 	if best > 0 {
+		asTight = [2]float64{c.S[at[0]], c.S[at[1]]}
 		band = [2]float64{math.Min(band[0], asTight[0]), math.Max(band[1], asTight[1])}
 	}
 	return band, asTight
