@@ -156,6 +156,8 @@ type canalSolid struct {
 	endT    mgl64.Vec3
 	maxSemi float64
 	ends    float64 // the end planes bound only points this close (in s) to their end
+	// chamber: no cut plane; the coronal run widens into a pulp chamber above (CT).
+	chamber bool
 }
 
 func newCanalSolid(c *CanalSpec, opt ScanOptions) *canalSolid {
@@ -174,11 +176,22 @@ func newCanalSolid(c *CanalSpec, opt ScanOptions) *canalSolid {
 	return f
 }
 
-// radius is the nominal section radius at s, the linear law carried past s = 0.
+// radius is the nominal section radius at s, the linear law carried past s = 0; with a
+// chamber, the run past s = 0 widens into it over chamberRise.
 func (f *canalSolid) radius(s float64) float64 {
 	c := f.spec
-	return (c.OrificeD + (c.ApicalD-c.OrificeD)*s/f.length) / 2
+	r := (c.OrificeD + (c.ApicalD-c.OrificeD)*s/f.length) / 2
+	if f.chamber && s < 0 {
+		r += (max(chamberRadius, r) - r) * min(-s/chamberRise, 1)
+	}
+	return r
 }
+
+// The pulp chamber above the orifice of a CT phantom (as volumetest/phantom.py draws one).
+const (
+	chamberRadius = 1.4 // mm
+	chamberRise   = 0.8 // mm
+)
 
 // bounds is the box of the turned solid.
 func (f *canalSolid) bounds(turn mgl64.Quat) (lo, hi mgl64.Vec3) {
@@ -246,6 +259,12 @@ func (f *canalSolid) nearest(p mgl64.Vec3) float64 {
 // distance is the signed distance from p (spec coordinates) to the wall, to first order in
 // the ellipse.
 func (f *canalSolid) distance(p mgl64.Vec3) float64 {
+	d, _ := f.distanceAt(p)
+	return d
+}
+
+// distanceAt is distance and the arc length of the centerline point nearest to p.
+func (f *canalSolid) distanceAt(p mgl64.Vec3) (float64, float64) {
 	s := f.nearest(p)
 	c, t, long := f.at(s)
 	q := p.Sub(c)
@@ -264,17 +283,15 @@ func (f *canalSolid) distance(p mgl64.Vec3) float64 {
 	if s > f.length-f.ends {
 		d = math.Max(d, p.Sub(f.end).Dot(f.endT))
 	}
-	if s < f.ends {
+	if s < f.ends && !f.chamber {
 		d = math.Max(d, p.Dot(f.cutN)) // the cut plane passes through the origin (s = 0)
 	}
-	return d
+	return d, s
 }
 
 // image samples the solid on the grid: 1 inside and 0 outside for a binary image; with
 // partial volume the share of each voxel inside (the distance ramped over one voxel).
-// Blocks of 4^3 voxels far from the wall are filled at once.
 func (f *canalSolid) image(n [3]int, origin mgl64.Vec3, h float64, back mgl64.Quat, partial bool) []float32 {
-	field := make([]float32, n[0]*n[1]*n[2])
 	value := func(d float64) float32 {
 		if !partial {
 			if d < 0 {
@@ -284,22 +301,35 @@ func (f *canalSolid) image(n [3]int, origin mgl64.Vec3, h float64, back mgl64.Qu
 		}
 		return float32(min(max(0.5-d/h, 0), 1))
 	}
+	return f.sample(n, origin, h, back, func(d, _ float64, _ mgl64.Vec3) float32 { return value(d) }, func(d, _ float64, _ mgl64.Vec3) bool { return math.Abs(d) > sampleReach(h) })
+}
+
+// sample fills the grid with value(signed distance, its arc length, the point in spec
+// coordinates) at every voxel centre. Blocks of 4^3 voxels whose centre far(d, s, p) says lies
+// more than sampleReach from wherever value changes are filled at once from their centre.
+func (f *canalSolid) sample(n [3]int, origin mgl64.Vec3, h float64, back mgl64.Quat,
+	value func(d, s float64, p mgl64.Vec3) float32, far func(d, s float64, p mgl64.Vec3) bool) []float32 {
+	field := make([]float32, n[0]*n[1]*n[2])
 	const blk = 4
-	reach := 1.6*blk*h*math.Sqrt(3)/2 + 2*h // the distance is close to 1-Lipschitz near the wall
 	centre := func(i, j, k float64) mgl64.Vec3 {
 		return back.Rotate(origin.Add(mgl64.Vec3{i + 0.5, j + 0.5, k + 0.5}.Mul(h)))
+	}
+	at := func(p mgl64.Vec3) float32 {
+		d, s := f.distanceAt(p)
+		return value(d, s, p)
 	}
 	for k0 := 0; k0 < n[2]; k0 += blk {
 		for j0 := 0; j0 < n[1]; j0 += blk {
 			for i0 := 0; i0 < n[0]; i0 += blk {
-				d := f.distance(centre(float64(i0)+blk/2-0.5, float64(j0)+blk/2-0.5, float64(k0)+blk/2-0.5))
-				fill, uniform := value(d), math.Abs(d) > reach
+				p := centre(float64(i0)+blk/2-0.5, float64(j0)+blk/2-0.5, float64(k0)+blk/2-0.5)
+				d, s := f.distanceAt(p)
+				fill, uniform := value(d, s, p), far(d, s, p)
 				for k := k0; k < min(k0+blk, n[2]); k++ {
 					for j := j0; j < min(j0+blk, n[1]); j++ {
 						for i := i0; i < min(i0+blk, n[0]); i++ {
 							v := fill
 							if !uniform {
-								v = value(f.distance(centre(float64(i), float64(j), float64(k))))
+								v = at(centre(float64(i), float64(j), float64(k)))
 							}
 							field[i+n[0]*(j+n[1]*k)] = v
 						}
@@ -310,6 +340,10 @@ func (f *canalSolid) image(n [3]int, origin mgl64.Vec3, h float64, back mgl64.Qu
 	}
 	return field
 }
+
+// sampleReach is how far from a block's centre its voxels lie, with room: the distance is
+// close to 1-Lipschitz near the wall.
+func sampleReach(h float64) float64 { return 1.6*4*h*math.Sqrt(3)/2 + 2*h }
 
 // gaussianBlur3 smooths the field with a Gaussian of sigma voxels, one axis at a time.
 func gaussianBlur3(field []float32, n [3]int, sigma float64) {
