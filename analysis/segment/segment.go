@@ -108,6 +108,7 @@ func Find(ctx context.Context, v *volume.Volume, pts Points, opt Options) (*Resu
 	if len(line) < 4 {
 		return nil, fmt.Errorf("%s: the path between the two points is too short", v.Info.Label)
 	}
+	line = centreOnLumen(ctx, v, line, res.DS, dark, bright, res.Voxel)
 	res.Path = line
 	s := analysis.ArcLengths(line)
 	res.Frames = analysis.NewCenterline(line, res.DS, math.Max(0.3, 3*res.DS), 0, s[len(s)-1], 0, 0)
