@@ -7,7 +7,6 @@ import (
 
 	"github.com/go-gl/mathgl/mgl64"
 
-	"tapersweep/mesh"
 	"tapersweep/mesh/volume"
 )
 
@@ -44,16 +43,10 @@ const (
 // canal runs on past the orifice (s = 0) and widens into a pulp chamber above it, so the
 // orifice point lies inside the lumen; the truth is CTTruth.
 func CT(c *CanalSpec, opt CTOptions) (*volume.Volume, error) {
-	if c == nil {
-		return nil, fmt.Errorf("CT of a canal: no spec")
-	}
-	if err := c.Validate(); err != nil {
-		return nil, fmt.Errorf("CT of canal %q: %v", c.Name, err)
+	if err := checkImaging("CT", c, opt.Voxel); err != nil {
+		return nil, err
 	}
 	h := opt.Voxel
-	if !(h > 0) || math.IsInf(h, 0) {
-		return nil, fmt.Errorf("CT of canal %q: voxel %g mm: want a positive size", c.Name, h)
-	}
 	wall := opt.Wall
 	if wall == 0 {
 		wall = 1.0
@@ -66,23 +59,11 @@ func CT(c *CanalSpec, opt CTOptions) (*volume.Volume, error) {
 	f.chamber = true
 	f.extra = 2
 	f.maxSemi = max(f.maxSemi, chamberRadius*math.Sqrt(f.oval))
-	turn := opt.Turn
-	if turn.Len() == 0 {
-		turn = mgl64.QuatIdent()
-	}
-	turn = turn.Normalize()
+	turn := unitTurn(opt.Turn)
 	back := turn.Conjugate()
-	lo, hi := f.bounds(turn)
-	margin := wall + ctWallGrowth + ctSpace + 1 + 3*opt.BlurVoxels*h
-	var n [3]int
-	var origin mgl64.Vec3
-	for a := range 3 {
-		first := math.Floor((lo[a]-margin)/h) - 0.5 + opt.Offset[a]
-		n[a] = int(math.Ceil((hi[a]+margin)/h-first)) + 1
-		origin[a] = first * h
-	}
-	if total := float64(n[0]) * float64(n[1]) * float64(n[2]); total > mesh.MaxGridVoxels {
-		return nil, fmt.Errorf("CT of canal %q: %.0f voxels of %g mm, more than %d", c.Name, total, h, mesh.MaxGridVoxels)
+	n, origin, err := gridAround(f, turn, h, wall+ctWallGrowth+ctSpace+1+3*opt.BlurVoxels*h, opt.Offset)
+	if err != nil {
+		return nil, err
 	}
 	field := f.ctImage(n, origin, h, back, wall)
 	if opt.BlurVoxels > 0 {

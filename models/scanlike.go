@@ -64,41 +64,21 @@ func ScanLike(c *CanalSpec, voxel, noise float64, seed int64) (*mesh.Mesh, error
 // vertex noise added. The exact centerline of the spec, turned by opt.Turn, is the truth
 // the surface came from (see ScanTruth).
 func Scan(c *CanalSpec, opt ScanOptions) (*mesh.Mesh, error) {
-	if c == nil {
-		return nil, fmt.Errorf("scan of a canal: no spec")
-	}
-	if err := c.Validate(); err != nil {
-		return nil, fmt.Errorf("scan of canal %q: %v", c.Name, err)
+	if err := checkImaging("scan", c, opt.Voxel); err != nil {
+		return nil, err
 	}
 	h := opt.Voxel
-	if !(h > 0) || math.IsInf(h, 0) {
-		return nil, fmt.Errorf("scan of canal %q: voxel %g mm: want a positive size", c.Name, h)
-	}
 	if opt.Noise < 0 || opt.Noise > h/2 || opt.BlurVoxels < 0 || opt.BlurVoxels > 3 || !(opt.CutDeg >= 0 && opt.CutDeg < 60) {
 		return nil, fmt.Errorf("scan of canal %q: noise %g mm (0 to half a voxel), blur %g voxels (0-3), cut %g deg (0-60) out of range",
 			c.Name, opt.Noise, opt.BlurVoxels, opt.CutDeg)
 	}
 	f := newCanalSolid(c, opt)
-	turn := opt.Turn
-	if turn.Len() == 0 {
-		turn = mgl64.QuatIdent()
-	}
-	turn = turn.Normalize()
+	turn := unitTurn(opt.Turn)
 	back := turn.Conjugate()
 	// The box of the turned canal with room for the blur.
-	lo, hi := f.bounds(turn)
-	margin := (3 + 3*opt.BlurVoxels) * h
-	var n [3]int
-	var origin mgl64.Vec3
-	for a := range 3 {
-		// Whole voxels from a multiple of h, so that with no offset a centre row lies on 0.
-		first := math.Floor((lo[a]-margin)/h) - 0.5 + opt.Offset[a]
-		n[a] = int(math.Ceil((hi[a]+margin)/h-first)) + 1
-		origin[a] = first * h
-	}
-	total := float64(n[0]) * float64(n[1]) * float64(n[2])
-	if total > mesh.MaxGridVoxels {
-		return nil, fmt.Errorf("scan of canal %q: %.0f voxels of %g mm, more than %d", c.Name, total, h, mesh.MaxGridVoxels)
+	n, origin, err := gridAround(f, turn, h, (3+3*opt.BlurVoxels)*h, opt.Offset)
+	if err != nil {
+		return nil, err
 	}
 	field := f.image(n, origin, h, back, opt.PartialVolume)
 	if opt.PartialVolume && opt.BlurVoxels > 0 {
@@ -130,16 +110,51 @@ func Scan(c *CanalSpec, opt ScanOptions) (*mesh.Mesh, error) {
 // ScanTruth is the exact centerline of a scanned spec in the scan's coordinates, sampled
 // every ds from the orifice (s = 0).
 func ScanTruth(c *CanalSpec, opt ScanOptions, ds float64) []mgl64.Vec3 {
-	turn := opt.Turn
-	if turn.Len() == 0 {
-		turn = mgl64.QuatIdent()
-	}
-	turn = turn.Normalize()
+	turn := unitTurn(opt.Turn)
 	pts, _, _ := c.Centerline(ds)
 	for i, p := range pts {
 		pts[i] = turn.Rotate(p)
 	}
 	return pts
+}
+
+// checkImaging refuses a missing or invalid spec or voxel for an imaging of kind ("scan",
+// "CT").
+func checkImaging(kind string, c *CanalSpec, h float64) error {
+	if c == nil {
+		return fmt.Errorf("%s of a canal: no spec", kind)
+	}
+	if err := c.Validate(); err != nil {
+		return fmt.Errorf("%s of canal %q: %v", kind, c.Name, err)
+	}
+	if !(h > 0) || math.IsInf(h, 0) {
+		return fmt.Errorf("%s of canal %q: voxel %g mm: want a positive size", kind, c.Name, h)
+	}
+	return nil
+}
+
+// unitTurn is q normalised; the zero quaternion keeps the spec's own axes.
+func unitTurn(q mgl64.Quat) mgl64.Quat {
+	if q.Len() == 0 {
+		return mgl64.QuatIdent()
+	}
+	return q.Normalize()
+}
+
+// gridAround is the voxel grid of edge h over the turned solid with margin mm on every side,
+// shifted by offset voxels: its size and the corner of its first voxel. Whole voxels from a
+// multiple of h, so that with no offset a row of centres lies on 0.
+func gridAround(f *canalSolid, turn mgl64.Quat, h, margin float64, offset mgl64.Vec3) (n [3]int, origin mgl64.Vec3, err error) {
+	lo, hi := f.bounds(turn)
+	for a := range 3 {
+		first := math.Floor((lo[a]-margin)/h) - 0.5 + offset[a]
+		n[a] = int(math.Ceil((hi[a]+margin)/h-first)) + 1
+		origin[a] = first * h
+	}
+	if total := float64(n[0]) * float64(n[1]) * float64(n[2]); total > mesh.MaxGridVoxels {
+		return n, origin, fmt.Errorf("image of canal %q: %.0f voxels of %g mm, more than %d", f.spec.Name, total, h, mesh.MaxGridVoxels)
+	}
+	return n, origin, nil
 }
 
 // canalSolid is the exact solid of a spec as a signed distance (negative inside), close to
