@@ -217,15 +217,16 @@ func (c *Centerline) placeBand(star int, klo float64, ownLo, ownHi int, rival *[
 		}
 		i = j
 	}
+	found := best > 0
 	if r := rival; r != nil {
-		if best > 0 && at[1] >= r[0] && at[0] <= r[1] {
+		if found && at[1] >= r[0] && at[0] <= r[1] {
 			at = [2]int{min(at[0], r[0]), max(at[1], r[1])}
 		} else {
 			at = *r
 		}
-		best = 1
+		found = true
 	}
-	if best > 0 {
+	if found {
 		asTight = [2]float64{c.S[at[0]], c.S[at[1]]}
 		band = [2]float64{math.Min(band[0], asTight[0]), math.Max(band[1], asTight[1])}
 	}
