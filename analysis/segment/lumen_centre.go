@@ -19,7 +19,7 @@ const (
 	centreEnter  = 2.0 // voxels a ray may cross before it meets the lumen
 	centreMove   = 2.0 // voxels a station may move in one round at most
 	centreEase   = 4.0 // voxels from an end over which the move grows from none to whole,
-	centreEaseMM = 1.0 // and at least this many mm (sections next to the orifice meet the chamber)
+	centreEaseMM = 2.0 // and at least this many mm (sections next to the orifice meet the chamber)
 )
 
 // centreOnLumen moves each station of a path (every ds mm) to the middle of the lumen in its
