@@ -169,7 +169,7 @@ func fitGrid(c *CanalSpec, opt *ScanOptions) {
 	f := newCanalSolid(c, *opt)
 	turn := unitTurn(opt.Turn)
 	for range 20 {
-		n, _, err := gridAround(f, turn, opt.Voxel, (3+3*opt.BlurVoxels)*opt.Voxel, opt.Offset)
+		n, _, err := gridAround(f, turn, opt.Voxel, opt.margin(), opt.Offset)
 		if err == nil {
 			return
 		}

@@ -76,7 +76,7 @@ func Scan(c *CanalSpec, opt ScanOptions) (*mesh.Mesh, error) {
 	turn := unitTurn(opt.Turn)
 	back := turn.Conjugate()
 	// The box of the turned canal with room for the blur.
-	n, origin, err := gridAround(f, turn, h, (3+3*opt.BlurVoxels)*h, opt.Offset)
+	n, origin, err := gridAround(f, turn, h, opt.margin(), opt.Offset)
 	if err != nil {
 		return nil, err
 	}
@@ -117,6 +117,9 @@ func ScanTruth(c *CanalSpec, opt ScanOptions, ds float64) []mgl64.Vec3 {
 	}
 	return pts
 }
+
+// margin is the room a scan's grid leaves around the canal: three voxels and three spreads.
+func (opt ScanOptions) margin() float64 { return (3 + 3*opt.BlurVoxels) * opt.Voxel }
 
 // checkImaging refuses a missing or invalid spec or voxel for an imaging of kind ("scan",
 // "CT").

@@ -43,7 +43,7 @@ func centreOnLumen(ctx context.Context, v *volume.Volume, line []mgl64.Vec3, ds,
 			return line
 		}
 		s := analysis.ArcLengths(line)
-		fr := analysis.NewCenterline(line, ds, math.Max(0.3, 3*ds), 0, s[len(s)-1], 0, 0)
+		fr := pathFrames(line, s, ds)
 		shifts := make([]mgl64.Vec3, len(line))
 		parallel.For(0, len(line), func(_, i int) {
 			var first mgl64.Vec3
@@ -58,14 +58,9 @@ func centreOnLumen(ctx context.Context, v *volume.Volume, line []mgl64.Vec3, ds,
 					} else if inside || q > enter {
 						break
 					}
-					w := math.Min(math.Max((bright-x)/(bright-dark), 0), 1)
-					// The sector of the ring q (h^2/8 for the centre), its centre q h from the station.
-					ring := float64(q) * h * h
-					if q == 0 {
-						ring = h * h / 8
-					}
-					area += w * ring * dtheta
-					first = first.Add(d.Mul(w * ring * dtheta * float64(q) * h))
+					a := math.Min(math.Max((bright-x)/(bright-dark), 0), 1) * ringArea(q, h) * dtheta
+					area += a
+					first = first.Add(d.Mul(a * float64(q) * h)) // the ring's sector lies q h out
 				}
 			}
 			if area < minArea {

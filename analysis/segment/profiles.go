@@ -129,9 +129,8 @@ func (res *Result) classify(p *profiles, dark, bright, tube float64) {
 		for r := range p.rays {
 			ray := p.ray(i, r)
 			reach := min(p.n-1, firstAbove(ray, 0, within, half)+3*near)
-			area += (id - float64(ray[0])) / (id - ic) * p.h * p.h / 8 // the sector of the centre cell
-			for q := 1; q <= reach; q++ {
-				area += (id - float64(ray[q])) / (id - ic) * float64(q) * p.h * p.h
+			for q := 0; q <= reach; q++ {
+				area += (id - float64(ray[q])) / (id - ic) * ringArea(q, p.h)
 			}
 		}
 		area *= dtheta
@@ -188,6 +187,15 @@ func (res *Result) classify(p *profiles, dark, bright, tube float64) {
 	})
 	res.Unresolved = stretches(res.Resolved, analysis.ArcLengths(res.Path))
 	res.fillRoot()
+}
+
+// ringArea is the area per radian of ring q of samples h apart along a ray: q h^2 (from
+// (q - 1/2) h to (q + 1/2) h), h^2 / 8 for the centre cell.
+func ringArea(q int, h float64) float64 {
+	if q == 0 {
+		return h * h / 8
+	}
+	return float64(q) * h * h
 }
 
 // firstAbove is the first sample from q at or above t, or end when none is before end.

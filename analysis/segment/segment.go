@@ -111,7 +111,7 @@ func Find(ctx context.Context, v *volume.Volume, pts Points, opt Options) (*Resu
 	line = centreOnLumen(ctx, v, line, res.DS, dark, bright, res.Voxel)
 	res.Path = line
 	s := analysis.ArcLengths(line)
-	res.Frames = analysis.NewCenterline(line, res.DS, math.Max(0.3, 3*res.DS), 0, s[len(s)-1], 0, 0)
+	res.Frames = pathFrames(line, s, res.DS)
 	prof := sampleProfiles(ctx, v, res.Frames)
 	if err := ctx.Err(); err != nil {
 		return nil, err
@@ -129,6 +129,12 @@ func Find(ctx context.Context, v *volume.Volume, pts Points, opt Options) (*Resu
 	res.Root = res.rootMesh()
 	progress("done", 1)
 	return res, nil
+}
+
+// pathFrames are the frames along a path of stations ds apart (arc lengths s), its curvature
+// fitted over max(0.3 mm, 3 stations).
+func pathFrames(line []mgl64.Vec3, s []float64, ds float64) *analysis.Centerline {
+	return analysis.NewCenterline(line, ds, math.Max(0.3, 3*ds), 0, s[len(s)-1], 0, 0)
 }
 
 // findPath finds the minimal path between the two points, on a coarser copy of the region
