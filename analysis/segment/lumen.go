@@ -15,8 +15,10 @@ import (
 
 // unresolvedRadius is the radius, in voxels, of the thin tube drawn along the path where the
 // scan does not show the canal: wide enough to stay one connected piece on a grid of half
-// voxels, narrower than anything the scan could show.
-const unresolvedRadius = 0.6
+// voxels and for the centerline's sections to be outlined on it (at 0.6 they were not near a
+// bend, and a canal stopped 0.6 mm short: TestCanalRunsToTheUnresolvedEnd), narrower than
+// anything the scan could show (two voxels across).
+const unresolvedRadius = 0.8
 
 // maxFineSamples bounds the grid the lumen is surfaced on; below it the grid is twice as fine
 // as the scan, so the thin unresolved stretch keeps its shape (a large region means fine

@@ -17,6 +17,7 @@ const (
 	centreRays   = 32
 	centreReach  = 2.0 // mm along a ray at most
 	centreEnter  = 2.0 // voxels a ray may cross before it meets the lumen
+	centreTail   = 3.0 // voxels a ray reads on past the lumen's edge (as the section's area is read)
 	centreMove   = 2.0 // voxels a station may move in one round at most
 	centreEase   = 4.0 // voxels from an end over which the move grows from none to whole,
 	centreEaseMM = 2.0 // and at least this many mm (sections next to the orifice meet the chamber)
@@ -24,7 +25,10 @@ const (
 
 // centreOnLumen moves each station of a path (every ds mm) to the middle of the lumen in its
 // cross-section: the centroid of the section's darkness, (dentine - I) / (dentine - canal)
-// clipped to [0, 1], along rays from the station over the dark run each ray crosses first.
+// clipped to [0, 1], along rays from the station over the dark run each ray crosses first and
+// three voxels past it (the blur's share of the lumen: without it a narrow blurred canal's
+// darkness under half-way covers less than the two voxels a station needs to move, and the
+// path stayed against the wall, TestPathInTheMiddleOfANarrowCanal).
 // A minimal path through a canal runs on the cost floor wherever the lumen is dark, so it
 // takes the shortest way and hugs the inner wall of each bend; sections read about a point
 // at the wall see half the lumen (CT family 1-007: 0.2 mm off the middle of a 0.45 mm canal,
@@ -34,6 +38,7 @@ func centreOnLumen(ctx context.Context, v *volume.Volume, line []mgl64.Vec3, ds,
 	h := math.Max(0.25*v.MinSpacing(), 0.005)
 	n := int(centreReach/h) + 1
 	enter := int(centreEnter * voxel / h)
+	tail := int(centreTail * voxel / h)
 	half := 0.5 * (dark + bright)
 	minArea := math.Pi * voxel * voxel // a lumen two voxels across
 	dtheta := 2 * math.Pi / centreRays
@@ -50,12 +55,17 @@ func centreOnLumen(ctx context.Context, v *volume.Volume, line []mgl64.Vec3, ds,
 			area := 0.0
 			for r := range centreRays {
 				d := rayDir(fr, i, r, centreRays)
-				inside := false
+				inside, out := false, n
 				for q := range n {
 					x := v.SampleWorld(line[i].Add(d.Mul(float64(q) * h)))
 					if x < half {
 						inside = true
-					} else if inside || q > enter {
+					} else if inside && out == n {
+						out = q + tail // the blur's share of the lumen lies past its edge
+					} else if !inside && q > enter {
+						break
+					}
+					if q > out {
 						break
 					}
 					a := math.Min(math.Max((bright-x)/(bright-dark), 0), 1) * ringArea(q, h) * dtheta

@@ -86,32 +86,64 @@ func (res *Result) classify(p *profiles, dark, bright, tube float64) {
 	dtheta := 2 * math.Pi / float64(p.rays)
 	within := min(p.n, int(tube/p.h))
 	centre := make([]float64, ns)
-	// The dentine next to the canal: three voxels past where the rays leave the dark.
+	// Noise after smoothing is a small fraction of the contrast; a fall by more than this is
+	// the wall's outer surface, not noise.
+	fall := 0.1 * (bright - dark)
+	thin := make([]bool, ns)
+	// The dentine next to the canal: the brightest ring from one to five voxels past where
+	// the rays leave the dark (rays that leave a path off the middle meet the wall aslant, so
+	// its blur stretches along them), each ring's level the median over the rays (so noise
+	// does not lift the brightest). A wall thinner than a few blurs never shows the dentine's
+	// level: the rays fall again past the crest within eight voxels of the canal, and the
+	// station is marked thin.
 	parallel.For(0, ns, func(_, i int) {
 		t := 0.5 * (dark + bright)
 		c := math.Inf(1)
-		var dentine []float64
+		var edges [][2]int // ray, sample where it leaves the dark
 		for r := range p.rays {
 			ray := p.ray(i, r)
 			for _, x := range ray[:near+1] {
 				c = math.Min(c, float64(x))
 			}
-			if q := firstAbove(ray, 0, within, t) + 3*near; q < p.n {
-				dentine = append(dentine, float64(ray[q]))
+			if q := firstAbove(ray, 0, within, t); q+3*near < p.n {
+				edges = append(edges, [2]int{r, q})
 			}
 		}
 		centre[i] = c
 		res.DentineLevel[i] = bright
-		if len(dentine) > 0 {
-			res.DentineLevel[i] = median(dentine)
+		if len(edges) == 0 {
+			return
+		}
+		ring := make([]float64, len(edges))
+		level := func(k int) float64 {
+			for j, e := range edges {
+				ring[j] = float64(p.ray(i, e[0])[min(e[1]+k, p.n-1)])
+			}
+			return median(ring)
+		}
+		step := max(1, near/2)
+		crest, kc := math.Inf(-1), 0
+		for k := near; k <= 5*near; k += step {
+			if l := level(k); l > crest {
+				crest, kc = l, k
+			}
+		}
+		res.DentineLevel[i] = crest
+		for k := kc + step; k <= 8*near && !thin[i]; k += step {
+			thin[i] = level(k) < crest-fall
 		}
 	})
 	res.DentineLevel = runningMedian(res.DentineLevel, 5)
-	// Near the root's tip the rays meet bone rather than dentine; the dentine's level there
-	// is the canal's elsewhere.
+	// Near the root's tip the rays meet bone rather than dentine, and a thin wall never shows
+	// the dentine's level: there it is the canal's elsewhere. Elsewhere the level may fall a
+	// little (scans are often darker in the middle of the field).
 	typical := percentile(append([]float64(nil), res.DentineLevel...), 0.5)
 	for i, d := range res.DentineLevel {
-		res.DentineLevel[i] = math.Max(d, typical-0.15*(typical-dark))
+		floor := typical - 0.15*(typical-dark)
+		if thin[i] {
+			floor = typical
+		}
+		res.DentineLevel[i] = math.Max(d, floor)
 	}
 	// The canal's own intensity: the darkest centre along the path (the widest part, where
 	// the blur does not reach the middle), or the pulp chamber's next to the orifice when that
@@ -129,6 +161,9 @@ func (res *Result) classify(p *profiles, dark, bright, tube float64) {
 		for r := range p.rays {
 			ray := p.ray(i, r)
 			reach := min(p.n-1, firstAbove(ray, 0, within, half)+3*near)
+			if thin[i] {
+				reach = wallCrest(ray, firstAbove(ray, 0, within, half), reach, fall)
+			}
 			for q := 0; q <= reach; q++ {
 				area += (id - float64(ray[q])) / (id - ic) * ringArea(q, p.h)
 			}
@@ -187,6 +222,23 @@ func (res *Result) classify(p *profiles, dark, bright, tube float64) {
 	})
 	res.Unresolved = stretches(res.Resolved, analysis.ArcLengths(res.Path))
 	res.fillRoot()
+}
+
+// wallCrest is where to stop reading a ray's darkness across a thin wall: at the wall's
+// brightest sample between from and reach when the ray falls past it by more than fall by
+// reach (the outer surface's darkness, blurred inward, is not the canal's; up to the crest the
+// canal's darkness lost past it and the outside's gained before it about cancel), else reach.
+func wallCrest(ray []float32, from, reach int, fall float64) int {
+	crest := min(from, reach)
+	for q := crest; q <= reach; q++ {
+		if ray[q] > ray[crest] {
+			crest = q
+		}
+	}
+	if float64(ray[reach]) < float64(ray[crest])-fall {
+		return crest
+	}
+	return reach
 }
 
 // ringArea is the area per radian of ring q of samples h apart along a ray: q h^2 (from
