@@ -160,9 +160,10 @@ func (res *Result) classify(p *profiles, dark, bright, tube float64) {
 		area := 0.0
 		for r := range p.rays {
 			ray := p.ray(i, r)
-			reach := min(p.n-1, firstAbove(ray, 0, within, half)+3*near)
+			edge := firstAbove(ray, 0, within, half)
+			reach := min(p.n-1, edge+3*near)
 			if thin[i] {
-				reach = wallCrest(ray, firstAbove(ray, 0, within, half), reach, fall)
+				reach = wallCrest(ray, edge, reach, fall)
 			}
 			for q := 0; q <= reach; q++ {
 				area += (id - float64(ray[q])) / (id - ic) * ringArea(q, p.h)
