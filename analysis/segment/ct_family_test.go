@@ -83,6 +83,17 @@ func segmentCT(t *testing.T, c ctCase) *found {
 	return &found{e: e, v: v, res: res, canal: canal}
 }
 
+// checkLength: the measured canal is as long as the exact one within two voxels (analytic
+// geometry of the spec).
+func (f *found) checkLength(t *testing.T) {
+	t.Helper()
+	voxel := f.v.MaxSpacing()
+	t.Logf("canal length %.3f mm, exact %.3f (voxel %.3f)", f.canal.Line.Length(), f.e.Length, voxel)
+	if d := f.canal.Line.Length() - f.e.Length; math.Abs(d) > 2*voxel {
+		t.Errorf("canal length %.3f mm, exact %.3f: off by more than two voxels", f.canal.Line.Length(), f.e.Length)
+	}
+}
+
 // TestThinWallsAndAslantRays: the dentine's level beside the canal sets every diameter, and
 // two things hide it. A wall thinner than a few blurs never shows it (wide apical ends with
 // 0.6-0.8 mm of wall at 0.19-0.27 mm voxels: 12-029, 12-032, 12-038), and rays from a path
@@ -128,9 +139,7 @@ func TestPathInTheMiddleOfANarrowCanal(t *testing.T) {
 			if worst > voxel/2 {
 				t.Errorf("the path runs %.3f mm off the middle: more than half a voxel (%.3f mm)", worst, voxel)
 			}
-			if d := f.canal.Line.Length() - f.e.Length; math.Abs(d) > 2*voxel {
-				t.Errorf("canal length %.3f mm, exact %.3f", f.canal.Line.Length(), f.e.Length)
-			}
+			f.checkLength(t)
 		})
 	}
 }
@@ -144,11 +153,7 @@ func TestPathInTheMiddleOfANarrowCanal(t *testing.T) {
 func TestCanalRunsToTheUnresolvedEnd(t *testing.T) {
 	c := ctFamilyCases(11, 39)[38]
 	f := segmentCT(t, c)
-	voxel := f.v.MaxSpacing()
-	t.Logf("canal length %.3f mm, exact %.3f (voxel %.3f)", f.canal.Line.Length(), f.e.Length, voxel)
-	if d := f.canal.Line.Length() - f.e.Length; math.Abs(d) > 2*voxel {
-		t.Errorf("canal length %.3f mm, exact %.3f: off by more than two voxels", f.canal.Line.Length(), f.e.Length)
-	}
+	f.checkLength(t)
 }
 
 // TestCTFamily segments CT-like scans of canals with exact answers and checks each as the
@@ -187,9 +192,7 @@ func TestCTFamily(t *testing.T) {
 			// The sections within the end zones open into the chamber or meet the end. The
 			// family's diameters read within 0.2 voxel where the lumen is resolved.
 			f.checkUnresolvedWithin(t, end, e.Length-end, 0.2)
-			if d := canal.Line.Length() - e.Length; math.Abs(d) > 2*v.MaxSpacing() {
-				t.Errorf("canal length %.3f mm, exact %.3f", canal.Line.Length(), e.Length)
-			}
+			f.checkLength(t)
 		})
 		if !ok {
 			failed++
